@@ -1,0 +1,53 @@
+/**
+ * moonsieve command line: parses arguments and calls library functions; no
+ * physics here. Bad input (an `InputError`, or a commander usage error)
+ * prints one clear message and exits with code 2, without a stack trace.
+ */
+import { Command, CommanderError } from 'commander';
+import { InputError } from '../scenario/errors.js';
+import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK } from './exitCodes.js';
+import { registerSimulate } from './simulateCommand.js';
+import { VERSION } from '../version.js';
+
+export interface CliIo {
+  out: (text: string) => void;
+  err: (text: string) => void;
+}
+
+const defaultIo: CliIo = {
+  out: (t) => process.stdout.write(t),
+  err: (t) => process.stderr.write(t),
+};
+
+export function buildProgram(io: CliIo): Command {
+  const program = new Command();
+  program
+    .name('moonsieve')
+    .description('Exomoon transit-timing detectability planner')
+    .version(VERSION)
+    .exitOverride()
+    .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(s) })
+    .showHelpAfterError('(run with --help for usage)');
+  registerSimulate(program, io);
+  return program;
+}
+
+/** Run the CLI; resolves to the process exit code. */
+export async function main(argv: string[], io: CliIo = defaultIo): Promise<number> {
+  const program = buildProgram(io);
+  try {
+    await program.parseAsync(argv);
+    return EXIT_OK;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help') return EXIT_OK;
+      return EXIT_BAD_INPUT; // commander already printed its one-line message
+    }
+    if (e instanceof InputError) {
+      io.err(`moonsieve: ${e.message}\n`);
+      return EXIT_BAD_INPUT;
+    }
+    io.err(`moonsieve: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+    return EXIT_FAILURE;
+  }
+}

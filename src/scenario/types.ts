@@ -1,0 +1,91 @@
+/**
+ * A validated scenario, every quantity in SI units (m, kg, s, rad, W) or a
+ * plain fraction. Produced by `parseScenario` / `loadScenario`; everything
+ * downstream reads only this form.
+ */
+
+export interface StarSpec {
+  massKg: number;
+  radiusM: number;
+  teffK: number;
+  ageS: number;
+  /** Quadratic limb-darkening coefficients, I(μ)/I(1) = 1 − u1(1−μ) − u2(1−μ)². */
+  u1: number;
+  u2: number;
+  /** Luminosity, W: given, or σ_SB 4πR² T⁴ (Stefan–Boltzmann law). */
+  luminosityW: number;
+}
+
+export interface PlanetSpec {
+  massKg: number;
+  radiusM: number;
+  /** Orbital period of the planet–moon barycentre around the star, s. */
+  periodS: number;
+  eccentricity: number;
+  /** Argument of periastron ω of the barycentre orbit, rad (Winn 2010 convention). */
+  omegaRad: number;
+  /** Orbital inclination to the sky plane, rad (π/2 = edge-on). */
+  inclinationRad: number;
+  /** Impact parameter of the barycentre at conjunction, in stellar radii (Winn 2010 eq. 7). */
+  impactParameter: number;
+  /** Semi-major axis of the barycentre orbit, m (Kepler's third law). */
+  semiMajorAxisM: number;
+  /** Bond albedo. */
+  albedo: number;
+  /** Tidal Love number k2. */
+  k2: number;
+  /** Tidal quality factor Q. */
+  tidalQ: number;
+}
+
+export interface MoonSpec {
+  massKg: number;
+  radiusM: number;
+  /** Semi-major axis of the planet–moon relative orbit, m. */
+  separationM: number;
+  eccentricity: number;
+  /** Inclination of the moon's orbit to the planet's orbital plane, rad (0 = coplanar). */
+  inclinationRad: number;
+  /** Longitude of the ascending node on the planet's orbital plane, rad. */
+  nodeRad: number;
+  /** Argument of periapsis of the moon's orbit, rad. */
+  periapsisRad: number;
+  /** Mean anomaly of the moon at the reference epoch (barycentre mid-transit, epoch 0), rad. */
+  phaseRad: number;
+  retrograde: boolean;
+  /** Bond albedo (energy budget). */
+  albedo: number;
+  /** Tidal Love number k2 and quality factor Q of the moon (tidal heating). */
+  k2: number;
+  tidalQ: number;
+}
+
+export interface InstrumentSpec {
+  /** Time between samples, s. */
+  cadenceS: number;
+  /** Exposure (integration) time per sample, s; ≤ cadence. */
+  exposureS: number;
+  /** White-noise level as a fraction of the stellar flux, at the timescale below. */
+  noiseFraction: number;
+  /** Timescale at which `noiseFraction` is stated, s; scaled by √t to the exposure. */
+  noiseTimescaleS: number;
+}
+
+export interface ObservationSpec {
+  /** Number of consecutive transits observed. */
+  transits: number;
+  /** Barycentre mid-transit time of epoch 0, BJD_TDB (days). */
+  t0BjdTdb: number;
+  /** Out-of-transit baseline observed on each side of the transit, s. */
+  baselineS: number;
+}
+
+export interface Scenario {
+  name: string;
+  seed: number;
+  star: StarSpec;
+  planet: PlanetSpec;
+  moon: MoonSpec | null;
+  instrument: InstrumentSpec;
+  observation: ObservationSpec;
+}

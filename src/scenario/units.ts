@@ -1,0 +1,168 @@
+/**
+ * Quantities with units, parsed only at the edges of the program.
+ *
+ * A value is either a string "number unit" (`"0.3 Mjup"`, `"180 d"`,
+ * `"60 ppm"`) or a bare number in the unit the schema documents for that
+ * field. Parsing uses mathjs units extended with astronomy units whose values
+ * come from `physics/constants.ts` (IAU 2015 B3 nominal values, IAU 2012 au).
+ * Spellings follow astropy's aliases (`Mjup`, `M_jup`, `Rearth`, `AU`/`au`).
+ */
+import { create, all, type MathJsInstance, type Unit } from 'mathjs';
+import {
+  AU_M,
+  DAY_S,
+  JULIAN_YEAR_S,
+  M_EARTH_KG,
+  M_JUP_KG,
+  M_SUN_KG,
+  L_SUN_W,
+  R_EARTH_M,
+  R_JUP_M,
+  R_SUN_M,
+} from '../physics/constants.js';
+import { fieldError } from './errors.js';
+
+export type QuantityKind =
+  | 'mass'
+  | 'length'
+  | 'time'
+  | 'angle'
+  | 'temperature'
+  | 'density'
+  | 'fraction'
+  | 'power';
+
+/** mathjs base-unit key for each kind, and the words a message uses. */
+const KIND_INFO: Record<QuantityKind, { base: string; examples: string }> = {
+  mass: { base: 'MASS', examples: 'a mass, e.g. "0.3 Mjup", "1 Mearth", "1 Msun", "7e22 kg"' },
+  length: { base: 'LENGTH', examples: 'a length, e.g. "1 Rjup", "2 Rearth", "1 Rsun", "0.05 AU", "4e8 m", "3e5 km"' },
+  time: { base: 'TIME', examples: 'a time, e.g. "180 d", "3 h", "2 min", "30 s", "4.5 Gyr"' },
+  angle: { base: 'ANGLE', examples: 'an angle, e.g. "89.5 deg", "1.2 rad"' },
+  temperature: { base: 'TEMPERATURE', examples: 'a temperature, e.g. "5600 K"' },
+  density: { base: '', examples: 'a density, e.g. "3 g/cm^3", "3000 kg/m^3"' },
+  fraction: { base: 'NONE', examples: 'a dimensionless fraction, e.g. "60 ppm", "0.1 %", "1e-4"' },
+  power: { base: 'POWER', examples: 'a power, e.g. "0.5 Lsun", "3e26 W"' },
+};
+
+/** Astropy-style spellings mapped to the names registered with mathjs. */
+const ALIASES: Record<string, string> = {
+  M_jup: 'Mjup', M_jupiter: 'Mjup', Mjupiter: 'Mjup', jupiterMass: 'Mjup', MJ: 'Mjup',
+  R_jup: 'Rjup', R_jupiter: 'Rjup', Rjupiter: 'Rjup', jupiterRad: 'Rjup', RJ: 'Rjup',
+  M_earth: 'Mearth', earthMass: 'Mearth', Mearth: 'Mearth', ME: 'Mearth',
+  R_earth: 'Rearth', earthRad: 'Rearth', RE: 'Rearth',
+  M_sun: 'Msun', solMass: 'Msun', Msol: 'Msun',
+  R_sun: 'Rsun', solRad: 'Rsun', Rsol: 'Rsun',
+  L_sun: 'Lsun', solLum: 'Lsun', Lsol: 'Lsun',
+  au: 'AU',
+  '%': 'percent',
+  hr: 'h',
+};
+
+let mathInstance: MathJsInstance | null = null;
+
+/** The mathjs instance with astronomy units; created once, never mutated afterwards. */
+function astroMath(): MathJsInstance {
+  if (mathInstance) return mathInstance;
+  const math = create(all);
+  const defs: Array<[string, string]> = [
+    ['Msun', `${M_SUN_KG} kg`],
+    ['Rsun', `${R_SUN_M} m`],
+    ['Lsun', `${L_SUN_W} W`],
+    ['Mjup', `${M_JUP_KG} kg`],
+    ['Rjup', `${R_JUP_M} m`],
+    ['Mearth', `${M_EARTH_KG} kg`],
+    ['Rearth', `${R_EARTH_M} m`],
+    ['AU', `${AU_M} m`],
+    ['d', `${DAY_S} s`],
+    ['yr', `${JULIAN_YEAR_S} s`],
+    ['Myr', `${1e6 * JULIAN_YEAR_S} s`],
+    ['Gyr', `${1e9 * JULIAN_YEAR_S} s`],
+  ];
+  for (const [name, definition] of defs) math.createUnit(name, definition, { override: true });
+  // Dimensionless scales: read their SI value with `.value`, never toNumber('').
+  math.createUnit('ppm', { definition: '1e-6' }, { override: true });
+  math.createUnit('ppt', { definition: '1e-3' }, { override: true });
+  math.createUnit('percent', { definition: '1e-2' }, { override: true });
+  mathInstance = math;
+  return math;
+}
+
+const NUMBER_UNIT = /^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$/;
+
+function normaliseUnitText(text: string): string {
+  // Replace whole alias tokens (letters, digits and underscores, or %).
+  return text.replace(/[A-Za-z_][A-Za-z_0-9]*|%/g, (tok) => ALIASES[tok] ?? tok);
+}
+
+function hasKind(u: Unit, kind: QuantityKind): boolean {
+  const math = astroMath();
+  if (kind === 'density') return u.equalBase(math.unit('1 kg/m^3'));
+  const base = KIND_INFO[kind].base;
+  if (base === 'NONE') return u.equalBase(math.unit('1'));
+  // Compare dimensions with a reference unit of that base.
+  const ref: Record<string, string> = {
+    MASS: '1 kg', LENGTH: '1 m', TIME: '1 s', ANGLE: '1 rad', TEMPERATURE: '1 K', POWER: '1 W',
+  };
+  return u.equalBase(math.unit(ref[base]));
+}
+
+/** What a message says is allowed for a quantity of this kind. */
+export function allowedText(kind: QuantityKind, bareUnit?: string): string {
+  const bare = bareUnit ? `; a bare number is read as ${bareUnit}` : '';
+  return `expected ${KIND_INFO[kind].examples}${bare}`;
+}
+
+/**
+ * Parse a quantity to its SI value.
+ * @param value  string "number unit" or a bare number
+ * @param path   dotted field path for messages
+ * @param kind   the physical kind required
+ * @param bareUnitSi  SI value of one bare-number unit (e.g. DAY_S when bare numbers are days);
+ *                    undefined means bare numbers are not allowed
+ * @param bareUnitName  the unit's name for messages
+ */
+export function parseQuantity(
+  value: unknown,
+  path: string,
+  kind: QuantityKind,
+  bareUnitSi?: number,
+  bareUnitName?: string,
+): number {
+  const allowed = allowedText(kind, bareUnitSi === undefined ? undefined : bareUnitName);
+  if (typeof value === 'number') {
+    if (!Number.isFinite(value)) throw fieldError(path, value, allowed + ' (a finite number)');
+    if (bareUnitSi === undefined) throw fieldError(path, value, allowed + ' (a unit is required)');
+    return value * bareUnitSi;
+  }
+  if (typeof value !== 'string') throw fieldError(path, value, allowed);
+  const m = NUMBER_UNIT.exec(value);
+  if (!m) throw fieldError(path, value, allowed);
+  const num = Number(m[1]);
+  const unitText = m[2];
+  if (!Number.isFinite(num)) throw fieldError(path, value, allowed);
+  if (unitText === '') {
+    if (bareUnitSi === undefined) throw fieldError(path, value, allowed + ' (a unit is required)');
+    return num * bareUnitSi;
+  }
+  const math = astroMath();
+  let u: Unit;
+  try {
+    u = math.unit(normaliseUnitText(unitText));
+  } catch {
+    throw fieldError(path, value, `unknown unit "${unitText}"; ${allowed}`);
+  }
+  if (!hasKind(u, kind)) throw fieldError(path, value, `"${unitText}" is not a unit of ${kind}; ${allowed}`);
+  // u.value holds the SI value of one `unitText`; mathjs units made from a
+  // string without a number have value null, so multiply explicitly.
+  const one = math.unit(`1 ${normaliseUnitText(unitText)}`);
+  const si = (one.value as number) * num;
+  if (!Number.isFinite(si)) throw fieldError(path, value, allowed);
+  return si;
+}
+
+/** True if the text names a unit (used for special separation units). */
+export function splitNumberUnit(value: string): { num: number; unit: string } | null {
+  const m = NUMBER_UNIT.exec(value);
+  if (!m) return null;
+  return { num: Number(m[1]), unit: m[2] };
+}
