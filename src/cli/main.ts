@@ -7,6 +7,7 @@ import { Command, CommanderError } from 'commander';
 import { InputError } from '../scenario/errors.js';
 import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK } from './exitCodes.js';
 import { registerSimulate } from './simulateCommand.js';
+import { registerLimits } from './limitsCommand.js';
 import { VERSION } from '../version.js';
 
 export interface CliIo {
@@ -29,6 +30,7 @@ export function buildProgram(io: CliIo): Command {
     .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(s) })
     .showHelpAfterError('(run with --help for usage)');
   registerSimulate(program, io);
+  registerLimits(program, io);
   return program;
 }
 

@@ -19,6 +19,7 @@
  *           noise ("200 ppm per 1 h", or a fraction with noise_timescale)
  *   observation: transits (integer ≥ 1), t0 [BJD_TDB days] (2461000.0),
  *           baseline [h] (3 h out of transit on each side)
+ *   detection: false_alarm (fraction, default 1 %): false-alarm probability per channel
  */
 import { DAY_S, HOUR_S, JULIAN_YEAR_S, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
 import { hillRadius } from '../physics/hillRadius.js';
@@ -28,12 +29,12 @@ import { isPhysicalQuadratic, uFromQ } from '../photometry/kippingLimbDarkening.
 import { InputError, type FieldProblem } from './errors.js';
 import { FieldReader } from './fieldReader.js';
 import { parseQuantity, splitNumberUnit } from './units.js';
-import type { InstrumentSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, StarSpec } from './types.js';
+import type { DetectionSpec, InstrumentSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, StarSpec } from './types.js';
 
 const DEG = Math.PI / 180;
 
 /** Keys reserved for later stages (read by their own parsers). */
-export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = [];
+export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = ['sweep'];
 
 export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const problems: FieldProblem[] = [];
@@ -52,10 +53,11 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   if (!top.has('instrument')) problems.push({ path: 'instrument', value: undefined, allowed: 'required: cadence and noise' });
   const observation = readObservation(new FieldReader(top.raw('observation'), 'observation', problems));
   if (!top.has('observation')) problems.push({ path: 'observation', value: undefined, allowed: 'required: transits' });
+  const detection = readDetection(new FieldReader(top.raw('detection'), 'detection', problems));
   top.rejectUnknown(EXTRA_TOP_LEVEL_KEYS);
 
   if (problems.length > 0) throw new InputError(dedupe(problems), source);
-  return { name, seed, star, planet, moon, instrument, observation };
+  return { name, seed, star, planet, moon, instrument, observation, detection };
 }
 
 function allFinite(...xs: number[]): boolean {
@@ -243,6 +245,12 @@ function readObservation(r: FieldReader): ObservationSpec {
   const baselineS = r.quantity('baseline', 'time', { bare: [HOUR_S, 'hours'], default: 3 * HOUR_S, min: 0, rangeText: 'must be a time ≥ 0' });
   r.rejectUnknown();
   return { transits, t0BjdTdb, baselineS };
+}
+
+function readDetection(r: FieldReader): DetectionSpec {
+  const falseAlarm = r.quantity('false_alarm', 'fraction', { bare: [1, 'a fraction'], default: 0.01, min: 0, minExclusive: true, max: 0.5, rangeText: 'expected a false-alarm probability above 0 and at most 0.5, e.g. "1 %" or 0.01' });
+  r.rejectUnknown();
+  return { falseAlarm };
 }
 
 /** Mass of the planet plus moon (the barycentre's mass), kg. */

@@ -80,6 +80,11 @@ export interface ObservationSpec {
   baselineS: number;
 }
 
+export interface DetectionSpec {
+  /** False-alarm probability per channel at which a moon counts as detected. */
+  falseAlarm: number;
+}
+
 export interface Scenario {
   name: string;
   seed: number;
@@ -88,4 +93,5 @@ export interface Scenario {
   moon: MoonSpec | null;
   instrument: InstrumentSpec;
   observation: ObservationSpec;
+  detection: DetectionSpec;
 }

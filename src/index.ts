@@ -1,0 +1,45 @@
+/**
+ * moonsieve library API. Everything the CLI can do is a typed call here.
+ * Units: SI inside (m, kg, s, rad, W); see each function's doc comment.
+ */
+export { VERSION } from './version.js';
+
+// Scenario
+export type { Scenario, StarSpec, PlanetSpec, MoonSpec, InstrumentSpec, ObservationSpec, DetectionSpec } from './scenario/types.js';
+export { loadScenario, parseScenarioText } from './scenario/loadScenario.js';
+export { parseScenario } from './scenario/parseScenario.js';
+export { parseQuantity } from './scenario/units.js';
+export { InputError, type FieldProblem } from './scenario/errors.js';
+
+// Physics
+export * as constants from './physics/constants.js';
+export { solveKepler, eccentricAnomaly } from './physics/kepler.js';
+export { semiMajorAxis, orbitalPeriod } from './physics/keplerThirdLaw.js';
+export { orbitSystem, orbitSystemFromScenario, skyPositions, type OrbitSystem } from './physics/skyPositions.js';
+export { transitDurations, impactParameter, inclinationFromImpact } from './physics/transitDuration.js';
+export { planetTransitTruth } from './physics/planetTransitTruth.js';
+export { hillRadius, hillRadiusPericentre } from './physics/hillRadius.js';
+export { stableSeparationLimit } from './physics/stability.js';
+export { rocheLimit, meanDensity } from './physics/rocheLimit.js';
+export { tidalSurvivalMassMax } from './physics/tidalMigration.js';
+export { tidalHeatingPower, tidalHeatFlux } from './physics/tidalHeating.js';
+export { moonEnergyBudget } from './physics/energyBudget.js';
+export { runawayGreenhouseFlux } from './physics/runawayGreenhouse.js';
+export { habitableZoneDistance, habitabilityVerdict } from './physics/habitableZone.js';
+export { timingSignals } from './physics/timingSignals.js';
+export { ttvAlias, aliasFamily } from './physics/ttvAlias.js';
+export { timingPrecision } from './physics/timingPrecision.js';
+export { forecastDetection } from './physics/detectionForecast.js';
+export { computeLimits, type LimitsJson } from './physics/computeLimits.js';
+
+// Photometry
+export { transitFlux } from './photometry/transitFlux.js';
+export { pairTransitFlux } from './photometry/pairTransitFlux.js';
+export { lightCurveModel, modelFlux } from './photometry/lightCurve.js';
+export { transitWindows, sampleWindows } from './photometry/transitWindows.js';
+export { simulateScenario } from './photometry/simulateScenario.js';
+
+// Noise
+export { createRng, type Rng } from './noise/rng.js';
+export { whiteNoiseSigma, addWhiteNoise } from './noise/whiteNoise.js';
+export { observeScenario } from './noise/observe.js';

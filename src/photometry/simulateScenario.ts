@@ -1,0 +1,63 @@
+/**
+ * `simulate` as a library call: one observation of the scenario (noisy or
+ * noiseless) and the planet's true transit times and durations, plus the
+ * tables the CLI writes.
+ */
+import type { Scenario } from '../scenario/types.js';
+import { observeScenario, type Observation } from '../noise/observe.js';
+import { createRng } from '../noise/rng.js';
+import { planetTransitTruth, type PlanetTransitTruth } from '../physics/planetTransitTruth.js';
+import { windowHalfWidthS } from './transitWindows.js';
+import type { TableColumn } from '../io/ecsv.js';
+import { DAY_S } from '../physics/constants.js';
+import { VERSION } from '../version.js';
+
+export interface Simulation {
+  observation: Observation;
+  truth: PlanetTransitTruth[];
+}
+
+export function simulateScenario(s: Scenario, opts: { noiseless?: boolean; realization?: number } = {}): Simulation {
+  const rng = opts.noiseless ? null : createRng(s.seed, 0, opts.realization ?? 0);
+  const observation = observeScenario(s, rng);
+  const truth = planetTransitTruth(observation.lightCurve.sys, observation.lightCurve.rp, s.observation.transits, windowHalfWidthS(s));
+  return { observation, truth };
+}
+
+export function simulationTables(s: Scenario, sim: Simulation, noiseless: boolean) {
+  const o = sim.observation;
+  const bjd = new Float64Array(o.timeS.length);
+  for (let i = 0; i < bjd.length; i++) bjd[i] = s.observation.t0BjdTdb + o.timeS[i] / DAY_S;
+  const err = new Float64Array(o.timeS.length).fill(o.sigma);
+  const meta = {
+    moonsieve_version: VERSION,
+    scenario: s.name,
+    seed: s.seed,
+    time_standard: 'BJD_TDB',
+    noiseless,
+    exposure_s: s.instrument.exposureS,
+    supersample: o.lightCurve.supersample,
+  };
+  const lightCurve: { columns: TableColumn[]; meta: Record<string, unknown> } = {
+    columns: [
+      { name: 'time', datatype: 'float64', description: 'Mid-exposure time, BJD_TDB (days)', values: bjd },
+      { name: 'epoch', datatype: 'int64', description: 'Transit epoch (0 = first)', values: o.epoch },
+      { name: 'flux', datatype: 'float64', description: noiseless ? 'Relative flux, noiseless model' : 'Relative flux, model plus white noise', values: o.flux },
+      { name: 'flux_err', datatype: 'float64', description: 'White-noise standard deviation per exposure', values: err },
+      { name: 'model', datatype: 'float64', description: 'Noiseless relative flux (exposure-averaged model)', values: o.model },
+    ],
+    meta,
+  };
+  const meanDur = sim.truth.reduce((a, t) => a + t.durationS, 0) / sim.truth.length;
+  const transits: { columns: TableColumn[]; meta: Record<string, unknown> } = {
+    columns: [
+      { name: 'epoch', datatype: 'int64', values: sim.truth.map((t) => t.epoch) },
+      { name: 'mid_time', datatype: 'float64', description: 'Planet mid-transit (t1+t4)/2 from the model, BJD_TDB (days)', values: sim.truth.map((t) => s.observation.t0BjdTdb + t.midS / DAY_S) },
+      { name: 'ttv', datatype: 'float64', unit: 's', description: 'Planet mid-time minus barycentre ephemeris t0 + n P (model truth)', values: sim.truth.map((t) => t.midS - t.epoch * s.planet.periodS) },
+      { name: 'duration', datatype: 'float64', unit: 'h', description: 'Planet first-to-last-contact duration (model truth)', values: sim.truth.map((t) => t.durationS / 3600) },
+      { name: 'tdv', datatype: 'float64', unit: 's', description: 'Duration minus its mean over the epochs (model truth)', values: sim.truth.map((t) => t.durationS - meanDur) },
+    ],
+    meta,
+  };
+  return { lightCurve, transits };
+}

@@ -1,0 +1,281 @@
+/**
+ * `computeLimits`: the analytic answers for one planet (and its moon, if the
+ * scenario has one), in milliseconds. Each number comes from the physics
+ * function named beside it, which cites its source. All values SI.
+ */
+import type { Scenario } from '../scenario/types.js';
+import { hillRadius, hillRadiusPericentre } from './hillRadius.js';
+import { stableSeparationLimit } from './stability.js';
+import { meanDensity, rocheLimit } from './rocheLimit.js';
+import { tidalSurvivalMassMax } from './tidalMigration.js';
+import { tidalHeatFlux } from './tidalHeating.js';
+import { moonEnergyBudget } from './energyBudget.js';
+import { runawayGreenhouseFlux, surfaceGravity } from './runawayGreenhouse.js';
+import { FLUX_BUDGET_CAUTION, HZ_TEFF_MAX_K, HZ_TEFF_MIN_K, KOPPARAPU_2013, habitabilityVerdict, habitableZoneDistance, habitableZoneEdgeFlux } from './habitableZone.js';
+import { timingSignals } from './timingSignals.js';
+import { ttvAlias, aliasFamily } from './ttvAlias.js';
+import { moonDipDepth } from './moonDip.js';
+import { timingPrecision } from './timingPrecision.js';
+import { forecastDetection } from './detectionForecast.js';
+import { transitDurations } from './transitDuration.js';
+import { transitFluxScalar } from '../photometry/transitFlux.js';
+import { whiteNoiseSigma } from '../noise/whiteNoise.js';
+
+/** Why a moon can or cannot be where the scenario puts it. */
+export type PlacementLabel = 'stable' | 'beyond stable limit' | 'inside Roche limit' | 'would not survive tidal migration';
+
+export interface EnergyBudgetJson {
+  stellar_W_m2: number;
+  reflected_W_m2: number;
+  thermal_W_m2: number;
+  tidal_W_m2: number;
+  total_W_m2: number;
+  runaway_limit_W_m2: number;
+  outer_edge_stellar_equivalent_W_m2: number;
+  stellar_equivalent_W_m2: number;
+  dominant: string;
+  verdict: string;
+  caution: string;
+}
+
+/** The `--json` form: SI keys, moon keys null when the scenario has no moon. */
+export interface LimitsJson {
+  scenario: string;
+  hill_radius_m: number;
+  hill_radius_pericentre_m: number;
+  stable_max_separation_m: number;
+  stable_max_separation_retrograde_m: number;
+  roche_limit_m: number;
+  roche_limit_rigid_m: number;
+  roche_moon_density_kg_m3: number;
+  tidal_max_moon_mass_kg: number;
+  transit_duration_s: number;
+  transit_duration_mid_s: number;
+  ingress_duration_s: number;
+  transit_depth: number;
+  noise_per_exposure: number;
+  timing_precision_s: number;
+  duration_precision_s: number;
+  habitable_zone_inner_m: number | null;
+  habitable_zone_outer_m: number | null;
+  moon_separation_m: number | null;
+  moon_placement: PlacementLabel[] | null;
+  moon_period_s: number | null;
+  ttv_semi_amplitude_s: number | null;
+  ttv_rms_s: number | null;
+  tdv_semi_amplitude_s: number | null;
+  tdv_rms_s: number | null;
+  ttv_tdv_phase_offset_rad: number | null;
+  ttv_alias_frequency_per_epoch: number | null;
+  ttv_alias_period_epochs: number | null;
+  ttv_alias_family_periods_s: number[] | null;
+  moon_depth_ppm: number | null;
+  false_alarm_probability: number;
+  transits: number;
+  forecast_detection_probability: number | null;
+  forecast_ttv_probability: number | null;
+  forecast_tdv_probability: number | null;
+  energy_budget: EnergyBudgetJson | null;
+  assumptions: string[];
+}
+
+/** Roche limits are quoted for the scenario's moon, or for a rock moon of this density without one. */
+export const DEFAULT_MOON_DENSITY_KG_M3 = 3000;
+
+export function computeLimits(s: Scenario): LimitsJson {
+  const { star, planet, moon, instrument, observation } = s;
+  const aB = planet.semiMajorAxisM;
+  const mBary = planet.massKg + (moon ? moon.massKg : 0);
+  const rH = hillRadius(aB, mBary, star.massKg);
+  const rHperi = hillRadiusPericentre(aB, planet.eccentricity, mBary, star.massKg);
+  const stable = stableSeparationLimit({
+    planetSemiMajorAxisM: aB,
+    planetEccentricity: planet.eccentricity,
+    planetMassKg: mBary,
+    starMassKg: star.massKg,
+    moonEccentricity: moon ? moon.eccentricity : 0,
+  });
+  const rhoP = meanDensity(planet.massKg, planet.radiusM);
+  const rhoS = moon ? meanDensity(moon.massKg, moon.radiusM) : DEFAULT_MOON_DENSITY_KG_M3;
+  const roche = rocheLimit(planet.radiusM, rhoP, rhoS);
+  const tidalMax = tidalSurvivalMassMax({
+    planetMassKg: planet.massKg,
+    planetRadiusM: planet.radiusM,
+    planetK2: planet.k2,
+    planetTidalQ: planet.tidalQ,
+    starMassKg: star.massKg,
+    planetSemiMajorAxisM: aB,
+    ageS: star.ageS,
+  });
+
+  const p = planet.radiusM / star.radiusM;
+  const dur = transitDurations({
+    periodS: planet.periodS,
+    aOverRstar: aB / star.radiusM,
+    radiusRatio: p,
+    impactParameter: planet.impactParameter,
+    inclinationRad: planet.inclinationRad,
+    eccentricity: planet.eccentricity,
+    omegaRad: planet.omegaRad,
+  });
+  // Depth at mid-transit with limb darkening (Mandel & Agol 2002).
+  const depth = 1 - transitFluxScalar(planet.impactParameter, p, star.u1, star.u2);
+  const sigma = whiteNoiseSigma(instrument.noiseFraction, instrument.noiseTimescaleS, instrument.exposureS);
+  const prec = timingPrecision({
+    depth,
+    durationS: dur.tMidS,
+    ingressS: dur.ingressS,
+    noisePerSample: sigma,
+    cadenceS: instrument.cadenceS,
+    exposureS: instrument.exposureS,
+  });
+  // The fits measure the first-to-last-contact duration T14 by stretching a template, so the
+  // Carter et al. (2008) error on T (mid-ingress to mid-egress) is scaled by T14/T (approximation).
+  const durationPrecision = prec.sigmaDurS * (dur.t14S / dur.tMidS);
+
+  let hzInner: number | null = null;
+  let hzOuter: number | null = null;
+  const hzValid = star.teffK >= HZ_TEFF_MIN_K && star.teffK <= HZ_TEFF_MAX_K;
+  if (hzValid) {
+    hzInner = habitableZoneDistance(star.luminosityW, star.teffK, KOPPARAPU_2013.runawayGreenhouse);
+    hzOuter = habitableZoneDistance(star.luminosityW, star.teffK, KOPPARAPU_2013.maximumGreenhouse);
+  }
+  const assumptions: string[] = [
+    'nested two-body (Kepler) orbits: no perturbations by the star on the moon orbit, no other planets',
+    'TTV/TDV amplitudes from the barycentric reflex motion only (no photocentric TTV from the moon dip)',
+    'timing precision from the Carter et al. (2008) trapezoid with white noise; limb darkening and red noise make the real errors larger',
+    `detection forecast: noncentral chi-square of white-noise TTV/TDV excesses at false-alarm probability ${s.detection.falseAlarm}`,
+    'Roche limit, stability band and tidal survival are fits and idealisations, not guarantees',
+  ];
+  if (!hzValid) assumptions.push(`Teff ${star.teffK} K is outside the Kopparapu et al. (2013) fit range 2600–7200 K: no habitable-zone limits given`);
+
+  const out: LimitsJson = {
+    scenario: s.name,
+    hill_radius_m: rH,
+    hill_radius_pericentre_m: rHperi,
+    stable_max_separation_m: stable.prograde,
+    stable_max_separation_retrograde_m: stable.retrograde,
+    roche_limit_m: roche.fluidM,
+    roche_limit_rigid_m: roche.rigidM,
+    roche_moon_density_kg_m3: rhoS,
+    tidal_max_moon_mass_kg: tidalMax,
+    transit_duration_s: dur.t14S,
+    transit_duration_mid_s: dur.tMidS,
+    ingress_duration_s: dur.ingressS,
+    transit_depth: depth,
+    noise_per_exposure: sigma,
+    timing_precision_s: prec.sigmaTcS,
+    duration_precision_s: durationPrecision,
+    habitable_zone_inner_m: hzInner,
+    habitable_zone_outer_m: hzOuter,
+    moon_separation_m: null,
+    moon_placement: null,
+    moon_period_s: null,
+    ttv_semi_amplitude_s: null,
+    ttv_rms_s: null,
+    tdv_semi_amplitude_s: null,
+    tdv_rms_s: null,
+    ttv_tdv_phase_offset_rad: null,
+    ttv_alias_frequency_per_epoch: null,
+    ttv_alias_period_epochs: null,
+    ttv_alias_family_periods_s: null,
+    moon_depth_ppm: null,
+    false_alarm_probability: s.detection.falseAlarm,
+    transits: observation.transits,
+    forecast_detection_probability: null,
+    forecast_ttv_probability: null,
+    forecast_tdv_probability: null,
+    energy_budget: null,
+    assumptions,
+  };
+  if (!moon) return out;
+
+  const placement: PlacementLabel[] = [];
+  if (moon.separationM < roche.fluidM) placement.push('inside Roche limit');
+  const limit = moon.retrograde ? stable.retrograde : stable.prograde;
+  if (moon.separationM > limit) placement.push('beyond stable limit');
+  if (!moon.retrograde && moon.massKg > tidalMax) placement.push('would not survive tidal migration');
+  if (placement.length === 0) placement.push('stable');
+
+  const sig = timingSignals({
+    planetMassKg: planet.massKg,
+    moonMassKg: moon.massKg,
+    moonSeparationM: moon.separationM,
+    moonEccentricity: moon.eccentricity,
+    moonInclinationRad: moon.retrograde ? Math.PI - moon.inclinationRad : moon.inclinationRad,
+    moonNodeRad: moon.nodeRad,
+    moonPeriapsisRad: moon.periapsisRad,
+    barycentreSemiMajorAxisM: aB,
+    barycentrePeriodS: planet.periodS,
+    barycentreEccentricity: planet.eccentricity,
+    barycentreOmegaRad: planet.omegaRad,
+    durationS: dur.t14S,
+  });
+  const alias = ttvAlias(planet.periodS, sig.moonPeriodS);
+  const family = aliasFamily(planet.periodS, alias.aliasFrequencyPerEpoch, 4).map((m) => m.moonPeriodS);
+  const dip = moonDipDepth({ moonRadiusM: moon.radiusM, starRadiusM: star.radiusM, u1: star.u1, u2: star.u2, impactParameter: Math.min(planet.impactParameter, 0.999) });
+  const forecast = forecastDetection({
+    nTransits: observation.transits,
+    sigmaTcS: prec.sigmaTcS,
+    sigmaDurS: durationPrecision,
+    ttvRmsS: sig.ttvRmsS,
+    tdvRmsS: sig.tdvRmsS,
+    falseAlarm: s.detection.falseAlarm,
+    aliasFrequencyPerEpoch: alias.aliasFrequencyPerEpoch,
+  });
+
+  const tidal = tidalHeatFlux({
+    planetMassKg: planet.massKg,
+    moonMassKg: moon.massKg,
+    moonRadiusM: moon.radiusM,
+    separationM: moon.separationM,
+    eccentricity: moon.eccentricity,
+    moonK2: moon.k2,
+    moonTidalQ: moon.tidalQ,
+  });
+  const budget = moonEnergyBudget({
+    starLuminosityW: star.luminosityW,
+    planetSemiMajorAxisM: aB,
+    planetEccentricity: planet.eccentricity,
+    planetRadiusM: planet.radiusM,
+    planetAlbedo: planet.albedo,
+    moonSeparationM: moon.separationM,
+    moonAlbedo: Math.min(moon.albedo, 0.999),
+    tidalHeatFluxWm2: tidal,
+  });
+  const runaway = runawayGreenhouseFlux(surfaceGravity(moon.massKg, moon.radiusM));
+  const outerEdge = habitableZoneEdgeFlux(star.teffK, KOPPARAPU_2013.maximumGreenhouse, { allowExtrapolation: true });
+  const verdict = habitabilityVerdict(budget, runaway, outerEdge);
+
+  return {
+    ...out,
+    moon_separation_m: moon.separationM,
+    moon_placement: placement,
+    moon_period_s: sig.moonPeriodS,
+    ttv_semi_amplitude_s: sig.ttvSemiAmplitudeS,
+    ttv_rms_s: sig.ttvRmsS,
+    tdv_semi_amplitude_s: sig.tdvSemiAmplitudeS,
+    tdv_rms_s: sig.tdvRmsS,
+    ttv_tdv_phase_offset_rad: sig.phaseOffsetRad,
+    ttv_alias_frequency_per_epoch: alias.aliasFrequencyPerEpoch,
+    ttv_alias_period_epochs: alias.aliasPeriodEpochs,
+    ttv_alias_family_periods_s: family,
+    moon_depth_ppm: dip.depthChordMean * 1e6,
+    forecast_detection_probability: forecast.joint.probability,
+    forecast_ttv_probability: forecast.ttv.probability,
+    forecast_tdv_probability: forecast.tdv.probability,
+    energy_budget: {
+      stellar_W_m2: budget.stellarWm2,
+      reflected_W_m2: budget.reflectedWm2,
+      thermal_W_m2: budget.thermalWm2,
+      tidal_W_m2: budget.tidalWm2,
+      total_W_m2: budget.totalWm2,
+      runaway_limit_W_m2: runaway,
+      outer_edge_stellar_equivalent_W_m2: outerEdge,
+      stellar_equivalent_W_m2: budget.stellarEquivalentWm2,
+      dominant: verdict.dominant,
+      verdict: verdict.verdict,
+      caution: FLUX_BUDGET_CAUTION,
+    },
+  };
+}

@@ -1,0 +1,70 @@
+import { describe, it, expect } from 'vitest';
+import { mkdtempSync, readFileSync, existsSync, writeFileSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { main } from '../../src/cli/main.js';
+
+function run(args: string[]) {
+  let out = '';
+  let err = '';
+  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
+  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
+}
+
+const demo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).pathname;
+
+describe('moonsieve CLI', () => {
+  it('bad input: one clear message naming field, value and what is allowed; exit 2; no stack trace; nothing written', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-cli-'));
+    const bad = join(dir, 'bad.yaml');
+    writeFileSync(bad, readFileSync(demo, 'utf8').replace('mass: 0.32 Mjup', 'mass: 0.32 furlong'));
+    const outDir = join(dir, 'out');
+    const r = await run(['simulate', bad, '--noiseless', '--out', outDir]);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain('planet.mass');
+    expect(r.err).toContain('"0.32 furlong"');
+    expect(r.err).toMatch(/a mass/);
+    expect(r.err).not.toMatch(/\n\s+at /); // no stack trace
+    expect(existsSync(outDir)).toBe(false);
+  });
+
+  it('missing file and unknown option exit with 2', async () => {
+    const r1 = await run(['simulate', '/nonexistent/scenario.yaml']);
+    expect(r1.code).toBe(2);
+    expect(r1.err).toMatch(/no such file/);
+    const r2 = await run(['simulate', demo, '--frobnicate']);
+    expect(r2.code).toBe(2);
+  });
+
+  it('simulate --noiseless writes an ECSV light curve, a transit table and an HTML page', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-sim-'));
+    const r = await run(['simulate', demo, '--noiseless', '--out', dir]);
+    expect(r.err).toBe('');
+    expect(r.code).toBe(0);
+    expect(readdirSync(dir).sort()).toEqual(['lightcurve.ecsv', 'simulate.html', 'transits.ecsv']);
+    const ecsv = readFileSync(join(dir, 'lightcurve.ecsv'), 'utf8');
+    expect(ecsv.startsWith('# %ECSV 1.0\n')).toBe(true);
+    const html = readFileSync(join(dir, 'simulate.html'), 'utf8');
+    expect(html).toContain('Plotly.newPlot');
+    expect(html).not.toMatch(/<script[^>]+src=/); // self-contained
+  });
+
+  it('limits prints the table and --json the SI keys', async () => {
+    const t = await run(['limits', demo]);
+    expect(t.code).toBe(0);
+    expect(t.out).toMatch(/Hill radius/);
+    expect(t.out).toMatch(/verdict/);
+    const j = await run(['limits', demo, '--json']);
+    expect(j.code).toBe(0);
+    const obj = JSON.parse(j.out);
+    for (const k of ['hill_radius_m', 'stable_max_separation_m', 'stable_max_separation_retrograde_m', 'roche_limit_m', 'tidal_max_moon_mass_kg',
+      'transit_duration_s', 'timing_precision_s', 'duration_precision_s', 'ttv_semi_amplitude_s', 'ttv_rms_s', 'tdv_semi_amplitude_s',
+      'tdv_rms_s', 'moon_depth_ppm', 'forecast_detection_probability', 'energy_budget']) {
+      expect(obj, k).toHaveProperty(k);
+      expect(obj[k], k).not.toBeNull();
+    }
+    for (const k of ['stellar_W_m2', 'reflected_W_m2', 'thermal_W_m2', 'tidal_W_m2', 'total_W_m2', 'runaway_limit_W_m2', 'verdict']) {
+      expect(obj.energy_budget, k).toHaveProperty(k);
+    }
+  });
+});
