@@ -1,9 +1,8 @@
 /**
  * Where to compute the light curve: one window per transit epoch, around the
- * barycentre's conjunction, wide enough for the planet's transit displaced by
- * its reflex motion, the moon's own transit wherever it is on its orbit, and
- * the requested out-of-transit baseline. Nothing is computed over the empty
- * baseline between transits.
+ * barycentre's conjunction: the planet's transit plus the requested
+ * out-of-transit baseline on each side. Nothing is computed over the empty
+ * time between transits.
  */
 import type { Scenario } from '../scenario/types.js';
 import { transitDurations } from '../physics/transitDuration.js';
@@ -14,12 +13,6 @@ export interface TransitWindow {
   centreS: number;
   startS: number;
   endS: number;
-}
-
-/** Barycentre sky speed at conjunction, m/s: v = (2πa/P)(1 + e sin ω)/√(1 − e²) (Winn 2010, arXiv:1001.2010, §2.3). */
-export function barycentreSkySpeed(s: Scenario): number {
-  const { periodS, semiMajorAxisM: a, eccentricity: e, omegaRad: w } = s.planet;
-  return ((2 * Math.PI * a) / periodS) * ((1 + e * Math.sin(w)) / Math.sqrt(1 - e * e));
 }
 
 /** Planet-only closed-form durations of the scenario (Winn 2010 eqs. 14–16). */
@@ -36,16 +29,13 @@ export function scenarioDurations(s: Scenario) {
 }
 
 /**
- * Half-width of the window around each conjunction, s: half the planet's
- * T14, plus the time the barycentre needs to cross the moon's largest
- * distance from it (apocentre a(1+e), so the moon's own dip and the planet's
- * reflex-shifted transit both fit), plus the baseline.
+ * Half-width of the observing window around each conjunction, s: half the
+ * planet's T14 plus the requested out-of-transit baseline — what an observer
+ * schedules, knowing the planet's ephemeris but not the moon. A moon whose
+ * own dip falls outside the window is not seen in it, as at the telescope.
  */
 export function windowHalfWidthS(s: Scenario): number {
-  const t14 = scenarioDurations(s).t14S;
-  const v = barycentreSkySpeed(s);
-  const moonReach = s.moon ? (s.moon.separationM * (1 + s.moon.eccentricity) + s.moon.radiusM) / v : 0;
-  return 0.5 * t14 + moonReach + s.observation.baselineS;
+  return 0.5 * scenarioDurations(s).t14S + s.observation.baselineS;
 }
 
 export function transitWindows(s: Scenario): TransitWindow[] {
