@@ -6,6 +6,7 @@
  */
 import { createRequire } from 'node:module';
 import { performance } from 'node:perf_hooks';
+import { median, rate, type BenchMedian } from './measure.js';
 import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
 import { uniformFloat64 } from 'pure-rand/distribution/uniformFloat64';
 import seedrandom from 'seedrandom';
@@ -15,34 +16,6 @@ import { powerLawNoise, powerLawTransformSize, PowerLawNoiseWorkspace } from '..
 import { dampedRandomWalkNoise } from '../src/noise/dampedRandomWalkNoise.js';
 import { fillNormalBoxMuller, normalPolar, normalZiggurat, type UniformSource } from '../src/noise/gaussian.js';
 
-/** One benchmark figure: the median over repeats. */
-export interface BenchMedian {
-  label: string;
-  median: number;
-  unit: string;
-  repeats: number;
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-}
-
-/** Median rate in millions per second of `run(n)` doing n operations. */
-function rate(label: string, n: number, repeats: number, run: (n: number) => number): BenchMedian {
-  let sink = 0;
-  sink += run(Math.min(n, 100_000)); // warm-up / JIT
-  const rates: number[] = [];
-  for (let r = 0; r < repeats; r++) {
-    const t0 = performance.now();
-    sink += run(n);
-    const dt = (performance.now() - t0) / 1000;
-    rates.push(n / dt / 1e6);
-  }
-  if (Number.isNaN(sink)) throw new Error('unreachable: keeps the result live');
-  return { label, median: median(rates), unit: 'M/s', repeats };
-}
 
 function sumNormals(src: UniformSource, sampler: (s: UniformSource) => number, n: number): number {
   let acc = 0;

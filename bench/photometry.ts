@@ -8,38 +8,12 @@
  * bench/run.ts prints them.
  */
 import { performance } from 'node:perf_hooks';
+import { median, rate, type BenchMedian } from './measure.js';
 import { celPair } from '../src/photometry/bulirschCel.js';
 import { completeCarlson } from '../src/photometry/carlson.js';
 import { pairTransitFlux } from '../src/photometry/pairTransitFlux.js';
 import { transitFlux } from '../src/photometry/transitFlux.js';
 
-/** One benchmark figure: the median over repeats. */
-export interface BenchMedian {
-  label: string;
-  median: number;
-  unit: string;
-  repeats: number;
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-}
-
-/** Median rate in millions per second of `run()` doing n operations. */
-function rate(label: string, n: number, repeats: number, run: () => number): BenchMedian {
-  let sink = run(); // warm-up / JIT
-  const rates: number[] = [];
-  for (let r = 0; r < repeats; r++) {
-    const t0 = performance.now();
-    sink += run();
-    const dt = (performance.now() - t0) / 1000;
-    rates.push(n / dt / 1e6);
-  }
-  if (Number.isNaN(sink)) throw new Error('unreachable: keeps the result live');
-  return { label, median: median(rates), unit: 'M/s', repeats };
-}
 
 /** Deterministic uniform [0, 1) numbers (Weyl sequence with the golden ratio; no RNG needed). */
 function weyl(i: number, shift = 0): number {
