@@ -1,0 +1,386 @@
+/**
+ * Global transit shape: the radius ratio p, impact parameter b, duration
+ * scale s, a common mid-time offset Δt and the out-of-transit level f0, fitted
+ * to all transits folded on a linear ephemeris, by weighted least squares with
+ * the Levenberg–Marquardt method (Levenberg 1944, Q. Appl. Math. 2, 164;
+ * Marquardt 1963, J. SIAM 11, 431: solve (JᵀWJ + λ diag JᵀWJ) δ = JᵀW r,
+ * λ divided by 10 after a step that lowers χ², multiplied by 10 otherwise).
+ *
+ * Model: m_i = f0 · T_{p,b,s}(x_i − Δt), x_i = t_i − (T0 + n_i P), with T the
+ * exposure-averaged planet-only template (transitTemplate.ts) built with
+ * timeScale s. Limb darkening, a/R*, e, ω and the exposure stay at the given
+ * geometry. Derivatives: Δt, s and f0 analytic from the template slope
+ * (∂T_s(x)/∂s ≈ −T′(x)·x/s, exact apart from the exposure smearing, which
+ * only slows convergence: every trial χ² uses a freshly built template); p
+ * and b by forward differences of rebuilt templates.
+ *
+ * The impact parameter is fitted unless `fitImpact` is false. It is fixed at
+ * the geometry's value (and `impactFixed` set, with the reason) when the
+ * free fit does not converge or leaves b undetermined (σ_b > 0.3): b is
+ * weakly constrained at low total S/N and degenerate with s and p.
+ *
+ * Uncertainties: square roots of the diagonal of (JᵀWJ)⁻¹ at the optimum,
+ * W = 1/σ² (white noise).
+ */
+import { buildTransitTemplate, templateFluxSlope, type TemplateGeometry, type TransitTemplate } from './transitTemplate.js';
+
+export interface LinearEphemerisGuess {
+  /** Mid-time of epoch 0, s since t0. */
+  t0S: number;
+  periodS: number;
+}
+
+export interface GlobalFitOptions {
+  /** Ephemeris to fold on (default T0 = 0, P = geometry.periodS). */
+  ephemeris?: LinearEphemerisGuess;
+  /** Fit b (default true). */
+  fitImpact?: boolean;
+  /** Largest number of Levenberg–Marquardt steps (default 60). */
+  maxIterations?: number;
+}
+
+export interface GlobalTransitFit {
+  radiusRatio: number;
+  radiusRatioErr: number;
+  impactParameter: number;
+  /** NaN when b was held fixed. */
+  impactParameterErr: number;
+  impactFixed: boolean;
+  /** Why b was fixed ('' when it was fitted). */
+  impactNote: string;
+  /** Duration scale relative to the input geometry. */
+  timeScale: number;
+  timeScaleErr: number;
+  /** Mean mid-time offset from the folding ephemeris, s. */
+  offsetS: number;
+  offsetErrS: number;
+  /** Out-of-transit flux level. */
+  baseline: number;
+  baselineErr: number;
+  chi2: number;
+  nPoints: number;
+  iterations: number;
+  converged: boolean;
+  /** Fine template of the fitted shape (timeScale included), for the per-transit fits. */
+  template: TransitTemplate;
+}
+
+/**
+ * Invert a small symmetric positive-definite matrix (row-major n×n) by
+ * Cholesky factorisation (Golub & Van Loan 2013, Matrix Computations, 4th
+ * ed., Alg. 4.2.1). Writes the inverse into `out`; returns false (and fills
+ * `out` with NaN) if the matrix is not positive definite.
+ */
+export function invertSymmetricPositive(a: Float64Array, n: number, out: Float64Array): boolean {
+  const l = new Float64Array(n * n);
+  for (let j = 0; j < n; j++) {
+    let d = a[j * n + j];
+    for (let k = 0; k < j; k++) d -= l[j * n + k] * l[j * n + k];
+    if (!(d > 0)) {
+      out.fill(NaN, 0, n * n);
+      return false;
+    }
+    const ljj = Math.sqrt(d);
+    l[j * n + j] = ljj;
+    for (let i = j + 1; i < n; i++) {
+      let s = a[i * n + j];
+      for (let k = 0; k < j; k++) s -= l[i * n + k] * l[j * n + k];
+      l[i * n + j] = s / ljj;
+    }
+  }
+  // Columns of the inverse: solve L Lᵀ x = e_c.
+  const y = new Float64Array(n);
+  for (let c = 0; c < n; c++) {
+    for (let i = 0; i < n; i++) {
+      let s = i === c ? 1 : 0;
+      for (let k = 0; k < i; k++) s -= l[i * n + k] * y[k];
+      y[i] = s / l[i * n + i];
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      let s = y[i];
+      for (let k = i + 1; k < n; k++) s -= l[k * n + i] * out[k * n + c];
+      out[i * n + c] = s / l[i * n + i];
+    }
+  }
+  return true;
+}
+
+/** Solve the symmetric positive-definite system a·x = b (n ≤ ~10) via its inverse; false if not positive definite. */
+export function solveSymmetricPositive(a: Float64Array, n: number, b: Float64Array, x: Float64Array): boolean {
+  const inv = new Float64Array(n * n);
+  if (!invertSymmetricPositive(a, n, inv)) return false;
+  for (let i = 0; i < n; i++) {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += inv[i * n + k] * b[k];
+    x[i] = s;
+  }
+  return true;
+}
+
+interface Params {
+  p: number;
+  b: number;
+  s: number;
+  dt: number;
+  f0: number;
+}
+
+const COARSE_DIVISOR = 4000;
+
+function templateFor(g: TemplateGeometry, q: Params, fine: boolean): TransitTemplate {
+  const geo: TemplateGeometry = { ...g, radiusRatio: q.p, impactParameter: q.b, timeScale: q.s };
+  if (fine) return buildTransitTemplate(geo);
+  // Coarse table while iterating: step T14/4000 (interpolation error ≲ 5e-8, transitTemplate.ts).
+  const probe = buildTransitTemplate(geo, { stepS: 1e9 });
+  return buildTransitTemplate(geo, { stepS: probe.t14S / COARSE_DIVISOR });
+}
+
+function chi2Of(x: Float64Array, y: Float64Array, tpl: TransitTemplate, q: Params, tmp: Float64Array): number {
+  let c = 0;
+  for (let i = 0; i < x.length; i++) {
+    templateFluxSlope(tpl, x[i] - q.dt, tmp);
+    const r = y[i] - q.f0 * tmp[0];
+    c += r * r;
+  }
+  return c;
+}
+
+function clampParams(q: Params): Params {
+  const p = Math.min(Math.max(q.p, 1e-4), 0.9);
+  const b = Math.min(Math.max(q.b, 0), 1 + p - 1e-3);
+  const s = Math.min(Math.max(q.s, 0.2), 5);
+  return { p, b, s, dt: q.dt, f0: q.f0 };
+}
+
+interface LmResult {
+  q: Params;
+  /** Fine template at q. */
+  fine: TransitTemplate;
+  cov: Float64Array;
+  chi2: number;
+  iterations: number;
+  converged: boolean;
+}
+
+function runLm(
+  x: Float64Array,
+  y: Float64Array,
+  sigma: number,
+  g: TemplateGeometry,
+  start: Params,
+  fitImpact: boolean,
+  maxIterations: number,
+): LmResult {
+  // Parameter order: p, [b], s, dt, f0.
+  const np = fitImpact ? 5 : 4;
+  const tmp = new Float64Array(2);
+  const tmpP = new Float64Array(2);
+  const tmpB = new Float64Array(2);
+  const A = new Float64Array(np * np);
+  const grad = new Float64Array(np);
+  const M = new Float64Array(np * np);
+  const delta = new Float64Array(np);
+  const cov = new Float64Array(np * np);
+  const jrow = new Float64Array(np);
+  let q = clampParams(start);
+  let tpl = templateFor(g, q, false);
+  let chi2 = chi2Of(x, y, tpl, q, tmp);
+  let lambda = 1e-3;
+  let converged = false;
+  let it = 0;
+  for (; it < maxIterations; it++) {
+    // Normal equations at q (forward differences for p and b).
+    const dp = 1e-3 * q.p;
+    const db = 1e-3;
+    const bStep = q.b + db < 1 + q.p - 1e-3 ? db : -db;
+    const tplP = templateFor(g, { ...q, p: q.p + dp }, false);
+    const tplB = fitImpact ? templateFor(g, { ...q, b: q.b + bStep }, false) : tpl;
+    A.fill(0);
+    grad.fill(0);
+    for (let i = 0; i < x.length; i++) {
+      const u = x[i] - q.dt;
+      templateFluxSlope(tpl, u, tmp);
+      const T = tmp[0];
+      const dT = tmp[1];
+      templateFluxSlope(tplP, u, tmpP);
+      let c = 0;
+      jrow[c++] = (q.f0 * (tmpP[0] - T)) / dp;
+      if (fitImpact) {
+        templateFluxSlope(tplB, u, tmpB);
+        jrow[c++] = (q.f0 * (tmpB[0] - T)) / bStep;
+      }
+      jrow[c++] = (-q.f0 * dT * u) / q.s;
+      jrow[c++] = -q.f0 * dT;
+      jrow[c++] = T;
+      const r = y[i] - q.f0 * T;
+      for (let a = 0; a < np; a++) {
+        const ja = jrow[a];
+        if (ja === 0) continue;
+        grad[a] += ja * r;
+        for (let b = a; b < np; b++) A[a * np + b] += ja * jrow[b];
+      }
+    }
+    for (let a = 0; a < np; a++) for (let b = 0; b < a; b++) A[a * np + b] = A[b * np + a];
+    const okCov = invertSymmetricPositive(A, np, cov);
+    // Levenberg–Marquardt step with up to 12 increases of λ.
+    let accepted = false;
+    let small = false;
+    for (let tries = 0; tries < 12; tries++) {
+      M.set(A);
+      for (let a = 0; a < np; a++) M[a * np + a] = A[a * np + a] * (1 + lambda) + 1e-300;
+      if (!solveSymmetricPositive(M, np, grad, delta)) {
+        lambda *= 10;
+        continue;
+      }
+      let c = 0;
+      const trial: Params = { ...q };
+      trial.p += delta[c++];
+      if (fitImpact) trial.b += delta[c++];
+      trial.s += delta[c++];
+      trial.dt += delta[c++];
+      trial.f0 += delta[c++];
+      const tq = clampParams(trial);
+      const ttpl = templateFor(g, tq, false);
+      const tchi2 = chi2Of(x, y, ttpl, tq, tmp);
+      if (tchi2 <= chi2) {
+        // Converged when every step is below 1e-4 of its standard error σ·√((JᵀJ)⁻¹)ₐₐ.
+        small = okCov;
+        for (let a = 0; a < np && small; a++) {
+          if (!(Math.abs(delta[a]) <= 1e-4 * sigma * Math.sqrt(cov[a * np + a]))) small = false;
+        }
+        const relDrop = (chi2 - tchi2) / Math.max(tchi2, 1e-300);
+        if (relDrop < 1e-12) small = true;
+        q = tq;
+        tpl = ttpl;
+        chi2 = tchi2;
+        lambda = Math.max(lambda / 10, 1e-12);
+        accepted = true;
+        break;
+      }
+      lambda *= 10;
+    }
+    if (!accepted) {
+      // No step lowers χ²: at the minimum to rounding.
+      converged = okCov;
+      break;
+    }
+    if (small) {
+      converged = true;
+      it++;
+      break;
+    }
+  }
+  // Covariance at the optimum, W = 1/σ² (fine template).
+  const fine = templateFor(g, q, true);
+  const dp = 1e-3 * q.p;
+  const bStep = q.b + 1e-3 < 1 + q.p - 1e-3 ? 1e-3 : -1e-3;
+  const fineP = templateFor(g, { ...q, p: q.p + dp }, true);
+  const fineB = fitImpact ? templateFor(g, { ...q, b: q.b + bStep }, true) : fine;
+  A.fill(0);
+  let chi2Fine = 0;
+  for (let i = 0; i < x.length; i++) {
+    const u = x[i] - q.dt;
+    templateFluxSlope(fine, u, tmp);
+    templateFluxSlope(fineP, u, tmpP);
+    let c = 0;
+    jrow[c++] = (q.f0 * (tmpP[0] - tmp[0])) / dp;
+    if (fitImpact) {
+      templateFluxSlope(fineB, u, tmpB);
+      jrow[c++] = (q.f0 * (tmpB[0] - tmp[0])) / bStep;
+    }
+    jrow[c++] = (-q.f0 * tmp[1] * u) / q.s;
+    jrow[c++] = -q.f0 * tmp[1];
+    jrow[c++] = tmp[0];
+    const r = y[i] - q.f0 * tmp[0];
+    chi2Fine += r * r;
+    for (let a = 0; a < np; a++) for (let b = a; b < np; b++) A[a * np + b] += jrow[a] * jrow[b];
+  }
+  const w = 1 / (sigma * sigma);
+  for (let a = 0; a < np; a++) {
+    for (let b = a; b < np; b++) {
+      A[a * np + b] *= w;
+      A[b * np + a] = A[a * np + b];
+    }
+  }
+  if (!invertSymmetricPositive(A, np, cov)) converged = false;
+  return { q, fine, cov, chi2: chi2Fine * w, iterations: it, converged };
+}
+
+/**
+ * Fit the global transit shape to all points (see the file header).
+ * @param timeS mid-exposure times, s since t0
+ * @param flux relative flux
+ * @param sigma white-noise standard deviation per point (relative flux)
+ * @param epoch transit epoch of each point
+ * @param geometry starting geometry (and the fixed a/R*, e, ω, u1, u2, exposure)
+ * @throws RangeError on mismatched lengths, a non-positive sigma or too few points.
+ */
+export function globalTransitFit(
+  timeS: Float64Array,
+  flux: Float64Array,
+  sigma: number,
+  epoch: Int32Array,
+  geometry: TemplateGeometry,
+  opts: GlobalFitOptions = {},
+): GlobalTransitFit {
+  const n = timeS.length;
+  if (flux.length !== n) throw new RangeError(`flux.length must equal timeS.length (${n}), got ${flux.length}`);
+  if (epoch.length !== n) throw new RangeError(`epoch.length must equal timeS.length (${n}), got ${epoch.length}`);
+  if (!(sigma > 0) || !Number.isFinite(sigma)) throw new RangeError(`sigma must be a positive finite number, got ${sigma}`);
+  if (n < 10) throw new RangeError(`globalTransitFit needs at least 10 points, got ${n}`);
+  const eph = opts.ephemeris ?? { t0S: 0, periodS: geometry.periodS };
+  if (!(eph.periodS > 0) || !Number.isFinite(eph.periodS)) throw new RangeError(`ephemeris.periodS must be positive, got ${eph.periodS}`);
+  if (!Number.isFinite(eph.t0S)) throw new RangeError(`ephemeris.t0S must be finite, got ${eph.t0S}`);
+  const fitImpact = opts.fitImpact ?? true;
+  const maxIterations = opts.maxIterations ?? 60;
+
+  // Folded times and finite data only.
+  let m = 0;
+  for (let i = 0; i < n; i++) if (Number.isFinite(flux[i]) && Number.isFinite(timeS[i])) m++;
+  const x = new Float64Array(m);
+  const y = new Float64Array(m);
+  for (let i = 0, j = 0; i < n; i++) {
+    if (!(Number.isFinite(flux[i]) && Number.isFinite(timeS[i]))) continue;
+    x[j] = timeS[i] - (eph.t0S + epoch[i] * eph.periodS);
+    y[j] = flux[i];
+    j++;
+  }
+  const start: Params = { p: geometry.radiusRatio, b: geometry.impactParameter, s: geometry.timeScale ?? 1, dt: 0, f0: 1 };
+  let res = runLm(x, y, sigma, geometry, start, fitImpact, maxIterations);
+  let impactFixed = !fitImpact;
+  let impactNote = fitImpact ? '' : 'held fixed at the input value (fitImpact = false)';
+  if (fitImpact) {
+    const sb = Math.sqrt(res.cov[1 * 5 + 1]);
+    if (!res.converged || !(sb <= 0.3)) {
+      impactNote = !res.converged
+        ? 'held fixed at the input value: the fit with free b did not converge'
+        : `held fixed at the input value: b undetermined (σ_b = ${sb.toPrecision(3)} > 0.3)`;
+      impactFixed = true;
+      res = runLm(x, y, sigma, geometry, start, false, maxIterations);
+    }
+  }
+  const np = impactFixed ? 4 : 5;
+  const se = (k: number) => Math.sqrt(res.cov[k * np + k]);
+  const off = impactFixed ? 0 : 1;
+  const q = res.q;
+  const template = res.fine;
+  return {
+    radiusRatio: q.p,
+    radiusRatioErr: se(0),
+    impactParameter: q.b,
+    impactParameterErr: impactFixed ? NaN : se(1),
+    impactFixed,
+    impactNote,
+    timeScale: q.s,
+    timeScaleErr: se(1 + off),
+    offsetS: q.dt,
+    offsetErrS: se(2 + off),
+    baseline: q.f0,
+    baselineErr: se(3 + off),
+    chi2: res.chi2,
+    nPoints: m,
+    iterations: res.iterations,
+    converged: res.converged,
+    template,
+  };
+}

@@ -1,0 +1,91 @@
+/**
+ * The residual light curve of one realization, stacked in the planet's frame:
+ * residuals of the planet-only fit binned by time from each transit's fitted
+ * mid-time. Keeping the per-bin sums (Σr, count) lets the moon-dip matched
+ * filter be evaluated later for any moon separation in O(bins) — the sweep
+ * calibrates the dip channel of every cell on the same stored no-moon stacks.
+ *
+ * Matched filter (weighted linear least squares of the residuals onto the
+ * folded moon-dip profile f, e.g. Press et al. 2007, Numerical Recipes 3rd ed.,
+ * §15.4): with equal per-point σ, δ̂ = −Σ r_i f(x_i) / Σ f(x_i)², σ_δ =
+ * σ/√Σ f². Binning at the cadence replaces f(x_i) by f at the bin centre; the
+ * profile (Heller 2014's orbital-sampling effect, moonDipStack.ts) varies on
+ * the timescale of the moon's orbit crossing, far longer than one cadence.
+ */
+import type { TransitTemplate } from './transitTemplate.js';
+import { templateFlux } from './transitTemplate.js';
+import type { TransitFit } from './perTransitFit.js';
+
+export interface ResidualStack {
+  /** Centre of bin 0, s from planet mid-transit; bins are `binS` wide. */
+  x0S: number;
+  binS: number;
+  /** Σ residual per bin. */
+  sum: Float64Array;
+  /** Number of points per bin. */
+  count: Float64Array;
+  /** Per-point white-noise σ (relative flux) the residuals carry. */
+  sigma: number;
+}
+
+/**
+ * Stack residuals (flux − f0·T((t − t_c)/s), the per-transit planet-only model) of every
+ * successfully fitted transit into bins of `binS` over ±halfWidthS around the planet mid-time.
+ */
+export function stackResiduals(
+  timeS: Float64Array,
+  flux: Float64Array,
+  epoch: Int32Array,
+  fits: readonly TransitFit[],
+  template: TransitTemplate,
+  sigma: number,
+  binS: number,
+  halfWidthS: number,
+): ResidualStack {
+  const nb = 2 * Math.ceil(halfWidthS / binS) + 1;
+  const x0S = -((nb - 1) / 2) * binS;
+  const sum = new Float64Array(nb);
+  const count = new Float64Array(nb);
+  const byEpoch = new Map<number, TransitFit>();
+  for (const f of fits) if (f.status === 'ok') byEpoch.set(f.epoch, f);
+  for (let i = 0; i < timeS.length; i++) {
+    const f = byEpoch.get(epoch[i]);
+    if (!f) continue;
+    const x = timeS[i] - f.tcS;
+    const k = Math.round((x - x0S) / binS);
+    if (k < 0 || k >= nb) continue;
+    const scale = f.durationS / template.t14S;
+    const model = f.baseline * templateFlux(template, x / scale);
+    sum[k] += flux[i] - model;
+    count[k] += 1;
+  }
+  return { x0S, binS, sum, count, sigma };
+}
+
+export interface StackedDip {
+  depth: number;
+  depthError: number;
+  snr: number;
+}
+
+/**
+ * Matched-filter amplitude of the moon dip in a stack, for a profile given at
+ * the bin centres (`profile[k]` = folded dip per unit moon depth at x0S + k·binS).
+ * Bins with |x| < excludeWithinS are skipped (the planet-only fit absorbs part
+ * of an in-transit moon dip). NaN when the profile has no weight outside.
+ */
+export function stackedDipSnr(stack: ResidualStack, profile: Float64Array, excludeWithinS: number): StackedDip {
+  let srf = 0;
+  let sff = 0;
+  for (let k = 0; k < stack.sum.length; k++) {
+    const x = stack.x0S + k * stack.binS;
+    if (Math.abs(x) < excludeWithinS || stack.count[k] === 0) continue;
+    const f = profile[k];
+    srf += stack.sum[k] * f;
+    sff += stack.count[k] * f * f;
+  }
+  if (!(sff > 0) || !(stack.sigma > 0)) return { depth: NaN, depthError: NaN, snr: NaN };
+  const depth = -srf / sff;
+  const depthError = stack.sigma / Math.sqrt(sff);
+  return { depth, depthError, snr: depth / depthError };
+}

@@ -1,0 +1,198 @@
+import { describe, it, expect } from 'vitest';
+import type { Scenario } from '../../src/scenario/types.js';
+import { observeScenario, type Observation } from '../../src/noise/observe.js';
+import { createRng } from '../../src/noise/rng.js';
+import { planetTransitTruth } from '../../src/physics/planetTransitTruth.js';
+import { inclinationFromImpact } from '../../src/physics/transitDuration.js';
+import { DAY_S, G, M_JUP_KG, M_SUN_KG, R_SUN_M } from '../../src/physics/constants.js';
+import {
+  buildTransitTemplate,
+  directTemplateFlux,
+  templateFlux,
+  templateGeometryFromScenario,
+} from '../../src/timing/transitTemplate.js';
+import { fitTransits } from '../../src/timing/perTransitFit.js';
+import { recoverTimings } from '../../src/timing/timingSeries.js';
+
+/**
+ * Invented test system "Tessel b": a hot Jupiter (p = 0.1) on a 2-day orbit
+ * of a 0.8 M☉, 0.8 R☉ star; T14 ≈ 2.09 h, ingress ≈ 12.5 min; 2-min cadence
+ * and exposure; 1.5 h of baseline on each side.
+ */
+function tessel(opts: { noise: number; transits: number; b?: number; e?: number; omegaRad?: number; seed?: number }): Scenario {
+  const periodS = 2 * DAY_S;
+  const ms = 0.8 * M_SUN_KG;
+  const rs = 0.8 * R_SUN_M;
+  // Kepler's third law a³ = G(M* + Mp)P²/4π² (computed in the test).
+  const a = Math.cbrt((G * (ms + M_JUP_KG) * periodS * periodS) / (4 * Math.PI * Math.PI));
+  const b = opts.b ?? 0.3;
+  const e = opts.e ?? 0;
+  const w = opts.omegaRad ?? Math.PI / 2;
+  return {
+    name: 'tessel-b',
+    seed: opts.seed ?? 7,
+    star: { massKg: ms, radiusM: rs, teffK: 5000, ageS: 1e17, u1: 0.45, u2: 0.2, luminosityW: 1e26 },
+    planet: {
+      massKg: M_JUP_KG,
+      radiusM: 0.1 * rs,
+      periodS,
+      eccentricity: e,
+      omegaRad: w,
+      inclinationRad: inclinationFromImpact(b, a / rs, e, w),
+      impactParameter: b,
+      semiMajorAxisM: a,
+      albedo: 0.3,
+      k2: 0.3,
+      tidalQ: 1e5,
+    },
+    moon: null,
+    instrument: { cadenceS: 120, exposureS: 120, noiseFraction: opts.noise, noiseTimescaleS: 120 },
+    observation: { transits: opts.transits, t0BjdTdb: 2_460_000, baselineS: 5400 },
+    detection: { falseAlarm: 0.01 },
+  } as Scenario;
+}
+
+function truthOf(s: Scenario, obs: Observation, epochs: number) {
+  return planetTransitTruth(obs.lightCurve.sys, obs.lightCurve.rp, epochs, 6 * 3600, 1e-6);
+}
+
+function pullStats(values: number[]) {
+  const n = values.length;
+  const mean = values.reduce((a, v) => a + v, 0) / n;
+  const rms = Math.sqrt(values.reduce((a, v) => a + v * v, 0) / n);
+  return { n, mean, rms };
+}
+
+describe('transit template', () => {
+  it('interpolates the exposure-averaged Mandel–Agol curve to < 1e-8 of the stellar flux', () => {
+    // Reference: direct midpoint-rule exposure average (4001 sub-exposures) of transitFlux on the same
+    // Keplerian track (Kipping 2010, §3); the brief asks for ≪ 1e-7. Measured 6e-10.
+    const tpl = buildTransitTemplate(templateGeometryFromScenario(tessel({ noise: 0, transits: 1 })));
+    const n = 800;
+    const x = new Float64Array(n);
+    for (let i = 0; i < n; i++) x[i] = (i / (n - 1) - 0.5) * (tpl.t14S + 400) + 0.37 * tpl.stepS;
+    const direct = directTemplateFlux(tpl, x, 4001);
+    let worst = 0;
+    for (let i = 0; i < n; i++) worst = Math.max(worst, Math.abs(templateFlux(tpl, x[i]) - direct[i]));
+    expect(worst).toBeLessThan(1e-8);
+    // Outside the exposure-widened contacts the flux is 1: to spline rounding (< 1e-12) inside the table's
+    // padding, exactly beyond it (computed in the test).
+    expect(Math.abs(templateFlux(tpl, 0.5 * tpl.t14S + 61) - 1)).toBeLessThan(1e-12);
+    expect(templateFlux(tpl, -0.5 * tpl.t14S - 200)).toBe(1);
+  });
+});
+
+describe('per-transit fits', () => {
+  it('recovers noiseless injected mid-times and durations exactly (eccentric orbit)', () => {
+    // Reference: planetTransitTruth (root-finding of first/last contact on the same Kepler model, 1e-6 s).
+    const s = tessel({ noise: 1e-3, transits: 6, b: 0.45, e: 0.2, omegaRad: 0.7 });
+    const obs = observeScenario(s, null);
+    const rec = recoverTimings(s, obs);
+    const truth = truthOf(s, obs, 6);
+    expect(rec.global.converged).toBe(true);
+    for (const f of rec.fits) {
+      expect(f.status).toBe('ok');
+      expect(Math.abs(f.tcS - truth[f.epoch].midS)).toBeLessThan(0.01);
+      expect(Math.abs(f.durationS - truth[f.epoch].durationS)).toBeLessThan(0.1);
+    }
+    // No moon: the TTVs and TDVs vanish (≪ 1 s).
+    for (const t of rec.ttv) expect(Math.abs(t.ttvS)).toBeLessThan(0.01);
+    for (const t of rec.tdv.points) expect(Math.abs(t.tdvS)).toBeLessThan(0.1);
+  });
+
+  it('finds TTVs up to ~half the duration by its coarse search', () => {
+    // Computed in the test: noiseless data made from the template itself, shifted by 0.45·T14 sin(1.3 n).
+    const tpl = buildTransitTemplate(templateGeometryFromScenario(tessel({ noise: 0, transits: 1 })));
+    const periodS = 2 * DAY_S;
+    const nTr = 8;
+    const perTr = Math.floor((tpl.t14S + 10_800) / 120);
+    const timeS = new Float64Array(nTr * perTr);
+    const flux = new Float64Array(nTr * perTr);
+    const epoch = new Int32Array(nTr * perTr);
+    const shift = (n: number) => 0.45 * tpl.t14S * Math.sin(1.3 * n);
+    for (let n = 0, k = 0; n < nTr; n++) {
+      for (let j = 0; j < perTr; j++, k++) {
+        timeS[k] = n * periodS + (j - perTr / 2) * 120;
+        flux[k] = templateFlux(tpl, timeS[k] - n * periodS - shift(n));
+        epoch[k] = n;
+      }
+    }
+    const r = fitTransits(timeS, flux, 1e-3, epoch, tpl, { ephemeris: { t0S: 0, periodS }, cadenceS: 120 });
+    for (const f of r.fits) {
+      expect(f.status).toBe('ok');
+      expect(Math.abs(f.tcS - (f.epoch * periodS + shift(f.epoch)))).toBeLessThan(1e-3);
+      expect(Math.abs(f.durationS / tpl.t14S - 1)).toBeLessThan(1e-6);
+    }
+  });
+
+  it('applies the partial-transit rule and records why', () => {
+    // Rule (src/timing/perTransitFit.ts): ingress or egress fully covered, and ≥ 50 % of the transit sampled.
+    const s = tessel({ noise: 1e-3, transits: 4 });
+    const obs = observeScenario(s, createRng(s.seed, 0, 0));
+    const half = 0.5 * buildTransitTemplate(templateGeometryFromScenario(s)).t14S;
+    const keep = (i: number): boolean => {
+      const n = obs.epoch[i];
+      const x = obs.timeS[i] - n * s.planet.periodS;
+      if (n === 1) return x < -0.7 * half; // the ingress, but only 15 % of the transit
+      if (n === 2) return Math.abs(x) > half + 300; // baseline only
+      if (n === 3) return x < 0.5 * half; // egress missing, 75 % of the transit kept
+      return true;
+    };
+    const idx = Array.from(obs.timeS.keys()).filter(keep);
+    const pick = <T extends Float64Array | Int32Array>(a: T): T => a.constructor === Float64Array
+      ? (Float64Array.from(idx, (i) => a[i]) as T)
+      : (Int32Array.from(idx, (i) => a[i]) as T);
+    const cut: Observation = { ...obs, timeS: pick(obs.timeS), flux: pick(obs.flux), model: pick(obs.model), epoch: pick(obs.epoch) };
+    const rec = recoverTimings(s, cut);
+    expect(rec.fits.map((f) => f.status)).toEqual(['ok', 'skipped-partial', 'skipped-no-data', 'ok']);
+    expect(rec.fits[1].reason).toMatch(/coverage/);
+    expect(Number.isNaN(rec.fits[1].tcS)).toBe(true);
+  });
+
+  it('gives mid-time scatter equal to the Fisher bound and unit pulls at S/N ≈ 95 (2000 transits)', () => {
+    // Fisher (Cramér–Rao) bound for white noise: σ² (JᵀJ)⁻¹. Statistical tolerance: with 2000 transits the
+    // standard error of a pull standard deviation is 1/√(2·2000) = 1.6 %; the brief's 5 % is 3σ.
+    // Reference truth: planetTransitTruth (epoch 0; no moon, so t_n = t_0 + nP exactly).
+    const s = tessel({ noise: 1e-3, transits: 2000, seed: 21 });
+    const obs = observeScenario(s, createRng(s.seed, 0, 0));
+    const truth = truthOf(s, obs, 1)[0];
+    const rec = recoverTimings(s, obs);
+    const ok = rec.fits.filter((f) => f.status === 'ok');
+    expect(ok.length).toBe(2000);
+    const tcPulls = ok.map((f) => (f.tcS - (truth.midS + f.epoch * s.planet.periodS)) / f.tcErrS);
+    const durPulls = ok.map((f) => (f.durationS - truth.durationS) / f.durationErrS);
+    const tc = pullStats(tcPulls);
+    const dur = pullStats(durPulls);
+    const scatter = Math.sqrt(ok.reduce((a, f) => a + (f.tcS - truth.midS - f.epoch * s.planet.periodS) ** 2, 0) / ok.length);
+    const meanErr = Math.sqrt(ok.reduce((a, f) => a + f.tcErrS ** 2, 0) / ok.length);
+    expect(Math.abs(scatter / meanErr - 1)).toBeLessThan(0.05);
+    expect(Math.abs(tc.rms - 1)).toBeLessThan(0.05);
+    expect(Math.abs(tc.mean)).toBeLessThan(0.1); // unbiased: SE of the mean pull 0.022
+    // Durations: the spread of the pulls about their mean is the per-transit error; their common offset is
+    // the global template's T14 error (shared by every transit, invisible in TDVs), measured 0.10 here.
+    expect(Math.abs(Math.sqrt(dur.rms ** 2 - dur.mean ** 2) - 1)).toBeLessThan(0.05);
+    expect(Math.abs(dur.mean)).toBeLessThan(0.25);
+    // White noise: β stays at its floor of 1 (the residual rms matches the stated σ).
+    expect(rec.beta?.beta).toBe(1);
+    // Global shape close to the injected one (p = 0.1, b = 0.3): errors from the global fit, 4σ.
+    expect(Math.abs(rec.global.radiusRatio - 0.1)).toBeLessThan(4 * rec.global.radiusRatioErr);
+    expect(Math.abs(rec.global.impactParameter - 0.3)).toBeLessThan(4 * rec.global.impactParameterErr);
+  });
+
+  it('stays robust and unbiased at S/N ≈ 12, where the Fisher bound is optimistic', () => {
+    // Measured (this project, 1500 transits): pull standard deviation 1.25 at S/N 12, 1.10 at 24, 1.04 at
+    // 48, 1.03 at 95 — a one-parameter brute-force maximum-likelihood fit with the exact template shows the
+    // same excess (1.24 at S/N 12), so it is the estimator's small-sample (non-Gaussian) regime, not a fit
+    // failure. Checked here: every transit is fitted, mean pull unbiased (SE 0.045), pull spread < 1.4.
+    const s = tessel({ noise: 8e-3, transits: 500, seed: 22 });
+    const obs = observeScenario(s, createRng(s.seed, 0, 0));
+    const truth = truthOf(s, obs, 1)[0];
+    const rec = recoverTimings(s, obs, { fitImpact: false });
+    const ok = rec.fits.filter((f) => f.status === 'ok');
+    expect(ok.length).toBeGreaterThanOrEqual(490);
+    const tc = pullStats(ok.map((f) => (f.tcS - (truth.midS + f.epoch * s.planet.periodS)) / f.tcErrS));
+    expect(Math.abs(tc.mean)).toBeLessThan(0.15);
+    expect(tc.rms).toBeLessThan(1.4);
+    expect(tc.rms).toBeGreaterThan(0.95);
+  });
+});
