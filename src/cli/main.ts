@@ -8,6 +8,7 @@ import { InputError } from '../scenario/errors.js';
 import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK } from './exitCodes.js';
 import { registerSimulate } from './simulateCommand.js';
 import { registerLimits } from './limitsCommand.js';
+import { registerVet } from './vetCommand.js';
 import { VERSION } from '../version.js';
 
 export interface CliIo {
@@ -31,6 +32,7 @@ export function buildProgram(io: CliIo): Command {
     .showHelpAfterError('(run with --help for usage)');
   registerSimulate(program, io);
   registerLimits(program, io);
+  registerVet(program, io);
   return program;
 }
 

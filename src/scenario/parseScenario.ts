@@ -74,7 +74,7 @@ function dedupe(problems: FieldProblem[]): FieldProblem[] {
   });
 }
 
-function readStar(r: FieldReader): StarSpec {
+export function readStar(r: FieldReader): StarSpec {
   const massKg = r.quantity('mass', 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass' });
   const radiusM = r.quantity('radius', 'length', { min: 0, minExclusive: true, rangeText: 'must be a positive length' });
   const teffK = r.quantity('teff', 'temperature', { bare: [1, 'K'], min: 1000, max: 60000, rangeText: 'expected an effective temperature from 1000 K to 60000 K' });
@@ -115,7 +115,7 @@ function peekMoonMass(moonRaw: unknown): number {
   }
 }
 
-function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): PlanetSpec {
+export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): PlanetSpec {
   const massKg = r.quantity('mass', 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass' });
   const radiusM = r.quantity('radius', 'length', { min: 0, minExclusive: true, rangeText: 'must be a positive length' });
   const periodS = r.quantity('period', 'time', { bare: [DAY_S, 'days'], min: 0, minExclusive: true, rangeText: 'must be a positive time' });

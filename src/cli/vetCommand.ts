@@ -1,0 +1,25 @@
+/** `moonsieve vet CLAIM [--json] [--html FILE]`: plausibility of a claimed moon signal. */
+import type { Command } from 'commander';
+import { writeFileAtomic } from '../io/atomicWrite.js';
+import { loadClaim } from '../vet/loadClaim.js';
+import { vetClaim } from '../vet/vetClaim.js';
+import { formatVetReport } from '../vet/formatVetReport.js';
+import { renderVetPage } from '../vet/vetPage.js';
+import type { CliIo } from './main.js';
+
+export function registerVet(program: Command, io: CliIo): void {
+  program
+    .command('vet')
+    .description('plausibility of a claimed moon signal, from TTV/TDV amplitudes or a table of transit times: significance, implied moon, physical checks and a verdict')
+    .argument('<claim>', 'claim YAML file (star, planet and a claim: block)')
+    .option('--json', 'print the result as JSON (SI units) instead of the text report')
+    .option('--html <file>', 'also write a self-contained HTML page with plots')
+    .action((claimPath: string, opts: { json?: boolean; html?: string }) => {
+      const claim = loadClaim(claimPath);
+      const result = vetClaim(claim);
+      const page = opts.html ? renderVetPage(result) : null;
+      if (opts.html && page !== null) writeFileAtomic(opts.html, page);
+      io.out(opts.json ? JSON.stringify(result, null, 2) + '\n' : formatVetReport(result));
+      if (opts.html && !opts.json) io.out(`wrote ${opts.html}\n`);
+    });
+}

@@ -1,0 +1,71 @@
+/** The readable text report of `moonsieve vet`. */
+import type { VetResult } from './vetTypes.js';
+import { earthMasses, planetRadii, sig3, timeText } from './describe.js';
+
+export function formatVetReport(r: VetResult): string {
+  const lines: string[] = [];
+  const rp = r.system.planetRadiusM;
+  const row = (label: string, value: string) => lines.push(`  ${label.padEnd(34)} ${value}`);
+  const iv = (q: { median: number; lo2: number; hi2: number }, f: (x: number) => string) => `${f(q.median)}  (2σ ${f(q.lo2)} – ${f(q.hi2)})`;
+  lines.push(`${r.claim}: vetting a claimed moon signal (${r.input === 'table' ? 'table of transit times' : 'claimed amplitudes'})`, '');
+  lines.push(`VERDICT: ${r.verdict.toUpperCase()}`);
+  r.reasons.forEach((s, i) => lines.push(`  ${i + 1}. ${s}`));
+
+  lines.push('', 'Signal');
+  const a = r.amplitudes;
+  if (a.ttvRmsS !== null) row('TTV rms', `${timeText(a.ttvRmsS)} ± ${timeText(a.ttvRmsErrS ?? NaN)}`);
+  if (a.tdvRmsS !== null) row('TDV rms', `${timeText(a.tdvRmsS)} ± ${timeText(a.tdvRmsErrS ?? NaN)}`);
+  const t = r.tableSignificance;
+  if (t) {
+    row('transits', `${t.transits}`);
+    row('TTV χ² about linear ephemeris', `${sig3(t.ttv.chiSquare)} / ${t.ttv.dof} dof, p = ${sig3(t.ttv.pValue)}`);
+    if (t.tdv) row('TDV χ² about mean duration', `${sig3(t.tdv.chiSquare)} / ${t.tdv.dof} dof, p = ${sig3(t.tdv.pValue)}`);
+    if (t.joint) row('joint χ²', `${sig3(t.joint.chiSquare)} / ${t.joint.dof} dof, p = ${sig3(t.joint.pValue)}`);
+    row('ΔBIC TTV (k 2 → 5)', `${sig3(t.bicTtv.delta)} at ${sig3(t.bicTtv.frequencyPerEpoch)} cycles/epoch`);
+    if (t.bicTdv) row('ΔBIC TDV (k 1 → 4)', `${sig3(t.bicTdv.delta)} at ${sig3(t.bicTdv.frequencyPerEpoch)} cycles/epoch`);
+    if (t.bicJoint) row('ΔBIC joint (k 3 → 8)', `${sig3(t.bicJoint.delta)} at ${sig3(t.bicJoint.frequencyPerEpoch)} cycles/epoch`);
+    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} (Baluev 2008)`);
+    if (t.periodogramTdv) row('TDV periodogram peak', `${sig3(t.periodogramTdv.peakFrequencyPerEpoch)} cycles/epoch, FAP ${sig3(t.periodogramTdv.falseAlarmProbability)}`);
+    row('sinusoid semi-amplitudes', `TTV ${timeText(t.ttvSemiAmplitudeS)} ± ${timeText(t.ttvSemiAmplitudeErrS)}${t.tdvSemiAmplitudeS !== null ? `, TDV ${timeText(t.tdvSemiAmplitudeS)} ± ${timeText(t.tdvSemiAmplitudeErrS!)}` : ''}`);
+    const fam = t.aliasFamily;
+    row('moon periods with this alias', `${fam.count} between the stable limit and the Roche limit; first: ${fam.periodsS.slice(0, 5).map(timeText).join(', ')}${fam.nearestToImpliedS !== null ? `; nearest the TDV/TTV period: ${timeText(fam.nearestToImpliedS)}` : ''}`);
+  }
+  const s = r.amplitudeSignificance;
+  if (s) {
+    if (s.ttvZ !== null) row('claimed TTV significance', `${sig3(s.ttvZ)}σ`);
+    if (s.tdvZ !== null) row('claimed TDV significance', `${sig3(s.tdvZ)}σ`);
+    if (s.timingPrecisionS !== null) row('per-transit precision (Carter 2008)', `mid-time ${timeText(s.timingPrecisionS)}, duration ${timeText(s.durationPrecisionS ?? NaN)}`);
+  }
+
+  const imp = r.implied;
+  lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
+  if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
+  if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(imp.separationM.median / r.system.hillRadiusM)} Hill radii`);
+  row(imp.mode === 'ttv+tdv' ? 'mass' : 'lightest mass', iv(imp.massKg, earthMasses));
+  row('mass ratio M_S/M_P', iv(imp.massRatio, sig3));
+  row('coplanar (minimum) mass', earthMasses(imp.coplanarMassKg));
+  if (imp.degeneracy) {
+    const d = imp.degeneracy;
+    const pick = [0, Math.floor(d.separationM.length / 3), Math.floor((2 * d.separationM.length) / 3), d.separationM.length - 1];
+    row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(d.massKg[i])}`).join('; '));
+  }
+  lines.push(`  (${imp.note})`);
+
+  lines.push('', 'Where a moon can orbit');
+  row('Hill radius', planetRadii(r.system.hillRadiusM, rp));
+  row('stable limit prograde / retrograde', `${planetRadii(r.system.stableProgradeM, rp)} / ${planetRadii(r.system.stableRetrogradeM, rp)}`);
+  row('Roche limit rocky / icy', `${planetRadii(r.system.rocheRockyM, rp)} / ${planetRadii(r.system.rocheIcyM, rp)}`);
+  row('tidal-survival mass', earthMasses(r.system.tidalMaxMassKg));
+
+  lines.push('', 'Checks');
+  for (const c of r.checks) {
+    lines.push(`  [${c.status.toUpperCase()}] ${c.title}`);
+    lines.push(`      ${c.detail}`);
+    lines.push(`      source: ${c.source}`);
+  }
+  lines.push('', 'Cautions (alternatives to rule out; not modelled here)');
+  for (const c of r.cautions) lines.push(`  - ${c}`);
+  lines.push('', 'Assumptions');
+  for (const c of r.assumptions) lines.push(`  - ${c}`);
+  return lines.join('\n') + '\n';
+}

@@ -1,0 +1,166 @@
+/**
+ * Reads a claim file (YAML) into a validated `Claim`.
+ *
+ * Schema: `name`, `seed` (Monte Carlo seed, default 1), `star` and `planet`
+ * exactly as in a scenario (same keys, units and defaults), and a `claim:`
+ * block with either amplitudes or a table:
+ *
+ *   claim:
+ *     ttv: {amplitude: "2.5 min", uncertainty: "0.4 min", kind: rms}   # kind: rms | semi-amplitude
+ *     tdv: {amplitude: "40 s", uncertainty: "12 s", kind: rms}         # ttv and/or tdv
+ *     phase_offset: {value: "85 deg", uncertainty: "15 deg"}            # optional: TDV lag behind TTV
+ *     transits: 12                                                      # with amplitudes
+ *     table: times.csv                                                  # or a table (path relative to the claim file)
+ *     time_standard: BJD_TDB                                            # required with a table ("BJD_TDB-2457000" …)
+ *     precision: "300 ppm per 2 min"                                    # photometric white noise (for the moon-dip check)
+ *     cadence: "2 min"                                                  # optional (default: the precision's timescale)
+ *     moon_dip: none                                                    # or a claimed depth, e.g. "40 ppm"
+ *     duration: "6.2 h"                                                 # optional measured T14 (default: computed)
+ *     orientation: isotropic                                            # or coplanar (Monte Carlo prior)
+ *     draws: 4000                                                       # Monte Carlo draws
+ */
+import { readFileSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
+import { DAY_S, MINUTE_S } from '../physics/constants.js';
+import { InputError, type FieldProblem } from '../scenario/errors.js';
+import { FieldReader } from '../scenario/fieldReader.js';
+import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
+import { readPlanet, readStar } from '../scenario/parseScenario.js';
+import { parseQuantity } from '../scenario/units.js';
+import type { Claim, ClaimedAmplitude, PhotometricPrecision, TimingTable } from './claimTypes.js';
+import { TIME_STANDARD_ALLOWED, parseTimeStandard, parseTimingTable } from './timingTable.js';
+
+const DEG = Math.PI / 180;
+const DEFAULT_DRAWS = 4000;
+
+export interface ParseClaimOptions {
+  /** Folder against which `claim.table` is resolved (default: the working directory). */
+  baseDir?: string;
+  /** Reads a table file (default: readFileSync as UTF-8); injectable for tests. */
+  readText?: (path: string) => string;
+}
+
+function readAmplitude(r: FieldReader): ClaimedAmplitude {
+  const valueS = r.quantity('amplitude', 'time', { bare: [1, 'seconds'], min: 0, minExclusive: true, rangeText: 'must be a positive time, e.g. "2.5 min"' });
+  const errorS = r.quantity('uncertainty', 'time', { bare: [1, 'seconds'], min: 0, minExclusive: true, rangeText: 'must be a positive time (1σ), e.g. "0.4 min"' });
+  let kind: ClaimedAmplitude['kind'] = 'rms';
+  const rawKind = r.raw('kind');
+  if (rawKind === undefined || rawKind === null) r.problem('kind', rawKind, 'required: "rms" or "semi-amplitude" (they differ by √2 for a sinusoid)');
+  else kind = r.choice('kind', ['rms', 'semi-amplitude'] as const, 'rms');
+  r.rejectUnknown();
+  return { valueS, errorS, kind };
+}
+
+function readPrecision(r: FieldReader): PhotometricPrecision | null {
+  const raw = r.raw('precision');
+  if (raw === undefined || raw === null) return null;
+  const allowed = 'expected a white-noise level with its timescale, e.g. "300 ppm per 2 min"';
+  if (typeof raw !== 'string' || !/\sper\s/.test(raw)) {
+    r.problem('precision', raw, allowed);
+    return null;
+  }
+  const [level, scale] = raw.split(/\s+per\s+/);
+  try {
+    const noiseFraction = parseQuantity(level, 'claim.precision', 'fraction');
+    const noiseTimescaleS = parseQuantity(scale, 'claim.precision', 'time');
+    if (!(noiseFraction > 0) || !(noiseTimescaleS > 0)) throw new Error('range');
+    return { noiseFraction, noiseTimescaleS };
+  } catch {
+    r.problem('precision', raw, allowed);
+    return null;
+  }
+}
+
+/** Validate a parsed claim document. `source` names it in messages. */
+export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptions = {}): Claim {
+  const problems: FieldProblem[] = [];
+  const top = new FieldReader(doc, '', problems);
+  const name = top.string('name', 'unnamed claim');
+  const seed = top.number('seed', { default: 1, min: 0, max: 2 ** 32 - 1, integer: true, rangeText: 'expected an integer from 0 to 4294967295' });
+  if (!top.has('star')) problems.push({ path: 'star', value: undefined, allowed: 'required: the host star (mass, radius, teff, limb_darkening)' });
+  if (!top.has('planet')) problems.push({ path: 'planet', value: undefined, allowed: 'required: the transiting planet (mass, radius, period)' });
+  if (!top.has('claim')) problems.push({ path: 'claim', value: undefined, allowed: 'required: the claimed signal (ttv/tdv amplitudes or a table of transit times)' });
+  const star = readStar(new FieldReader(top.raw('star'), 'star', problems));
+  const planet = readPlanet(new FieldReader(top.raw('planet'), 'planet', problems), star, 0);
+  const c = new FieldReader(top.raw('claim'), 'claim', problems);
+  top.rejectUnknown();
+  const ttv = c.has('ttv') ? readAmplitude(new FieldReader(c.raw('ttv'), 'claim.ttv', problems)) : null;
+  const tdv = c.has('tdv') ? readAmplitude(new FieldReader(c.raw('tdv'), 'claim.tdv', problems)) : null;
+  let phaseOffset: Claim['phaseOffset'] = null;
+  if (c.has('phase_offset')) {
+    const p = new FieldReader(c.raw('phase_offset'), 'claim.phase_offset', problems);
+    const valueRad = p.quantity('value', 'angle', { bare: [DEG, 'degrees'] });
+    const errorRad = p.quantity('uncertainty', 'angle', { bare: [DEG, 'degrees'], min: 0, minExclusive: true, rangeText: 'must be a positive angle (1σ)' });
+    p.rejectUnknown();
+    phaseOffset = { valueRad, errorRad };
+  }
+  let moonDipDepth: number | null = null;
+  const dipRaw = c.raw('moon_dip');
+  if (dipRaw !== undefined && dipRaw !== null && !(typeof dipRaw === 'string' && /^\s*none\s*$/i.test(dipRaw))) {
+    moonDipDepth = c.quantity('moon_dip', 'fraction', { min: 0, minExclusive: true, max: 1, rangeText: 'expected a claimed dip depth such as "40 ppm", or none' });
+  }
+  const precision = readPrecision(c);
+  const cadenceS = c.has('cadence') ? c.quantity('cadence', 'time', { bare: [MINUTE_S, 'minutes'], min: 0, minExclusive: true, rangeText: 'must be a positive time' }) : null;
+  const durationS = c.has('duration') ? c.quantity('duration', 'time', { bare: [DAY_S / 24, 'hours'], min: 0, minExclusive: true, rangeText: 'must be a positive time' }) : null;
+  const orientation = c.choice('orientation', ['isotropic', 'coplanar'] as const, 'isotropic');
+  const draws = c.number('draws', { default: DEFAULT_DRAWS, integer: true, min: 200, max: 1_000_000, rangeText: 'expected a whole number of Monte Carlo draws from 200 to 1000000' });
+
+  let table: TimingTable | null = null;
+  let transits = NaN;
+  const hasTable = c.has('table');
+  if (hasTable) {
+    if (ttv || tdv) problems.push({ path: 'claim.table', value: c.raw('table'), allowed: 'give either a table of transit times or ttv/tdv amplitudes, not both' });
+    if (c.has('transits')) problems.push({ path: 'claim.transits', value: c.raw('transits'), allowed: 'not with a table: the number of transits is the number of rows' });
+    c.raw('transits');
+    const tablePath = c.raw('table');
+    const std = c.raw('time_standard');
+    if (std !== undefined && std !== null && parseTimeStandard(std) === null) problems.push({ path: 'claim.time_standard', value: std, allowed: TIME_STANDARD_ALLOWED });
+    if (typeof tablePath !== 'string' || tablePath.trim() === '') {
+      problems.push({ path: 'claim.table', value: tablePath, allowed: 'expected the path of a CSV or ECSV file of transit times' });
+    } else if (problems.length === 0) {
+      const full = resolve(opts.baseDir ?? '.', tablePath);
+      let text: string;
+      try {
+        text = (opts.readText ?? ((p: string) => readFileSync(p, 'utf8')))(full);
+      } catch (e) {
+        const code = (e as NodeJS.ErrnoException).code;
+        throw new InputError([{ path: 'claim.table', value: tablePath, allowed: code === 'ENOENT' ? `no such file (${full})` : `cannot read it (${code ?? String(e)})` }], source);
+      }
+      table = parseTimingTable(text, tablePath, typeof std === 'string' ? std : null, planet.periodS);
+      transits = table.epochs.length;
+    }
+  } else {
+    if (c.has('time_standard')) {
+      c.raw('time_standard');
+      problems.push({ path: 'claim.time_standard', value: c.raw('time_standard'), allowed: 'only with a table of transit times' });
+    }
+    if (!ttv && !tdv && top.has('claim')) problems.push({ path: 'claim', value: top.raw('claim'), allowed: 'needs ttv and/or tdv amplitudes ({amplitude, uncertainty, kind}), or a table of transit times' });
+    transits = c.number('transits', { integer: true, min: 3, max: 10000, rangeText: 'required with amplitudes: the number of transits behind the claim (3 to 10000)' });
+  }
+  c.rejectUnknown();
+  if (problems.length > 0) throw new InputError(problems, source);
+  return { name, seed, star, planet, ttv, tdv, phaseOffset, moonDipDepth, precision, cadenceS, transits, durationS, table, orientation, draws };
+}
+
+/** Parse claim YAML text; problems carry the line numbers of the YAML nodes. */
+export function parseClaimText(text: string, source = 'claim', opts: ParseClaimOptions = {}): Claim {
+  const { value, lineOf } = parseYamlWithLines(text, source);
+  try {
+    return parseClaim(value, source, opts);
+  } catch (e) {
+    if (e instanceof InputError) throw withLines(e, lineOf, source);
+    throw e;
+  }
+}
+
+/** Read and validate a claim file; a `claim.table` is resolved against the file's folder. */
+export function loadClaim(path: string): Claim {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError([{ path: 'CLAIM', value: path, allowed: code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? String(e)})` }]);
+  }
+  return parseClaimText(text, path, { baseDir: dirname(resolve(path)) });
+}

@@ -1,0 +1,156 @@
+/** The result of vetting a claimed moon signal (`vetClaim`); every quantity SI. */
+import type { RunsTest } from './runsTest.js';
+
+export type CheckStatus = 'pass' | 'tension' | 'fail' | 'not tested';
+export type Verdict = 'consistent with a moon' | 'in tension' | 'implausible';
+
+export type CheckId =
+  | 'significance'
+  | 'stability'
+  | 'roche'
+  | 'mass-ratio'
+  | 'tidal-survival'
+  | 'phase'
+  | 'moon-dip'
+  | 'residual-noise'
+  | 'precision';
+
+export interface VetCheck {
+  id: CheckId;
+  title: string;
+  status: CheckStatus;
+  /** The numbers behind the status, in words. */
+  detail: string;
+  /** Where the threshold comes from. */
+  source: string;
+}
+
+/** Median and central 1σ / 2σ intervals (quantiles 15.87/84.13 % and 2.275/97.725 %) of a Monte Carlo sample. */
+export interface QuantileSummary {
+  median: number;
+  lo1: number;
+  hi1: number;
+  lo2: number;
+  hi2: number;
+}
+
+export interface ChiSquareSummary {
+  chiSquare: number;
+  dof: number;
+  pValue: number;
+}
+
+/** BIC = χ² + k ln N (Schwarz 1978, Ann. Stat. 6, 461) of the no-moon and moon models; delta = no-moon − moon (> 0 favours the moon). */
+export interface BicComparison {
+  points: number;
+  kNoMoon: number;
+  kMoon: number;
+  bicNoMoon: number;
+  bicMoon: number;
+  delta: number;
+  frequencyPerEpoch: number;
+}
+
+export interface PeriodogramSummary {
+  frequency: number[];
+  power: number[];
+  peakFrequencyPerEpoch: number;
+  peakPower: number;
+  falseAlarmProbability: number;
+}
+
+export interface TableSignificance {
+  transits: number;
+  ttv: ChiSquareSummary;
+  tdv: ChiSquareSummary | null;
+  joint: ChiSquareSummary | null;
+  bicTtv: BicComparison;
+  bicTdv: BicComparison | null;
+  bicJoint: BicComparison | null;
+  periodogramTtv: PeriodogramSummary;
+  periodogramTdv: PeriodogramSummary | null;
+  /** The sinusoid behind the amplitudes: frequency, semi-amplitudes and 1σ. */
+  frequencyPerEpoch: number;
+  ttvSemiAmplitudeS: number;
+  ttvSemiAmplitudeErrS: number;
+  tdvSemiAmplitudeS: number | null;
+  tdvSemiAmplitudeErrS: number | null;
+  /** χ² of the data about the moon model (ephemeris + sinusoids). */
+  residual: ChiSquareSummary;
+  runs: RunsTest;
+  /** Moon periods that alias to the frequency, within the Roche–stability range of period ratios. */
+  aliasFamily: { count: number; minRatio: number; maxRatio: number; periodsS: number[]; nearestToImpliedS: number | null };
+}
+
+export interface AmplitudeSignificance {
+  ttvZ: number | null;
+  tdvZ: number | null;
+  /** Carter et al. (2008) per-transit precisions at the stated photometric precision, s. */
+  timingPrecisionS: number | null;
+  durationPrecisionS: number | null;
+  /** p-value a white-noise χ² test over the claimed transits would give for the claimed rms (expected χ²). */
+  expectedTtvPValue: number | null;
+  expectedTdvPValue: number | null;
+}
+
+export interface ImpliedMoonSummary {
+  mode: 'ttv+tdv' | 'ttv only' | 'tdv only';
+  orientation: 'isotropic' | 'coplanar';
+  draws: number;
+  seed: number;
+  /** With both amplitudes; null otherwise. */
+  moonPeriodS: QuantileSummary | null;
+  separationM: QuantileSummary | null;
+  /** Mass (with one amplitude only: the lightest moon the stable band allows). */
+  massKg: QuantileSummary;
+  massRatio: QuantileSummary;
+  /** Separation at which `massKg` is evaluated in single-amplitude mode, m. */
+  massAtSeparationM: number | null;
+  /** Mass for a coplanar orbit at the central amplitudes, kg. */
+  coplanarMassKg: number;
+  /** Single-amplitude degeneracy curve M_S(a_S) at the 2.3, 50 and 97.7 % amplitude quantiles. */
+  degeneracy: { separationM: number[]; massKg: number[]; massLoKg: number[]; massHiKg: number[] } | null;
+  note: string;
+}
+
+export interface SystemSummary {
+  hillRadiusM: number;
+  stableProgradeM: number;
+  stableRetrogradeM: number;
+  rocheRockyM: number;
+  rocheIcyM: number;
+  tidalMaxMassKg: number;
+  /** τ̄ used for TDV, s. */
+  durationS: number;
+  barycentreVelocityMS: number;
+  planetMassKg: number;
+  planetRadiusM: number;
+}
+
+export interface TimingSeriesSummary {
+  epochs: number[];
+  ttvS: number[];
+  ttvErrS: number[];
+  ttvModelS: number[];
+  tdvS: number[] | null;
+  tdvErrS: number[] | null;
+  tdvModelS: number[] | null;
+}
+
+export interface VetResult {
+  claim: string;
+  input: 'amplitudes' | 'table';
+  verdict: Verdict;
+  /** Reasons, failures first then tensions, most basic first. */
+  reasons: string[];
+  checks: VetCheck[];
+  cautions: string[];
+  assumptions: string[];
+  system: SystemSummary;
+  /** The rms amplitudes the inversion used (claimed, or estimated from the table), s. */
+  amplitudes: { ttvRmsS: number | null; ttvRmsErrS: number | null; tdvRmsS: number | null; tdvRmsErrS: number | null };
+  tableSignificance: TableSignificance | null;
+  amplitudeSignificance: AmplitudeSignificance | null;
+  implied: ImpliedMoonSummary;
+  series: TimingSeriesSummary | null;
+}

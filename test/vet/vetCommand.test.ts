@@ -1,0 +1,62 @@
+import { describe, it, expect } from 'vitest';
+import { Command } from 'commander';
+import { mkdtempSync, readFileSync, writeFileSync, copyFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { registerVet } from '../../src/cli/vetCommand.js';
+import { InputError } from '../../src/scenario/errors.js';
+
+const demo = new URL('../../scenarios/demo-claim.yaml', import.meta.url).pathname;
+const demoTimes = new URL('../../scenarios/demo-claim-times.csv', import.meta.url).pathname;
+
+async function run(args: string[]) {
+  let out = '';
+  const io = { out: (t: string) => { out += t; }, err: () => {} };
+  const program = new Command().exitOverride();
+  registerVet(program, io);
+  await program.parseAsync(['node', 'moonsieve', 'vet', ...args]);
+  return out;
+}
+
+describe('moonsieve vet', () => {
+  it('prints a verdict with ranked reasons for the demo claim', async () => {
+    const out = await run([demo]);
+    expect(out).toMatch(/VERDICT: (CONSISTENT WITH A MOON|IN TENSION|IMPLAUSIBLE)/);
+    expect(out).toMatch(/\n {2}1\. /);
+    expect(out).toMatch(/Implied moon \(ttv\+tdv/);
+    expect(out).toMatch(/Cautions/);
+  });
+
+  it('--json gives the result with SI keys; --html writes a self-contained page', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-vet-'));
+    const html = join(dir, 'vet.html');
+    const out = await run([demo, '--json', '--html', html]);
+    const r = JSON.parse(out);
+    expect(['consistent with a moon', 'in tension', 'implausible']).toContain(r.verdict);
+    expect(r.implied.separationM.median).toBeGreaterThan(0);
+    expect(r.tableSignificance.transits).toBe(13);
+    const page = readFileSync(html, 'utf8');
+    expect(page).toContain('Plotly.newPlot');
+    expect(page).not.toMatch(/<script[^>]+src=/);
+  });
+
+  it('user text reaching the page is escaped', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-vet-'));
+    copyFileSync(demoTimes, join(dir, 'demo-claim-times.csv'));
+    const claim = join(dir, 'claim.yaml');
+    writeFileSync(claim, readFileSync(demo, 'utf8').replace('name: Veyluna b (claimed moon)', 'name: "<script>alert(1)</script>"'));
+    await run([claim, '--html', join(dir, 'p.html')]);
+    const page = readFileSync(join(dir, 'p.html'), 'utf8');
+    expect(page).not.toContain('<script>alert(1)</script>');
+    expect(page).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+  });
+
+  it('a table without a stated time standard is refused with an InputError (exit code 2 in main)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-vet-'));
+    copyFileSync(demoTimes, join(dir, 'demo-claim-times.csv'));
+    const claim = join(dir, 'claim.yaml');
+    writeFileSync(claim, readFileSync(demo, 'utf8').replace(/\n\s*time_standard: .*\n/, '\n'));
+    await expect(run([claim])).rejects.toBeInstanceOf(InputError);
+    await expect(run([claim])).rejects.toThrow(/time_standard.*Eastman/s);
+  });
+});
