@@ -59,8 +59,8 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
   row('ingress', dur(l.ingress_duration_s));
   row('depth at mid-transit', `${(l.transit_depth * 1e6).toFixed(0)} ppm`);
   row('white noise per exposure', `${(l.noise_per_exposure * 1e6).toFixed(1)} ppm`);
-  row('mid-time precision (Carter 2008 + cadence)', dur(l.timing_precision_s));
-  row('duration precision', dur(l.duration_precision_s));
+  row('mid-time precision (model Fisher bound)', `${dur(l.timing_precision_s)} (Carter 2008 trapezoid: ${dur(l.timing_precision_carter_s)})`);
+  row('duration precision (model Fisher bound)', `${dur(l.duration_precision_s)} (Carter 2008 trapezoid: ${dur(l.duration_precision_carter_s)})`);
   if (s.moon && l.moon_placement) {
     const m = s.moon;
     lines.push('', `The moon: ${fmt(m.massKg / M_EARTH_KG)} Mearth at ${(m.separationM / rp).toFixed(1)} Rp (${(m.separationM / l.hill_radius_m).toFixed(3)} Hill radii), ${m.retrograde ? 'retrograde' : 'prograde'}`);
@@ -72,6 +72,7 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
     row('TTV alias (sampled once per transit)', `${l.ttv_alias_frequency_per_epoch!.toFixed(4)} cycles/epoch, period ${l.ttv_alias_period_epochs!.toFixed(2)} epochs`);
     row('moon periods with the same alias', l.ttv_alias_family_periods_s!.map((p) => `${(p / DAY_S).toFixed(3)} d`).join(', '));
     row('moon dip depth', `${l.moon_depth_ppm!.toFixed(2)} ppm`);
+    row('photocentric / barycentric TTV weight', `${l.photocentric_ratio!.toPrecision(2)}${l.forecast_regime_ok ? '' : '  (forecast outside its regime: see below)'}`);
     row(`forecast detection, ${l.transits} transits`, `joint ${(100 * l.forecast_detection_probability!).toFixed(1)} % (TTV ${(100 * l.forecast_ttv_probability!).toFixed(1)} %, TDV ${(100 * l.forecast_tdv_probability!).toFixed(1)} %) at false-alarm ${l.false_alarm_probability}`);
     const e = l.energy_budget!;
     lines.push('', 'Energy budget at the moon (orbit- and globally averaged, absorbed)');

@@ -5,10 +5,14 @@
  */
 import { Command, CommanderError } from 'commander';
 import { InputError } from '../scenario/errors.js';
-import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK } from './exitCodes.js';
+import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_INTERRUPTED, EXIT_OK } from './exitCodes.js';
 import { registerSimulate } from './simulateCommand.js';
 import { registerLimits } from './limitsCommand.js';
 import { registerVet } from './vetCommand.js';
+import { registerSweep } from './sweepCommand.js';
+import { registerMerge } from './mergeCommand.js';
+import { registerReport } from './reportCommand.js';
+import { SweepInterruptedError } from '../sweep/interrupted.js';
 import { VERSION } from '../version.js';
 
 export interface CliIo {
@@ -30,6 +34,9 @@ export function buildProgram(io: CliIo): Command {
     .exitOverride()
     .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(s) })
     .showHelpAfterError('(run with --help for usage)');
+  registerSweep(program, io);
+  registerMerge(program, io);
+  registerReport(program, io);
   registerSimulate(program, io);
   registerLimits(program, io);
   registerVet(program, io);
@@ -47,6 +54,7 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
       if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help') return EXIT_OK;
       return EXIT_BAD_INPUT; // commander already printed its one-line message
     }
+    if (e instanceof SweepInterruptedError) return EXIT_INTERRUPTED; // the command already said how to resume
     if (e instanceof InputError) {
       io.err(`moonsieve: ${e.message}\n`);
       return EXIT_BAD_INPUT;

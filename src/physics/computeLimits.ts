@@ -20,6 +20,9 @@ import { forecastDetection } from './detectionForecast.js';
 import { transitDurations } from './transitDuration.js';
 import { transitFluxScalar } from '../photometry/transitFlux.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
+import { modelTimingPrecision } from '../timing/modelTimingPrecision.js';
+import { templateGeometryFromScenario } from '../timing/transitTemplate.js';
+import { windowHalfWidthS } from '../photometry/transitWindows.js';
 
 /** Why a moon can or cannot be where the scenario puts it. */
 export type PlacementLabel = 'stable' | 'beyond stable limit' | 'inside Roche limit' | 'would not survive tidal migration';
@@ -54,8 +57,12 @@ export interface LimitsJson {
   ingress_duration_s: number;
   transit_depth: number;
   noise_per_exposure: number;
+  /** Cramér–Rao bound from the exact limb-darkened, exposure-averaged model (used by the forecast). */
   timing_precision_s: number;
   duration_precision_s: number;
+  /** Carter et al. (2008) trapezoid with the Price & Rogers (2014) cadence correction, for reference. */
+  timing_precision_carter_s: number;
+  duration_precision_carter_s: number;
   habitable_zone_inner_m: number | null;
   habitable_zone_outer_m: number | null;
   moon_separation_m: number | null;
@@ -70,6 +77,10 @@ export interface LimitsJson {
   ttv_alias_period_epochs: number | null;
   ttv_alias_family_periods_s: number[] | null;
   moon_depth_ppm: number | null;
+  /** (R_S/R_P)² / (M_S/M_P): above ~0.2 the moon's own dip shifts the fitted mid-times (photocentric TTV). */
+  photocentric_ratio: number | null;
+  /** Whether the forecast's assumptions hold (barycentric TTV dominates; see `assumptions`). */
+  forecast_regime_ok: boolean | null;
   false_alarm_probability: number;
   transits: number;
   forecast_detection_probability: number | null;
@@ -131,7 +142,11 @@ export function computeLimits(s: Scenario): LimitsJson {
   });
   // The fits measure the first-to-last-contact duration T14 by stretching a template, so the
   // Carter et al. (2008) error on T (mid-ingress to mid-egress) is scaled by T14/T (approximation).
-  const durationPrecision = prec.sigmaDurS * (dur.t14S / dur.tMidS);
+  const carterDurationPrecision = prec.sigmaDurS * (dur.t14S / dur.tMidS);
+  // The forecast uses the Cramér–Rao bound of the model the recovery actually fits.
+  const model = modelTimingPrecision(templateGeometryFromScenario(s), sigma, instrument.cadenceS, windowHalfWidthS(s));
+  const modelTcPrecision = model.sigmaTcS;
+  const durationPrecision = model.sigmaDurationS;
 
   let hzInner: number | null = null;
   let hzOuter: number | null = null;
@@ -143,7 +158,7 @@ export function computeLimits(s: Scenario): LimitsJson {
   const assumptions: string[] = [
     'nested two-body (Kepler) orbits: no perturbations by the star on the moon orbit, no other planets',
     'TTV/TDV amplitudes from the barycentric reflex motion only (no photocentric TTV from the moon dip)',
-    'timing precision from the Carter et al. (2008) trapezoid with white noise; limb darkening and red noise make the real errors larger',
+    'per-transit precision is the Cramér–Rao bound of the limb-darkened, exposure-averaged model under white noise; red noise, spots and systematics make real errors larger',
     `detection forecast: noncentral chi-square of white-noise TTV/TDV excesses at false-alarm probability ${s.detection.falseAlarm}`,
     'Roche limit, stability band and tidal survival are fits and idealisations, not guarantees',
   ];
@@ -164,8 +179,10 @@ export function computeLimits(s: Scenario): LimitsJson {
     ingress_duration_s: dur.ingressS,
     transit_depth: depth,
     noise_per_exposure: sigma,
-    timing_precision_s: prec.sigmaTcS,
+    timing_precision_s: modelTcPrecision,
     duration_precision_s: durationPrecision,
+    timing_precision_carter_s: prec.sigmaTcS,
+    duration_precision_carter_s: carterDurationPrecision,
     habitable_zone_inner_m: hzInner,
     habitable_zone_outer_m: hzOuter,
     moon_separation_m: null,
@@ -180,6 +197,8 @@ export function computeLimits(s: Scenario): LimitsJson {
     ttv_alias_period_epochs: null,
     ttv_alias_family_periods_s: null,
     moon_depth_ppm: null,
+    photocentric_ratio: null,
+    forecast_regime_ok: null,
     false_alarm_probability: s.detection.falseAlarm,
     transits: observation.transits,
     forecast_detection_probability: null,
@@ -216,7 +235,7 @@ export function computeLimits(s: Scenario): LimitsJson {
   const dip = moonDipDepth({ moonRadiusM: moon.radiusM, starRadiusM: star.radiusM, u1: star.u1, u2: star.u2, impactParameter: Math.min(planet.impactParameter, 0.999) });
   const forecast = forecastDetection({
     nTransits: observation.transits,
-    sigmaTcS: prec.sigmaTcS,
+    sigmaTcS: modelTcPrecision,
     sigmaDurS: durationPrecision,
     ttvRmsS: sig.ttvRmsS,
     tdvRmsS: sig.tdvRmsS,
@@ -246,6 +265,18 @@ export function computeLimits(s: Scenario): LimitsJson {
   const runaway = runawayGreenhouseFlux(surfaceGravity(moon.massKg, moon.radiusM));
   const outerEdge = habitableZoneEdgeFlux(star.teffK, KOPPARAPU_2013.maximumGreenhouse, { allowExtrapolation: true });
   const verdict = habitabilityVerdict(budget, runaway, outerEdge);
+  // Photocentric TTV (Szabó et al. 2006, A&A 450, 395; Simon et al. 2007, A&A 470, 727): a fit of a
+  // planet-only template to a transit blended with the moon's dip follows the light-weighted centre,
+  // which moves against the barycentric reflex with weight (R_S/R_P)² versus M_S/M_P.
+  const photocentric = (moon.radiusM / planet.radiusM) ** 2 / (moon.massKg / planet.massKg);
+  const regimeOk = photocentric < 0.2 && observation.transits >= 3;
+  if (!regimeOk) {
+    out.assumptions.push(
+      photocentric >= 0.2
+        ? `the moon's own dip is large for its mass ((R_S/R_P)²/(M_S/M_P) = ${photocentric.toPrecision(2)}): its photocentric TTV (Szabó et al. 2006) partly cancels or reverses the barycentric TTV, so the analytic forecast does not hold; trust the Monte Carlo sweep`
+        : 'fewer than 3 transits: no TTV excess against a linear ephemeris can be measured',
+    );
+  }
 
   return {
     ...out,
@@ -261,6 +292,8 @@ export function computeLimits(s: Scenario): LimitsJson {
     ttv_alias_period_epochs: alias.aliasPeriodEpochs,
     ttv_alias_family_periods_s: family,
     moon_depth_ppm: dip.depthChordMean * 1e6,
+    photocentric_ratio: photocentric,
+    forecast_regime_ok: regimeOk,
     forecast_detection_probability: forecast.joint.probability,
     forecast_ttv_probability: forecast.ttv.probability,
     forecast_tdv_probability: forecast.tdv.probability,

@@ -1,0 +1,17 @@
+/** `moonsieve merge DIR...`: join the shard outputs of one sweep into one result, identical to an unsharded run. */
+import type { Command } from 'commander';
+import { mergeShards } from '../sweep/merge.js';
+import type { CliIo } from './main.js';
+
+export function registerMerge(program: Command, io: CliIo): void {
+  program
+    .command('merge')
+    .description('joins shard outputs of one sweep into one result, identical to an unsharded run')
+    .argument('<dirs...>', 'output folders of the shards (each with cells.json and run.json)')
+    .option('--out <dir>', 'output folder (default reports/<scenario name>/)')
+    .action((dirs: string[], opts: { out?: string }) => {
+      const res = mergeShards(dirs, opts.out);
+      io.out(`${res.meta.scenario}: merged ${dirs.length} folders, ${res.results.length} of ${res.meta.cells} cells\n`);
+      for (const f of res.files) io.out(`wrote ${f}\n`);
+    });
+}

@@ -1,0 +1,132 @@
+/**
+ * The sweep's cells arranged for plotting: which axis goes across (x) and
+ * which up (y), the probability each channel gives a cell (Monte Carlo or,
+ * in a forecast-only run, the analytic forecast), and z matrices [row = y][col = x].
+ * Cells are row-major over the axes, last axis fastest (src/sweep/grid.ts).
+ */
+import type { CellResult } from '../sweep/cellTypes.js';
+import type { SweepMeta, SweepAxisMeta } from '../sweep/sweepMeta.js';
+
+export type MapChannel = 'combined' | 'ttv' | 'tdv' | 'dip';
+export const MAP_CHANNELS: readonly MapChannel[] = ['combined', 'ttv', 'tdv', 'dip'];
+export const CHANNEL_LABELS: Record<MapChannel, string> = { combined: 'combined (any channel)', ttv: 'TTV', tdv: 'TDV', dip: 'moon dip' };
+
+/** The cell field holding a channel's detection probability, or null when the run has none. */
+export function channelField(channel: MapChannel, forecastOnly: boolean): string | null {
+  if (!forecastOnly) return `p_${channel}`;
+  return { combined: 'forecast_joint', ttv: 'forecast_ttv', tdv: 'forecast_tdv', dip: null }[channel];
+}
+
+/** A number field of a cell, or null (JSON turned NaN into null; missing fields are null too). */
+export function num(c: CellResult | undefined, key: string): number | null {
+  const v = c?.[key];
+  return typeof v === 'number' && Number.isFinite(v) ? v : null;
+}
+
+/** Detection probability of a cell in a channel; null for cells without one (not simulated). */
+export function cellProbability(c: CellResult, channel: MapChannel, forecastOnly: boolean): number | null {
+  const f = channelField(channel, forecastOnly);
+  if (f === null) return null;
+  if (!forecastOnly && c.simulated !== true) return null;
+  return num(c, f);
+}
+
+export interface GridLayout {
+  /** Index into meta.axes of the axis drawn across (x) and up (y); y is null for a 1-axis sweep. */
+  xAxis: number;
+  yAxis: number | null;
+  nx: number;
+  ny: number;
+  /** Cell at column i (x), row j (y); undefined where the output lacks it (a shard). */
+  cellAt(i: number, j: number): CellResult | undefined;
+}
+
+/**
+ * Axis placement: with two axes, y is the moon mass when it is swept (so the
+ * minimum detectable mass reads upward), else the first axis; x is the other.
+ */
+export function gridLayout(meta: SweepMeta, cells: readonly CellResult[]): GridLayout {
+  const byIndex = new Map<number, CellResult>();
+  for (const c of cells) byIndex.set(c.index, c);
+  const axes = meta.axes;
+  if (axes.length === 1) {
+    return { xAxis: 0, yAxis: null, nx: axes[0].values.length, ny: 1, cellAt: (i) => byIndex.get(i) };
+  }
+  const massAxis = axes.findIndex((a) => a.field === 'moon.mass');
+  const yAxis = massAxis >= 0 ? massAxis : 0;
+  const xAxis = 1 - yAxis;
+  const n1 = axes[1].values.length;
+  const nx = axes[xAxis].values.length;
+  const ny = axes[yAxis].values.length;
+  const cellAt = (i: number, j: number): CellResult | undefined => {
+    const i0 = yAxis === 0 ? j : i;
+    const i1 = yAxis === 0 ? i : j;
+    return byIndex.get(i0 * n1 + i1);
+  };
+  return { xAxis, yAxis, nx, ny, cellAt };
+}
+
+/** z[row j][col i] of any per-cell quantity (null where undefined). */
+export function gridMatrix(layout: GridLayout, value: (c: CellResult) => number | null): Array<Array<number | null>> {
+  const z: Array<Array<number | null>> = [];
+  for (let j = 0; j < layout.ny; j++) {
+    const row: Array<number | null> = [];
+    for (let i = 0; i < layout.nx; i++) {
+      const c = layout.cellAt(i, j);
+      row.push(c ? value(c) : null);
+    }
+    z.push(row);
+  }
+  return z;
+}
+
+/**
+ * Edges between neighbouring cell centres (arithmetic midpoints, or geometric
+ * for log axes), extended by half a step at each end: n + 1 values.
+ */
+export function cellEdges(values: readonly number[], log: boolean): number[] {
+  const n = values.length;
+  if (n === 0) return [];
+  if (n === 1) return log ? [values[0] / 1.1, values[0] * 1.1] : [values[0] - 0.5 * Math.abs(values[0] || 1) * 0.1, values[0] + 0.5 * Math.abs(values[0] || 1) * 0.1];
+  const mid = (a: number, b: number) => (log ? Math.sqrt(a * b) : 0.5 * (a + b));
+  const out = [log ? (values[0] * values[0]) / mid(values[0], values[1]) : 2 * values[0] - mid(values[0], values[1])];
+  for (let k = 0; k + 1 < n; k++) out.push(mid(values[k], values[k + 1]));
+  out.push(log ? (values[n - 1] * values[n - 1]) / mid(values[n - 2], values[n - 1]) : 2 * values[n - 1] - mid(values[n - 2], values[n - 1]));
+  return out;
+}
+
+/**
+ * The outline of a set of cells (e.g. the temperate ones) as polyline
+ * segments along cell edges, separated by nulls (plotly draws gaps there):
+ * every side of a marked cell whose neighbour is unmarked or off the grid.
+ */
+export function regionOutline(
+  layout: GridLayout,
+  marked: (c: CellResult) => boolean,
+  xEdges: readonly number[],
+  yEdges: readonly number[],
+): { x: Array<number | null>; y: Array<number | null> } {
+  const x: Array<number | null> = [];
+  const y: Array<number | null> = [];
+  const is = (i: number, j: number): boolean => {
+    if (i < 0 || j < 0 || i >= layout.nx || j >= layout.ny) return false;
+    const c = layout.cellAt(i, j);
+    return c !== undefined && marked(c);
+  };
+  const seg = (x0: number, y0: number, x1: number, y1: number): void => {
+    x.push(x0, x1, null);
+    y.push(y0, y1, null);
+  };
+  for (let j = 0; j < layout.ny; j++) {
+    for (let i = 0; i < layout.nx; i++) {
+      if (!is(i, j)) continue;
+      if (!is(i - 1, j)) seg(xEdges[i], yEdges[j], xEdges[i], yEdges[j + 1]);
+      if (!is(i + 1, j)) seg(xEdges[i + 1], yEdges[j], xEdges[i + 1], yEdges[j + 1]);
+      if (!is(i, j - 1)) seg(xEdges[i], yEdges[j], xEdges[i + 1], yEdges[j]);
+      if (!is(i, j + 1)) seg(xEdges[i], yEdges[j + 1], xEdges[i + 1], yEdges[j + 1]);
+    }
+  }
+  return { x, y };
+}
+
+export type { SweepAxisMeta };

@@ -1,0 +1,82 @@
+/**
+ * Re-render `report.html` and `summary.json` of a finished sweep folder from
+ * its `cells.json` (and `run.json`), without re-running any cell. The
+ * scenario document (needed for the physical boundaries, example cells and
+ * assumptions) comes from `scenarioPath`, else from `<dir>/scenario.yaml`
+ * when present; either must hash to the sweep's scenario hash.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { writeFileAtomic } from '../io/atomicWrite.js';
+import { InputError } from '../scenario/errors.js';
+import { parseYamlWithLines } from '../scenario/loadScenario.js';
+import { scenarioHash } from '../sweep/canonicalJson.js';
+import { parseCellsJson, type SweepRunInfo } from '../sweep/outputs.js';
+import { buildSummary, renderSummaryJson, type SweepSummary } from './summary.js';
+import { renderSweepReport } from './sweepReport.js';
+
+export interface RewriteReportResult {
+  files: string[];
+  summary: SweepSummary;
+  /** Where the scenario document came from (null: none, the page omits what needs it). */
+  scenarioSource: string | null;
+}
+
+function readText(path: string, what: string): string {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError([{ path: what, value: path, allowed: code === 'ENOENT' ? 'no such file: expected the output folder of a finished sweep' : `cannot read it (${code ?? String(e)})` }]);
+  }
+}
+
+function readScenarioDoc(path: string): unknown {
+  return parseYamlWithLines(readText(path, 'SCENARIO'), path).value;
+}
+
+export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } = {}): RewriteReportResult {
+  const cellsPath = join(dir, 'cells.json');
+  let parsed: ReturnType<typeof parseCellsJson>;
+  try {
+    parsed = parseCellsJson(readText(cellsPath, 'DIR'));
+  } catch (e) {
+    if (e instanceof InputError) throw e;
+    throw new InputError([{ path: 'DIR', value: cellsPath, allowed: `not a moonsieve cells.json (${e instanceof Error ? e.message : String(e)})` }]);
+  }
+  const { meta, cells } = parsed;
+  const runPath = join(dir, 'run.json');
+  let runInfo: SweepRunInfo | null = null;
+  if (existsSync(runPath)) {
+    try {
+      runInfo = JSON.parse(readFileSync(runPath, 'utf8')) as SweepRunInfo;
+    } catch {
+      runInfo = null;
+    }
+  }
+  let scenario: unknown = null;
+  let scenarioSource: string | null = null;
+  if (opts.scenarioPath !== undefined) {
+    scenario = readScenarioDoc(opts.scenarioPath);
+    const h = scenarioHash(scenario);
+    if (h !== meta.scenario_hash) {
+      throw new InputError([{ path: '--scenario', value: opts.scenarioPath, allowed: `this is not the scenario the sweep ran (hash ${h.slice(0, 12)}…, the sweep's is ${meta.scenario_hash.slice(0, 12)}…)` }]);
+    }
+    scenarioSource = opts.scenarioPath;
+  } else {
+    const local = join(dir, 'scenario.yaml');
+    if (existsSync(local)) {
+      const doc = readScenarioDoc(local);
+      if (scenarioHash(doc) === meta.scenario_hash) {
+        scenario = doc;
+        scenarioSource = local;
+      }
+    }
+  }
+  const summary = buildSummary(meta, cells);
+  const html = renderSweepReport({ meta, cells, runInfo, scenario, summary });
+  const files = [join(dir, 'summary.json'), join(dir, 'report.html')];
+  writeFileAtomic(files[0], renderSummaryJson(summary));
+  writeFileAtomic(files[1], html);
+  return { files, summary, scenarioSource };
+}

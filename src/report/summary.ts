@@ -1,0 +1,204 @@
+/**
+ * `summary.json`: the headline numbers the report's plain-language summary
+ * quotes, computed once from cells.json so the page and the file agree.
+ *
+ * Definitions
+ * - A habitable-zone moon is a cell whose moon is physically allowed
+ *   (placement "stable": outside the Roche limit, inside the stable limit,
+ *   surviving tidal migration) and whose energy budget is "temperate".
+ * - Its detection probability is the Monte Carlo combined-channel estimate
+ *   `p_combined` (any of TTV, TDV, moon dip above its calibrated threshold),
+ *   or in a forecast-only run the analytic joint forecast `forecast_joint`.
+ * - "Detected at 90 %" means that probability ≥ 0.9; "confidently" adds that
+ *   the lower Wilson bound `p_combined_lo` is ≥ 0.9 too (Monte Carlo only).
+ */
+import { M_EARTH_KG } from '../physics/constants.js';
+import type { CellResult } from '../sweep/cellTypes.js';
+import type { SweepMeta } from '../sweep/sweepMeta.js';
+import { cellProbability, gridLayout, num, type GridLayout } from './reportGrid.js';
+import { minDetectable, type MinDetectablePoint } from './minDetectable.js';
+
+export const SUMMARY_SCHEMA = 'moonsieve-summary/1';
+
+export interface SummaryCell {
+  index: number;
+  coords: number[];
+  moon_mass_kg: number | null;
+  moon_mass_earth: number | null;
+  moon_separation_m: number | null;
+  moon_separation_hill: number | null;
+  probability: number;
+}
+
+export interface SweepSummary {
+  schema: string;
+  scenario: string;
+  scenario_hash: string;
+  moonsieve_version: string;
+  seed: number;
+  basis: 'monte carlo' | 'forecast';
+  probability_field: 'p_combined' | 'forecast_joint';
+  realizations: number | null;
+  false_alarm_requested: number;
+  /** Measured combined false-alarm rate over the simulated cells: min, median, max (null when none). */
+  false_alarm_measured_combined: { min: number; median: number; max: number } | null;
+  cells: number;
+  cells_grid: number;
+  cells_simulated: number;
+  cells_stable: number;
+  cells_temperate: number;
+  /** Stable and temperate. */
+  cells_habitable: number;
+  habitable_detected_50: number;
+  habitable_detected_90: number;
+  habitable_detected_90_confident: number | null;
+  /** The lightest habitable-zone moon detected at 90 %, when the moon mass varies over the grid. */
+  smallest_habitable_detected_90: SummaryCell | null;
+  /** The same over every stable cell, temperate or not. */
+  stable_detected_90: number;
+  smallest_stable_detected_90: SummaryCell | null;
+  /** The habitable-zone cell with the highest probability still below 0.9. */
+  closest_habitable_miss: SummaryCell | null;
+  /** Range of each axis (SI) over the habitable cells detected at 90 %. */
+  habitable_detected_90_axis_ranges: Array<{ field: string; unit: string; min: number; max: number }>;
+  moon_mass_varies: boolean;
+  /**
+   * On a two-axis grid: per x value, the smallest y (direction 'increasing',
+   * e.g. moon mass) or the largest y ('decreasing', e.g. noise level) that
+   * reaches 50 % and 90 % (see minDetectable.ts).
+   */
+  min_detectable: {
+    y_field: string;
+    direction: 'increasing' | 'decreasing';
+    x_field: string;
+    level_50: MinDetectablePoint[];
+    level_90: MinDetectablePoint[];
+  } | null;
+}
+
+function median(xs: number[]): number {
+  const v = [...xs].sort((a, b) => a - b);
+  const h = v.length >> 1;
+  return v.length % 2 ? v[h] : 0.5 * (v[h - 1] + v[h]);
+}
+
+function summaryCell(c: CellResult, p: number): SummaryCell {
+  const m = num(c, 'moon_mass_kg');
+  return {
+    index: c.index,
+    coords: c.coords,
+    moon_mass_kg: m,
+    moon_mass_earth: m === null ? null : m / M_EARTH_KG,
+    moon_separation_m: num(c, 'moon_separation_m'),
+    moon_separation_hill: num(c, 'moon_separation_hill'),
+    probability: p,
+  };
+}
+
+/** Lightest (then lowest index) of cells; null when empty. */
+function lightest(cs: Array<{ c: CellResult; p: number }>): SummaryCell | null {
+  let best: { c: CellResult; p: number } | null = null;
+  for (const e of cs) {
+    const m = num(e.c, 'moon_mass_kg') ?? Infinity;
+    const bm = best ? (num(best.c, 'moon_mass_kg') ?? Infinity) : Infinity;
+    if (!best || m < bm || (m === bm && e.c.index < best.c.index)) best = e;
+  }
+  return best ? summaryCell(best.c, best.p) : null;
+}
+
+/** Fields along which a larger value makes a moon easier to detect. */
+const EASIER_WHEN_LARGER = new Set(['moon.mass', 'moon.radius', 'moon.separation', 'observation.transits', 'observation.baseline', 'moon.density']);
+/** Fields along which a larger value makes it harder. */
+const HARDER_WHEN_LARGER = new Set(['instrument.noise', 'instrument.cadence', 'instrument.exposure', 'star.radius', 'planet.mass']);
+
+/** Whether detection improves ('increasing') or worsens ('decreasing') along the y axis: known fields, else the data. */
+function detectionDirection(layout: GridLayout, field: string, yValues: readonly number[], prob: (c: CellResult) => number | null): 'increasing' | 'decreasing' {
+  if (EASIER_WHEN_LARGER.has(field)) return 'increasing';
+  if (HARDER_WHEN_LARGER.has(field)) return 'decreasing';
+  const jLo = yValues.indexOf(Math.min(...yValues));
+  const jHi = yValues.indexOf(Math.max(...yValues));
+  let lo = 0;
+  let hi = 0;
+  for (let i = 0; i < layout.nx; i++) {
+    const a = layout.cellAt(i, jLo);
+    const b = layout.cellAt(i, jHi);
+    lo += (a && prob(a)) ?? 0;
+    hi += (b && prob(b)) ?? 0;
+  }
+  return hi >= lo ? 'increasing' : 'decreasing';
+}
+
+export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): SweepSummary {
+  const fo = meta.forecast_only;
+  const prob = (c: CellResult): number | null => cellProbability(c, 'combined', fo);
+  const sorted = [...cells].sort((a, b) => a.index - b.index);
+  const stable = sorted.filter((c) => c.stable === true);
+  const habitable = stable.filter((c) => c.habitability === 'temperate');
+  const withP = (cs: CellResult[]) => cs.map((c) => ({ c, p: prob(c) })).filter((e): e is { c: CellResult; p: number } => e.p !== null);
+  const habP = withP(habitable);
+  const stableP = withP(stable);
+  const hab90 = habP.filter((e) => e.p >= 0.9);
+  const stable90 = stableP.filter((e) => e.p >= 0.9);
+  const masses = new Set(sorted.map((c) => num(c, 'moon_mass_kg')).filter((m) => m !== null));
+  const massVaries = masses.size > 1;
+
+  let miss: { c: CellResult; p: number } | null = null;
+  for (const e of habP) if (e.p < 0.9 && (!miss || e.p > miss.p)) miss = e;
+
+  const fa = sorted.filter((c) => c.simulated === true).map((c) => num(c, 'false_alarm_measured_combined')).filter((x): x is number => x !== null);
+
+  let minDet: SweepSummary['min_detectable'] = null;
+  if (meta.axes.length === 2) {
+    const layout = gridLayout(meta, sorted);
+    const xa = meta.axes[layout.xAxis];
+    const ya = meta.axes[layout.yAxis as number];
+    const ylog = ya.spacing === 'log';
+    const direction = detectionDirection(layout, ya.field, ya.values, prob);
+    minDet = {
+      y_field: ya.field,
+      direction,
+      x_field: xa.field,
+      level_50: minDetectable(layout, xa.values, ya.values, ylog, prob, 0.5, direction),
+      level_90: minDetectable(layout, xa.values, ya.values, ylog, prob, 0.9, direction),
+    };
+  }
+
+  return {
+    schema: SUMMARY_SCHEMA,
+    scenario: meta.scenario,
+    scenario_hash: meta.scenario_hash,
+    moonsieve_version: meta.moonsieve_version,
+    seed: meta.seed,
+    basis: fo ? 'forecast' : 'monte carlo',
+    probability_field: fo ? 'forecast_joint' : 'p_combined',
+    realizations: fo ? null : meta.realizations,
+    false_alarm_requested: meta.false_alarm,
+    false_alarm_measured_combined: fa.length ? { min: Math.min(...fa), median: median(fa), max: Math.max(...fa) } : null,
+    cells: sorted.length,
+    cells_grid: meta.cells,
+    cells_simulated: sorted.filter((c) => c.simulated === true).length,
+    cells_stable: stable.length,
+    cells_temperate: sorted.filter((c) => c.habitability === 'temperate').length,
+    cells_habitable: habitable.length,
+    habitable_detected_50: habP.filter((e) => e.p >= 0.5).length,
+    habitable_detected_90: hab90.length,
+    habitable_detected_90_confident: fo ? null : hab90.filter((e) => (num(e.c, 'p_combined_lo') ?? 0) >= 0.9).length,
+    smallest_habitable_detected_90: massVaries ? lightest(hab90) : null,
+    stable_detected_90: stable90.length,
+    smallest_stable_detected_90: massVaries ? lightest(stable90) : null,
+    closest_habitable_miss: miss ? summaryCell(miss.c, miss.p) : null,
+    habitable_detected_90_axis_ranges: hab90.length
+      ? meta.axes.map((a, k) => {
+          const v = hab90.map((e) => e.c.coords[k]);
+          return { field: a.field, unit: a.unit, min: Math.min(...v), max: Math.max(...v) };
+        })
+      : [],
+    moon_mass_varies: massVaries,
+    min_detectable: minDet,
+  };
+}
+
+/** summary.json text. */
+export function renderSummaryJson(summary: SweepSummary): string {
+  return JSON.stringify(summary, null, 2) + '\n';
+}

@@ -1,0 +1,90 @@
+/**
+ * The plain-language summary at the top of the report, written only from a
+ * `SweepSummary` (summary.json), so the page quotes exactly those numbers.
+ * Every quoted number is wrapped as
+ *   <span class="num" data-summary-key="path.in.summary" data-value="<JSON>" data-format="count|percent|sig3">text</span>
+ * which the tests read back and compare with summary.json.
+ */
+import { escapeHtml } from './escape.js';
+import { axisDisplay, formatNumber } from './axisDisplay.js';
+import type { SweepSummary, SummaryCell } from './summary.js';
+import type { SweepMeta } from '../sweep/sweepMeta.js';
+
+type Format = 'count' | 'percent' | 'sig3';
+
+/** Display text of a summary number in a format (shared with the tests' read-back). */
+export function formatSummaryValue(v: number, format: Format): string {
+  if (format === 'count') return String(v);
+  if (format === 'percent') return `${formatNumber(100 * v)} %`;
+  return formatNumber(v);
+}
+
+/** A quoted number: `v` as in summary.json, shown as v / divisor with a display unit. */
+function span(key: string, v: number, format: Format, unit = '', divisor = 1): string {
+  const text = formatSummaryValue(v / divisor, format) + (unit ? ` ${unit}` : '');
+  return `<span class="num" data-summary-key="${escapeHtml(key)}" data-value="${escapeHtml(JSON.stringify(v))}" data-divisor="${divisor}" data-format="${format}">${escapeHtml(text)}</span>`;
+}
+
+/** An axis value (SI) in the axis's display unit. */
+function axisSpan(key: string, v: number, field: string, unit: string): string {
+  const d = axisDisplay({ field, unit, spacing: 'linear' });
+  return span(key, v, 'sig3', d.unitLabel, d.divisor);
+}
+
+function describeCell(key: string, c: SummaryCell, meta: SweepMeta): string {
+  const parts: string[] = [];
+  if (c.moon_mass_earth !== null) parts.push(span(`${key}.moon_mass_earth`, c.moon_mass_earth, 'sig3', 'M⊕'));
+  if (c.moon_separation_m !== null) parts.push(`at ${span(`${key}.moon_separation_m`, c.moon_separation_m, 'sig3', '×10³ km', 1e6)}`);
+  if (c.moon_separation_hill !== null) parts.push(`(${span(`${key}.moon_separation_hill`, c.moon_separation_hill, 'sig3')} Hill radii)`);
+  const other = meta.axes
+    .map((a, k) => ({ a, k }))
+    .filter(({ a }) => a.field !== 'moon.mass' && a.field !== 'moon.separation')
+    .map(({ a, k }) => {
+      const d = axisDisplay(a);
+      return `${escapeHtml(d.title.replace(/ \(.*\)$/, ''))} ${axisSpan(`${key}.coords.${k}`, c.coords[k], a.field, a.unit)}`;
+    });
+  if (other.length) parts.push(`with ${other.join(', ')}`);
+  parts.push(`(cell ${span(`${key}.index`, c.index, 'count')}, probability ${span(`${key}.probability`, c.probability, 'percent')})`);
+  return parts.join(' ');
+}
+
+export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
+  const out: string[] = [];
+  const basis = s.basis === 'forecast'
+    ? 'analytic forecast only (no simulations were run: <code>--forecast-only</code>); probabilities are the joint TTV/TDV forecast'
+    : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (TTV, TDV or moon dip), per-channel false-alarm probability ${span('false_alarm_requested', s.false_alarm_requested, 'sig3')}`;
+  out.push(`<p><strong>Basis:</strong> ${basis}.</p>`);
+  const hz = `Of the ${span('cells', s.cells, 'count')} cells, ${span('cells_habitable', s.cells_habitable, 'count')} hold a habitable-zone moon (physically allowed and with a temperate energy budget).`;
+  if (s.cells_habitable > 0) {
+    let t = `${hz} Detected with at least 90 % probability: ${span('habitable_detected_90', s.habitable_detected_90, 'count')}`;
+    if (s.habitable_detected_90_confident !== null) t += ` (${span('habitable_detected_90_confident', s.habitable_detected_90_confident, 'count')} with the 95 % lower bound above 90 %)`;
+    t += `; with at least 50 %: ${span('habitable_detected_50', s.habitable_detected_50, 'count')}.`;
+    out.push(`<p class="headline">${t}</p>`);
+    if (s.smallest_habitable_detected_90) {
+      out.push(`<p class="headline">The lightest habitable-zone moon detected at 90 %: ${describeCell('smallest_habitable_detected_90', s.smallest_habitable_detected_90, meta)}.</p>`);
+    } else if (s.habitable_detected_90 === 0) {
+      out.push('<p class="headline">No habitable-zone moon on this grid reaches 90 % detection probability.</p>');
+    }
+    if (!s.moon_mass_varies && s.habitable_detected_90_axis_ranges.length) {
+      const r = s.habitable_detected_90_axis_ranges.map((a, k) => {
+        const d = axisDisplay({ field: a.field, unit: a.unit, spacing: 'linear' });
+        return `${escapeHtml(d.title.replace(/ \(.*\)$/, ''))} from ${axisSpan(`habitable_detected_90_axis_ranges.${k}.min`, a.min, a.field, a.unit)} to ${axisSpan(`habitable_detected_90_axis_ranges.${k}.max`, a.max, a.field, a.unit)}`;
+      });
+      out.push(`<p>The habitable-zone cells detected at 90 % span ${r.join('; ')}.</p>`);
+    }
+  } else {
+    out.push(`<p class="headline">${hz} Over all ${span('cells_stable', s.cells_stable, 'count')} physically allowed cells, ${span('stable_detected_90', s.stable_detected_90, 'count')} are detected with at least 90 % probability.</p>`);
+    if (s.smallest_stable_detected_90) {
+      out.push(`<p>The lightest physically allowed moon detected at 90 %: ${describeCell('smallest_stable_detected_90', s.smallest_stable_detected_90, meta)}.</p>`);
+    }
+  }
+  const change: string[] = [];
+  if (s.closest_habitable_miss) {
+    change.push(`The nearest miss among habitable-zone moons: ${describeCell('closest_habitable_miss', s.closest_habitable_miss, meta)}.`);
+  }
+  change.push(
+    'The TTV amplitude grows in proportion to moon mass × separation (Kipping 2009, MNRAS 392, 181), and the timing signal-to-noise ratio as √(transits observed) divided by the per-transit timing precision, which scales with the photometric noise per √time (Carter et al. 2008, ApJ 689, 499). Roughly, detecting a moon half as massive at the same separation needs four times as many transits or twice the timing precision; more transits also help the TDV and moon-dip channels.',
+  );
+  out.push(`<p><strong>What would change it:</strong> ${change.join(' ')}</p>`);
+  return `<section id="summary">\n<h2>Summary</h2>\n${out.join('\n')}\n</section>`;
+}

@@ -1,0 +1,155 @@
+/**
+ * `renderSweepReport`: the self-contained HTML report of a sweep (plotly
+ * inlined, opens offline): plain-language summary, detectability map with a
+ * channel selector, contours at 50 % and 90 %, physical boundaries and the
+ * habitable region, minimum detectable mass, Monte Carlo against the
+ * analytic forecast, example cells, assumptions and cautions. Every piece of
+ * user text is escaped (escape.ts); data reach the page's scripts only as
+ * JSON made safe for <script> (jsonForScript).
+ */
+import type { CellResult } from '../sweep/cellTypes.js';
+import type { SweepMeta } from '../sweep/sweepMeta.js';
+import type { SweepRunInfo } from '../sweep/outputs.js';
+import { scenarioHash } from '../sweep/canonicalJson.js';
+import { escapeHtml, jsonForScript } from './escape.js';
+import { renderPlotlyPage, type Figure } from './plotlyPage.js';
+import { buildSummary, type SweepSummary } from './summary.js';
+import { renderSummaryHtml } from './summaryText.js';
+import { physicalBoundaries } from './physicalBoundaries.js';
+import { gridFigures, mapTitles, MAP_Z_TRACES } from './mapFigures.js';
+import { computeExampleCells, type ExampleCell } from './exampleCells.js';
+import { exampleFigures } from './exampleFigures.js';
+import { assumptionRows } from './assumptionsTable.js';
+import { axisDisplay, formatDisplay, formatNumber } from './axisDisplay.js';
+import { CHANNEL_LABELS, MAP_CHANNELS } from './reportGrid.js';
+
+export interface SweepReportInput {
+  meta: SweepMeta;
+  cells: readonly CellResult[];
+  /** run.json of the run (null when unknown). */
+  runInfo: SweepRunInfo | null;
+  /**
+   * The scenario document as plain values (the parsed YAML, with its sweep
+   * block), as hashed into meta.scenario_hash; null when unavailable (then the
+   * physical boundaries, example cells and most assumptions are omitted).
+   */
+  scenario: unknown;
+  /** Example cells; computed from the scenario when omitted (pass [] for none). */
+  examples?: ExampleCell[];
+  /** The summary; built with buildSummary(meta, cells) when omitted. */
+  summary?: SweepSummary;
+}
+
+const CAUTIONS = [
+  'These are forecasts from a model, not a guarantee: real light curves carry correlated noise, systematics and gaps that make detection harder than shown.',
+  'Astrophysical false positives are not modelled: stellar activity (spots, flares, granulation) and other planets in the system can also produce transit timing and duration variations.',
+  'The planet and moon follow nested two-body (Kepler) orbits; the habitability verdict is a first screen from a globally averaged energy budget, not a climate model.',
+  'A detection here means a statistical excess in a channel at the stated false-alarm probability; claiming a moon needs the full vetting (e.g. moonsieve vet) and independent data.',
+];
+
+function exampleSection(ex: ExampleCell, k: number, meta: SweepMeta): string {
+  const coords = meta.axes.map((a, i) => `${escapeHtml(axisDisplay(a).title.replace(/ \(.*\)$/, ''))} ${escapeHtml(formatDisplay(axisDisplay(a), ex.coords[i]))}`).join(', ');
+  const fam = ex.aliasFamilyPeriodsS.length
+    ? ` Moon periods with the same folded TTV frequency: ${ex.aliasFamilyPeriodsS.map((p) => `${formatNumber(p / 86400)} d`).join(', ')}; the periodogram alone cannot tell them apart.`
+    : '';
+  const pg = ex.periodogram ? `<div id="ex${k}-ls" class="plot plot-small"></div>` : '<p>Fewer than four transits were fitted: no periodogram.</p>';
+  return `<section class="example" data-cell="${ex.index}">
+<h3>Cell ${ex.index} (${escapeHtml(ex.label)}, detection probability ${escapeHtml(formatNumber(100 * ex.probability))} %): ${coords}</h3>
+<p>Realization 0 of this cell, drawn from the same seeded generator as in the sweep.${ex.aliasFrequencyPerEpoch !== null ? ` The moon's TTV frequency folds to ${escapeHtml(formatNumber(ex.aliasFrequencyPerEpoch))} cycles per epoch (green line).` : ''}${escapeHtml(fam)}</p>
+<div id="ex${k}-lc" class="plot plot-small"></div>
+<div id="ex${k}-timing" class="plot plot-small"></div>
+${pg}
+</section>`;
+}
+
+export function renderSweepReport(input: SweepReportInput): string {
+  const { meta, runInfo } = input;
+  const cells = [...input.cells].sort((a, b) => a.index - b.index);
+  if (input.scenario !== null && input.scenario !== undefined) {
+    const h = scenarioHash(input.scenario);
+    if (h !== meta.scenario_hash) throw new RangeError(`scenario must be the document the sweep ran (hash ${meta.scenario_hash.slice(0, 12)}…), got one with hash ${h.slice(0, 12)}…`);
+  }
+  const scenarioDoc = input.scenario ?? null;
+  const summary = input.summary ?? buildSummary(meta, cells);
+  const boundaries = physicalBoundaries(scenarioDoc);
+  const grid = gridFigures(meta, cells, boundaries, summary);
+  const examples = input.examples ?? (scenarioDoc !== null ? computeExampleCells(scenarioDoc, meta, cells) : []);
+  const figures: Figure[] = [...grid.figures, ...examples.flatMap((ex, k) => exampleFigures(ex, k))];
+  const ids = new Set(grid.figures.map((f) => f.id));
+
+  const buttons = MAP_CHANNELS.map((ch) => {
+    const ok = grid.channelZ[ch] !== null;
+    return `<button type="button" data-channel="${ch}" aria-pressed="${ch === 'combined'}"${ok ? '' : ' disabled title="not available in a forecast-only run"'}>${escapeHtml(CHANNEL_LABELS[ch])}</button>`;
+  }).join('');
+  const selectorScript = `<script>
+window.moonsieveMap = ${jsonForScript({ z: grid.channelZ, titles: mapTitles(meta), traces: MAP_Z_TRACES, twoAxis: grid.twoAxis, channels: MAP_CHANNELS })};
+function moonsieveSelectChannel(ch) {
+  var m = window.moonsieveMap, z = m.z[ch];
+  if (!z) return;
+  var el = document.getElementById('map');
+  if (m.twoAxis) {
+    Plotly.restyle(el, { z: m.traces.map(function () { return z; }) }, m.traces);
+    Plotly.relayout(el, { 'title.text': m.titles[ch] });
+  } else {
+    var vis = m.channels.map(function (c) { return c === ch ? true : 'legendonly'; });
+    Plotly.restyle(el, { visible: vis.filter(function (v, i) { return m.z[m.channels[i]] !== null; }) }, m.channels.map(function (c, i) { return i; }).filter(function (i) { return m.z[m.channels[i]] !== null; }));
+  }
+  document.querySelectorAll('#channel-select button').forEach(function (b) { b.setAttribute('aria-pressed', String(b.getAttribute('data-channel') === ch)); });
+}
+document.addEventListener('click', function (e) {
+  var b = e.target && e.target.closest ? e.target.closest('#channel-select button') : null;
+  if (b && !b.disabled) moonsieveSelectChannel(b.getAttribute('data-channel'));
+});
+</script>`;
+
+  const linesDrawn = boundaries !== null && meta.axes.some((a) => a.field === 'moon.separation' || a.field === 'moon.mass');
+  const mapNote = grid.twoAxis
+    ? `White contours at 50 % (dashed) and 90 % (solid). Green outline: cells whose energy budget is temperate (the habitable region). ${linesDrawn ? 'Orange lines: Roche limit (dashed), stable limit for prograde (solid) and retrograde (dotted) moons; pink dash-dot: the largest moon that survives tidal migration (base scenario; shown where the axes are moon separation and mass). ' : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits)${meta.forecast_only ? '' : '; they are not simulated and left blank'}. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
+    : 'Lines: detection probability per channel with 95 % Wilson intervals; grey lines at 50 % and 90 %; green bands: temperate energy budget; crosses: cells whose moon is not physically allowed.';
+  const mcSection = meta.forecast_only
+    ? '<p>Not available: this is a forecast-only run (no Monte Carlo).</p>'
+    : `<p>Red: the simulations detect more often than the analytic forecast predicts; blue: less often. Circles mark cells where the forecast falls outside the Monte Carlo 95 % interval.</p><div id="mcdiff" class="plot"></div>`;
+  const body = `
+<header>
+<h1>Exomoon detectability: ${escapeHtml(meta.scenario)}</h1>
+<p class="meta">moonsieve ${escapeHtml(meta.moonsieve_version)} · seed ${meta.seed} · scenario hash <code>${escapeHtml(meta.scenario_hash.slice(0, 16))}…</code>${runInfo ? ` · ${escapeHtml(runInfo.finished)}` : ''}</p>
+</header>
+${renderSummaryHtml(summary, meta)}
+<section id="cautions" class="caution">
+<h2>Cautions</h2>
+<ul>${CAUTIONS.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
+</section>
+<section id="map-section">
+<h2>Detectability map</h2>
+<div id="channel-select" role="group" aria-label="detection channel">Channel: ${buttons}</div>
+<div id="map" class="plot plot-tall"></div>
+<p class="note">${escapeHtml(mapNote)}</p>
+</section>
+${ids.has('mindet') && summary.min_detectable ? `<section id="mindet-section"><h2>${summary.min_detectable.direction === 'increasing' ? 'Minimum' : 'Largest'} detectable ${escapeHtml(axisDisplay(meta.axes[summary.min_detectable.y_field === meta.axes[0].field ? 0 : 1]).title.replace(/ \(.*\)$/, ''))}</h2>
+<p class="note">For each column of the map, the ${summary.min_detectable.direction === 'increasing' ? 'smallest' : 'largest'} value reaching the level, interpolated between grid cells; triangles: already reached at the ${summary.min_detectable.direction === 'increasing' ? 'lowest' : 'highest'} grid value (the true limit lies beyond the grid); gaps: not reached on the grid.</p>
+<div id="mindet" class="plot"></div></section>` : ''}
+<section id="mc-section">
+<h2>Monte Carlo against the analytic forecast</h2>
+${mcSection}
+</section>
+<section id="examples">
+<h2>Example cells</h2>
+${examples.length ? examples.map((ex, k) => exampleSection(ex, k, meta)).join('\n') : `<p>${scenarioDoc === null ? 'Not available without the scenario document.' : 'No cell qualifies (no physically allowed, simulated cell).'}</p>`}
+</section>
+<section id="assumptions">
+<h2>Assumptions</h2>
+<table>${assumptionRows(meta, summary, scenarioDoc, runInfo, cells).map(([k, v]) => `<tr><th>${escapeHtml(k)}</th><td>${escapeHtml(v)}</td></tr>`).join('\n')}</table>
+<p class="note">Tables beside this page: <code>cells.ecsv</code> and <code>cells.json</code> (every cell), <code>summary.json</code> (the numbers quoted above), <code>run.json</code>. To save a figure for a paper, use the camera icon in the plot's toolbar (PNG, works offline).</p>
+</section>
+${selectorScript}
+<style>
+.plot-tall { height: 640px; } .plot-small { height: 360px; }
+#channel-select button { margin: 0 0.2rem; padding: 0.25rem 0.7rem; border: 1px solid #888; background: #fff; border-radius: 4px; cursor: pointer; }
+#channel-select button[aria-pressed="true"] { background: #00204c; color: #fff; }
+#channel-select button:disabled { opacity: 0.45; cursor: not-allowed; }
+.note { font-size: 0.9rem; color: #444; } .meta { color: #555; }
+.headline { font-size: 1.05rem; } .num { font-weight: 600; }
+th { vertical-align: top; white-space: nowrap; }
+</style>`;
+  return renderPlotlyPage({ title: `moonsieve: ${meta.scenario}`, bodyHtml: body, figures });
+}

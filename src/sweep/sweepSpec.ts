@@ -1,0 +1,270 @@
+/**
+ * The `sweep:` block of a scenario: one or two axes over any numeric
+ * scenario field, the realizations per cell and whether physically
+ * unstable cells are simulated. A scenario with a moon and no sweep block
+ * (or a block without `axes`) gets the default grid: moon mass, log-spaced
+ * from 0.05 to 2 Earth masses, × moon separation from the fluid Roche limit
+ * to the stable limit, 20 × 20.
+ *
+ *   sweep:
+ *     realizations: 100
+ *     simulate_unstable: false
+ *     axes:
+ *       - {field: moon.mass, from: 0.05 Mearth, to: 2 Mearth, count: 20, spacing: log}
+ *       - {field: moon.separation, from: roche, to: stable, count: 20, spacing: linear}
+ *
+ * `moon.separation` endpoints may also be `roche` (fluid Roche limit),
+ * `stable` (the prograde or retrograde stable limit, by the moon's direction),
+ * "0.3 hill" (fraction of the Hill radius) or "12 Rp" (planet radii), all of
+ * the base scenario as `computeLimits` gives them.
+ */
+import { computeLimits } from '../physics/computeLimits.js';
+import { InputError, type FieldProblem } from '../scenario/errors.js';
+import { FieldReader } from '../scenario/fieldReader.js';
+import { parseScenario } from '../scenario/parseScenario.js';
+import type { Scenario } from '../scenario/types.js';
+import { parseQuantity, splitNumberUnit } from '../scenario/units.js';
+import { AXIS_FIELDS, axisUnit, type AxisFieldDef, type AxisWriteContext } from './axisFields.js';
+import { applyAxisValues } from './applyAxes.js';
+
+export { applyAxisValues };
+
+export type AxisSpacing = 'linear' | 'log';
+
+export interface SweepAxis {
+  field: string;
+  /** SI unit of `values` ('' for plain numbers and fractions). */
+  unit: string;
+  spacing: AxisSpacing;
+  /** Endpoints as written in the scenario (or the default), and in SI. */
+  fromText: string;
+  toText: string;
+  from: number;
+  to: number;
+  /** Count requested; `values.length` may be smaller for integer fields (rounded, duplicates removed). */
+  count: number;
+  /** Axis values, SI. */
+  values: number[];
+  write: AxisWriteContext;
+}
+
+export interface SweepSpec {
+  realizations: number;
+  simulateUnstable: boolean;
+  axes: SweepAxis[];
+  /** True when the axes are the default moon mass × separation grid. */
+  defaultAxes: boolean;
+  /** Things the user should know (rounded integer axes, empty stable band...). */
+  notes: string[];
+}
+
+export const DEFAULT_REALIZATIONS = 100;
+export const MAX_AXIS_COUNT = 10000;
+
+/** The default axes, in the same form as a sweep block's. */
+export const DEFAULT_AXES: ReadonlyArray<Record<string, unknown>> = [
+  { field: 'moon.mass', from: '0.05 Mearth', to: '2 Mearth', count: 20, spacing: 'log' },
+  { field: 'moon.separation', from: 'roche', to: 'stable', count: 20, spacing: 'linear' },
+];
+
+/**
+ * Read the sweep block of `doc` (a scenario document as plain values) against
+ * its parsed `base` scenario. Throws InputError listing every problem, each
+ * with a path such as `sweep.axes[0].field`.
+ */
+export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'): SweepSpec {
+  const problems: FieldProblem[] = [];
+  const raw = doc !== null && typeof doc === 'object' ? (doc as Record<string, unknown>).sweep : undefined;
+  const r = new FieldReader(raw, 'sweep', problems);
+  const realizations = r.number('realizations', {
+    default: DEFAULT_REALIZATIONS, integer: true, min: 1, max: 1_000_000,
+    rangeText: 'expected a whole number of realizations per cell from 1 to 1000000',
+  });
+  const unstableRaw = r.raw('simulate_unstable');
+  let simulateUnstable = false;
+  if (unstableRaw !== undefined && unstableRaw !== null) {
+    if (typeof unstableRaw === 'boolean') simulateUnstable = unstableRaw;
+    else r.problem('simulate_unstable', unstableRaw, 'expected true or false');
+  }
+  const axesRaw = r.raw('axes');
+  r.rejectUnknown();
+
+  const defaultAxes = axesRaw === undefined || axesRaw === null;
+  let axisDocs: unknown[] = [];
+  let prefix = 'sweep.axes';
+  if (defaultAxes) {
+    if (!base.moon) {
+      problems.push({
+        path: raw === undefined || raw === null ? 'sweep' : 'sweep.axes',
+        value: undefined,
+        allowed: 'the scenario has no moon, so there is no default grid (moon mass × separation): add a sweep block with axes, e.g. axes: [{field: observation.transits, from: 2, to: 20, count: 10}]',
+      });
+    }
+    axisDocs = base.moon ? (DEFAULT_AXES as unknown[]) : [];
+    prefix = 'sweep.axes (default)';
+  } else if (!Array.isArray(axesRaw) || axesRaw.length < 1 || axesRaw.length > 2) {
+    problems.push({ path: 'sweep.axes', value: axesRaw, allowed: 'expected a list of one or two axes, each {field, from, to, count, spacing}' });
+  } else {
+    axisDocs = axesRaw;
+  }
+
+  const notes: string[] = [];
+  const axes: SweepAxis[] = [];
+  axisDocs.forEach((a, i) => {
+    const axis = readAxis(a, `${prefix}[${i}]`, doc, base, problems, notes);
+    if (axis) {
+      if (axes.some((b) => b.field === axis.field)) {
+        problems.push({ path: `${prefix}[${i}].field`, value: axis.field, allowed: 'each axis must vary a different field' });
+      } else {
+        axes.push(axis);
+      }
+    }
+  });
+  if (problems.length > 0) throw new InputError(problems, source);
+  return { realizations, simulateUnstable, axes, defaultAxes, notes };
+}
+
+function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, problems: FieldProblem[], notes: string[]): SweepAxis | null {
+  const before = problems.length;
+  const r = new FieldReader(raw, path, problems);
+  const field = r.string('field', '');
+  const fromRaw = r.raw('from');
+  const toRaw = r.raw('to');
+  const count = r.number('count', { integer: true, min: 1, max: MAX_AXIS_COUNT, rangeText: `expected a whole number of values from 1 to ${MAX_AXIS_COUNT}` });
+  const spacing = r.choice('spacing', ['linear', 'log'] as const, 'linear');
+  r.rejectUnknown();
+  const d = AXIS_FIELDS.get(field);
+  if (!d) {
+    r.problem('field', field === '' ? r.raw('field') : field, `expected one of the numeric scenario fields: ${[...AXIS_FIELDS.keys()].join(', ')}`);
+    return null;
+  }
+  if (d.section === 'moon' && !base.moon) {
+    r.problem('field', field, 'the scenario has no moon block to vary; add one (its values are the defaults for the other moon fields)');
+    return null;
+  }
+  const from = readEndpoint(r, 'from', fromRaw, field, d, base);
+  const to = readEndpoint(r, 'to', toRaw, field, d, base);
+  if (problems.length > before) return null;
+  if (spacing === 'log' && !(from > 0 && to > 0)) {
+    r.problem(from > 0 ? 'to' : 'from', from > 0 ? toRaw : fromRaw, 'log spacing needs from and to above zero');
+    return null;
+  }
+  let values = spacedValues(from, to, count, spacing);
+  if (d.value.type === 'integer') {
+    const rounded = [...new Set(values.map((v) => Math.round(v)))];
+    if (rounded.length !== values.length || rounded.some((v, k) => v !== values[k])) {
+      notes.push(`${field}: values rounded to whole numbers${rounded.length < values.length ? `, duplicates removed (${values.length} → ${rounded.length} values)` : ''}: ${rounded.join(', ')}`);
+    }
+    values = rounded;
+  }
+  const write: AxisWriteContext = {};
+  if (field === 'instrument.noise') write.noiseTimescaleS = base.instrument.noiseTimescaleS;
+  if (field === 'instrument.cadence') {
+    const instrument = (doc as Record<string, unknown>).instrument as Record<string, unknown> | undefined;
+    if (instrument && instrument.exposure !== undefined && instrument.exposure !== null) {
+      write.exposureRatio = base.instrument.exposureS / base.instrument.cadenceS;
+      notes.push(`instrument.cadence: the exposure follows the cadence at the scenario's ratio exposure/cadence = ${write.exposureRatio}`);
+    }
+  }
+  if (field === 'moon.separation' && base.moon) {
+    const lim = computeLimits(base);
+    const stable = base.moon.retrograde ? lim.stable_max_separation_retrograde_m : lim.stable_max_separation_m;
+    if (lim.roche_limit_m >= stable) notes.push(`moon.separation: the fluid Roche limit (${lim.roche_limit_m.toPrecision(4)} m) lies beyond the stable limit (${stable.toPrecision(4)} m): no separation is both`);
+  }
+  const axis: SweepAxis = { field, unit: axisUnit(d), spacing, fromText: endpointText(fromRaw), toText: endpointText(toRaw), from, to, count, values, write };
+  checkEndpointsParse(axis, path, doc, problems);
+  return axis;
+}
+
+function endpointText(raw: unknown): string {
+  return typeof raw === 'string' ? raw : String(raw);
+}
+
+/** An endpoint in SI, read like the scenario field itself (plus the separation words). */
+function readEndpoint(r: FieldReader, key: 'from' | 'to', raw: unknown, field: string, d: AxisFieldDef, base: Scenario): number {
+  const path = r.path(key);
+  if (raw === undefined || raw === null) {
+    r.problem(key, raw, `required: the ${key === 'from' ? 'first' : 'last'} value of ${field}`);
+    return Number.NaN;
+  }
+  try {
+    if (field === 'moon.separation') return separationEndpoint(raw, path, base);
+    if (d.value.type === 'quantity') return parseQuantity(raw, path, d.value.kind, d.value.bare?.[0], d.value.bare?.[1]);
+    const n = typeof raw === 'number' ? raw : typeof raw === 'string' && raw.trim() !== '' ? Number(raw) : Number.NaN;
+    if (!Number.isFinite(n)) throw new InputError([{ path, value: raw, allowed: `expected a number (${field} has no unit)` }]);
+    return n;
+  } catch (e) {
+    if (e instanceof InputError) r.problems.push(...e.problems);
+    else throw e;
+    return Number.NaN;
+  }
+}
+
+function separationEndpoint(raw: unknown, path: string, base: Scenario): number {
+  const moon = base.moon;
+  if (!moon) throw new InputError([{ path, value: raw, allowed: 'the scenario has no moon' }]);
+  const allowed = 'expected "roche" (fluid Roche limit), "stable" (stable limit), a Hill fraction ("0.3 hill"), planet radii ("12 Rp") or a length ("1e9 m")';
+  if (typeof raw === 'string') {
+    const word = raw.trim().toLowerCase();
+    if (word === 'roche' || word === 'stable' || /\s*(hill)$/.test(word)) {
+      const lim = computeLimits(base);
+      if (word === 'roche') return lim.roche_limit_m;
+      if (word === 'stable') return moon.retrograde ? lim.stable_max_separation_retrograde_m : lim.stable_max_separation_m;
+      const nu = splitNumberUnit(raw);
+      if (nu && nu.unit === 'hill' && nu.num > 0) return nu.num * lim.hill_radius_m;
+      throw new InputError([{ path, value: raw, allowed: 'a Hill fraction must be positive, e.g. "0.3 hill"' }]);
+    }
+    const nu = splitNumberUnit(raw);
+    if (nu && nu.unit === 'Rp') {
+      if (nu.num > 0) return nu.num * base.planet.radiusM;
+      throw new InputError([{ path, value: raw, allowed: 'planet radii must be positive, e.g. "12 Rp"' }]);
+    }
+  }
+  try {
+    return parseQuantity(raw, path, 'length');
+  } catch {
+    throw new InputError([{ path, value: raw, allowed }]);
+  }
+}
+
+/**
+ * `count` values from `from` to `to` (both included): evenly spaced, or evenly
+ * spaced in the logarithm (v_i = from·(to/from)^{i/(n−1)}). The ends are exact.
+ */
+export function spacedValues(from: number, to: number, count: number, spacing: AxisSpacing): number[] {
+  if (!Number.isInteger(count) || count < 1) throw new RangeError(`count must be an integer ≥ 1, got ${count}`);
+  if (!Number.isFinite(from) || !Number.isFinite(to)) throw new RangeError(`from and to must be finite, got ${from}, ${to}`);
+  if (spacing === 'log' && !(from > 0 && to > 0)) throw new RangeError(`log spacing needs from > 0 and to > 0, got ${from}, ${to}`);
+  const out = new Array<number>(count);
+  if (count === 1) {
+    out[0] = from;
+    return out;
+  }
+  const lf = Math.log(from);
+  const lt = Math.log(to);
+  for (let i = 0; i < count; i++) {
+    const t = i / (count - 1);
+    out[i] = i === 0 ? from : i === count - 1 ? to : spacing === 'log' ? Math.exp(lf + t * (lt - lf)) : from + t * (to - from);
+  }
+  return out;
+}
+
+/**
+ * Both ends of each axis must give a valid scenario (values run monotonically
+ * between them, so the range checks of the scenario hold for the whole axis).
+ * A refusal is reported on the axis's `from`/`to`.
+ */
+function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, problems: FieldProblem[]): void {
+  const ends: Array<['from' | 'to', number, string]> = [['from', axis.values[0], axis.fromText], ['to', axis.values[axis.values.length - 1], axis.toText]];
+  for (const [key, value, text] of ends) {
+    try {
+      parseScenario(applyAxisValues(doc, [axis], [value]));
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      for (const p of e.problems) {
+        problems.push({ path: `${path}.${key}`, value: text, allowed: `with ${axis.field} = ${value}${axis.unit ? ' ' + axis.unit : ''} the scenario is refused: ${p.path}: ${p.allowed}` });
+      }
+      if (axis.values.length === 1) break;
+    }
+  }
+}

@@ -1,0 +1,124 @@
+/**
+ * summary.json and the page's plain-language summary. Expected values are
+ * recomputed in the test directly from cells.json by the definitions stated
+ * in src/report/summary.ts ("computed from cells.json in the test"), and the
+ * page's quoted numbers are read back from its data-summary-key spans.
+ */
+import { describe, it, expect, beforeAll } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { Command } from 'commander';
+import { runTinySweep, type TinySweep } from './tinySweep.js';
+import { buildSummary } from '../../src/report/summary.js';
+import { formatSummaryValue } from '../../src/report/summaryText.js';
+import { minDetectable } from '../../src/report/minDetectable.js';
+import { cellEdges, gridLayout, regionOutline } from '../../src/report/reportGrid.js';
+import { registerReport } from '../../src/cli/reportCommand.js';
+import { M_EARTH_KG } from '../../src/physics/constants.js';
+import { stringify } from 'yaml';
+import { writeFileSync } from 'node:fs';
+import type { CellResult } from '../../src/sweep/cellTypes.js';
+import type { SweepMeta } from '../../src/sweep/sweepMeta.js';
+
+function at(obj: unknown, path: string): unknown {
+  return path.split('.').reduce<unknown>((o, k) => (o === null || o === undefined ? undefined : (o as Record<string, unknown>)[k]), obj);
+}
+
+function decode(s: string): string {
+  return s.replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&amp;/g, '&');
+}
+
+let sweep: TinySweep;
+let html: string;
+let summaryJson: Record<string, unknown>;
+
+beforeAll(async () => {
+  sweep = await runTinySweep();
+  // The scenario beside the results, as `moonsieve report DIR` finds it.
+  writeFileSync(join(sweep.dir, 'scenario.yaml'), stringify(sweep.doc));
+  const out: string[] = [];
+  const program = new Command().exitOverride();
+  registerReport(program, { out: (t) => out.push(t), err: (t) => out.push(t) });
+  await program.parseAsync(['node', 'moonsieve', 'report', sweep.dir]);
+  expect(out.join('')).toContain('summary.json');
+  html = readFileSync(join(sweep.dir, 'report.html'), 'utf8');
+  summaryJson = JSON.parse(readFileSync(join(sweep.dir, 'summary.json'), 'utf8')) as Record<string, unknown>;
+}, 60_000);
+
+describe('summary.json against cells.json', () => {
+  it('counts habitable-zone moons and their detections as defined', () => {
+    const cells = sweep.cells;
+    const hab = cells.filter((c) => c.stable === true && c.habitability === 'temperate');
+    const p = (c: CellResult) => c.p_combined as number;
+    expect(summaryJson.cells).toBe(cells.length);
+    expect(summaryJson.cells_habitable).toBe(hab.length);
+    expect(summaryJson.cells_stable).toBe(cells.filter((c) => c.stable === true).length);
+    expect(summaryJson.habitable_detected_90).toBe(hab.filter((c) => c.simulated === true && p(c) >= 0.9).length);
+    expect(summaryJson.habitable_detected_50).toBe(hab.filter((c) => c.simulated === true && p(c) >= 0.5).length);
+    const det = hab.filter((c) => c.simulated === true && p(c) >= 0.9).sort((a, b) => (a.moon_mass_kg as number) - (b.moon_mass_kg as number) || a.index - b.index);
+    const smallest = summaryJson.smallest_habitable_detected_90 as Record<string, unknown> | null;
+    if (det.length === 0) expect(smallest).toBeNull();
+    else {
+      expect(smallest?.index).toBe(det[0].index);
+      expect(smallest?.moon_mass_kg).toBe(det[0].moon_mass_kg);
+      expect(smallest?.moon_mass_earth).toBe((det[0].moon_mass_kg as number) / M_EARTH_KG);
+    }
+    expect(summaryJson).toEqual(JSON.parse(JSON.stringify(buildSummary(sweep.meta, sweep.cells))));
+  });
+
+  it('the fixture exercises the interesting cases (habitable cells, unsimulated unstable cells)', () => {
+    // Guards the test above against passing vacuously on an all-empty grid.
+    expect(summaryJson.cells_habitable as number).toBeGreaterThan(0);
+    expect(summaryJson.cells_simulated as number).toBeLessThan(sweep.cells.length);
+  });
+
+  it('every number the page quotes equals summary.json', () => {
+    const spans = [...html.matchAll(/<span class="num" data-summary-key="([^"]+)" data-value="([^"]+)" data-divisor="([^"]+)" data-format="([^"]+)">([^<]*)<\/span>/g)];
+    expect(spans.length).toBeGreaterThan(5);
+    const keys = new Set<string>();
+    for (const [, key, value, divisor, format, text] of spans) {
+      keys.add(key);
+      const v = at(summaryJson, key);
+      expect(typeof v, key).toBe('number');
+      expect(JSON.parse(decode(value)), key).toBe(v);
+      expect(decode(text).startsWith(formatSummaryValue((v as number) / Number(divisor), format as 'count' | 'percent' | 'sig3')), key).toBe(true);
+    }
+    for (const k of ['cells', 'cells_habitable', 'habitable_detected_90', 'habitable_detected_50']) expect(keys.has(k), k).toBe(true);
+    if (summaryJson.smallest_habitable_detected_90) expect(keys.has('smallest_habitable_detected_90.moon_mass_earth')).toBe(true);
+  });
+});
+
+describe('minimum detectable value', () => {
+  // A hand-made 1-column grid: y = 1, 2, 4 (log axis) with p = 0.2, 0.6, 1.0.
+  const meta = { axes: [{ field: 'moon.mass', values: [1, 2, 4], spacing: 'log' }, { field: 'moon.separation', values: [10], spacing: 'linear' }] } as unknown as SweepMeta;
+  const cells = [0.2, 0.6, 1.0].map((p, j) => ({ index: j, coords: [[1, 2, 4][j], 10], p })) as unknown as CellResult[];
+  const layout = gridLayout(meta, cells);
+  const prob = (c: CellResult) => (c as unknown as { p: number }).p;
+  it('interpolates in log y between the grid values that bracket the level', () => {
+    // 50 %: between y = 1 (0.2) and 2 (0.6): f = 0.75, y = 2^0.75; 90 %: between 2 (0.6) and 4 (1.0): f = 0.75, y = 2·2^0.75
+    // (computed by hand from the stated rule, no source).
+    const [p50] = minDetectable(layout, [10], [1, 2, 4], true, prob, 0.5);
+    const [p90] = minDetectable(layout, [10], [1, 2, 4], true, prob, 0.9);
+    expect(p50.y).toBeCloseTo(2 ** 0.75, 12);
+    expect(p90.y).toBeCloseTo(2 * 2 ** 0.75, 12);
+    expect(p50.atGridEdge).toBe(false);
+  });
+  it('flags a level already reached at the lowest value, and null when never reached', () => {
+    expect(minDetectable(layout, [10], [1, 2, 4], true, prob, 0.1)[0]).toEqual({ x: 10, y: 1, atGridEdge: true });
+    expect(minDetectable(layout, [10], [1, 2, 4], true, () => 0.3, 0.9)[0].y).toBeNull();
+  });
+  it('mirrors the question for an axis along which detection gets harder (largest y still reaching the level)', () => {
+    // p falls with y: 1.0, 0.6, 0.2 at y = 1, 2, 4; 90 % between 1 (1.0) and 2 (0.6): f = 0.25, y = 2^0.25 (by hand).
+    const falling = (c: CellResult) => [1.0, 0.6, 0.2][c.index];
+    expect(minDetectable(layout, [10], [1, 2, 4], true, falling, 0.9, 'decreasing')[0].y).toBeCloseTo(2 ** 0.25, 12);
+  });
+  it('cell edges are geometric midpoints on a log axis and the outline of one cell is its four sides', () => {
+    // Computed by hand: midpoints √2 and √8 between 1, 2, 4; ends mirrored (1/√2, 8/√8 = √8·2/2).
+    const e = cellEdges([1, 2, 4], true);
+    expect(e[1]).toBeCloseTo(Math.SQRT2, 14);
+    expect(e[2]).toBeCloseTo(Math.sqrt(8), 14);
+    expect(e[0]).toBeCloseTo(1 / Math.SQRT2, 14);
+    const o = regionOutline(layout, (c) => c.index === 1, [0, 1], e);
+    expect(o.x.filter((v) => v === null).length).toBe(4);
+  });
+});
