@@ -32,9 +32,13 @@
  * u = (0.4, 0.25), T14 = 2.43 h, ingress 14.5 min): 2.1e-9 (instantaneous,
  * the flux has a (t − t1)^{3/2} kink at the contacts), 8e-10 (1-min exposure),
  * 6e-10 (2 min), 3e-11 (30 min) of the stellar flux; build time 7–20 ms
- * (16 000 nodes). A step of T14/4000 gives 5e-8, 1e-8, 1e-8, 1e-9 in 2 ms;
- * the global fit uses that coarser table while it iterates. Checked in
- * test/timing/perTransitFit.test.ts.
+ * (16 000 nodes). A step of T14/4000 gives 5e-8, 1e-8, 1e-8, 1e-9 in 2 ms.
+ * Same check on the test system of test/timing/perTransitFit.test.ts (p = 0.1,
+ * b = 0.3, T14 = 2.09 h, ingress 12.5 min; 1500 points): T14/1000 gives
+ * 6.7e-7, 1.7e-7, 1.2e-7, 1.9e-8 and T14/4000 1.8e-8, 1.2e-8, 9e-9, 1.1e-9
+ * (instantaneous, 1, 2, 30 min). The global fit iterates on T14/1000 tables
+ * (`stepsPerT14`, with a reused `TemplateWorkspace`) and returns a T14/4000
+ * one. The default table is checked in test/timing/perTransitFit.test.ts.
  */
 import { transitFlux } from '../photometry/transitFlux.js';
 import { orbitSystem, skyPositions, type OrbitSystem } from '../physics/skyPositions.js';
@@ -199,9 +203,35 @@ function naturalSplineCurvature(y: Float64Array, h: number, m: Float64Array, scr
   for (let k = n - 3; k >= 1; k--) m[k] -= scratch[k] * m[k + 1];
 }
 
+/**
+ * Reusable scratch arrays for `buildTransitTemplate` (sky track and
+ * instantaneous flux). A fit that rebuilds the template many times passes one
+ * workspace, so only the returned table is allocated per build: allocating
+ * and collecting the scratch arrays cost as much as computing them (measured
+ * with node --cpu-prof on the global fit). Not shared between threads.
+ */
+export class TemplateWorkspace {
+  private buf: Float64Array[] = [];
+  /** Five arrays of length ≥ n (grown on demand, never shrunk). */
+  arrays(n: number): Float64Array[] {
+    if (this.buf.length === 0 || this.buf[0].length < n) {
+      const size = Math.max(n, Math.ceil(1.25 * (this.buf[0]?.length ?? 0)));
+      this.buf = [0, 1, 2, 3, 4].map(() => new Float64Array(size));
+    }
+    return this.buf.map((a) => a.subarray(0, n));
+  }
+}
+
 export interface TemplateBuildOptions {
   /** Table step, s (rounded down so that the exposure is an odd multiple of it). */
   stepS?: number;
+  /**
+   * Table step as T14/stepsPerT14 (T14 found by the build itself; ignored when
+   * `stepS` is given). The global fit iterates with 1000 and returns a 4000 table.
+   */
+  stepsPerT14?: number;
+  /** Scratch arrays to reuse (default: allocate). */
+  workspace?: TemplateWorkspace;
 }
 
 /**
@@ -249,7 +279,10 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
   const mid = 0.5 * (t1 + t4);
 
   // Table step: exposure = K·h with K odd (sub-exposure midpoints on nodes).
-  const hWanted = opts.stepS ?? Math.min(ingressS / 1000, t14S / 16000);
+  if (opts.stepS === undefined && opts.stepsPerT14 !== undefined && !(opts.stepsPerT14 >= 1)) {
+    fail('stepsPerT14', opts.stepsPerT14, 'a number ≥ 1');
+  }
+  const hWanted = opts.stepS ?? (opts.stepsPerT14 !== undefined ? t14S / opts.stepsPerT14 : Math.min(ingressS / 1000, t14S / 16000));
   if (!(hWanted > 0) || !Number.isFinite(hWanted)) fail('stepS', hWanted, 'a positive finite number');
   let kSub = 1;
   let h = hWanted;
@@ -266,12 +299,8 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
   const x0S = -nHalf * h;
   // Instantaneous flux on the nodes widened by halfK on both sides.
   const nWide = n + 2 * halfK;
-  const tt = new Float64Array(nWide);
+  const [tt, xp, yp, zp, dummy] = (opts.workspace ?? new TemplateWorkspace()).arrays(nWide);
   for (let k = 0; k < nWide; k++) tt[k] = mid + (x0S + (k - halfK) * h) / ts;
-  const xp = new Float64Array(nWide);
-  const yp = new Float64Array(nWide);
-  const zp = new Float64Array(nWide);
-  const dummy = new Float64Array(nWide);
   skyPositions(tt, sys, { xp, yp, xm: dummy, ym: dummy, zp });
   const z = tt; // reuse
   for (let k = 0; k < nWide; k++) z[k] = zp[k] > 0 ? Math.hypot(xp[k], yp[k]) : 1e9;

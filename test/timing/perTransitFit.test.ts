@@ -9,6 +9,7 @@ import {
   buildTransitTemplate,
   directTemplateFlux,
   templateFlux,
+  templateFluxSlope,
   templateGeometryFromScenario,
 } from '../../src/timing/transitTemplate.js';
 import { fitTransits } from '../../src/timing/perTransitFit.js';
@@ -63,6 +64,35 @@ function pullStats(values: number[]) {
   return { n, mean, rms };
 }
 
+/**
+ * Cramér–Rao bound on t_c for each epoch: σ·√[(JᵀJ)⁻¹]₀₀ for the parameters (t_c, s, f0) of
+ * perTransitFit.ts at the true t_c, duration scale sTrue and f0 = 1 (Fisher information for white
+ * noise; Jacobian from the template slope, as in the fit). Computed in the test.
+ */
+function fisherTcBounds(obs: Observation, tpl: ReturnType<typeof buildTransitTemplate>, tcOf: (n: number) => number, sTrue: number, epochs: number): Float64Array {
+  const a = new Float64Array(epochs * 6); // a00 a01 a02 a11 a12 a22 per epoch
+  const d = new Float64Array(2);
+  for (let i = 0; i < obs.timeS.length; i++) {
+    const n = obs.epoch[i];
+    if (n < 0 || n >= epochs) continue;
+    const u = (obs.timeS[i] - tcOf(n)) / sTrue;
+    templateFluxSlope(tpl, u, d);
+    const j0 = -d[1] / sTrue;
+    const j1 = j0 * u;
+    const j2 = d[0];
+    const k = 6 * n;
+    a[k] += j0 * j0; a[k + 1] += j0 * j1; a[k + 2] += j0 * j2;
+    a[k + 3] += j1 * j1; a[k + 4] += j1 * j2; a[k + 5] += j2 * j2;
+  }
+  const out = new Float64Array(epochs);
+  for (let n = 0; n < epochs; n++) {
+    const [a00, a01, a02, a11, a12, a22] = a.subarray(6 * n, 6 * n + 6);
+    const det = a00 * (a11 * a22 - a12 * a12) - a01 * (a01 * a22 - a12 * a02) + a02 * (a01 * a12 - a11 * a02);
+    out[n] = obs.sigma * Math.sqrt((a11 * a22 - a12 * a12) / det);
+  }
+  return out;
+}
+
 describe('transit template', () => {
   it('interpolates the exposure-averaged Mandel–Agol curve to < 1e-8 of the stellar flux', () => {
     // Reference: direct midpoint-rule exposure average (4001 sub-exposures) of transitFlux on the same
@@ -85,7 +115,11 @@ describe('transit template', () => {
 describe('per-transit fits', () => {
   it('recovers noiseless injected mid-times and durations exactly (eccentric orbit)', () => {
     // Reference: planetTransitTruth (root-finding of first/last contact on the same Kepler model, 1e-6 s).
-    const s = tessel({ noise: 1e-3, transits: 6, b: 0.45, e: 0.2, omegaRad: 0.7 });
+    // The stated noise is only 1e-5: observeScenario's exposure supersampling keeps its smearing error
+    // below max(1e-6, 0.02σ) of the flux (src/noise/observe.ts), and that error, symmetric about
+    // mid-transit, shifts both contacts; at σ = 1e-3 (tolerance 2e-5) it moved every fitted duration by
+    // −0.50 s (measured), at 1e-6 by −0.036 s.
+    const s = tessel({ noise: 1e-5, transits: 6, b: 0.45, e: 0.2, omegaRad: 0.7 });
     const obs = observeScenario(s, null);
     const rec = recoverTimings(s, obs);
     const truth = truthOf(s, obs, 6);
@@ -149,27 +183,46 @@ describe('per-transit fits', () => {
     expect(Number.isNaN(rec.fits[1].tcS)).toBe(true);
   });
 
-  it('gives mid-time scatter equal to the Fisher bound and unit pulls at S/N ≈ 95 (2000 transits)', () => {
-    // Fisher (Cramér–Rao) bound for white noise: σ² (JᵀJ)⁻¹. Statistical tolerance: with 2000 transits the
-    // standard error of a pull standard deviation is 1/√(2·2000) = 1.6 %; the brief's 5 % is 3σ.
+  it('meets the issue-4 requirement at S/N 60 (10 % ingress, 2-min cadence; 2000 transits)', () => {
+    // Requirement (issue 4): scatter of the fitted mid-times within 5 % of the Fisher (Cramér–Rao) bound,
+    // and pull standard deviation within 1 ± 0.05. The bound is σ²(JᵀJ)⁻¹ for (t_c, s, f0) evaluated at
+    // the TRUE parameters (the expected information; computed in the test from the template slope).
+    // S/N = depth·√n_in/σ = 60 is about the lowest S/N where this geometry meets both (measured table in
+    // src/timing/perTransitFit.ts: scatter/bound 1.05 at S/N 40, 1.03 at 60; 1.24 at 15 and 1.34 at 10).
+    // Statistical tolerance: 2000 transits give a standard error of 1.6 % on a standard deviation.
     // Reference truth: planetTransitTruth (epoch 0; no moon, so t_n = t_0 + nP exactly).
-    const s = tessel({ noise: 1e-3, transits: 2000, seed: 21 });
+    const probe = tessel({ noise: 1e-3, transits: 1 });
+    const tplProbe = buildTransitTemplate(templateGeometryFromScenario(probe));
+    const noise = (tplProbe.depth * Math.sqrt(tplProbe.t14S / 120)) / 60;
+    const s = tessel({ noise, transits: 2000, seed: 21 });
     const obs = observeScenario(s, createRng(s.seed, 0, 0));
     const truth = truthOf(s, obs, 1)[0];
     const rec = recoverTimings(s, obs);
     const ok = rec.fits.filter((f) => f.status === 'ok');
     expect(ok.length).toBe(2000);
-    const tcPulls = ok.map((f) => (f.tcS - (truth.midS + f.epoch * s.planet.periodS)) / f.tcErrS);
-    const durPulls = ok.map((f) => (f.durationS - truth.durationS) / f.durationErrS);
+    const tpl = rec.global.template;
+    const bound = fisherTcBounds(obs, tpl, (n) => truth.midS + n * s.planet.periodS, truth.durationS / tpl.t14S, 2000);
+    let sumErr2 = 0, sumBound2 = 0, sumMiss2 = 0;
+    const tcPulls: number[] = [];
+    for (const f of ok) {
+      const miss = f.tcS - (truth.midS + f.epoch * s.planet.periodS);
+      sumMiss2 += miss * miss;
+      sumErr2 += f.tcErrS ** 2;
+      sumBound2 += bound[f.epoch] ** 2;
+      tcPulls.push(miss / f.tcErrS);
+    }
     const tc = pullStats(tcPulls);
-    const dur = pullStats(durPulls);
-    const scatter = Math.sqrt(ok.reduce((a, f) => a + (f.tcS - truth.midS - f.epoch * s.planet.periodS) ** 2, 0) / ok.length);
-    const meanErr = Math.sqrt(ok.reduce((a, f) => a + f.tcErrS ** 2, 0) / ok.length);
-    expect(Math.abs(scatter / meanErr - 1)).toBeLessThan(0.05);
+    // (1) efficiency: scatter against the bound at the truth.
+    expect(Math.abs(Math.sqrt(sumMiss2 / sumBound2) - 1)).toBeLessThan(0.05);
+    // (2) calibration: pull spread.
     expect(Math.abs(tc.rms - 1)).toBeLessThan(0.05);
     expect(Math.abs(tc.mean)).toBeLessThan(0.1); // unbiased: SE of the mean pull 0.022
+    // The quoted errors (expected information at the fitted optimum) equal the bound at the truth to
+    // < 1 % (measured 0.1 %): at any S/N the excess of the pulls is in the scatter, not in the errors.
+    expect(Math.abs(Math.sqrt(sumErr2 / sumBound2) - 1)).toBeLessThan(0.01);
     // Durations: the spread of the pulls about their mean is the per-transit error; their common offset is
-    // the global template's T14 error (shared by every transit, invisible in TDVs), measured 0.10 here.
+    // the global template's T14 error (shared by every transit, invisible in TDVs).
+    const dur = pullStats(ok.map((f) => (f.durationS - truth.durationS) / f.durationErrS));
     expect(Math.abs(Math.sqrt(dur.rms ** 2 - dur.mean ** 2) - 1)).toBeLessThan(0.05);
     expect(Math.abs(dur.mean)).toBeLessThan(0.25);
     // White noise: β stays at its floor of 1 (the residual rms matches the stated σ).
@@ -180,10 +233,10 @@ describe('per-transit fits', () => {
   });
 
   it('stays robust and unbiased at S/N ≈ 12, where the Fisher bound is optimistic', () => {
-    // Measured (this project, 1500 transits): pull standard deviation 1.25 at S/N 12, 1.10 at 24, 1.04 at
-    // 48, 1.03 at 95 — a one-parameter brute-force maximum-likelihood fit with the exact template shows the
-    // same excess (1.24 at S/N 12), so it is the estimator's small-sample (non-Gaussian) regime, not a fit
-    // failure. Checked here: every transit is fitted, mean pull unbiased (SE 0.045), pull spread < 1.4.
+    // Below the requirement's S/N the maximum-likelihood mid-times scatter more than the Cramér–Rao bound
+    // (measured on 2000 transits: 1.24 at S/N 15, 1.34 at 10 for this geometry; src/timing/perTransitFit.ts
+    // explains why and tabulates other shapes and cadences). Checked here: every transit is fitted, the
+    // mean pull is unbiased (SE 0.045), and the pull spread stays < 1.4.
     const s = tessel({ noise: 8e-3, transits: 500, seed: 22 });
     const obs = observeScenario(s, createRng(s.seed, 0, 0));
     const truth = truthOf(s, obs, 1)[0];

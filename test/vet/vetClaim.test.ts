@@ -28,7 +28,7 @@ function withMoon(c: Claim, moonMassKg: number, separationM: number, relErr: num
 }
 
 const blockAmplitudes = `  ttv: {amplitude: 1 s, uncertainty: 1 s, kind: rms}
-  transits: 10
+  transits: 30
   precision: 100 ppm per 2 min
   moon_dip: none`;
 
@@ -52,10 +52,10 @@ describe('vetClaim', () => {
     const sep = 0.1 * rH;
     const claim = withMoon(c0, mass, sep, 0.05);
     const r = vetClaim(claim);
-    // The truth's rocky dip at the stated precision (100 ppm per 2 min, 10 transits), folded stack:
+    // The truth's rocky dip at the stated precision (100 ppm per 2 min, 30 transits), folded stack:
     const truthDip = dipVisibility({
       moonMassKg: mass, densityKgM3: ROCKY_DENSITY_KG_M3, starRadiusM: c0.star.radiusM, u1: c0.star.u1, u2: c0.star.u2, impactParameter: c0.planet.impactParameter,
-      durationS: r.system.durationS, separationM: sep, barycentreVelocityMS: r.system.barycentreVelocityMS, transits: 10, noiseFraction: 1e-4, noiseTimescaleS: 120,
+      durationS: r.system.durationS, separationM: sep, barycentreVelocityMS: r.system.barycentreVelocityMS, transits: 30, noiseFraction: 1e-4, noiseTimescaleS: 120,
     });
     expect(truthDip.snrStacked).toBeGreaterThanOrEqual(10);
     expect(r.checks.find((k) => k.id === 'moon-dip')!.status).toBe('tension');
@@ -66,7 +66,7 @@ describe('vetClaim', () => {
     // The same claim reporting the dip a rocky moon of that mass makes passes every check.
     const seen = vetClaim({ ...claim, moonDipDepth: truthDip.depth });
     expect(seen.checks.find((k) => k.id === 'moon-dip')!.status).toBe('pass');
-    expect(seen.verdict).toBe('consistent with a moon');
+    expect(seen.verdict).toBe("consistent with a moon");
     expect(seen.reasons).toEqual(['every physical check that could be made passes']);
   });
 
