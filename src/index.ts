@@ -43,3 +43,23 @@ export { simulateScenario } from './photometry/simulateScenario.js';
 export { createRng, type Rng } from './noise/rng.js';
 export { whiteNoiseSigma, addWhiteNoise } from './noise/whiteNoise.js';
 export { observeScenario } from './noise/observe.js';
+
+// Timing recovery and detection
+export { recoverTimings } from './timing/timingSeries.js';
+export { runRealization } from './timing/realization.js';
+export { ttvExcess, tdvExcess, jointTimingExcess } from './timing/chiSquareStatistics.js';
+export { lombScargle } from './timing/lombScargle.js';
+export { calibrateDetection, decideDetection } from './timing/detection.js';
+export { wilsonInterval } from './timing/falseAlarmCalibration.js';
+export { modelTimingPrecision } from './timing/modelTimingPrecision.js';
+
+// Sweep, report, vet
+export { runSweep, loadSweep, type SweepOptions, type SweepOutcome } from './sweep/runSweep.js';
+export { mergeShards } from './sweep/merge.js';
+export { runCell } from './sweep/runCell.js';
+export { writeSweepOutputs } from './sweep/outputs.js';
+export type { CellTask, CellResult, CellContext, CellRunner } from './sweep/cellTypes.js';
+export { renderSweepReport } from './report/sweepReport.js';
+export { buildSummary } from './report/summary.js';
+export { loadClaim, parseClaimText, vetClaim, formatVetReport } from './vet/index.js';
+export type { Claim, VetResult } from './vet/index.js';
