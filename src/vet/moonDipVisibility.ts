@@ -13,16 +13,16 @@
  *   787, 14): folding smears the dip into δ·f(x) with the arcsine profile f
  *   of oseProfile (moonDipStack.ts), so SNR² = N·δ²·∫f(x(t))²dt/(τσ_τ²),
  *   x = v_B t/R*, evaluated by the trapezoid rule on the chord-scaled profile.
- * Bulk densities (NASA Planetary Fact Sheets, from memory): rocky 5500 kg/m³
+ * Bulk densities (planetary fact sheets, from memory): rocky 5500 kg/m³
  * (Earth 5514, the densest rocky body: the smallest radius, hence the most
- * conservative dip), icy 1900 kg/m³ (Ganymede 1936, Titan 1880).
+ * conservative dip), icy 1900 kg/m³ (Ganymede 1936, Callisto 1834).
  */
 import { moonDipDepth } from '../physics/moonDip.js';
 import { oseProfile } from '../timing/moonDipStack.js';
 
-/** Rocky moon bulk density, kg/m³ (Earth's mean density 5514 kg/m³, NASA fact sheet, from memory). */
+/** Rocky moon bulk density, kg/m³ (Earth's mean density 5514 kg/m³, planetary fact sheet, from memory). */
 export const ROCKY_DENSITY_KG_M3 = 5500;
-/** Icy moon bulk density, kg/m³ (Ganymede 1936, Titan 1880 kg/m³, NASA fact sheets, from memory). */
+/** Icy moon bulk density, kg/m³ (Ganymede 1936, Callisto 1834 kg/m³, planetary fact sheets, from memory). */
 export const ICY_DENSITY_KG_M3 = 1900;
 /** Detection threshold for a dip, σ: Kepler's 7.1σ transit threshold (Jenkins et al. 2010, ApJ 713, L87, from memory). */
 export const DIP_DETECTION_SIGMA = 7.1;

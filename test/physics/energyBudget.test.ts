@@ -4,7 +4,7 @@ import { eclipseFraction, moonEnergyBudget, type MoonEnergyBudgetInput } from '.
 import { AU_M, L_SUN_W, R_JUP_M, SIGMA_SB } from '../../src/physics/constants.js';
 
 // A Jupiter twin at 1 au around the Sun with an Earth-like moon at 10 R_J (invented example, no source).
-// Jupiter's Bond albedo 0.343 is from memory (NASA Jupiter fact sheet).
+// Jupiter's Bond albedo 0.343 is from memory (Jupiter planetary fact sheet).
 const BASE: MoonEnergyBudgetInput = {
   starLuminosityW: L_SUN_W,
   planetSemiMajorAxisM: AU_M,
@@ -50,7 +50,7 @@ describe('moonEnergyBudget', () => {
   });
 
   it("gives Jupiter's equilibrium temperature ≈ 110 K at 5.2 au", () => {
-    // Expected: Jupiter's black-body temperature 109.9 K for Bond albedo 0.343 (NASA Jupiter fact sheet,
+    // Expected: Jupiter's black-body temperature 109.9 K for Bond albedo 0.343 (Jupiter planetary fact sheet,
     // from memory); a = 5.2038 au from memory.
     const b = moonEnergyBudget({ ...BASE, planetSemiMajorAxisM: 5.2038 * AU_M });
     expect(b.planetEquilibriumTempK).toBeCloseTo(109.9, 0);
