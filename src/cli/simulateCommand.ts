@@ -3,7 +3,8 @@ import type { Command } from 'commander';
 import { join } from 'node:path';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { InputError } from '../scenario/errors.js';
-import { simulateScenario, simulationTables } from '../photometry/simulateScenario.js';
+import { fitOf, simulateScenario, simulationTables, tdvOf, ttvOf } from '../photometry/simulateScenario.js';
+import type { Scenario } from '../scenario/types.js';
 import { renderTable } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderSimulatePage } from '../report/simulatePage.js';
@@ -42,12 +43,38 @@ export function registerSimulate(program: Command, io: CliIo): void {
       for (const [path, text] of files) writeFileAtomic(path, text);
       io.out(`${scenario.name}: ${sim.observation.timeS.length} points in ${scenario.observation.transits} transit windows` +
         `${noiseless ? ' (noiseless)' : `, white noise ${(sim.observation.sigma * 1e6).toFixed(1)} ppm per exposure`}\n`);
-      io.out('epoch  planet mid-time (BJD_TDB)   TTV (s)    duration (h)   TDV (s)   [model truth]\n');
+      for (const line of noiseModelLines(scenario, noiseless)) io.out(`  ${line}\n`);
+      io.out('epoch   true TTV (s)  true TDV (s) | fit    fitted TTV (s)       fitted TDV (s)\n');
       const meanDur = sim.truth.reduce((a, t) => a + t.durationS, 0) / sim.truth.length;
-      for (const t of sim.truth) {
-        const ttv = t.midS - t.epoch * scenario.planet.periodS;
-        io.out(`${String(t.epoch).padStart(5)}  ${(scenario.observation.t0BjdTdb + t.midS / 86400).toFixed(6).padStart(22)}  ${ttv.toFixed(1).padStart(9)}  ${(t.durationS / 3600).toFixed(5).padStart(13)}  ${(t.durationS - meanDur).toFixed(1).padStart(8)}\n`);
-      }
+      const fits = fitOf(sim);
+      sim.truth.forEach((t, i) => {
+        const f = fits[i];
+        const ok = f !== undefined && f.status === 'ok';
+        const ttv = ttvOf(sim, t.epoch);
+        const tdv = tdvOf(sim, t.epoch);
+        const fitted = ok ? `${ttv.toFixed(1).padStart(8)} ± ${f.tcErrS.toFixed(1).padEnd(7)} ${tdv.toFixed(1).padStart(8)} ± ${f.durationErrS.toFixed(1)}` : `(${f?.status ?? 'no data'}${f?.reason ? `: ${f.reason}` : ''})`;
+        io.out(`${String(t.epoch).padStart(5)}  ${(t.midS - t.epoch * scenario.planet.periodS).toFixed(1).padStart(12)}  ${(t.durationS - meanDur).toFixed(1).padStart(12)} | ${ok ? 'ok  ' : '    '} ${fitted}\n`);
+      });
+      if (sim.recovery.beta) io.out(`  time-averaging beta applied to the fitted errors: ${sim.recovery.beta.beta.toFixed(2)}\n`);
       for (const [path] of files) io.out(`wrote ${path}\n`);
     });
+}
+
+/** One line per noise ingredient, so an observer sees which term limits them. */
+export function noiseModelLines(s: Scenario, noiseless: boolean): string[] {
+  if (noiseless) return ['noise: none (noiseless model)'];
+  const ppm = (x: number) => `${(x * 1e6).toFixed(1)} ppm`;
+  const out: string[] = [];
+  const g = s.instrument.ground;
+  if (g) {
+    out.push(`ground budget per ${s.instrument.exposureS.toFixed(0)}-s exposure (${g.apertureM} m aperture, V = ${g.magnitude}, airmass ${g.airmass}, ${g.altitudeM.toFixed(0)} m):`);
+    out.push(`  photon ${ppm(g.terms.photon)}, scintillation ${ppm(g.terms.scintillation)} (Osborn et al. 2015, C_Y = ${g.scintillationCoefficient}), floor ${ppm(g.terms.floor)}; total ${ppm(g.terms.total)}, dominated by ${g.terms.dominant}`);
+  } else {
+    out.push(`white noise: ${ppm(s.instrument.noiseFraction)} per ${(s.instrument.noiseTimescaleS / 60).toFixed(2)} min, scaled by sqrt(t) to the exposure`);
+  }
+  const r = s.instrument.redNoise;
+  if (r) out.push(r.model === 'drw' ? `red noise: damped random walk, rms ${ppm(r.rmsFraction)}, timescale ${(r.tauS / 60).toFixed(1)} min` : `red noise: power law S ∝ f^-${r.beta}, rms ${ppm(r.rmsFraction)} per ${(r.timescaleS / 60).toFixed(1)} min`);
+  const o = s.observation;
+  if (o.missedFraction > 0 || o.dutyCycle < 1) out.push(`gaps: ${(100 * o.missedFraction).toFixed(0)} % of transits missed, ${(100 * o.dutyCycle).toFixed(0)} % of each window observed (mean gap ${(o.gapLengthS / 60).toFixed(0)} min)`);
+  return out;
 }

@@ -1,10 +1,17 @@
 /**
  * One synthetic observation of a scenario: the photodynamical model sampled
- * at the instrument's cadence in the transit windows, plus white noise at the
- * instrument's level (σ scaled by √t from its stated timescale to the
- * exposure). Pass `rng = null` for the noiseless model.
+ * at the instrument's cadence in the transit windows, with the scenario's
+ * gaps (whole transits missed, random gaps within windows), white noise at
+ * the instrument's level (σ scaled by √t from its stated timescale to the
+ * exposure) and, if stated, correlated noise (power law, Timmer & König 1995,
+ * generated per contiguous window; or a damped random walk, Kelly et al.
+ * 2009, on the time stamps). Pass `rng = null` for the noiseless, gap-free model.
+ * Random draws, in order: white noise, red noise, missed transits, gaps.
  */
-import type { Scenario } from '../scenario/types.js';
+import type { RedNoiseSpec, Scenario } from '../scenario/types.js';
+import { randomGapMask, selectObservedEpochs } from './gaps.js';
+import { powerLawNoise } from './powerLawNoise.js';
+import { dampedRandomWalkNoise } from './dampedRandomWalkNoise.js';
 import { DEFAULT_SMEARING_TOLERANCE, lightCurveModel, LightCurveWorkspace, modelFlux, type LightCurveModel } from '../photometry/lightCurve.js';
 import { sampleWindows, transitWindows, type TransitWindow } from '../photometry/transitWindows.js';
 import type { Rng } from './rng.js';
@@ -26,17 +33,74 @@ export interface Observation {
 
 export function observeScenario(s: Scenario, rng: Rng | null, ws: LightCurveWorkspace = new LightCurveWorkspace()): Observation {
   const windows = transitWindows(s);
-  const { timeS, epoch } = sampleWindows(windows, s.instrument.cadenceS);
+  const grid = sampleWindows(windows, s.instrument.cadenceS);
   const sigma = whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS);
   // Supersampling is chosen so the model's smearing error stays below 2 % of the per-point
   // noise (and below 1 ppm when that is stricter), where it cannot bias the recovery.
   const lc = lightCurveModel(s, { tolerance: Math.max(DEFAULT_SMEARING_TOLERANCE, 0.02 * sigma) });
-  const model = modelFlux(timeS, lc, new Float64Array(timeS.length), ws);
-  const flux = Float64Array.from(model);
+  const full = modelFlux(grid.timeS, lc, new Float64Array(grid.timeS.length), ws);
+  const fullFlux = Float64Array.from(full);
   if (rng !== null && sigma > 0) {
-    const noise = new Float64Array(flux.length);
+    const noise = new Float64Array(fullFlux.length);
     rng.fillNormal(noise, sigma);
-    for (let i = 0; i < flux.length; i++) flux[i] += noise[i];
+    for (let i = 0; i < fullFlux.length; i++) fullFlux[i] += noise[i];
   }
-  return { windows, timeS, epoch, model, flux, sigma, lightCurve: lc };
+  if (rng !== null && s.instrument.redNoise) addRedNoise(fullFlux, grid.timeS, s.instrument.cadenceS, s.instrument.redNoise, rng);
+  if (rng === null) return { windows, timeS: grid.timeS, epoch: grid.epoch, model: full, flux: fullFlux, sigma, lightCurve: lc };
+  const keep = gapMask(s, grid.timeS, grid.epoch, rng);
+  return { windows, ...subset(keep, grid.timeS, grid.epoch, full, fullFlux), sigma, lightCurve: lc };
+}
+
+/** Keep the samples where `keep` is 1. */
+function subset(keep: Uint8Array | null, timeS: Float64Array, epoch: Int32Array, model: Float64Array, flux: Float64Array) {
+  if (keep === null) return { timeS, epoch, model, flux };
+  let n = 0;
+  for (let i = 0; i < keep.length; i++) n += keep[i];
+  const out = { timeS: new Float64Array(n), epoch: new Int32Array(n), model: new Float64Array(n), flux: new Float64Array(n) };
+  for (let i = 0, j = 0; i < keep.length; i++) {
+    if (!keep[i]) continue;
+    out.timeS[j] = timeS[i];
+    out.epoch[j] = epoch[i];
+    out.model[j] = model[i];
+    out.flux[j++] = flux[i];
+  }
+  return out;
+}
+
+/** Samples lost to missed transits and random gaps within windows (gaps.ts); null when none. */
+function gapMask(s: Scenario, timeS: Float64Array, epoch: Int32Array, rng: Rng): Uint8Array | null {
+  const { missedFraction, dutyCycle, gapLengthS } = s.observation;
+  if (!(missedFraction > 0) && !(dutyCycle < 1)) return null;
+  const keep = new Uint8Array(timeS.length).fill(1);
+  if (missedFraction > 0) {
+    const observed = new Set(selectObservedEpochs(s.observation.transits, missedFraction, rng));
+    for (let i = 0; i < timeS.length; i++) if (!observed.has(epoch[i])) keep[i] = 0;
+  }
+  if (dutyCycle < 1) {
+    const mask = randomGapMask(timeS, dutyCycle, gapLengthS, rng);
+    for (let i = 0; i < timeS.length; i++) if (!mask[i]) keep[i] = 0;
+  }
+  return keep;
+}
+
+/**
+ * Correlated noise, on the full (gap-free) grid. A power law needs an even
+ * grid: it is generated over each window's contiguous run of samples (at
+ * least as long as its stated timescale, then cropped); a damped random walk
+ * runs on the time stamps.
+ */
+function addRedNoise(flux: Float64Array, timeS: Float64Array, cadenceS: number, red: RedNoiseSpec, rng: Rng): void {
+  if (red.model === 'drw') {
+    const x = dampedRandomWalkNoise(timeS, red.tauS, red.rmsFraction, rng);
+    for (let i = 0; i < flux.length; i++) flux[i] += x[i];
+    return;
+  }
+  let start = 0;
+  for (let i = 1; i <= timeS.length; i++) {
+    if (i < timeS.length && Math.abs(timeS[i] - timeS[i - 1] - cadenceS) < 1e-6 * cadenceS) continue;
+    const block = new Float64Array(Math.max(i - start, Math.ceil(red.timescaleS / cadenceS)));
+    powerLawNoise(block, { dtS: cadenceS, beta: red.beta, rmsFraction: red.rmsFraction, timescaleS: red.timescaleS }, rng);
+    for (let k = 0; k < block.length; k++) flux[start + k] += block[k];
+    start = i;
+  }
 }

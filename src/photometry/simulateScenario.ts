@@ -8,6 +8,7 @@ import { observeScenario, type Observation } from '../noise/observe.js';
 import { createRng } from '../noise/rng.js';
 import { planetTransitTruth, type PlanetTransitTruth } from '../physics/planetTransitTruth.js';
 import { windowHalfWidthS } from './transitWindows.js';
+import { recoverTimings, type TimingRecovery } from '../timing/timingSeries.js';
 import type { TableColumn } from '../io/ecsv.js';
 import { DAY_S } from '../physics/constants.js';
 import { VERSION } from '../version.js';
@@ -15,13 +16,29 @@ import { VERSION } from '../version.js';
 export interface Simulation {
   observation: Observation;
   truth: PlanetTransitTruth[];
+  /** The recovery of the simulated data: fitted mid-times, durations, ephemeris, TTV/TDV series. */
+  recovery: TimingRecovery;
 }
 
 export function simulateScenario(s: Scenario, opts: { noiseless?: boolean; realization?: number } = {}): Simulation {
   const rng = opts.noiseless ? null : createRng(s.seed, 0, opts.realization ?? 0);
   const observation = observeScenario(s, rng);
   const truth = planetTransitTruth(observation.lightCurve.sys, observation.lightCurve.rp, s.observation.transits, windowHalfWidthS(s));
-  return { observation, truth };
+  return { observation, truth, recovery: recoverTimings(s, observation) };
+}
+
+/** The fit of each epoch (in epoch order), or undefined. */
+export function fitOf(sim: Simulation) {
+  const by = new Map(sim.recovery.fits.map((f) => [f.epoch, f]));
+  return sim.truth.map((t) => by.get(t.epoch));
+}
+
+/** Fitted TTV and TDV of an epoch, s (NaN where the transit was not fitted). */
+export function ttvOf(sim: Simulation, epoch: number): number {
+  return sim.recovery.ttv.find((p) => p.epoch === epoch)?.ttvS ?? NaN;
+}
+export function tdvOf(sim: Simulation, epoch: number): number {
+  return sim.recovery.tdv.points.find((p) => p.epoch === epoch)?.tdvS ?? NaN;
 }
 
 export function simulationTables(s: Scenario, sim: Simulation, noiseless: boolean) {
@@ -56,6 +73,13 @@ export function simulationTables(s: Scenario, sim: Simulation, noiseless: boolea
       { name: 'ttv', datatype: 'float64', unit: 's', description: 'Planet mid-time minus barycentre ephemeris t0 + n P (model truth)', values: sim.truth.map((t) => t.midS - t.epoch * s.planet.periodS) },
       { name: 'duration', datatype: 'float64', unit: 'h', description: 'Planet first-to-last-contact duration (model truth)', values: sim.truth.map((t) => t.durationS / 3600) },
       { name: 'tdv', datatype: 'float64', unit: 's', description: 'Duration minus its mean over the epochs (model truth)', values: sim.truth.map((t) => t.durationS - meanDur) },
+      { name: 'fit_status', datatype: 'string', description: 'Per-transit fit: ok, skipped-partial, skipped-no-data or failed', values: fitOf(sim).map((f) => f?.status ?? 'skipped-no-data') },
+      { name: 'fit_mid_time', datatype: 'float64', description: 'Fitted mid-time, BJD_TDB (days)', values: fitOf(sim).map((f) => (f && f.status === 'ok' ? s.observation.t0BjdTdb + f.tcS / DAY_S : NaN)) },
+      { name: 'fit_mid_time_err', datatype: 'float64', unit: 's', description: 'Its 1-sigma error (Fisher matrix, times beta)', values: fitOf(sim).map((f) => (f && f.status === 'ok' ? f.tcErrS : NaN)) },
+      { name: 'fit_ttv', datatype: 'float64', unit: 's', description: 'Fitted mid-time minus the fitted linear ephemeris', values: sim.truth.map((t) => ttvOf(sim, t.epoch)) },
+      { name: 'fit_duration', datatype: 'float64', unit: 'h', description: 'Fitted first-to-last-contact duration', values: fitOf(sim).map((f) => (f && f.status === 'ok' ? f.durationS / 3600 : NaN)) },
+      { name: 'fit_duration_err', datatype: 'float64', unit: 's', description: 'Its 1-sigma error', values: fitOf(sim).map((f) => (f && f.status === 'ok' ? f.durationErrS : NaN)) },
+      { name: 'fit_tdv', datatype: 'float64', unit: 's', description: 'Fitted duration minus the weighted mean duration', values: sim.truth.map((t) => tdvOf(sim, t.epoch)) },
     ],
     meta,
   };

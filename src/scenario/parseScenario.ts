@@ -16,9 +16,13 @@
  *           periapsis [deg] (0), phase [deg] (0), direction prograde|retrograde,
  *           albedo (0.3), love_number (0.3), tidal_q (100)
  *   instrument: cadence [min], exposure [min] (default = cadence),
- *           noise ("200 ppm per 1 h", or a fraction with noise_timescale)
+ *           noise ("200 ppm per 1 h"), or ground: {aperture, magnitude, throughput,
+ *           airmass, altitude, scintillation_coefficient, floor} (Osborn et al. 2015
+ *           scintillation, photon noise, floor), red_noise: {model: power_law,
+ *           amplitude: "150 ppm per 30 min", slope} or {model: drw, amplitude, timescale}
  *   observation: transits (integer ≥ 1), t0 [BJD_TDB days] (2461000.0),
- *           baseline [h] (3 h out of transit on each side)
+ *           baseline [h] (3 h out of transit on each side), duty_cycle (1),
+ *           gap_length [min] (20 min), missed_fraction (0)
  *   detection: false_alarm (fraction, default 1 %): false-alarm probability per channel
  */
 import { DAY_S, HOUR_S, JULIAN_YEAR_S, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
@@ -29,12 +33,13 @@ import { isPhysicalQuadratic, uFromQ } from '../photometry/kippingLimbDarkening.
 import { InputError, type FieldProblem } from './errors.js';
 import { FieldReader } from './fieldReader.js';
 import { parseQuantity, splitNumberUnit } from './units.js';
-import type { DetectionSpec, InstrumentSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, StarSpec } from './types.js';
+import { groundNoiseBudget } from '../noise/groundBudget.js';
+import type { DetectionSpec, GroundSpec, InstrumentSpec, RedNoiseSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, StarSpec } from './types.js';
 
 const DEG = Math.PI / 180;
 
 /** Keys reserved for later stages (read by their own parsers). */
-export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = ['sweep'];
+export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = ['sweep', 'budget'];
 
 export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const problems: FieldProblem[] = [];
@@ -216,35 +221,95 @@ function readInstrument(r: FieldReader): InstrumentSpec {
   }
   let noiseFraction = Number.NaN;
   let noiseTimescaleS = Number.NaN;
-  const raw = r.raw('noise');
+  let ground: GroundSpec | null = null;
   const noiseAllowed = 'expected a white-noise level with its timescale, e.g. "200 ppm per 1 h" or "800 ppm per 2 min"';
-  if (raw === undefined || raw === null) {
-    r.problem('noise', raw, 'required: ' + noiseAllowed);
-  } else if (typeof raw === 'string' && /\sper\s/.test(raw)) {
+  if (r.has('ground')) {
+    if (r.has('noise')) r.problem('noise', r.raw('noise'), 'give either noise or a ground budget (instrument.ground), not both');
+    ground = readGround(new FieldReader(r.raw('ground'), 'instrument.ground', r.problems), exposureS, cadenceS);
+    noiseFraction = ground ? ground.terms.total : Number.NaN;
+    noiseTimescaleS = exposureS;
+  } else if (!r.has('noise')) {
+    r.problem('noise', r.raw('noise'), `required: ${noiseAllowed}, or a ground budget (instrument.ground)`);
+  } else {
+    ({ fraction: noiseFraction, timescaleS: noiseTimescaleS } = readLevelPer(r, 'noise', noiseAllowed, exposureS));
+  }
+  const redNoise = r.has('red_noise') ? readRedNoise(new FieldReader(r.raw('red_noise'), 'instrument.red_noise', r.problems)) : (r.raw('red_noise'), null);
+  r.rejectUnknown();
+  return { cadenceS, exposureS, noiseFraction, noiseTimescaleS, redNoise, ground };
+}
+
+/** A level stated at a timescale: "200 ppm per 1 h", or a bare fraction (then `fallbackTimescaleS`). */
+function readLevelPer(r: FieldReader, key: string, allowed: string, fallbackTimescaleS: number): { fraction: number; timescaleS: number } {
+  const raw = r.raw(key);
+  if (typeof raw === 'string' && /\sper\s/.test(raw)) {
     const [level, scale] = raw.split(/\s+per\s+/);
     try {
-      noiseFraction = parseQuantity(level, 'instrument.noise', 'fraction');
-      noiseTimescaleS = parseQuantity(scale, 'instrument.noise', 'time');
-      if (!(noiseFraction >= 0) || !(noiseTimescaleS > 0)) throw new Error('range');
+      const fraction = parseQuantity(level, r.path(key), 'fraction');
+      const timescaleS = parseQuantity(scale, r.path(key), 'time');
+      if (!(fraction >= 0) || !(timescaleS > 0)) throw new Error('range');
+      return { fraction, timescaleS };
     } catch {
-      r.problem('noise', raw, noiseAllowed);
-      noiseFraction = noiseTimescaleS = Number.NaN;
+      r.problem(key, raw, allowed);
+      return { fraction: Number.NaN, timescaleS: Number.NaN };
     }
-    if (r.has('noise_timescale')) r.problem('noise_timescale', r.raw('noise_timescale'), 'the noise already states its timescale ("… per …")');
-  } else {
-    noiseFraction = r.quantity('noise', 'fraction', { min: 0, rangeText: noiseAllowed });
-    noiseTimescaleS = r.quantity('noise_timescale', 'time', { bare: [MINUTE_S, 'minutes'], default: exposureS, min: 0, minExclusive: true, rangeText: 'must be a positive time' });
   }
+  const fraction = r.quantity(key, 'fraction', { min: 0, rangeText: allowed });
+  return { fraction, timescaleS: fallbackTimescaleS };
+}
+
+function readRedNoise(r: FieldReader): RedNoiseSpec | null {
+  const model = r.choice('model', ['power_law', 'drw'] as const, 'power_law');
+  if (!r.has('model')) r.problem('model', undefined, 'required: "power_law" (Timmer & König 1995) or "drw" (damped random walk)');
+  if (model === 'power_law') {
+    const { fraction, timescaleS } = readLevelPer(r, 'amplitude', 'expected the rms of the red noise averaged over a timescale, e.g. "150 ppm per 30 min"', Number.NaN);
+    if (!Number.isFinite(timescaleS) && Number.isFinite(fraction)) r.problem('amplitude', r.raw('amplitude'), 'state the averaging timescale, e.g. "150 ppm per 30 min"');
+    const beta = r.number('slope', { default: 1, min: 0, max: 4, rangeText: 'expected a spectral slope β from 0 to 4 (S ∝ f^−β)' });
+    r.rejectUnknown();
+    return { model, rmsFraction: fraction, timescaleS, beta };
+  }
+  const rmsFraction = r.quantity('amplitude', 'fraction', { min: 0, rangeText: 'expected the stationary rms, e.g. "200 ppm"' });
+  const tauS = r.quantity('timescale', 'time', { bare: [MINUTE_S, 'minutes'], min: 0, minExclusive: true, rangeText: 'expected the damping timescale τ, e.g. "45 min"' });
   r.rejectUnknown();
-  return { cadenceS, exposureS, noiseFraction, noiseTimescaleS };
+  return { model, rmsFraction, tauS };
+}
+
+function readGround(r: FieldReader, exposureS: number, cadenceS: number): GroundSpec | null {
+  const apertureM = r.quantity('aperture', 'length', { min: 0, minExclusive: true, rangeText: 'expected the telescope aperture diameter, e.g. "1.5 m"' });
+  const magnitude = r.number('magnitude', { min: -2, max: 25, rangeText: 'expected the star\'s V magnitude, e.g. 11.2' });
+  const throughput = r.number('throughput', { default: 0.4, min: 0, minExclusive: true, max: 1, rangeText: 'expected the total throughput (atmosphere, optics, detector) in (0, 1]' });
+  const airmass = r.number('airmass', { default: 1.3, min: 1, max: 5, rangeText: 'expected an airmass from 1 to 5' });
+  const altitudeM = r.quantity('altitude', 'length', { bare: [1, 'metres'], default: 2000, min: 0, max: 6000, rangeText: 'expected the site altitude, e.g. "2400 m"' });
+  const scintillationCoefficient = r.number('scintillation_coefficient', { default: 1.5, min: 0, max: 5, rangeText: 'expected the Osborn et al. (2015) site coefficient C_Y, typically 1.3–1.7' });
+  let floorFraction = 0;
+  let floorTimescaleS = HOUR_S;
+  if (r.has('floor')) ({ fraction: floorFraction, timescaleS: floorTimescaleS } = readLevelPer(r, 'floor', 'expected a systematic floor with its timescale, e.g. "300 ppm per 1 min"', exposureS));
+  r.rejectUnknown();
+  if (![apertureM, magnitude, throughput, airmass, altitudeM, scintillationCoefficient, floorFraction, floorTimescaleS, exposureS, cadenceS].every(Number.isFinite)) return null;
+  const b = groundNoiseBudget({
+    apertureDiameterM: apertureM,
+    magnitude,
+    throughput,
+    exposureS,
+    cadenceS,
+    scintillation: { model: 'osborn2015', airmass, altitudeM, cY: scintillationCoefficient },
+    floor: floorFraction > 0 ? { fraction: floorFraction, timescaleS: floorTimescaleS } : undefined,
+  });
+  const e = b.perExposure;
+  return {
+    apertureM, magnitude, throughput, airmass, altitudeM, scintillationCoefficient, floorFraction, floorTimescaleS,
+    terms: { photon: e.photon, scintillation: e.scintillation, floor: e.floor, total: e.total, dominant: b.dominantTerm },
+  };
 }
 
 function readObservation(r: FieldReader): ObservationSpec {
   const transits = r.number('transits', { integer: true, min: 1, max: 10000, rangeText: 'expected a whole number of transits from 1 to 10000' });
   const t0BjdTdb = r.number('t0', { default: 2461000.0, min: 0, rangeText: 'expected a BJD_TDB in days, e.g. 2461000.25' });
   const baselineS = r.quantity('baseline', 'time', { bare: [HOUR_S, 'hours'], default: 3 * HOUR_S, min: 0, rangeText: 'must be a time ≥ 0' });
+  const dutyCycle = r.number('duty_cycle', { default: 1, min: 0, minExclusive: true, max: 1, rangeText: 'expected the observed fraction of each window, above 0 and at most 1' });
+  const gapLengthS = r.quantity('gap_length', 'time', { bare: [MINUTE_S, 'minutes'], default: 20 * MINUTE_S, min: 0, minExclusive: true, rangeText: 'expected the mean length of a gap, e.g. "20 min"' });
+  const missedFraction = r.number('missed_fraction', { default: 0, min: 0, max: 0.95, rangeText: 'expected the fraction of transits lost (weather, scheduling), from 0 to 0.95' });
   r.rejectUnknown();
-  return { transits, t0BjdTdb, baselineS };
+  return { transits, t0BjdTdb, baselineS, dutyCycle, gapLengthS, missedFraction };
 }
 
 function readDetection(r: FieldReader): DetectionSpec {

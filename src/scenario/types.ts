@@ -60,6 +60,40 @@ export interface MoonSpec {
   tidalQ: number;
 }
 
+/** Correlated noise added to the white noise. */
+export type RedNoiseSpec =
+  | {
+      /** Power-law spectrum S ∝ f^−β (Timmer & König 1995). */
+      model: 'power_law';
+      /** rms of the noise averaged over `timescaleS` (relative flux). */
+      rmsFraction: number;
+      timescaleS: number;
+      beta: number;
+    }
+  | {
+      /** Damped random walk, covariance σ² e^{−|Δt|/τ} (Kelly et al. 2009). */
+      model: 'drw';
+      /** Stationary rms (relative flux). */
+      rmsFraction: number;
+      tauS: number;
+    };
+
+/** A ground-based noise budget: the white-noise level is computed from the telescope and site. */
+export interface GroundSpec {
+  apertureM: number;
+  magnitude: number;
+  throughput: number;
+  airmass: number;
+  altitudeM: number;
+  /** Osborn et al. (2015) site coefficient C_Y. */
+  scintillationCoefficient: number;
+  /** Systematic floor (relative flux) stated at a timescale; 0 for none. */
+  floorFraction: number;
+  floorTimescaleS: number;
+  /** Each term per exposure and the dominant one (filled by the parser). */
+  terms: { photon: number; scintillation: number; floor: number; total: number; dominant: string };
+}
+
 export interface InstrumentSpec {
   /** Time between samples, s. */
   cadenceS: number;
@@ -69,6 +103,10 @@ export interface InstrumentSpec {
   noiseFraction: number;
   /** Timescale at which `noiseFraction` is stated, s; scaled by √t to the exposure. */
   noiseTimescaleS: number;
+  /** Correlated noise, or null for white noise only. */
+  redNoise: RedNoiseSpec | null;
+  /** The ground-based budget the white level came from, or null when it was stated directly. */
+  ground: GroundSpec | null;
 }
 
 export interface ObservationSpec {
@@ -78,6 +116,12 @@ export interface ObservationSpec {
   t0BjdTdb: number;
   /** Out-of-transit baseline observed on each side of the transit, s. */
   baselineS: number;
+  /** Fraction of the windows' time actually observed (random gaps), 1 = no gaps. */
+  dutyCycle: number;
+  /** Mean length of a gap, s (with dutyCycle < 1). */
+  gapLengthS: number;
+  /** Probability that a whole transit is missed (weather, scheduling). */
+  missedFraction: number;
 }
 
 export interface DetectionSpec {

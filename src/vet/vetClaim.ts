@@ -85,8 +85,8 @@ function limitsScenario(claim: Claim): Scenario {
     star: claim.star,
     planet: claim.planet,
     moon: null,
-    instrument: { cadenceS: cadence, exposureS: cadence, noiseFraction: p ? p.noiseFraction : 1e-3, noiseTimescaleS: tau },
-    observation: { transits: claim.transits, t0BjdTdb: 0, baselineS: 3 * HOUR_S },
+    instrument: { cadenceS: cadence, exposureS: cadence, noiseFraction: p ? p.noiseFraction : 1e-3, noiseTimescaleS: tau, redNoise: null, ground: null },
+    observation: { transits: claim.transits, t0BjdTdb: 0, baselineS: 3 * HOUR_S, dutyCycle: 1, gapLengthS: 1200, missedFraction: 0 },
     detection: { falseAlarm: 0.01 },
   };
 }

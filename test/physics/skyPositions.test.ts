@@ -257,8 +257,8 @@ describe('skyPositions: hierarchical planet–moon geometry', () => {
         massKg: 0.5 * M_EARTH, radiusM: 5e6, separationM: 1.5e9, eccentricity: 0.05, inclinationRad: 0.1,
         nodeRad: 0.2, periapsisRad: 0.3, phaseRad: 0.4, retrograde: true, albedo: 0.3, k2: 0.3, tidalQ: 100,
       },
-      instrument: { cadenceS: 60, exposureS: 60, noiseFraction: 1e-4, noiseTimescaleS: 3600 },
-      observation: { transits: 5, t0BjdTdb: 2_460_000, baselineS: 3 * 3600 },
+      instrument: { cadenceS: 60, exposureS: 60, noiseFraction: 1e-4, noiseTimescaleS: 3600, redNoise: null, ground: null },
+      observation: { transits: 5, t0BjdTdb: 2_460_000, baselineS: 3 * 3600, dutyCycle: 1, gapLengthS: 1200, missedFraction: 0 },
       detection: { falseAlarm: 0.01 },
     };
     const fromScenario = orbitSystemFromScenario(scenario);

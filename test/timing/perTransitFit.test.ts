@@ -47,8 +47,8 @@ function tessel(opts: { noise: number; transits: number; b?: number; e?: number;
       tidalQ: 1e5,
     },
     moon: null,
-    instrument: { cadenceS: 120, exposureS: 120, noiseFraction: opts.noise, noiseTimescaleS: 120 },
-    observation: { transits: opts.transits, t0BjdTdb: 2_460_000, baselineS: 5400 },
+    instrument: { cadenceS: 120, exposureS: 120, noiseFraction: opts.noise, noiseTimescaleS: 120, redNoise: null, ground: null },
+    observation: { transits: opts.transits, t0BjdTdb: 2_460_000, baselineS: 5400, dutyCycle: 1, gapLengthS: 1200, missedFraction: 0 },
     detection: { falseAlarm: 0.01 },
   } as Scenario;
 }
