@@ -1,18 +1,8 @@
 import { describe, it, expect } from 'vitest';
+import { mulberry32 } from '../helpers/mulberry32.js';
 import { forecastDetection } from '../../src/physics/detectionForecast.js';
 import { chiSquareUpperQuantile } from '../../src/timing/noncentralChiSquare.js';
 
-/** Tiny seeded generator for the test (mulberry32, common practice, no source). */
-function mulberry32(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /**
  * Seeded Monte Carlo of the same statistics (computed in the test): N epochs, TTV = A sin(2πνn + φ),

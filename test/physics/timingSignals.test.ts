@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { mulberry32 } from '../helpers/mulberry32.js';
 import { timingSignals, barycentreSkyVelocity, timingShapeFactors } from '../../src/physics/timingSignals.js';
 import { AU_M, DAY_S, G, GM_EARTH, GM_SUN, HOUR_S, R_EARTH_M, R_SUN_M } from '../../src/physics/constants.js';
 
@@ -20,17 +21,6 @@ const earthMoon = {
   durationS: 13 * HOUR_S,
 };
 
-/** Tiny seeded generator for the test (mulberry32, common practice, no source). */
-function mulberry32(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe('timingSignals: Earth–Moon', () => {
   const r = timingSignals(earthMoon);

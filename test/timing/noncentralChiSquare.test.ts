@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { mulberry32 } from '../helpers/mulberry32.js';
 import { readFileSync } from 'node:fs';
 import {
   chiSquareSurvival,
@@ -19,17 +20,6 @@ const fixture = JSON.parse(
   centralUpperQuantile: { alpha: number; df: number; isf: number; sf_at_isf: number }[];
 };
 
-/** Tiny seeded generator for the test (mulberry32, public-domain, common practice). */
-function mulberry32(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 function normalSampler(u: () => number): () => number {
   // Box–Muller (Box & Muller 1958, Ann. Math. Stat. 29, 610).
   return () => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
