@@ -8,6 +8,7 @@ import type { BenchMedian } from './measure.js';
 import { benchPhotometry } from './photometry.js';
 import { benchGaussian, benchFft } from './noise.js';
 import { benchLightCurveWindow, benchRecovery } from './lightCurve.js';
+import { benchBudget } from './budget.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -25,6 +26,7 @@ async function main(): Promise<void> {
     ['light curve', () => benchLightCurveWindow()],
     ['noise', () => [...benchGaussian(), ...benchFft()]],
     ['recovery', () => benchRecovery()],
+    ['budget', () => benchBudget()],
   ];
   for (const [name, run] of sections) {
     if (only && only !== name) continue;

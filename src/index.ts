@@ -63,3 +63,4 @@ export { renderSweepReport } from './report/sweepReport.js';
 export { buildSummary } from './report/summary.js';
 export { loadClaim, parseClaimText, vetClaim, formatVetReport } from './vet/index.js';
 export type { Claim, VetResult } from './vet/index.js';
+export { planBudget } from './budget/index.js';

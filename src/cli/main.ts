@@ -12,6 +12,7 @@ import { registerVet } from './vetCommand.js';
 import { registerSweep } from './sweepCommand.js';
 import { registerMerge } from './mergeCommand.js';
 import { registerReport } from './reportCommand.js';
+import { registerBudget } from './budgetCommand.js';
 import { SweepInterruptedError } from '../sweep/interrupted.js';
 import { VERSION } from '../version.js';
 
@@ -40,6 +41,7 @@ export function buildProgram(io: CliIo): Command {
   registerSimulate(program, io);
   registerLimits(program, io);
   registerVet(program, io);
+  registerBudget(program, io);
   return program;
 }
 

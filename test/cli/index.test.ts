@@ -4,7 +4,7 @@ import * as lib from '../../src/index.js';
 
 describe('library API (DESIGN.md names)', () => {
   it('exports the functions other tools rely on', () => {
-    for (const name of ['transitFlux', 'pairTransitFlux', 'loadScenario', 'runSweep', 'computeLimits', 'vetClaim']) {
+    for (const name of ['transitFlux', 'pairTransitFlux', 'loadScenario', 'runSweep', 'computeLimits', 'vetClaim', 'planBudget']) {
       expect(typeof (lib as Record<string, unknown>)[name], name).toBe('function');
     }
   });

@@ -1,0 +1,271 @@
+/**
+ * The budget question from its three sources, in order of precedence: the
+ * caller's `BudgetTarget` (the CLI fills it from flags), the scenario's
+ * `budget:` block, then the defaults. Every problem names where the value
+ * came from (`--probability`, `budget.probability`, `target.probability`),
+ * the value and what is allowed, all at once.
+ *
+ *   budget:
+ *     probability: 0.9            # or "90 %"
+ *     solve: transits             # transits | cadence | precision
+ *     channel: combined           # combined | ttv | tdv | dip
+ *     moon_mass: 0.6 Mearth       # target moon (default: the scenario's moon)
+ *     moon_separation: 18 Rp      # length, "N Rp" or "f hill"
+ *     realizations: 100
+ *     null_realizations: 400
+ *     max_transits: 50
+ *     forecast_only: false
+ *     habitable: {mass_from: 0.1 Mearth, mass_to: 2 Mearth, grid: 8, fraction: 0.5, confirm_moons: 8}
+ *                                 # or `habitable: true` for these defaults
+ */
+import { M_EARTH_KG } from '../physics/constants.js';
+import { InputError, type FieldProblem } from '../scenario/errors.js';
+import { FieldReader } from '../scenario/fieldReader.js';
+import { parseQuantity, splitNumberUnit } from '../scenario/units.js';
+import { BUDGET_CHANNELS, BUDGET_SOLVES, type BudgetChannel, type BudgetSolve, type BudgetTarget, type HabitableTarget, type ResolvedBudgetTarget } from './budgetTypes.js';
+
+export const DEFAULT_BUDGET_PROBABILITY = 0.9;
+/** Moon realizations per Monte Carlo evaluation (one target moon). */
+export const DEFAULT_BUDGET_REALIZATIONS = 100;
+/** Moon realizations per target moon in habitable mode (many moons per evaluation). */
+export const DEFAULT_HABITABLE_REALIZATIONS = 40;
+/**
+ * No-moon realizations per evaluated value. Half calibrate the thresholds and
+ * half measure the false-alarm rate (src/timing/detection.ts). With 200
+ * calibration values the expected false-alarm rate exceeds the requested one
+ * by about 1/201 per channel (order statistics; see nullCountNotes in
+ * planBudget.ts); the answer states the expected and the measured rate, and
+ * --null-realizations buys a sharper one at a proportional cost.
+ */
+export const DEFAULT_BUDGET_NULL_REALIZATIONS = 400;
+export const DEFAULT_MAX_TRANSITS = 50;
+/** The TTV excess against a linear ephemeris needs at least 3 transits (N − 2 degrees of freedom). */
+export const MIN_BUDGET_TRANSITS = 3;
+export const MAX_BUDGET_TRANSITS = 10000;
+
+export const DEFAULT_HABITABLE: HabitableTarget = {
+  massFromKg: 0.1 * M_EARTH_KG,
+  massToKg: 2 * M_EARTH_KG,
+  grid: 8,
+  fraction: 0.5,
+  confirmMoons: 8,
+};
+
+const PROBABILITY_TEXT = 'expected a detection probability above 0 and below 1, e.g. 0.9 or "90 %"';
+const REALIZATIONS_TEXT = 'expected a whole number of moon realizations from 1 to 100000';
+const NULL_TEXT = 'expected a whole number of no-moon realizations from 4 to 1000000';
+const MAX_TRANSITS_TEXT = `expected a whole number of transits from ${MIN_BUDGET_TRANSITS} to ${MAX_BUDGET_TRANSITS}`;
+const SEPARATION_TEXT = 'expected a length ("1e9 m", "0.01 AU"), planet radii ("18 Rp") or a fraction of the Hill radius ("0.2 hill")';
+
+/** Where a value is read from: a reader and the key inside it (so its path names the source). */
+interface Source {
+  r: FieldReader;
+  key: string;
+}
+
+/** The CLI's flag values (strings or booleans as commander gives them), keyed by flag name without dashes. */
+export type BudgetFlags = Record<string, string | boolean | undefined>;
+
+/** Flag name (`--moon-mass`) ↔ budget-block key (`moon_mass`). */
+const KEYS: ReadonlyArray<[string, string]> = [
+  ['moon_mass', '--moon-mass'],
+  ['moon_separation', '--moon-separation'],
+  ['probability', '--probability'],
+  ['solve', '--solve'],
+  ['channel', '--channel'],
+  ['realizations', '--realizations'],
+  ['null_realizations', '--null-realizations'],
+  ['max_transits', '--max-transits'],
+  ['forecast_only', '--forecast-only'],
+];
+
+const HABITABLE_KEYS: ReadonlyArray<[string, string]> = [
+  ['mass_from', '--mass-from'],
+  ['mass_to', '--mass-to'],
+  ['grid', '--grid'],
+  ['fraction', '--fraction'],
+  ['confirm_moons', '--confirm-moons'],
+];
+
+function readProbability(s: Source): number {
+  return s.r.quantity(s.key, 'fraction', { bare: [1, 'a fraction'], min: 0, minExclusive: true, max: 1, maxExclusive: true, rangeText: PROBABILITY_TEXT });
+}
+
+function readInt(s: Source, min: number, max: number, text: string): number {
+  return s.r.number(s.key, { integer: true, min, max, rangeText: text });
+}
+
+function readMass(s: Source): number {
+  return s.r.quantity(s.key, 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass, e.g. "0.6 Mearth"' });
+}
+
+/** A separation as the scenario accepts it; kept as text for "Rp" and "hill" (resolved against the scenario later). */
+function readSeparation(s: Source): number | string | null {
+  const raw = s.r.raw(s.key);
+  if (raw === undefined || raw === null) return null;
+  if (typeof raw === 'string') {
+    const nu = splitNumberUnit(raw);
+    if (nu && (nu.unit === 'Rp' || nu.unit === 'hill')) {
+      if (nu.num > 0 && Number.isFinite(nu.num)) return raw;
+      s.r.problem(s.key, raw, 'must be positive; ' + SEPARATION_TEXT);
+      return null;
+    }
+  }
+  try {
+    const m = parseQuantity(raw, s.r.path(s.key), 'length');
+    if (m > 0) return m;
+  } catch {
+    // reported below
+  }
+  s.r.problem(s.key, raw, SEPARATION_TEXT);
+  return null;
+}
+
+function readBool(s: Source): boolean | undefined {
+  const raw = s.r.raw(s.key);
+  if (raw === undefined || raw === null) return undefined;
+  if (typeof raw === 'boolean') return raw;
+  s.r.problem(s.key, raw, 'expected true or false');
+  return undefined;
+}
+
+/**
+ * The CLI flags as a `BudgetTarget`. Throws InputError naming each bad flag.
+ * `flags` keys are commander's camelCase option names (moonMass, nullRealizations...).
+ */
+export function readBudgetFlags(flags: BudgetFlags): BudgetTarget {
+  const problems: FieldProblem[] = [];
+  const byFlag: Record<string, unknown> = {};
+  for (const [, flag] of [...KEYS, ...HABITABLE_KEYS, ['habitable', '--habitable']]) {
+    const camel = flag.slice(2).replace(/-([a-z])/g, (_, c: string) => c.toUpperCase());
+    if (flags[camel] !== undefined) byFlag[flag] = flags[camel];
+  }
+  const r = new FieldReader(byFlag, '', problems);
+  const src = (flag: string): Source | null => (byFlag[flag] === undefined ? null : { r, key: flag });
+  const t: BudgetTarget = {};
+  let s: Source | null;
+  if ((s = src('--moon-mass'))) t.moonMassKg = readMass(s);
+  if ((s = src('--moon-separation'))) t.moonSeparation = readSeparation(s) ?? undefined;
+  if ((s = src('--probability'))) t.probability = readProbability(s);
+  if ((s = src('--solve'))) t.solve = r.choice(s.key, BUDGET_SOLVES, 'transits');
+  if ((s = src('--channel'))) t.channel = r.choice(s.key, BUDGET_CHANNELS, 'combined');
+  if ((s = src('--realizations'))) t.realizations = readInt(s, 1, 100000, REALIZATIONS_TEXT);
+  if ((s = src('--null-realizations'))) t.nullRealizations = readInt(s, 4, 1_000_000, NULL_TEXT);
+  if ((s = src('--max-transits'))) t.maxTransits = readInt(s, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT);
+  if (flags.forecastOnly === true) t.forecastOnly = true;
+  const habitableFlags = HABITABLE_KEYS.filter(([, f]) => byFlag[f] !== undefined).map(([, f]) => f);
+  if (flags.habitable === true) {
+    t.habitable = readHabitable((key) => {
+      const flag = HABITABLE_KEYS.find(([k]) => k === key)![1];
+      return byFlag[flag] === undefined ? null : { r, key: flag };
+    }, DEFAULT_HABITABLE);
+  } else if (habitableFlags.length > 0) {
+    problems.push({ path: habitableFlags[0], value: byFlag[habitableFlags[0]], allowed: 'only with --habitable' });
+  }
+  if (problems.length > 0) throw new InputError(problems);
+  t.sourceNames = { moonMassKg: '--moon-mass', moonSeparation: '--moon-separation' };
+  return t;
+}
+
+function readHabitable(get: (key: string) => Source | null, base: HabitableTarget): HabitableTarget {
+  const h = { ...base };
+  let s: Source | null;
+  if ((s = get('mass_from'))) h.massFromKg = readMass(s);
+  if ((s = get('mass_to'))) h.massToKg = readMass(s);
+  if ((s = get('grid'))) h.grid = readInt(s, 2, 40, 'expected a whole number of grid points per axis from 2 to 40');
+  if ((s = get('fraction'))) h.fraction = s.r.quantity(s.key, 'fraction', { bare: [1, 'a fraction'], min: 0, minExclusive: true, max: 1, rangeText: 'expected a fraction of the target moons above 0 and at most 1, e.g. 0.5 or "50 %"' });
+  if ((s = get('confirm_moons'))) h.confirmMoons = readInt(s, 1, 1600, 'expected a whole number of moons to simulate from 1 to 1600');
+  if (Number.isFinite(h.massFromKg) && Number.isFinite(h.massToKg) && !(h.massToKg > h.massFromKg)) {
+    const key = get('mass_to') ?? get('mass_from');
+    if (key) key.r.problem(key.key, key.r.raw(key.key), 'the mass range needs mass_to above mass_from');
+  }
+  return h;
+}
+
+/** Check one typed value of a library caller's target; records a problem under `target.<name>`. */
+function checkTyped(problems: FieldProblem[], name: string, value: unknown, ok: boolean, allowed: string): void {
+  if (!ok) problems.push({ path: `target.${name}`, value, allowed });
+}
+
+/**
+ * Merge the caller's target, the scenario's `budget:` block (from `doc`) and
+ * the defaults. Throws InputError listing every problem.
+ */
+export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, source = 'scenario'): ResolvedBudgetTarget {
+  const problems: FieldProblem[] = [];
+  const block = doc !== null && typeof doc === 'object' ? (doc as Record<string, unknown>).budget : undefined;
+  const b = new FieldReader(block, 'budget', problems);
+  const has = (key: string): Source | null => (b.has(key) ? { r: b, key } : null);
+  for (const [k] of KEYS) b.raw(k); // mark as known even when the target overrides it
+  b.raw('habitable');
+
+  const isInt = (x: unknown, lo: number, hi: number) => typeof x === 'number' && Number.isInteger(x) && x >= lo && x <= hi;
+  const pick = <T>(name: keyof BudgetTarget, key: string, typedOk: (v: unknown) => boolean, allowed: string, read: (s: Source) => T, fallback: T): T => {
+    const v = target[name];
+    if (v !== undefined) {
+      checkTyped(problems, name, v, typedOk(v), allowed);
+      return v as T;
+    }
+    const s = has(key);
+    return s ? read(s) : fallback;
+  };
+
+  const probability = pick('probability', 'probability', (v) => typeof v === 'number' && v > 0 && v < 1, PROBABILITY_TEXT, readProbability, DEFAULT_BUDGET_PROBABILITY);
+  const solve = pick<BudgetSolve>('solve', 'solve', (v) => (BUDGET_SOLVES as readonly unknown[]).includes(v), `expected one of ${BUDGET_SOLVES.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_SOLVES, 'transits'), 'transits');
+  const channel = pick<BudgetChannel>('channel', 'channel', (v) => (BUDGET_CHANNELS as readonly unknown[]).includes(v), `expected one of ${BUDGET_CHANNELS.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_CHANNELS, 'combined'), 'combined');
+  const nullRealizations = pick('nullRealizations', 'null_realizations', (v) => isInt(v, 4, 1_000_000), NULL_TEXT, (s) => readInt(s, 4, 1_000_000, NULL_TEXT), DEFAULT_BUDGET_NULL_REALIZATIONS);
+  const maxTransits = pick('maxTransits', 'max_transits', (v) => isInt(v, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS), MAX_TRANSITS_TEXT, (s) => readInt(s, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT), DEFAULT_MAX_TRANSITS);
+  const forecastOnly = pick('forecastOnly', 'forecast_only', (v) => typeof v === 'boolean', 'expected true or false', (s) => readBool(s) ?? false, false);
+
+  let moonMassKg: number | null = null;
+  let moonMassSource = 'moon.mass';
+  if (target.moonMassKg !== undefined) {
+    checkTyped(problems, 'moonMassKg', target.moonMassKg, target.moonMassKg > 0 && Number.isFinite(target.moonMassKg), 'must be a positive mass in kg');
+    moonMassKg = target.moonMassKg;
+    moonMassSource = target.sourceNames?.moonMassKg ?? 'target.moonMassKg';
+  } else if (has('moon_mass')) {
+    moonMassKg = readMass({ r: b, key: 'moon_mass' });
+    moonMassSource = 'budget.moon_mass';
+  }
+  let moonSeparation: number | string | null = null;
+  let moonSeparationSource = 'moon.separation';
+  if (target.moonSeparation !== undefined) {
+    const v = target.moonSeparation;
+    const f = new FieldReader({ moonSeparation: v }, 'target', problems);
+    moonSeparation = typeof v === 'number' ? (v > 0 && Number.isFinite(v) ? v : (f.problem('moonSeparation', v, 'must be a positive length in m'), null)) : readSeparation({ r: f, key: 'moonSeparation' });
+    moonSeparationSource = target.sourceNames?.moonSeparation ?? 'target.moonSeparation';
+  } else if (has('moon_separation')) {
+    moonSeparation = readSeparation({ r: b, key: 'moon_separation' });
+    moonSeparationSource = 'budget.moon_separation';
+  }
+
+  let habitable: HabitableTarget | null = null;
+  if (target.habitable !== undefined) {
+    habitable = target.habitable;
+    if (habitable) {
+      const h = habitable;
+      checkTyped(problems, 'habitable.massFromKg', h.massFromKg, h.massFromKg > 0, 'must be a positive mass in kg');
+      checkTyped(problems, 'habitable.massToKg', h.massToKg, h.massToKg > h.massFromKg, 'must exceed massFromKg');
+      checkTyped(problems, 'habitable.grid', h.grid, isInt(h.grid, 2, 40), 'expected a whole number from 2 to 40');
+      checkTyped(problems, 'habitable.fraction', h.fraction, h.fraction > 0 && h.fraction <= 1, 'expected a fraction above 0 and at most 1');
+      checkTyped(problems, 'habitable.confirmMoons', h.confirmMoons, isInt(h.confirmMoons, 1, 1600), 'expected a whole number from 1 to 1600');
+    }
+  } else if (b.has('habitable')) {
+    const raw = b.raw('habitable');
+    if (raw === true) habitable = { ...DEFAULT_HABITABLE };
+    else if (raw === false) habitable = null;
+    else {
+      const hr = new FieldReader(raw, 'budget.habitable', problems);
+      habitable = readHabitable((key) => (hr.has(key) ? { r: hr, key } : null), DEFAULT_HABITABLE);
+      for (const [k] of HABITABLE_KEYS) hr.raw(k);
+      hr.rejectUnknown();
+    }
+  }
+  if (habitable && (moonMassKg !== null || moonSeparation !== null) && (target.moonMassKg !== undefined || target.moonSeparation !== undefined)) {
+    problems.push({ path: target.moonMassKg !== undefined ? moonMassSource : moonSeparationSource, value: target.moonMassKg ?? target.moonSeparation, allowed: 'a single target moon and --habitable (a population of moons) cannot both be asked for' });
+  }
+  const realizations = pick('realizations', 'realizations', (v) => isInt(v, 1, 100000), REALIZATIONS_TEXT, (s) => readInt(s, 1, 100000, REALIZATIONS_TEXT), habitable ? DEFAULT_HABITABLE_REALIZATIONS : DEFAULT_BUDGET_REALIZATIONS);
+  b.rejectUnknown();
+  if (problems.length > 0) throw new InputError(problems, source);
+  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable };
+}

@@ -1,0 +1,9 @@
+/** The observing budget: public API of src/budget/. */
+export { planBudget, evaluationText } from './planBudget.js';
+export { readBudgetFlags, resolveBudgetTarget, type BudgetFlags } from './budgetSpec.js';
+export { formatBudget } from './formatBudget.js';
+export { renderBudgetPage, budgetFigure } from './budgetPage.js';
+export { searchCheapestPassing, type MonotoneSearchOutcome } from './monotoneSearch.js';
+export type {
+  BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,
+} from './budgetTypes.js';

@@ -1,0 +1,40 @@
+/** `moonsieve budget SCENARIO`: the fewest transits / hours, or the coarsest cadence / worst noise, reaching a detection probability. */
+import type { Command } from 'commander';
+import { writeFileAtomic } from '../io/atomicWrite.js';
+import { planBudget } from '../budget/planBudget.js';
+import { readBudgetFlags, type BudgetFlags } from '../budget/budgetSpec.js';
+import { formatBudget } from '../budget/formatBudget.js';
+import { renderBudgetPage } from '../budget/budgetPage.js';
+import type { CliIo } from './main.js';
+
+export function registerBudget(program: Command, io: CliIo): void {
+  program
+    .command('budget')
+    .description('the fewest transits (and telescope hours), or the coarsest cadence / worst white noise, that reach a target detection probability for a target moon (forecast, then Monte Carlo)')
+    .argument('<scenario>', 'scenario YAML file (an optional budget: block holds the same settings as these options)')
+    .option('--moon-mass <mass>', 'target moon mass, e.g. "0.6 Mearth" (default: the scenario\'s moon)')
+    .option('--moon-separation <sep>', 'target moon separation: a length, "18 Rp" or "0.2 hill" (default: the scenario\'s moon)')
+    .option('--probability <p>', 'detection probability to reach, e.g. 0.9 or "90 %" (default 0.9)')
+    .option('--solve <what>', 'transits | cadence | precision (default transits)')
+    .option('--channel <ch>', 'combined | ttv | tdv | dip (default combined)')
+    .option('--realizations <n>', 'moon realizations per Monte Carlo evaluation (default 100; 40 per moon with --habitable)')
+    .option('--null-realizations <n>', 'no-moon realizations calibrating the false-alarm thresholds per evaluation (default 400)')
+    .option('--max-transits <n>', 'most transits considered (default 50)')
+    .option('--forecast-only', 'answer from the analytic forecast alone (milliseconds; no Monte Carlo)')
+    .option('--habitable', 'target the temperate, stable moons of a mass range instead of one moon')
+    .option('--mass-from <mass>', 'with --habitable: lightest moon (default 0.1 Mearth)')
+    .option('--mass-to <mass>', 'with --habitable: heaviest moon (default 2 Mearth)')
+    .option('--grid <n>', 'with --habitable: masses × separations grid size per axis (default 8)')
+    .option('--fraction <f>', 'with --habitable: fraction of the target moons that must reach the probability (default 0.5)')
+    .option('--confirm-moons <n>', 'with --habitable: target moons simulated per Monte Carlo evaluation (default 8)')
+    .option('--json', 'print the result as JSON (SI units) instead of the table')
+    .option('--html <file>', 'also write a small HTML page: probability against the solved quantity, the chosen value marked')
+    .option('--quiet', 'no progress lines')
+    .action((scenarioPath: string, opts: BudgetFlags & { json?: boolean; html?: string; quiet?: boolean }) => {
+      const target = readBudgetFlags(opts);
+      const result = planBudget(scenarioPath, target, { progress: opts.quiet ? undefined : (line) => io.err(line) });
+      if (opts.html) writeFileAtomic(opts.html, renderBudgetPage(result));
+      io.out(opts.json ? JSON.stringify(result, null, 2) + '\n' : formatBudget(result));
+      if (opts.html && !opts.json) io.out(`wrote ${opts.html}\n`);
+    });
+}

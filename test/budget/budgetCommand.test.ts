@@ -1,0 +1,69 @@
+/**
+ * `moonsieve budget` through commander (registered here as the lead will in
+ * src/cli/main.ts): flags reach the library, bad flags are InputErrors naming
+ * the flag, outputs are the table, JSON and an HTML page. Forecast-only runs
+ * keep this file fast; the Monte Carlo path is covered in planBudget.test.ts.
+ */
+import { describe, it, expect } from 'vitest';
+import { Command } from 'commander';
+import { mkdtempSync, readFileSync, existsSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { registerBudget } from '../../src/cli/budgetCommand.js';
+import { InputError } from '../../src/scenario/errors.js';
+
+const demo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).pathname;
+
+async function run(args: string[]): Promise<{ out: string; err: string; error: unknown }> {
+  let out = '';
+  let err = '';
+  const program = new Command().exitOverride().configureOutput({ writeOut: (t) => { out += t; }, writeErr: (t) => { err += t; } });
+  registerBudget(program, { out: (t) => { out += t; }, err: (t) => { err += t; } });
+  try {
+    await program.parseAsync(['node', 'moonsieve', 'budget', ...args]);
+    return { out, err, error: null };
+  } catch (e) {
+    return { out, err, error: e };
+  }
+}
+
+describe('moonsieve budget (CLI)', () => {
+  it('bad flags: an InputError naming each flag and its value, nothing printed', async () => {
+    const r = await run([demo, '--probability', '0', '--channel', 'photometry', '--moon-separation', 'far']);
+    expect(r.error).toBeInstanceOf(InputError);
+    const msg = (r.error as InputError).message;
+    expect(msg).toContain('--probability');
+    expect(msg).toContain('--channel');
+    expect(msg).toContain('--moon-separation: got "far"');
+    expect(r.out).toBe('');
+  });
+
+  it('a target moon the scenario refuses names the flag', async () => {
+    const r = await run([demo, '--forecast-only', '--moon-separation', '1 Rp']);
+    expect(r.error).toBeInstanceOf(InputError);
+    expect((r.error as InputError).message).toMatch(/--moon-separation \(the target moon's separation\).*touch the planet/);
+  });
+
+  it('--forecast-only --json: SI keys, the answer and the forecast curve; --html writes the page', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-budget-'));
+    const page = join(dir, 'budget.html');
+    const r = await run([demo, '--forecast-only', '--json', '--moon-mass', '0.6 Mearth', '--moon-separation', '18 Rp', '--probability', '90 %', '--html', page]);
+    expect(r.error).toBeNull();
+    const j = JSON.parse(r.out);
+    expect(j.solve).toBe('transits');
+    expect(j.probability_target).toBeCloseTo(0.9, 15);
+    expect(j.answer.reached).toBe(true);
+    expect(j.quantity.values[0]).toBe(3);
+    expect(j.forecast.probability).toHaveLength(j.quantity.values.length);
+    expect(existsSync(page)).toBe(true);
+    expect(readFileSync(page, 'utf8')).toContain('Plotly.newPlot');
+  });
+
+  it('the table names the answer, the forecast caveat for this moon and the assumptions', async () => {
+    const r = await run([demo, '--forecast-only', '--solve', 'precision']);
+    expect(r.error).toBeNull();
+    expect(r.out).toMatch(/worst white-noise level/);
+    expect(r.out).toMatch(/photocentric/); // the demo moon's dip is large for its mass
+    expect(r.out).toMatch(/Assumptions/);
+  });
+});
