@@ -13,6 +13,7 @@ import { moonEnergyBudget } from './energyBudget.js';
 import { runawayGreenhouseFlux, surfaceGravity } from './runawayGreenhouse.js';
 import { FLUX_BUDGET_CAUTION, HZ_TEFF_MAX_K, HZ_TEFF_MIN_K, KOPPARAPU_2013, habitabilityVerdict, habitableZoneDistance, habitableZoneEdgeFlux } from './habitableZone.js';
 import { timingSignals } from './timingSignals.js';
+import { transitAveraging } from './transitAveraging.js';
 import { ttvAlias, aliasFamily } from './ttvAlias.js';
 import { moonDipDepth } from './moonDip.js';
 import { timingPrecision } from './timingPrecision.js';
@@ -157,7 +158,7 @@ export function computeLimits(s: Scenario): LimitsJson {
   }
   const assumptions: string[] = [
     'nested two-body (Kepler) orbits: no perturbations by the star on the moon orbit, no other planets',
-    'TTV/TDV amplitudes from the barycentric reflex motion only (no photocentric TTV from the moon dip)',
+    'TTV/TDV amplitudes from the barycentric reflex motion (Kipping 2009a), averaged over the transit; no photocentric TTV from the moon dip',
     'per-transit precision is the Cramér–Rao bound of the limb-darkened, exposure-averaged model under white noise; red noise, spots and systematics make real errors larger',
     `detection forecast: noncentral chi-square of white-noise TTV/TDV excesses at false-alarm probability ${s.detection.falseAlarm}`,
     'Roche limit, stability band and tidal survival are fits and idealisations, not guarantees',
@@ -216,7 +217,7 @@ export function computeLimits(s: Scenario): LimitsJson {
   if (!moon.retrograde && moon.massKg > tidalMax) placement.push('would not survive tidal migration');
   if (placement.length === 0) placement.push('stable');
 
-  const sig = timingSignals({
+  const frozen = timingSignals({
     planetMassKg: planet.massKg,
     moonMassKg: moon.massKg,
     moonSeparationM: moon.separationM,
@@ -230,6 +231,18 @@ export function computeLimits(s: Scenario): LimitsJson {
     barycentreOmegaRad: planet.omegaRad,
     durationS: dur.t14S,
   });
+  // The reflex motion during the transit averages the signals down (transitAveraging.ts).
+  const avg = transitAveraging(dur.t14S, frozen.moonPeriodS);
+  const sig = {
+    ...frozen,
+    ttvSemiAmplitudeS: frozen.ttvSemiAmplitudeS * avg.ttvFactor,
+    ttvRmsS: frozen.ttvRmsS * avg.ttvFactor,
+    tdvSemiAmplitudeS: frozen.tdvSemiAmplitudeS * avg.tdvFactor,
+    tdvRmsS: frozen.tdvRmsS * avg.tdvFactor,
+  };
+  if (avg.ttvFactor < 0.99) {
+    out.assumptions.push(`the transit lasts ${(dur.t14S / frozen.moonPeriodS).toFixed(2)} of the moon's period: the reflex motion during the transit reduces the TTV by ×${avg.ttvFactor.toFixed(3)} and the TDV by ×${avg.tdvFactor.toFixed(3)} against Kipping's (2009a) frozen-planet amplitudes (included here)`);
+  }
   const alias = ttvAlias(planet.periodS, sig.moonPeriodS);
   const family = aliasFamily(planet.periodS, alias.aliasFrequencyPerEpoch, 4).map((m) => m.moonPeriodS);
   const dip = moonDipDepth({ moonRadiusM: moon.radiusM, starRadiusM: star.radiusM, u1: star.u1, u2: star.u2, impactParameter: Math.min(planet.impactParameter, 0.999) });

@@ -3,7 +3,7 @@
  * the one function that runs a cell, so every execution path builds the same
  * task and normalises the result the same way.
  */
-import type { CellContext, CellResult, CellRunner, CellTask } from './cellTypes.js';
+import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import { createGrid, type Grid } from './grid.js';
 import { applyAxisValues } from './applyAxes.js';
 import type { SweepAxis } from './sweepSpec.js';
@@ -33,11 +33,12 @@ export function cellTask(p: PreparedJob, index: number): CellTask {
  * Run cell `index` and normalise its result: `index` and `coords` come first
  * and from the engine, and the whole object passes through JSON once (NaN and
  * ±Infinity become null), so a result read back from a checkpoint is
- * indistinguishable from a fresh one.
+ * indistinguishable from a fresh one. `shared` (e.g. precomputed null sets)
+ * is passed through to the runner.
  */
-export function runOneCell(runner: CellRunner, p: PreparedJob, index: number): CellResult {
+export function runOneCell(runner: CellRunner, p: PreparedJob, index: number, shared?: CellShared): CellResult {
   const task = cellTask(p, index);
-  const raw = runner(task, p.job.ctx) as unknown;
+  const raw = (shared === undefined ? runner(task, p.job.ctx) : runner(task, p.job.ctx, shared)) as unknown;
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
     throw new TypeError(`the cell runner returned ${raw === null ? 'null' : Array.isArray(raw) ? 'an array' : typeof raw} for cell ${index}; expected an object`);
   }

@@ -3,6 +3,7 @@
  * The engine owns the grid, dispatch, seeding keys, checkpoints and outputs;
  * a `CellRunner` turns one cell of the grid into one JSON-serialisable result.
  */
+import type { NullSet } from './nullSet.js';
 
 /** One cell of the grid, as handed to a runner. */
 export interface CellTask {
@@ -32,6 +33,19 @@ export interface CellContext {
   realizations: number;
   simulateUnstable: boolean;
   forecastOnly: boolean;
+  /** No-moon calibration realizations per cell (default: `defaultNullRealizations` of the cell's α and R). */
+  nullRealizations?: number;
 }
 
-export type CellRunner = (task: CellTask, ctx: CellContext) => CellResult;
+/**
+ * What the engine may hand a runner besides the task: null sets computed once
+ * for the whole sweep (the calibration pre-pass), keyed by `NullClass.key`.
+ * A runner that finds no set for its class computes one itself.
+ */
+export interface CellShared {
+  nullSets?: ReadonlyMap<string, NullSet>;
+  /** Called when `nullSets` was given but lacks the cell's class (the runner then computes it). */
+  onNullMiss?: (key: string) => void;
+}
+
+export type CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared) => CellResult;

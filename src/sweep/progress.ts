@@ -27,6 +27,8 @@ export interface Progress {
   update(done: number): void;
   /** Final state: a last line (and a newline after the terminal bar). */
   finish(done: number): void;
+  /** A one-line message (e.g. the calibration phase), timestamped in logs, above the bar on a terminal. */
+  note(text: string): void;
 }
 
 const TTY_INTERVAL_MS = 200;
@@ -52,7 +54,7 @@ function timestamp(ms: number): string {
 }
 
 export function createProgress(o: ProgressOptions): Progress {
-  if (o.quiet) return { update() {}, finish() {} };
+  if (o.quiet) return { update() {}, finish() {}, note() {} };
   const now = o.now ?? Date.now;
   const label = o.label ?? 'sweep';
   const total = o.total;
@@ -108,6 +110,17 @@ export function createProgress(o: ProgressOptions): Progress {
         lastLogDecile = decile;
         lastLogTime = t;
         o.stream.write(logLine(done));
+      }
+    },
+    note(text) {
+      if (tty) {
+        // Overwrite the bar (if drawn) with the message; the bar is redrawn at the next update.
+        const pad = lastWidth > text.length + label.length + 1 ? ' '.repeat(lastWidth - text.length - label.length - 1) : '';
+        o.stream.write(`\r${label} ${text}${pad}\n`);
+        lastWidth = 0;
+        lastDraw = Number.NEGATIVE_INFINITY;
+      } else {
+        o.stream.write(`${timestamp(now())} ${label} ${text}\n`);
       }
     },
     finish(done) {

@@ -6,10 +6,14 @@
  * forecast.
  *
  * No-moon calibration realizations depend only on the scenario without its
- * moon, so cells that differ only in the moon (mass × separation grids) share
- * them: they are seeded by (seed, hash of the moon-less scenario, r) and
- * cached per worker thread, which keeps results identical whatever the worker
- * count, order, sharding or resumption.
+ * moon (parsed afresh without the moon block, so the planet's orbit is that
+ * of the moonless system), so cells that differ only in their moon (mass ×
+ * separation grids) share them. They are seeded by (seed, hash of the
+ * moon-less scenario, r) (nullSet.ts), which keeps results identical whatever the worker count,
+ * order, sharding or resumption. The sweep engine computes each class once,
+ * in chunks over the workers, and hands the sets to the runner (`shared`);
+ * without them (e.g. in the main thread) the runner computes the set itself
+ * and caches it per thread.
  *
  * Channel statistics (larger = more moon-like):
  *   ttv: −log10 p of the TTV χ² against a linear ephemeris (N − 2 dof);
@@ -18,8 +22,16 @@
  *        for this cell's moon separation, outside the planet's own transit.
  * p-values are used instead of raw χ² so that realizations with a different
  * number of fitted transits (gaps) share one calibrated threshold.
+ *
+ * Thresholds are the conservative order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉,
+ * of the calibration half of the no-moon statistics, whose exceedance
+ * probability under the null is at most α (a distribution-free bound; e.g.
+ * David & Nagaraja 2003, Order Statistics, §7.2): an interpolated quantile
+ * would let the false-alarm rate exceed the requested one when the null set
+ * is small. The other half measures the false-alarm rate actually reached.
+ * With too few no-moon realizations for that bound ((n + 1)·α/3 < 1) the
+ * interpolated (type 7) quantile is used and the cell says `calibration_limited`.
  */
-import { createHash } from 'node:crypto';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
@@ -29,63 +41,78 @@ import { LightCurveWorkspace } from '../photometry/lightCurve.js';
 import { runRealization, type RealizationRecord } from '../timing/realization.js';
 import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
-import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
 import { scenarioDurations } from '../photometry/transitWindows.js';
-import { canonicalJson } from './canonicalJson.js';
-import type { CellContext, CellResult, CellRunner, CellTask } from './cellTypes.js';
+import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
+import {
+  chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
+  type NullClass, type NullSet, type PackedNullRange,
+} from './nullSet.js';
 
-/** Default number of no-moon calibration realizations: enough for ~10 exceedances at α (and ≥ 200). */
-export function defaultNullRealizations(falseAlarm: number, realizations: number): number {
-  return Math.max(realizations, 200, Math.ceil(10 / falseAlarm));
-}
+export { defaultNullRealizations };
 
-/** Stream id of the no-moon realizations: a 31-bit hash of the moon-less scenario. */
-function nullStreamId(s: Scenario): { key: string; id: number } {
-  const key = canonicalJson({ ...s, moon: null, name: '' });
-  const h = createHash('sha256').update(key).digest();
-  return { key, id: h.readUInt32BE(0) >>> 1 };
-}
-
-/** A seed distinct from the moon realizations' seed for the same scenario seed. */
-const NULL_SEED_SALT = 0x6e756c6c; // "null"
-
-interface NullSet {
-  ttv: Float64Array;
-  tdv: Float64Array;
-  stacks: ResidualStack[];
-}
-
-/** Per-worker cache of no-moon realizations (worker-local state lives in sweep/, never in the numerical core). */
+/** Per-worker cache of null sets computed here (worker-local state lives in sweep/, never in the numerical core). */
 const nullCache = new Map<string, NullSet>();
 
-/** −log10 of a χ² survival probability (floored at 1e-300); 0 when not measured. */
-function chiSquareScore(chi2: number, dof: number): number {
-  if (!(dof >= 1) || !Number.isFinite(chi2)) return 0;
-  const p = chiSquareSurvival(chi2, dof);
-  return -Math.log10(Math.max(p, 1e-300));
+/** Why a cell is not simulated, or null when it is. */
+function skipReason(s: Scenario, base: CellResult, ctx: CellContext): string | null {
+  if (!s.moon) return 'no moon in the scenario';
+  if (ctx.forecastOnly) return 'forecast only';
+  if (!base.stable && !ctx.simulateUnstable) return `not simulated: ${String(base.placement)}`;
+  return null;
 }
 
-function nullSet(s: Scenario, seed: number, count: number, ws: LightCurveWorkspace): NullSet {
-  const { key, id } = nullStreamId(s);
-  const cacheKey = `${seed}|${count}|${key}`;
-  const hit = nullCache.get(cacheKey);
+/**
+ * The null class of a cell (whether or not the cell is simulated): the cell's
+ * scenario document without its moon, parsed afresh, so that every derived
+ * quantity (the planet's semi-major axis from Kepler's third law with the
+ * moon's mass, the inclination from the impact parameter) is that of the
+ * moonless system. Cells that differ only in their moon then share one class.
+ */
+function classOfCell(doc: unknown, s: Scenario, ctx: CellContext): NullClass {
+  const count = ctx.nullRealizations ?? defaultNullRealizations(s.detection.falseAlarm, ctx.realizations);
+  const rest = { ...(doc as Record<string, unknown>) };
+  delete rest.moon;
+  return nullClassOfScenario(parseScenario(rest, 'scenario without its moon'), ctx.seed, count);
+}
+
+/**
+ * The null class whose realizations calibrate this cell's false alarms, or
+ * null when the cell is not simulated (no moon, forecast only, or unstable
+ * without simulate_unstable): the same decision `runCell` makes.
+ */
+export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null {
+  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
+  if (!s.moon || ctx.forecastOnly) return null;
+  const base = labelFields(s, computeLimits(s));
+  return skipReason(s, base as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
+}
+
+/** Whether `runCell` will simulate this cell (and so needs its null set). */
+export function cellNeedsCalibration(task: CellTask, ctx: CellContext): boolean {
+  return nullClassOf(task, ctx) !== null;
+}
+
+/**
+ * Realizations [start, start + n) of the null set of this cell's class,
+ * packed (the calibration pre-pass runs these chunks on the workers).
+ */
+export function nullChunkOf(task: CellTask, ctx: CellContext, start: number, n: number, ws?: LightCurveWorkspace): { key: string; range: PackedNullRange } {
+  const c = classOfCell(task.scenarioDoc, parseScenario(task.scenarioDoc, `cell ${task.index}`), ctx);
+  return { key: c.key, range: computeNullRange(c, start, n, ws) };
+}
+
+/** The provided null set of class `c`, else one from this thread's cache, else computed here. */
+function nullSetFor(c: NullClass, shared: CellShared | undefined, ws: LightCurveWorkspace): NullSet {
+  const provided = shared?.nullSets?.get(c.key);
+  if (provided) return provided;
+  if (shared?.nullSets) shared.onNullMiss?.(c.key);
+  const hit = nullCache.get(c.key);
   if (hit) return hit;
-  const ttv = new Float64Array(count);
-  const tdv = new Float64Array(count);
-  const stacks: ResidualStack[] = [];
-  const noMoon: Scenario = { ...s, moon: null };
-  for (let r = 0; r < count; r++) {
-    const rng = createRng((seed ^ NULL_SEED_SALT) >>> 0, id, r);
-    const { record } = runRealization(noMoon, rng, { withMoon: false, workspace: ws });
-    ttv[r] = chiSquareScore(record.ttvChi2, record.ttvDof);
-    tdv[r] = chiSquareScore(record.tdvChi2, record.tdvDof);
-    stacks.push(record.stack);
-  }
-  const set = { ttv, tdv, stacks };
+  const set = computeNullSet(c, ws);
   if (nullCache.size > 8) nullCache.clear(); // bounded memory: a sweep visits null classes in index order
-  nullCache.set(cacheKey, set);
+  nullCache.set(c.key, set);
   return set;
 }
 
@@ -134,19 +161,19 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
   };
 }
 
-export const runCell: CellRunner = (task: CellTask, ctx: CellContext): CellResult => {
+export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared): CellResult => {
   const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
   const limits = computeLimits(s);
   const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits) };
-  if (!s.moon) return { ...base, simulated: false, skipped_reason: 'no moon in the scenario' };
-  if (ctx.forecastOnly) return { ...base, simulated: false, skipped_reason: 'forecast only' };
-  if (!base.stable && !ctx.simulateUnstable) return { ...base, simulated: false, skipped_reason: `not simulated: ${String(base.placement)}` };
+  const skipped = skipReason(s, base, ctx);
+  if (skipped !== null) return { ...base, simulated: false, skipped_reason: skipped };
 
   const R = ctx.realizations;
   const alpha = s.detection.falseAlarm;
-  const nNull = (ctx as CellContext & { nullRealizations?: number }).nullRealizations ?? defaultNullRealizations(alpha, R);
+  const nullClass = classOfCell(task.scenarioDoc, s, ctx);
+  const nNull = nullClass.count;
   const ws = new LightCurveWorkspace();
-  const nulls = nullSet(s, ctx.seed, nNull, ws);
+  const nulls = nullSetFor(nullClass, shared, ws);
 
   // Dip channel: this cell's profile applied to the stored no-moon stacks.
   const profile = dipProfile(s, nulls.stacks[0]);
@@ -155,7 +182,12 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext): CellResul
     const d = stackedDipSnr(st, profile, exclude).snr;
     return Number.isFinite(d) ? d : 0;
   });
-  const calibration: DetectionCalibration = calibrateDetection({ ttv: nulls.ttv, tdv: nulls.tdv, dip: nullDip }, alpha);
+  // The distribution-free order statistic needs (n + 1)·α/m ≥ 1 calibration realizations (n the
+  // calibration half, m = 3 channels for the combined rule); with fewer, fall back to the
+  // interpolated quantile and say so in the cell.
+  const nCalibration = Math.ceil(nulls.ttv.length / 2);
+  const limited = (nCalibration + 1) * (alpha / DETECTION_CHANNELS.length) < 1;
+  const calibration: DetectionCalibration = calibrateDetection({ ttv: nulls.ttv, tdv: nulls.tdv, dip: nullDip }, alpha, { method: limited ? 'type7' : 'orderStatistic' });
 
   const counts: Record<DetectionChannel | 'combined', number> = { ttv: 0, tdv: 0, dip: 0, combined: 0 };
   const ttvRms: number[] = [];
@@ -208,6 +240,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext): CellResul
     median_dip_depth_ppm: median(dipDepth),
     median_transits_fitted: median(fitted),
     false_alarm_requested: alpha,
+    calibration_limited: limited,
     false_alarm_measured_combined: calibration.measuredCombinedAlpha,
     ...fa,
   };

@@ -6,6 +6,10 @@
  * cells are done writes the outputs atomically and removes the checkpoint.
  * Every realization is seeded from (scenario seed, cell, realization) by the
  * runner, so the results do not depend on workers, order, shards or resumes.
+ * With the default runner on worker threads, the no-moon calibration sets the
+ * cells of this run need are computed first, once each, in chunks over the
+ * workers (calibrationPlan.ts, workerPool.ts); they are seeded independently
+ * of the worker, so this changes the speed, not the results.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
@@ -20,11 +24,14 @@ import { scenarioHash } from './canonicalJson.js';
 import type { CellResult, CellRunner } from './cellTypes.js';
 import { checkpointHeader, checkpointPath, openCheckpoint, readCheckpoint, removeCheckpoint } from './checkpoint.js';
 import { writeSweepOutputs, type SweepRunInfo } from './outputs.js';
-import { createProgress, type ProgressStream } from './progress.js';
+import { createProgress, formatDuration, type ProgressStream } from './progress.js';
 import { inShard, resolveShard, shardCells, type Shard } from './shard.js';
 import { buildSweepMeta, type SweepMeta } from './sweepMeta.js';
 import { parseSweepSpec, type SweepSpec } from './sweepSpec.js';
-import { executeCells, resolveWorkerCount, type RunnerModule } from './workerPool.js';
+import { executeCells, resolveWorkerCount, type CalibrationStats, type RunnerModule } from './workerPool.js';
+import { planCalibration } from './calibrationPlan.js';
+import { cellTask, prepareJob, type CellJob } from './cellJob.js';
+import { nullClassOf } from './runCell.js';
 
 export interface SweepOptions {
   /** Worker threads (default: SLURM_CPUS_PER_TASK when set, else every core). */
@@ -67,6 +74,8 @@ export interface SweepOutcome {
   /** Cells this run (shard) must do, and how many are done. */
   cellsInRun: number;
   cellsDone: number;
+  /** The no-moon calibration pre-pass on the workers (null: none, e.g. a custom runner or the main thread). */
+  calibration: CalibrationStats | null;
 }
 
 export interface LoadedSweep {
@@ -141,20 +150,41 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
     stream: options.progress ?? process.stderr,
     quiet: options.quiet,
   });
+  const job: CellJob = {
+    baseDoc: doc,
+    axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
+    ctx: {
+      seed: scenario.seed, realizations: spec.realizations, simulateUnstable: spec.simulateUnstable, forecastOnly,
+      ...(spec.nullRealizations !== null ? { nullRealizations: spec.nullRealizations } : {}),
+    },
+  };
+  // The default runner on worker threads: compute each no-moon calibration set once, spread over the workers.
+  const calibration = options.runner === undefined && !forecastOnly
+    ? (cells: readonly number[], threads: number) => {
+      const prepared = prepareJob(job);
+      return planCalibration(cells, (i) => nullClassOf(cellTask(prepared, i), job.ctx), { workers: threads });
+    }
+    : undefined;
   const writer = openCheckpoint(cpPath, header, resumed);
-  let outcome: { completed: boolean; threads: number };
+  let outcome: Awaited<ReturnType<typeof executeCells>>;
+  let calibrationStartMs = 0;
   try {
     outcome = await executeCells({
       pending,
-      job: {
-        baseDoc: doc,
-        axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
-        ctx: { seed: scenario.seed, realizations: spec.realizations, simulateUnstable: spec.simulateUnstable, forecastOnly },
-      },
+      job,
       runner: options.runner,
       workers,
       maxCells: options.maxCells,
       signal: options.signal,
+      calibration,
+      onCalibration: (e) => {
+        if (e.stage === 'start') {
+          calibrationStartMs = performance.now();
+          progress.note(`calibrating false alarms: ${e.plan.realizations} no-moon realizations (${e.plan.classes} scenario${e.plan.classes === 1 ? '' : 's'} without the moon, ${e.plan.chunks} chunks on ${e.threads} worker${e.threads === 1 ? '' : 's'})`);
+        } else {
+          progress.note(`false alarms calibrated: ${e.plan.realizations} no-moon realizations in ${formatDuration((performance.now() - calibrationStartMs) / 1000)}`);
+        }
+      },
       onResult: (r) => {
         writer.append(r);
         results.push(r);
@@ -193,5 +223,5 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
     files = writeSweepOutputs(outDir, meta, results, runInfo, doc);
     removeCheckpoint(cpPath);
   }
-  return { results, runInfo, complete, outDir, files, meta, cellsInRun: runCells.length, cellsDone: results.length };
+  return { results, runInfo, complete, outDir, files, meta, cellsInRun: runCells.length, cellsDone: results.length, calibration: outcome.calibration };
 }

@@ -8,6 +8,7 @@ import { VERSION } from '../version.js';
 import type { Scenario } from '../scenario/types.js';
 import { canonicalJson } from './canonicalJson.js';
 import type { SweepSpec } from './sweepSpec.js';
+import { defaultNullRealizations } from './nullSet.js';
 
 export interface SweepAxisMeta {
   field: string;
@@ -28,6 +29,11 @@ export interface SweepMeta {
   seed: number;
   false_alarm: number;
   realizations: number;
+  /**
+   * No-moon calibration realizations per null class: the sweep block's
+   * `null_realizations`, else the default for the base scenario's α and R.
+   */
+  null_realizations: number;
   simulate_unstable: boolean;
   forecast_only: boolean;
   axes: SweepAxisMeta[];
@@ -44,6 +50,7 @@ export function buildSweepMeta(scenario: Scenario, hash: string, spec: SweepSpec
     seed: scenario.seed,
     false_alarm: scenario.detection.falseAlarm,
     realizations: spec.realizations,
+    null_realizations: spec.nullRealizations ?? defaultNullRealizations(scenario.detection.falseAlarm, spec.realizations),
     simulate_unstable: spec.simulateUnstable,
     forecast_only: forecastOnly,
     axes: spec.axes.map((a) => ({
@@ -64,6 +71,7 @@ export function metaDifferences(a: SweepMeta, b: SweepMeta): string[] {
   if (a.moonsieve_version !== b.moonsieve_version) out.push(`moonsieve version (${a.moonsieve_version} vs ${b.moonsieve_version})`);
   if (canonicalJson(a.axes) !== canonicalJson(b.axes) || a.cells !== b.cells) out.push(`grid (${gridText(a)} vs ${gridText(b)})`);
   if (a.realizations !== b.realizations) out.push(`realizations per cell (${a.realizations} vs ${b.realizations})`);
+  if (a.null_realizations !== b.null_realizations) out.push(`no-moon calibration realizations (${a.null_realizations} vs ${b.null_realizations})`);
   if (a.simulate_unstable !== b.simulate_unstable) out.push(`simulate_unstable (${a.simulate_unstable} vs ${b.simulate_unstable})`);
   if (a.forecast_only !== b.forecast_only) out.push(`forecast-only mode (${a.forecast_only} vs ${b.forecast_only})`);
   if (out.length === 0 && canonicalJson(a) !== canonicalJson(b)) out.push('sweep settings');

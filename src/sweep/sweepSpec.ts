@@ -1,7 +1,9 @@
 /**
  * The `sweep:` block of a scenario: one or two axes over any numeric
  * scenario field, the realizations per cell and whether physically
- * unstable cells are simulated. A scenario with a moon and no sweep block
+ * unstable cells are simulated (and, optionally, `null_realizations`: the
+ * no-moon realizations that calibrate the false alarms, ≥ 20; by default
+ * max(R, 200, ⌈10/α⌉)). A scenario with a moon and no sweep block
  * (or a block without `axes`) gets the default grid: moon mass, log-spaced
  * from 0.05 to 2 Earth masses, × moon separation from the fluid Roche limit
  * to the stable limit, 20 × 20.
@@ -50,6 +52,8 @@ export interface SweepAxis {
 
 export interface SweepSpec {
   realizations: number;
+  /** No-moon calibration realizations per null class, or null for runCell's default (`defaultNullRealizations` of each cell's α and R). */
+  nullRealizations: number | null;
   simulateUnstable: boolean;
   axes: SweepAxis[];
   /** True when the axes are the default moon mass × separation grid. */
@@ -59,6 +63,8 @@ export interface SweepSpec {
 }
 
 export const DEFAULT_REALIZATIONS = 100;
+/** Fewest no-moon calibration realizations a sweep block may ask for. */
+export const MIN_NULL_REALIZATIONS = 20;
 export const MAX_AXIS_COUNT = 10000;
 
 /** The default axes, in the same form as a sweep block's. */
@@ -79,6 +85,11 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
   const realizations = r.number('realizations', {
     default: DEFAULT_REALIZATIONS, integer: true, min: 1, max: 1_000_000,
     rangeText: 'expected a whole number of realizations per cell from 1 to 1000000',
+  });
+  const nullRaw = r.raw('null_realizations');
+  const nullRealizations = nullRaw === undefined || nullRaw === null ? null : r.number('null_realizations', {
+    integer: true, min: MIN_NULL_REALIZATIONS, max: 10_000_000,
+    rangeText: `expected a whole number of no-moon calibration realizations from ${MIN_NULL_REALIZATIONS} to 10000000`,
   });
   const unstableRaw = r.raw('simulate_unstable');
   let simulateUnstable = false;
@@ -121,7 +132,7 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
     }
   });
   if (problems.length > 0) throw new InputError(problems, source);
-  return { realizations, simulateUnstable, axes, defaultAxes, notes };
+  return { realizations, nullRealizations, simulateUnstable, axes, defaultAxes, notes };
 }
 
 function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, problems: FieldProblem[], notes: string[]): SweepAxis | null {

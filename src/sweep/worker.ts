@@ -1,18 +1,24 @@
 /**
  * Worker-thread entry (runs as compiled JavaScript, dist/src/sweep/worker.js).
  * Loads the cell runner module, says `ready`, then runs one cell per `cell`
- * message and posts its result; `stop` ends the thread.
+ * message and posts its result; `stop` ends the thread. With `calibrate`, it
+ * also computes chunks of no-moon calibration realizations (`nullChunk`) and
+ * keeps the complete null sets the main thread sends (`nullSets`) for the
+ * runner, until told to drop them.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import type { CellRunner } from './cellTypes.js';
-import { prepareJob, runOneCell, type CellJob } from './cellJob.js';
+import type { CellRunner, CellShared } from './cellTypes.js';
+import { cellTask, prepareJob, runOneCell, type CellJob } from './cellJob.js';
 import type { FromWorker, ToWorker } from './workerMessages.js';
+import type { NullSet } from './nullSet.js';
 
 export interface WorkerInit {
   job: CellJob;
   /** file: URL of the module exporting the runner; default ./runCell.js beside this file. */
   runnerModule: string | null;
   runnerExport: string;
+  /** Take part in the calibration pre-pass (the default runner only). */
+  calibrate: boolean;
 }
 
 function describeError(e: unknown, index: number): FromWorker {
@@ -31,28 +37,51 @@ async function start(): Promise<void> {
   const port = parentPort;
   if (!port) throw new Error('worker.js must run in a worker thread');
   const init = workerData as WorkerInit;
-  const post = (m: FromWorker): void => port.postMessage(m);
+  const post = (m: FromWorker, transfer?: ArrayBuffer[]): void => port.postMessage(m, transfer);
   let runner: CellRunner;
+  let calib: { cells: typeof import('./runCell.js'); sets: typeof import('./nullSet.js') } | null = null;
   try {
     const url = init.runnerModule ?? new URL('./runCell.js', import.meta.url).href;
     const mod = (await import(url)) as Record<string, unknown>;
     const fn = mod[init.runnerExport];
     if (typeof fn !== 'function') throw new Error(`${url} has no exported function ${init.runnerExport}`);
     runner = fn as CellRunner;
+    if (init.calibrate) calib = { cells: await import('./runCell.js'), sets: await import('./nullSet.js') };
   } catch (e) {
     post(describeError(e, -1));
     return;
   }
   const prepared = prepareJob(init.job);
+  const provided = new Map<string, NullSet>();
+  let misses = 0;
+  const shared: CellShared | undefined = calib ? { nullSets: provided, onNullMiss: () => void misses++ } : undefined;
   port.on('message', (msg: ToWorker) => {
-    if (msg.type === 'stop') {
-      port.close();
-      return;
-    }
-    try {
-      post({ type: 'result', result: runOneCell(runner, prepared, msg.index) });
-    } catch (e) {
-      post(describeError(e, msg.index));
+    switch (msg.type) {
+      case 'stop':
+        port.close();
+        return;
+      case 'nullSets':
+        for (const { key, set } of msg.sets) provided.set(key, calib!.sets.unpackNullSet(set));
+        return;
+      case 'dropNullSets':
+        for (const key of msg.keys) provided.delete(key);
+        return;
+      case 'nullChunk':
+        try {
+          const { key, range } = calib!.cells.nullChunkOf(cellTask(prepared, msg.cell), init.job.ctx, msg.start, msg.n);
+          post({ type: 'nullChunk', id: msg.id, key, range }, calib!.sets.packedBuffers(range));
+        } catch (e) {
+          post(describeError(e, msg.cell));
+        }
+        return;
+      case 'cell':
+        try {
+          misses = 0;
+          const result = runOneCell(runner, prepared, msg.index, shared);
+          post({ type: 'result', result, nullMisses: misses });
+        } catch (e) {
+          post(describeError(e, msg.index));
+        }
     }
   });
   post({ type: 'ready' });

@@ -72,4 +72,19 @@ describe('progress', () => {
     expect(formatDuration(3 * 3600)).toBe('3.0 h');
     expect(formatDuration(Number.NaN)).toBe('?');
   });
+  it('notes (the calibration phase): a timestamped line in logs; on a terminal a line over the bar, redrawn after', () => {
+    const t = Date.UTC(2026, 11, 1, 10, 0, 0);
+    const log = sink(false);
+    createProgress({ total: 4, stream: log.stream, now: () => t }).note('calibrating false alarms: 20 no-moon realizations');
+    expect(log.chunks[1]).toBe('2026-12-01T10:00:00Z sweep calibrating false alarms: 20 no-moon realizations\n');
+    let now = 0;
+    const tty = sink(true);
+    const p = createProgress({ total: 4, stream: tty.stream, now: () => now });
+    p.update(1);
+    p.note('x');
+    now += 1; // within 200 ms of the last draw, but a note forces the next redraw
+    p.update(2);
+    expect(tty.chunks[1]).toMatch(/^\rsweep x {2,}\n$/); // padded over the longer bar line
+    expect(tty.chunks[2]).toMatch(/^\rsweep \[.*\] 2\/4 cells/);
+  });
 });
