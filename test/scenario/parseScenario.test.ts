@@ -32,7 +32,8 @@ describe('parseScenario', () => {
     expect(s.moon!.separationM).toBeCloseTo(18 * s.planet.radiusM, 3);
     expect(s.moon!.massKg).toBeCloseTo(0.6 * M_EARTH_KG, -10);
     expect(s.instrument.exposureS).toBe(100);
-    expect(s.instrument.noiseTimescaleS).toBe(120);
+    expect(s.instrument.noiseTimescaleS).toBe(100); // the ground budget states its level per exposure
+    expect(s.instrument.ground).not.toBeNull();
     expect(s.planet.inclinationRad).toBeLessThan(Math.PI / 2);
   });
 
