@@ -34,8 +34,11 @@ export function benchLightCurveWindow(repeats = 9): BenchMedian[] {
 
 export function benchRecovery(scenarioPath = 'scenarios/demo-observer.yaml', repeats = 7): BenchMedian[] {
   const s = loadScenario(scenarioPath);
-  const obs = observeScenario(s, createRng(s.seed, 0, 0));
-  const rec = timeMs('recoverTimings (global fit + per-transit fits), demo scenario', repeats, () => recoverTimings(s, obs));
+  // A different noise realization for each timed call, so one unlucky fit does not set the figure.
+  const observations = Array.from({ length: repeats + 10 }, (_, r) => observeScenario(s, createRng(s.seed, 0, r)));
+  let k = 0;
+  const rec = timeMs('recoverTimings (global fit + per-transit fits), demo scenario', repeats, () => recoverTimings(s, observations[k++ % observations.length]), 10);
+  const obs = observations[0];
   const perTransit: BenchMedian = {
     label: 'recovered transits per second (demo scenario, global fit included)',
     median: (s.observation.transits / rec.median) * 1000,
@@ -44,7 +47,7 @@ export function benchRecovery(scenarioPath = 'scenarios/demo-observer.yaml', rep
   };
   const ws = new LightCurveWorkspace();
   let r = 0;
-  const one = timeMs('one realization of the demo scenario (simulate → recover → statistics)', repeats, () => runRealization(s, createRng(s.seed, 0, r++), { workspace: ws }));
+  const one = timeMs('one realization of the demo scenario (simulate → recover → statistics)', repeats, () => runRealization(s, createRng(s.seed, 0, r++), { workspace: ws }), 10);
   const noise = new Float64Array(obs.timeS.length);
   const rng = createRng(s.seed, 0, 0);
   const floor = timeMs(`only drawing its ${noise.length} Gaussian samples (xoroshiro128+, ziggurat)`, Math.max(repeats, 21), () => rng.fillNormal(noise, 1e-3));

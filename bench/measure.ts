@@ -29,9 +29,9 @@ export function rate(label: string, n: number, repeats: number, run: (n: number)
   return { label, median: median(rates), unit: 'M/s', repeats };
 }
 
-/** Median wall time in milliseconds of `run()` over repeats, after one warm-up call. */
-export function timeMs(label: string, repeats: number, run: () => unknown): BenchMedian {
-  run();
+/** Median wall time in milliseconds of `run()` over repeats, after `warmup` untimed calls (JIT). */
+export function timeMs(label: string, repeats: number, run: () => unknown, warmup = 3): BenchMedian {
+  for (let w = 0; w < warmup; w++) run();
   const ts: number[] = [];
   for (let r = 0; r < repeats; r++) {
     const t0 = performance.now();

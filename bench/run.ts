@@ -9,6 +9,7 @@ import { benchPhotometry } from './photometry.js';
 import { benchGaussian, benchFft } from './noise.js';
 import { benchLightCurveWindow, benchRecovery } from './lightCurve.js';
 import { benchBudget } from './budget.js';
+import { benchSweep, referenceSweepDoc } from './sweep.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -18,8 +19,31 @@ function print(title: string, rows: BenchMedian[]): void {
   }
 }
 
+/** Sweep throughput on the reference sweep (see bench/sweep.ts), 1 and 2 workers, and the projection. */
+async function sweepSection(full: boolean): Promise<BenchMedian[]> {
+  const rows: BenchMedian[] = [];
+  const cells = 12;
+  const realizations = 20;
+  const rates: Record<number, number> = {};
+  for (const workers of full ? [2] : [1, 2]) {
+    const doc = referenceSweepDoc(full ? 100 : realizations);
+    const r = await benchSweep(doc, { workers, maxCells: full ? undefined : cells, label: `reference sweep, ${workers} worker(s)` });
+    rates[workers] = r.allRealizationsPerSecond;
+    rows.push({ label: `${r.cells} cells × ${full ? 100 : realizations} realizations (+ no-moon calibration), ${workers} worker(s): wall time`, median: r.seconds, unit: 's', repeats: 1 });
+    rows.push({ label: `  cells per second`, median: r.cellsPerSecond, unit: '/s', repeats: 1 });
+    rows.push({ label: `  realizations per second (${r.realizations} with a moon + ${r.calibrationRealizations} no-moon)`, median: r.allRealizationsPerSecond, unit: '/s', repeats: 1 });
+    rows.push({ label: `  peak resident memory`, median: r.peakRssMb, unit: 'MB', repeats: 1 });
+  }
+  if (!full) {
+    rows.push({ label: 'speed-up, 2 workers over 1 (goal ≥ 1.8)', median: rates[2] / rates[1], unit: '×', repeats: 1 });
+    // The whole grid: 400 cells × 100 realizations plus one shared no-moon set (1000 at α = 1 %).
+    rows.push({ label: 'projected 20 × 20 × 100 reference sweep on 2 workers (goal < 120 s)', median: (400 * 100 + 1000) / rates[2], unit: 's', repeats: 1 });
+  }
+  return rows;
+}
+
 async function main(): Promise<void> {
-  const only = process.argv[2];
+  const only = process.argv[2] && !process.argv[2].startsWith('--') ? process.argv[2] : undefined;
   process.stdout.write(`moonsieve bench — node ${process.version}, ${availableParallelism()} cores (${cpus()[0]?.model ?? 'unknown CPU'}), ${new Date().toISOString()}\n`);
   const sections: Array<[string, () => BenchMedian[] | Promise<BenchMedian[]>]> = [
     ['photometry', () => benchPhotometry()],
@@ -27,6 +51,7 @@ async function main(): Promise<void> {
     ['noise', () => [...benchGaussian(), ...benchFft()]],
     ['recovery', () => benchRecovery()],
     ['budget', () => benchBudget()],
+    ['sweep', () => sweepSection(process.argv.includes('--full'))],
   ];
   for (const [name, run] of sections) {
     if (only && only !== name) continue;

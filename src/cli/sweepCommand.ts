@@ -50,6 +50,8 @@ export function registerSweep(program: Command, io: CliIo): void {
         io.out(`${res.meta.scenario}: ${what}, ${res.meta.realizations} realizations each, in ${info.wall_time_s.toFixed(1)} s` +
           `${info.cells_resumed > 0 ? ` (${info.cells_resumed} from the checkpoint)` : ''}\n`);
         for (const f of res.files) io.out(`wrote ${f}\n`);
+        const report = res.files.find((f) => f.endsWith('report.html'));
+        if (report) io.out(`report: ${report} (one self-contained page; opens offline in any browser)\n`);
         if (info.shard) io.out(`when every shard is done: moonsieve merge <the ${info.shard.n} shard folders> --out <dir>\n`);
       } finally {
         process.off('SIGINT', onSigint);
