@@ -6,9 +6,11 @@
  *   A_TTV = a_PB/v_B,   A_TDV = τ̄·v_PB/v_B,   v_PB = 2π a_PB/P_S,
  *   a_PB = a_S·M_S/(M_P + M_S),   a_S³ = G(M_P + M_S)P_S²/(4π²) (Kepler III),
  * A the semi-amplitudes for a coplanar orbit, v_B the barycentre's sky speed,
- * τ̄ the transit duration. Hence
- *   η = A_TDV/A_TTV = 2πτ̄/P_S  ⇒  P_S = 2πτ̄/η   (Kipping 2009a),
- *   a_PB = A_TTV·v_B, and M_S solves M_S(M_P + M_S)^{−2/3} = a_PB/K^{1/3},
+ * τ̄ the transit duration. The planet keeps moving during the transit, so the
+ * observed amplitudes are these times cos w (TTV) and sin w / w (TDV),
+ * w = πτ̄/P_S (physics/transitAveraging.ts, derived there). Hence
+ *   η = A_TDV/A_TTV = 2 tan w  ⇒  P_S = πτ̄/atan(η/2)   (→ 2πτ̄/η, Kipping 2009a, as w → 0),
+ *   a_PB = A_TTV·v_B / cos w, and M_S solves M_S(M_P + M_S)^{−2/3} = a_PB/K^{1/3},
  *   K = G P_S²/(4π²) (the exact relation; its small-ratio limit is
  *   M_S ≈ A_TTV v_B M_P/a_S), then a_S = (K(M_P + M_S))^{1/3}.
  * Orientation: for a circular orbit both signals see the same projection
@@ -23,15 +25,30 @@
  *             (from v_PB = M_S·sqrt(G/(a_S(M_P + M_S)))).
  */
 import { G } from '../physics/constants.js';
+import { transitAveraging } from '../physics/transitAveraging.js';
 
 function requirePositive(name: string, v: number): void {
   if (!(v > 0) || !Number.isFinite(v)) throw new RangeError(`${name} must be a positive finite number; got ${v}`);
 }
 
-/** Moon period from the TDV/TTV amplitude ratio η = 2πτ̄/P_S (Kipping 2009a). Kernel: NaN out of domain. */
+/**
+ * Moon period from the observed TDV/TTV amplitude ratio η = 2 tan(πτ̄/P_S): P_S = πτ̄/atan(η/2)
+ * (Kipping 2009a's 2πτ̄/η with the transit averaging of transitAveraging.ts). Kernel: NaN out of domain.
+ */
 export function moonPeriodFromRatio(eta: number, durationS: number): number {
   if (!(eta > 0) || !(durationS > 0)) return NaN;
-  return (2 * Math.PI * durationS) / eta;
+  return (Math.PI * durationS) / Math.atan(eta / 2);
+}
+
+/**
+ * Transit-averaging factors (TTV, TDV) of a moon at separation a_S around a planet of mass M_P
+ * (period from Kepler III with M_P alone; transitAveraging.ts): what the observed amplitudes are
+ * divided by to recover the frozen-planet ones.
+ */
+export function averagingAtSeparation(separationM: number, planetMassKg: number, durationS: number): { ttv: number; tdv: number } {
+  const periodS = 2 * Math.PI * Math.sqrt(separationM ** 3 / (G * planetMassKg));
+  const f = transitAveraging(durationS, periodS);
+  return { ttv: f.ttvFactor, tdv: f.tdvFactor };
 }
 
 /**
@@ -105,8 +122,11 @@ export function invertAmplitudes(a: CoplanarAmplitudes, barycentreVelocityMS: nu
   requirePositive('tdvSemiS', a.tdvSemiS);
   requirePositive('barycentreVelocityMS', barycentreVelocityMS);
   requirePositive('durationS', durationS);
-  const moonPeriodS = moonPeriodFromRatio(a.tdvSemiS / a.ttvSemiS, durationS);
-  const { massKg, separationM } = moonFromOffsetAndPeriod(a.ttvSemiS * barycentreVelocityMS, moonPeriodS, planetMassKg);
+  const eta = a.tdvSemiS / a.ttvSemiS;
+  const moonPeriodS = moonPeriodFromRatio(eta, durationS);
+  // The observed TTV is the frozen-planet one times cos w, w = atan(η/2) (transitAveraging.ts).
+  const offsetM = (a.ttvSemiS * barycentreVelocityMS) / Math.cos(Math.atan(eta / 2));
+  const { massKg, separationM } = moonFromOffsetAndPeriod(offsetM, moonPeriodS, planetMassKg);
   return { moonPeriodS, massKg, separationM };
 }
 

@@ -27,6 +27,7 @@ import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
 import type { Claim } from './claimTypes.js';
 import { earthMasses, planetRadii, sig3, timeText } from './describe.js';
 import {
+  averagingAtSeparation,
   invertAmplitudes,
   massFromOffsetAtSeparation,
   massFromReflexSpeedAtSeparation,
@@ -182,6 +183,12 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
   const vB = sys.barycentreVelocityMS;
   const tau = sys.durationS;
   const massAtSeparationM = src.mode === 'ttv only' ? sys.stableProgradeM : src.mode === 'tdv only' ? sys.rocheRockyM : null;
+  // One amplitude at an assumed separation: undo the transit averaging at that separation's period
+  // (impliedMoon.ts averagingAtSeparation), then the exact single-amplitude relation.
+  const at = (x: number, a: number): number => {
+    const f = averagingAtSeparation(a, mp, tau);
+    return src.mode === 'ttv only' ? massFromOffsetAtSeparation(x / f.ttv, a, mp) : massFromReflexSpeedAtSeparation(x / f.tdv, a, mp);
+  };
   for (let i = 0; i < n; i++) {
     src.draw(rng, out);
     // Orientation: direction cosine u of the orbit normal with the chord, uniform for an isotropic normal.
@@ -201,10 +208,10 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
       }
     } else if (src.mode === 'ttv only') {
       channel[i] = ttv * vB;
-      mass[i] = massFromOffsetAtSeparation(channel[i], massAtSeparationM!, mp);
+      mass[i] = at(channel[i], massAtSeparationM!);
     } else {
       channel[i] = (tdv * vB) / tau;
-      mass[i] = massFromReflexSpeedAtSeparation(channel[i], massAtSeparationM!, mp);
+      mass[i] = at(channel[i], massAtSeparationM!);
     }
     ratio[i] = mass[i] / mp;
   }
@@ -212,9 +219,9 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
   if (src.mode === 'ttv+tdv') {
     central = src.central.ttv > 0 && src.central.tdv > 0 ? invertAmplitudes({ ttvSemiS: src.central.ttv, tdvSemiS: src.central.tdv }, vB, tau, mp).massKg : NaN;
   } else if (src.mode === 'ttv only') {
-    central = massFromOffsetAtSeparation(src.central.ttv * vB, massAtSeparationM!, mp);
+    central = at(src.central.ttv * vB, massAtSeparationM!);
   } else {
-    central = massFromReflexSpeedAtSeparation((src.central.tdv * vB) / tau, massAtSeparationM!, mp);
+    central = at((src.central.tdv * vB) / tau, massAtSeparationM!);
   }
   let degeneracy: ImpliedMoonSummary['degeneracy'] = null;
   if (src.mode !== 'ttv+tdv') {
@@ -222,7 +229,6 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
     const lo = Math.max(sys.rocheRockyM, sys.planetRadiusM);
     const hi = sys.stableRetrogradeM;
     const separationM: number[] = [];
-    const at = (x: number, a: number) => (src.mode === 'ttv only' ? massFromOffsetAtSeparation(x, a, mp) : massFromReflexSpeedAtSeparation(x, a, mp));
     const m: number[] = [];
     const mLo: number[] = [];
     const mHi: number[] = [];

@@ -1,6 +1,14 @@
 import { describe, it, expect } from 'vitest';
 import { G, AU_M, M_EARTH_KG, M_JUP_KG, M_SUN_KG, DAY_S } from '../../src/physics/constants.js';
 import { timingSignals } from '../../src/physics/timingSignals.js';
+import { transitAveraging } from '../../src/physics/transitAveraging.js';
+
+/** Observed semi-amplitudes: the frozen-planet ones (Kipping 2009a) times the transit averaging. */
+function observed(input: Parameters<typeof timingSignals>[0]) {
+  const f = timingSignals(input);
+  const a = transitAveraging(input.durationS, f.moonPeriodS);
+  return { ...f, ttvSemiAmplitudeS: f.ttvSemiAmplitudeS * a.ttvFactor, tdvSemiAmplitudeS: f.tdvSemiAmplitudeS * a.tdvFactor };
+}
 import {
   invertAmplitudes,
   massFromOffsetAtSeparation,
@@ -28,8 +36,8 @@ const earthMoon = {
 
 describe('inverting the barycentric timing relations (Kipping 2009a)', () => {
   it('recovers the mass, separation and period of the forward model exactly (Earth–Moon)', () => {
-    // Forward: physics/timingSignals.ts; inverse must undo it to rounding (exact relations both ways).
-    const f = timingSignals(earthMoon);
+    // Forward: physics/timingSignals.ts with the transit averaging; the inverse must undo it to rounding.
+    const f = observed(earthMoon);
     const m = invertAmplitudes({ ttvSemiS: f.ttvSemiAmplitudeS, tdvSemiS: f.tdvSemiAmplitudeS }, f.barycentreVelocityMS, earthMoon.durationS, M_EARTH_KG);
     expect(m.massKg / earthMoon.moonMassKg - 1).toBeLessThan(1e-9);
     expect(Math.abs(m.separationM / earthMoon.moonSeparationM - 1)).toBeLessThan(1e-9);
@@ -55,9 +63,19 @@ describe('inverting the barycentric timing relations (Kipping 2009a)', () => {
     expect(Math.abs(m.massKg / approx - 1)).toBeLessThan(1e-5);
   });
 
-  it('P_S = 2πτ̄/η (Kipping 2009a)', () => {
-    expect(moonPeriodFromRatio(0.5, 1000)).toBeCloseTo(4000 * Math.PI, 9);
+  it('P_S = πτ̄/atan(η/2), which tends to Kipping’s (2009a) 2πτ̄/η for small η', () => {
+    expect(moonPeriodFromRatio(0.5, 1000)).toBeCloseTo((1000 * Math.PI) / Math.atan(0.25), 9);
+    expect(moonPeriodFromRatio(1e-4, 1000) / ((2 * Math.PI * 1000) / 1e-4)).toBeCloseTo(1, 8);
     expect(Number.isNaN(moonPeriodFromRatio(0, 1000))).toBe(true);
+  });
+
+  it('recovers a short-period moon, where the transit averaging matters (14 % on the TTV)', () => {
+    // A moon with a 4-day period and a 14-h transit: w = πτ̄/P_S ≈ 0.46 (computed from constants in the test).
+    const input = { ...earthMoon, planetMassKg: M_JUP_KG, moonMassKg: 0.5 * M_EARTH_KG, moonSeparationM: 7.15e8, durationS: 14 * 3600 };
+    const f = observed(input);
+    const m = invertAmplitudes({ ttvSemiS: f.ttvSemiAmplitudeS, tdvSemiS: f.tdvSemiAmplitudeS }, f.barycentreVelocityMS, input.durationS, M_JUP_KG);
+    expect(Math.abs(m.massKg / input.moonMassKg - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(m.separationM / input.moonSeparationM - 1)).toBeLessThan(1e-9);
   });
 
   it('single-amplitude degeneracy curves pass through the true moon', () => {

@@ -3,6 +3,7 @@ import { parseClaimText } from '../../src/vet/loadClaim.js';
 import { vetClaim } from '../../src/vet/vetClaim.js';
 import { dipVisibility, ROCKY_DENSITY_KG_M3 } from '../../src/vet/moonDipVisibility.js';
 import { timingSignals } from '../../src/physics/timingSignals.js';
+import { transitAveraging } from '../../src/physics/transitAveraging.js';
 import { hillRadius } from '../../src/physics/hillRadius.js';
 import { M_EARTH_KG } from '../../src/physics/constants.js';
 import type { Claim } from '../../src/vet/claimTypes.js';
@@ -24,11 +25,15 @@ function withMoon(c: Claim, moonMassKg: number, separationM: number, relErr: num
     barycentreSemiMajorAxisM: c.planet.semiMajorAxisM, barycentrePeriodS: c.planet.periodS, barycentreEccentricity: c.planet.eccentricity, barycentreOmegaRad: c.planet.omegaRad,
     durationS: vet0.system.durationS,
   });
-  return { ...c, ttv: { valueS: f.ttvRmsS, errorS: relErr * f.ttvRmsS, kind: 'rms' }, tdv: { valueS: f.tdvRmsS, errorS: relErr * f.tdvRmsS, kind: 'rms' } };
+  // Observed amplitudes include the averaging of the reflex motion over the transit (transitAveraging.ts).
+  const a = transitAveraging(vet0.system.durationS, f.moonPeriodS);
+  const ttv = f.ttvRmsS * a.ttvFactor;
+  const tdv = f.tdvRmsS * a.tdvFactor;
+  return { ...c, ttv: { valueS: ttv, errorS: relErr * ttv, kind: 'rms' }, tdv: { valueS: tdv, errorS: relErr * tdv, kind: 'rms' } };
 }
 
 const blockAmplitudes = `  ttv: {amplitude: 1 s, uncertainty: 1 s, kind: rms}
-  transits: 30
+  transits: 36
   precision: 100 ppm per 2 min
   moon_dip: none`;
 
@@ -52,10 +57,10 @@ describe('vetClaim', () => {
     const sep = 0.1 * rH;
     const claim = withMoon(c0, mass, sep, 0.05);
     const r = vetClaim(claim);
-    // The truth's rocky dip at the stated precision (100 ppm per 2 min, 30 transits), folded stack:
+    // The truth's rocky dip at the stated precision (100 ppm per 2 min, 36 transits), folded stack:
     const truthDip = dipVisibility({
       moonMassKg: mass, densityKgM3: ROCKY_DENSITY_KG_M3, starRadiusM: c0.star.radiusM, u1: c0.star.u1, u2: c0.star.u2, impactParameter: c0.planet.impactParameter,
-      durationS: r.system.durationS, separationM: sep, barycentreVelocityMS: r.system.barycentreVelocityMS, transits: 30, noiseFraction: 1e-4, noiseTimescaleS: 120,
+      durationS: r.system.durationS, separationM: sep, barycentreVelocityMS: r.system.barycentreVelocityMS, transits: 36, noiseFraction: 1e-4, noiseTimescaleS: 120,
     });
     expect(truthDip.snrStacked).toBeGreaterThanOrEqual(10);
     expect(r.checks.find((k) => k.id === 'moon-dip')!.status).toBe('tension');
