@@ -25,6 +25,7 @@
  * Units: any consistent time unit (seconds inside moonsieve); epochs are
  * transit numbers (integers in practice, any finite reals accepted).
  */
+import { fitLinearEphemeris } from './linearEphemeris.js';
 import { chiSquareSurvival } from './noncentralChiSquare.js';
 
 /** A chi-square excess test: statistic, degrees of freedom and upper-tail p-value. */
@@ -93,54 +94,26 @@ export function ttvExcess(
   if (residualsOut !== undefined && residualsOut.length !== n) {
     throw new RangeError(`residualsOut must have length ${n}, got ${residualsOut.length}`);
   }
-  // Weighted means (shifted by the first value for precision with BJD-sized times).
-  const e0 = epochs[0];
-  const t0 = midTimes[0];
-  let sw = 0;
-  let swe = 0;
-  let swt = 0;
-  for (let i = 0; i < n; i++) {
-    const w = 1 / (midTimeErrors[i] * midTimeErrors[i]);
-    sw += w;
-    swe += w * (epochs[i] - e0);
-    swt += w * (midTimes[i] - t0);
-  }
-  const eBar = swe / sw;
-  const tBar = swt / sw;
-  // Centred normal equations of the straight-line fit (Press et al. 2007, §15.2, with centred sums).
-  let see = 0;
-  let set = 0;
-  for (let i = 0; i < n; i++) {
-    const w = 1 / (midTimeErrors[i] * midTimeErrors[i]);
-    const de = epochs[i] - e0 - eBar;
-    see += w * de * de;
-    set += w * de * (midTimes[i] - t0 - tBar);
-  }
-  if (!(see > 0)) throw new RangeError('epochs must not all be equal (the ephemeris period is undetermined)');
-  const period = set / see;
+  // The weighted line itself: linearEphemeris.ts (centred normal equations, Press et al. 2007, §15.2).
+  const eph = fitLinearEphemeris(epochs, midTimes, midTimeErrors);
   let chi2 = 0;
   for (let i = 0; i < n; i++) {
-    const r = midTimes[i] - t0 - tBar - period * (epochs[i] - e0 - eBar);
+    // Residual about the line, referred to the first point for precision with BJD-sized times.
+    const r = midTimes[i] - midTimes[0] - (eph.t0S - midTimes[0] + eph.periodS * epochs[i]);
     const z = r / midTimeErrors[i];
     chi2 += z * z;
     if (residualsOut !== undefined) residualsOut[i] = r;
   }
-  // Time at epoch 0: t = (t0 + tBar) + P·(E − (e0 + eBar)).
-  const eMean = e0 + eBar;
-  const referenceTime = t0 + tBar - period * eMean;
-  // Parameter covariance: var(P) = 1/see, var(t̄) = 1/sw, independent in the centred form.
-  const varP = 1 / see;
-  const varT = 1 / sw + eMean * eMean * varP;
   const dof = n - 2;
   return {
     chiSquare: chi2,
     dof,
     pValue: chiSquareSurvival(chi2, dof),
-    referenceTime,
-    period,
-    referenceTimeError: Math.sqrt(varT),
-    periodError: Math.sqrt(varP),
-    covariance: -eMean * varP,
+    referenceTime: eph.t0S,
+    period: eph.periodS,
+    referenceTimeError: eph.t0ErrS,
+    periodError: eph.periodErrS,
+    covariance: eph.covT0PeriodS2,
   };
 }
 
