@@ -234,13 +234,8 @@ export interface TemplateBuildOptions {
   workspace?: TemplateWorkspace;
 }
 
-/**
- * Build the template table for a geometry (see the file header).
- * @throws RangeError naming the first invalid field, or when the planet does not transit.
- */
-export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateBuildOptions = {}): TransitTemplate {
-  const g = checkGeometry(geometry);
-  const p = g.radiusRatio;
+/** The planet-only orbit of a template geometry, in stellar radii, and its inclination (b → i by Winn 2010 eq. 7). */
+function templateOrbit(g: Readonly<Required<TemplateGeometry>>): { sys: OrbitSystem; inc: number } {
   const inc = inclinationFromImpact(g.impactParameter, g.aOverRstar, g.eccentricity, g.omegaRad);
   const sys = orbitSystem({
     stellarRadiusM: 1,
@@ -251,6 +246,17 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
     inclinationRad: inc,
     moon: null,
   });
+  return { sys, inc };
+}
+
+/**
+ * Build the template table for a geometry (see the file header).
+ * @throws RangeError naming the first invalid field, or when the planet does not transit.
+ */
+export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateBuildOptions = {}): TransitTemplate {
+  const g = checkGeometry(geometry);
+  const p = g.radiusRatio;
+  const { sys, inc } = templateOrbit(g);
   // Closed-form durations only to size the searches (Winn 2010 eqs. 14–16).
   const approx = transitDurations({
     periodS: g.periodS,
@@ -400,16 +406,7 @@ export function templateFlux(tpl: TransitTemplate, x: number): number {
  */
 export function directTemplateFlux(tpl: TransitTemplate, x: Float64Array, subSamples: number): Float64Array {
   const g = tpl.geometry;
-  const inc = inclinationFromImpact(g.impactParameter, g.aOverRstar, g.eccentricity, g.omegaRad);
-  const sys = orbitSystem({
-    stellarRadiusM: 1,
-    periodS: g.periodS,
-    semiMajorAxisM: g.aOverRstar,
-    eccentricity: g.eccentricity,
-    omegaRad: g.omegaRad,
-    inclinationRad: inc,
-    moon: null,
-  });
+  const { sys } = templateOrbit(g);
   // Recover the track time of x = 0 from the table geometry: the contacts are symmetric about it.
   const buf = [new Float64Array(1), new Float64Array(1), new Float64Array(1), new Float64Array(1), new Float64Array(1)];
   const approx = tpl.t14S / g.timeScale;
