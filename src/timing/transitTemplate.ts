@@ -152,6 +152,22 @@ function crossing(sys: OrbitSystem, buf: Float64Array[], tMin: number, c: number
   return 0.5 * (a + b);
 }
 
+/**
+ * Time after conjunction (s) at which a circular orbit's sky separation
+ * reaches c stellar radii: d(t)² = a²(sin²φ + cos²i cos²φ), φ = 2πt/P, so
+ * sin²φ = (c² − a²cos²i)/(a² sin²i) (Winn 2010, arXiv:1001.2010, eqs. 5 and
+ * 14 with e = 0; Seager & Mallén-Ornelas 2003, ApJ 585, 1038, eq. 3). NaN
+ * when the track never comes that close (c below the impact parameter).
+ */
+function circularContact(g: Readonly<Required<TemplateGeometry>>, inc: number, c: number): number {
+  const a = g.aOverRstar;
+  const cosI = Math.cos(inc);
+  const sinI = Math.sin(inc);
+  const s2 = (c * c - a * a * cosI * cosI) / (a * a * sinI * sinI);
+  if (!(s2 >= 0)) return NaN;
+  return (Math.asin(Math.sqrt(Math.min(1, s2))) * g.periodS) / (2 * Math.PI);
+}
+
 /** Time of closest approach near conjunction (golden-section search, common practice, no source). */
 function closestApproach(sys: OrbitSystem, buf: Float64Array[], half: number): number {
   let a = -half;
@@ -268,16 +284,26 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
     omegaRad: g.omegaRad,
   });
   const t14Approx = approx.t14S > 0 ? approx.t14S : g.periodS / (Math.PI * g.aOverRstar);
-  const buf = [new Float64Array(1), new Float64Array(1), new Float64Array(1), new Float64Array(1), new Float64Array(1)];
-  const tMin = closestApproach(sys, buf, t14Approx);
-  const step = t14Approx / 64;
-  const t1 = crossing(sys, buf, tMin, 1 + p, -1, step);
-  const t4 = crossing(sys, buf, tMin, 1 + p, +1, step);
+  const circular = g.eccentricity === 0;
+  let t1: number, t2: number, t3: number, t4: number;
+  if (circular) {
+    // Closed form: closest approach at conjunction (t = 0) and symmetric contacts.
+    t4 = circularContact(g, inc, 1 + p);
+    t1 = -t4;
+    t3 = circularContact(g, inc, 1 - p);
+    t2 = -t3;
+  } else {
+    const buf = [new Float64Array(1), new Float64Array(1), new Float64Array(1), new Float64Array(1), new Float64Array(1)];
+    const tMin = closestApproach(sys, buf, t14Approx);
+    const step = t14Approx / 64;
+    t1 = crossing(sys, buf, tMin, 1 + p, -1, step);
+    t4 = crossing(sys, buf, tMin, 1 + p, +1, step);
+    t2 = crossing(sys, buf, tMin, 1 - p, -1, step);
+    t3 = crossing(sys, buf, tMin, 1 - p, +1, step);
+  }
   if (!Number.isFinite(t1) || !Number.isFinite(t4)) {
     throw new RangeError(`transitTemplate: impactParameter ${g.impactParameter} gives no transit for p = ${p}`);
   }
-  const t2 = crossing(sys, buf, tMin, 1 - p, -1, step);
-  const t3 = crossing(sys, buf, tMin, 1 - p, +1, step);
   const ts = g.timeScale;
   const t14S = (t4 - t1) * ts;
   const t23S = Number.isFinite(t2) && Number.isFinite(t3) ? (t3 - t2) * ts : 0;
@@ -306,11 +332,29 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
   // Instantaneous flux on the nodes widened by halfK on both sides.
   const nWide = n + 2 * halfK;
   const [tt, xp, yp, zp, dummy] = (opts.workspace ?? new TemplateWorkspace()).arrays(nWide);
-  for (let k = 0; k < nWide; k++) tt[k] = mid + (x0S + (k - halfK) * h) / ts;
-  skyPositions(tt, sys, { xp, yp, xm: dummy, ym: dummy, zp });
-  const z = tt; // reuse
-  for (let k = 0; k < nWide; k++) z[k] = zp[k] > 0 ? Math.hypot(xp[k], yp[k]) : 1e9;
-  const inst = transitFlux(z, p, g.u1, g.u2, xp);
+  let inst: Float64Array;
+  if (circular) {
+    // A circular orbit's track is symmetric about conjunction (mid = 0 here): evaluate the centre
+    // node and the nodes after it, and mirror them (halves the cost of a build).
+    const c = nHalf + halfK;
+    const m = nWide - c;
+    const tHalf = tt.subarray(0, m);
+    for (let j = 0; j < m; j++) tHalf[j] = (j * h) / ts;
+    skyPositions(tHalf, sys, { xp, yp, xm: dummy, ym: dummy, zp });
+    for (let j = 0; j < m; j++) tHalf[j] = zp[j] > 0 ? Math.sqrt(xp[j] * xp[j] + yp[j] * yp[j]) : 1e9;
+    const half = transitFlux(tHalf, p, g.u1, g.u2, xp.subarray(0, m));
+    inst = yp;
+    for (let j = 0; j < m; j++) {
+      inst[c + j] = half[j];
+      inst[c - j] = half[j];
+    }
+  } else {
+    for (let k = 0; k < nWide; k++) tt[k] = mid + (x0S + (k - halfK) * h) / ts;
+    skyPositions(tt, sys, { xp, yp, xm: dummy, ym: dummy, zp });
+    const z = tt; // reuse
+    for (let k = 0; k < nWide; k++) z[k] = zp[k] > 0 ? Math.sqrt(xp[k] * xp[k] + yp[k] * yp[k]) : 1e9;
+    inst = transitFlux(z, p, g.u1, g.u2, xp);
+  }
   // Sliding mean of K instantaneous values (Kipping 2010, §3, midpoint rule).
   const values = new Float64Array(n);
   let acc = 0;
@@ -328,7 +372,7 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
     if (values[k] < minV) minV = values[k];
   }
   const curvature = new Float64Array(n);
-  naturalSplineCurvature(values, h, curvature, yp);
+  naturalSplineCurvature(values, h, curvature, dummy);
   return { geometry: g, t14S, t23S, ingressS, depth: 1 - minV, x0S, stepS: h, values, curvature };
 }
 
