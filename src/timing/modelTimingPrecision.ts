@@ -33,6 +33,25 @@ export interface ModelTimingPrecision {
  * @param phases number of sampling-grid phases averaged (default 16)
  */
 export function modelTimingPrecision(geometry: TemplateGeometry, sigma: number, cadenceS: number, halfWindowS: number, phases = 16): ModelTimingPrecision {
+  // A pure function of its arguments, and the same for every cell of a grid that does not change the
+  // planet, the instrument or the window (a moon mass × separation grid): kept, per thread.
+  const key = [
+    geometry.periodS, geometry.aOverRstar, geometry.eccentricity, geometry.omegaRad, geometry.radiusRatio,
+    geometry.impactParameter, geometry.u1, geometry.u2, geometry.exposureS, geometry.timeScale ?? 1,
+    sigma, cadenceS, halfWindowS, phases,
+  ].join(',');
+  const hit = cache.get(key);
+  if (hit) return { ...hit };
+  const result = computePrecision(geometry, sigma, cadenceS, halfWindowS, phases);
+  if (cache.size >= CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+  cache.set(key, result);
+  return { ...result };
+}
+
+const CACHE_SIZE = 32;
+const cache = new Map<string, ModelTimingPrecision>();
+
+function computePrecision(geometry: TemplateGeometry, sigma: number, cadenceS: number, halfWindowS: number, phases: number): ModelTimingPrecision {
   const tpl = buildTransitTemplate(geometry);
   const fisher = new Float64Array(9);
   const buf = new Float64Array(2);
