@@ -94,12 +94,12 @@ export interface LimitsJson {
 /** Roche limits are quoted for the scenario's moon, or for a rock moon of this density without one. */
 export const DEFAULT_MOON_DENSITY_KG_M3 = 3000;
 
-export function computeLimits(s: Scenario): LimitsJson {
-  const { star, planet, moon, instrument, observation } = s;
+/** The orbital limits on a moon: Hill radius, stable separation, Roche limit and the tidal-survival mass. */
+function orbitalLimits(s: Scenario) {
+  const { star, planet, moon } = s;
   const aB = planet.semiMajorAxisM;
   const mBary = planet.massKg + (moon ? moon.massKg : 0);
   const rH = hillRadius(aB, mBary, star.massKg);
-  const rHperi = hillRadiusPericentre(aB, planet.eccentricity, mBary, star.massKg);
   const stable = stableSeparationLimit({
     planetSemiMajorAxisM: aB,
     planetEccentricity: planet.eccentricity,
@@ -119,6 +119,30 @@ export function computeLimits(s: Scenario): LimitsJson {
     planetSemiMajorAxisM: aB,
     ageS: star.ageS,
   });
+  return { aB, mBary, rH, stable, rhoP, rhoS, roche, tidalMax };
+}
+
+/** Where the moon sits among the limits (the `moon_placement` of `computeLimits`), or null without a moon. */
+export function moonPlacement(s: Scenario): PlacementLabel[] | null {
+  return s.moon ? placementOf(s, orbitalLimits(s)) : null;
+}
+
+function placementOf(s: Scenario, l: ReturnType<typeof orbitalLimits>): PlacementLabel[] {
+  const moon = s.moon!;
+  const placement: PlacementLabel[] = [];
+  if (moon.separationM < l.roche.fluidM) placement.push('inside Roche limit');
+  const limit = moon.retrograde ? l.stable.retrograde : l.stable.prograde;
+  if (moon.separationM > limit) placement.push('beyond stable limit');
+  if (!moon.retrograde && moon.massKg > l.tidalMax) placement.push('would not survive tidal migration');
+  if (placement.length === 0) placement.push('stable');
+  return placement;
+}
+
+export function computeLimits(s: Scenario): LimitsJson {
+  const { star, planet, moon, instrument, observation } = s;
+  const lim = orbitalLimits(s);
+  const { aB, mBary, rH, stable, rhoP, rhoS, roche, tidalMax } = lim;
+  const rHperi = hillRadiusPericentre(aB, planet.eccentricity, mBary, star.massKg);
 
   const p = planet.radiusM / star.radiusM;
   const dur = transitDurations({
@@ -210,12 +234,7 @@ export function computeLimits(s: Scenario): LimitsJson {
   };
   if (!moon) return out;
 
-  const placement: PlacementLabel[] = [];
-  if (moon.separationM < roche.fluidM) placement.push('inside Roche limit');
-  const limit = moon.retrograde ? stable.retrograde : stable.prograde;
-  if (moon.separationM > limit) placement.push('beyond stable limit');
-  if (!moon.retrograde && moon.massKg > tidalMax) placement.push('would not survive tidal migration');
-  if (placement.length === 0) placement.push('stable');
+  const placement = placementOf(s, lim);
 
   const frozen = timingSignals({
     planetMassKg: planet.massKg,

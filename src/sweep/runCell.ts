@@ -34,7 +34,7 @@
  */
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
-import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
+import { computeLimits, moonPlacement, type LimitsJson } from '../physics/computeLimits.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
 import { createRng } from '../noise/rng.js';
 import { LightCurveWorkspace } from '../photometry/lightCurve.js';
@@ -85,8 +85,10 @@ function classOfCell(doc: unknown, s: Scenario, ctx: CellContext): NullClass {
 export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null {
   const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
   if (!s.moon || ctx.forecastOnly) return null;
-  const base = labelFields(s, computeLimits(s));
-  return skipReason(s, base as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
+  // Only the placement decides (skipReason); the rest of computeLimits (the forecast) is not needed here.
+  const placement = moonPlacement(s) ?? ['no moon'];
+  const base = { placement: placement.join('; '), stable: placement.length === 1 && placement[0] === 'stable' };
+  return skipReason(s, base as unknown as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
 }
 
 /** Whether `runCell` will simulate this cell (and so needs its null set). */
