@@ -153,6 +153,15 @@ interface Params {
 
 /** Table step T14/1000 while iterating: interpolation error ≲ 1e-6 of the stellar flux (measured, file header). */
 const ITERATION_STEPS_PER_T14 = 1000;
+/**
+ * Table step T14/250 (or the exposure, if longer) while far from the optimum: ~3.6e-6 of the
+ * flux (bench reference scenario, 100-s exposure), a third of the cost of a build. Used until a
+ * Gauss–Newton step is predicted to lower χ² by less than COARSE_UNTIL σ² (within about a standard
+ * error of the optimum); it matters when the folded shape is far from the start, e.g. smeared by
+ * TTVs of a good fraction of the ingress, where the fit takes ten or more steps.
+ */
+const COARSE_STEPS_PER_T14 = 250;
+const COARSE_UNTIL = 1;
 /** Table step T14/4000 for the returned template: ≲ 5e-8 (instantaneous), ≲ 1e-8 (1–2 min exposure). */
 const FINAL_STEPS_PER_T14 = 4000;
 
@@ -168,6 +177,17 @@ const REFRESH_SIGMAS = 1;
  * trials near the optimum were steps of 1e-3–1e-2 σ that raised χ².
  */
 const STEP_TOLERANCE = 1e-2;
+
+/**
+ * A Levenberg–Marquardt step whose predicted χ² drop, 2δᵀJᵀr − δᵀJᵀJδ
+ * (Nocedal & Wright 2006, §10.3, the model's reduction), is below this (in
+ * units of the effective σ², see `runLm`) is not tried: the minimum has
+ * been reached to the χ² resolution of rebuilt tables (the ~1e-2 jitter of
+ * STEP_TOLERANCE; a step that small is within ~0.1σ of the optimum). Without it a fit whose
+ * model cannot match the data (a shape smeared by TTVs of a large fraction
+ * of the ingress) spent half its builds on trial steps raising χ².
+ */
+const CHI2_RESOLUTION = 1e-2;
 
 function paramVector(q: Params, fitImpact: boolean, out: Float64Array): void {
   let c = 0;
@@ -256,7 +276,7 @@ function runLm(
   let lastCovOk = false;
   let q = clampParams(start);
   let atStart = true;
-  let tpl = startTemplateFor(g, q, ITERATION_STEPS_PER_T14, ws);
+  let tpl = startTemplateFor(g, q, COARSE_STEPS_PER_T14, ws);
   let chi2 = chi2Of(x, y, tpl, q, tmp);
   let lambda = 1e-3;
   let converged = false;
@@ -272,13 +292,24 @@ function runLm(
   const ref = new Float64Array(np);
   let haveCols = false;
   const current = new Float64Array(np);
-  const stepsPerT14 = ITERATION_STEPS_PER_T14;
+  let stepsPerT14 = COARSE_STEPS_PER_T14;
+  const dof = Math.max(1, x.length - np);
+  /** Leave the coarse tables: rebuild the current template and its χ² on the iteration tables. */
+  const refine = (): void => {
+    stepsPerT14 = ITERATION_STEPS_PER_T14;
+    tpl = atStart ? startTemplateFor(g, q, stepsPerT14, ws) : templateFor(g, q, stepsPerT14, ws);
+    chi2 = chi2Of(x, y, tpl, q, tmp);
+  };
   for (; it < maxIterations; it++) {
     paramVector(q, fitImpact, current);
+    // Effective σ: the stated one, or larger when the model does not fit (reduced χ² > 1), so that
+    // "a standard error" below means the parameters' actual uncertainty (errors scaled by √χ²_ν;
+    // e.g. Press et al. 2007, Numerical Recipes §15.6 [from memory]). Tolerances only, not the errors.
+    const sEff = sigma * Math.max(1, Math.sqrt(chi2 / (sigma * sigma * dof)));
     let refresh = !haveCols || !lastCovOk;
     // f0 (last) only scales the columns, which use the current f0: it does not count.
     for (let a = 0; a < np - 1 && !refresh; a++) {
-      if (!(Math.abs(current[a] - ref[a]) <= REFRESH_SIGMAS * sigma * Math.sqrt(lastCov[a * np + a]))) refresh = true;
+      if (!(Math.abs(current[a] - ref[a]) <= REFRESH_SIGMAS * sEff * Math.sqrt(lastCov[a * np + a]))) refresh = true;
     }
     if (refresh) {
       const dp = 1e-3 * q.p;
@@ -326,13 +357,21 @@ function runLm(
     lastCov.set(cov);
     lastCovOk = okCov;
     // Converged when the Gauss–Newton step δ = (JᵀJ)⁻¹Jᵀr is below STEP_TOLERANCE of every standard
-    // error σ·√((JᵀJ)⁻¹)ₐₐ: the point is the minimum to that tolerance, and no trial is built.
+    // error σ·√((JᵀJ)⁻¹)ₐₐ: the point is the minimum to that tolerance, and no trial is built. On the
+    // coarse tables, a Gauss–Newton step predicted to lower χ² by less than COARSE_UNTIL (its drop
+    // gᵀ(JᵀJ)⁻¹g) moves to the iteration tables instead.
     if (okCov) {
       let gnSmall = true;
-      for (let a = 0; a < np && gnSmall; a++) {
+      let gnDrop = 0;
+      for (let a = 0; a < np; a++) {
         let d = 0;
         for (let b = 0; b < np; b++) d += cov[a * np + b] * grad[b];
-        if (!(Math.abs(d) <= STEP_TOLERANCE * sigma * Math.sqrt(cov[a * np + a]))) gnSmall = false;
+        gnDrop += d * grad[a];
+        if (!(Math.abs(d) <= STEP_TOLERANCE * sEff * Math.sqrt(cov[a * np + a]))) gnSmall = false;
+      }
+      if (stepsPerT14 === COARSE_STEPS_PER_T14 && (gnSmall || gnDrop < COARSE_UNTIL * sEff * sEff)) {
+        refine();
+        continue;
       }
       if (gnSmall) {
         converged = true;
@@ -350,13 +389,14 @@ function runLm(
         lambda *= 10;
         continue;
       }
-      // A damped step this small that the previous tries could not use: the χ² resolution of rebuilt
-      // tables is reached (see STEP_TOLERANCE), so stop at the current point.
-      let dampedSmall = tries > 0;
-      for (let a = 0; a < np && dampedSmall; a++) {
-        if (!(Math.abs(delta[a]) <= STEP_TOLERANCE * sigma * Math.sqrt(cov[a * np + a]))) dampedSmall = false;
+      // A step whose predicted χ² drop is below the resolution: stop at the current point.
+      let predicted = 0;
+      for (let a = 0; a < np; a++) {
+        let ad = 0;
+        for (let b = 0; b < np; b++) ad += A[a * np + b] * delta[b];
+        predicted += delta[a] * (2 * grad[a] - ad);
       }
-      if (dampedSmall) {
+      if (!(predicted > CHI2_RESOLUTION * sEff * sEff)) {
         small = true;
         accepted = true;
         break;
@@ -384,6 +424,10 @@ function runLm(
       }
       lambda *= 10;
     }
+    if (stepsPerT14 === COARSE_STEPS_PER_T14 && (!accepted || small)) {
+      refine();
+      continue;
+    }
     if (!accepted) {
       // No step lowers χ²: at the minimum to rounding.
       converged = okCov;
@@ -396,7 +440,7 @@ function runLm(
     }
   }
   // Covariance: (JᵀWJ)⁻¹ from the last iteration's Jacobian, W = 1/σ². It was evaluated at the returned
-  // point (or one accepted step from it, below STEP_TOLERANCE of every standard error), with p and b
+  // point (or one accepted step from it, predicted to lower χ² by less than CHI2_RESOLUTION), with p and b
   // columns from within REFRESH_SIGMAS standard errors, where they change by ~1e-3 or less of
   // themselves: the matrix is that of the optimum to far better than the 1 % an error bar needs. The p
   // and b columns are forward differences of tables built on the same nodes, so their interpolation
