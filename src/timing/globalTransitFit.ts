@@ -226,14 +226,98 @@ function startTemplateFor(g: TemplateGeometry, q: Params, stepsPerT14: number, w
   return tpl;
 }
 
-function chi2Of(x: Float64Array, y: Float64Array, tpl: TransitTemplate, q: Params, tmp: Float64Array): number {
-  let c = 0;
-  for (let i = 0; i < x.length; i++) {
-    templateFluxSlope(tpl, x[i] - q.dt, tmp);
-    const r = y[i] - q.f0 * tmp[0];
-    c += r * r;
+/**
+ * The folded data (x = t − (T0 + nP), y), in runs of increasing x (one per
+ * transit window for time-ordered data), with running sums of d = y − 1 and
+ * d². Outside its table a template is exactly 1 (transitTemplate.ts), so the
+ * samples there enter χ² and the normal equations through those sums:
+ * `select` finds, by bisection in each run, the samples within reach of a
+ * table, and only those are visited one by one. Sums over d keep the
+ * out-of-transit χ², Σ(d − (f0 − 1))², free of cancellation.
+ */
+class FoldedData {
+  readonly runStart: Int32Array;
+  readonly cumD: Float64Array;
+  readonly cumDD: Float64Array;
+  readonly lo: Int32Array;
+  readonly hi: Int32Array;
+  /** Samples outside the last selection: count, Σd, Σd². */
+  nOut = 0;
+  sumD = 0;
+  sumDD = 0;
+
+  constructor(readonly x: Float64Array, readonly y: Float64Array) {
+    const m = x.length;
+    const starts = [0];
+    for (let i = 1; i < m; i++) if (!(x[i] >= x[i - 1])) starts.push(i);
+    starts.push(m);
+    this.runStart = Int32Array.from(starts);
+    this.lo = new Int32Array(starts.length - 1);
+    this.hi = new Int32Array(starts.length - 1);
+    this.cumD = new Float64Array(m + 1);
+    this.cumDD = new Float64Array(m + 1);
+    for (let i = 0; i < m; i++) {
+      const d = y[i] - 1;
+      this.cumD[i + 1] = this.cumD[i] + d;
+      this.cumDD[i + 1] = this.cumDD[i] + d * d;
+    }
   }
-  return c;
+
+  private lowerBound(a: number, b: number, v: number): number {
+    const x = this.x;
+    while (a < b) {
+      const mid = (a + b) >>> 1;
+      if (x[mid] < v) a = mid + 1;
+      else b = mid;
+    }
+    return a;
+  }
+
+  /**
+   * Select the samples with x in [dt + x0 − margin, dt + x_end + margin] of
+   * a template's table, margin 2 % of its span plus four steps (so that the
+   * p and b neighbours' tables, wider by ~1e-3 of the span, stay inside).
+   */
+  select(tpl: TransitTemplate, dt: number): void {
+    const span = tpl.values.length * tpl.stepS;
+    const margin = 0.02 * span + 4 * tpl.stepS;
+    const a = dt + tpl.x0S - margin;
+    const b = dt + tpl.x0S + span + margin;
+    let nIn = 0;
+    let inD = 0;
+    let inDD = 0;
+    for (let r = 0; r < this.lo.length; r++) {
+      const s = this.runStart[r];
+      const e = this.runStart[r + 1];
+      const lo = this.lowerBound(s, e, a);
+      const hi = Math.max(lo, this.lowerBound(lo, e, b));
+      this.lo[r] = lo;
+      this.hi[r] = hi;
+      nIn += hi - lo;
+      inD += this.cumD[hi] - this.cumD[lo];
+      inDD += this.cumDD[hi] - this.cumDD[lo];
+    }
+    const m = this.x.length;
+    this.nOut = m - nIn;
+    this.sumD = this.cumD[m] - inD;
+    this.sumDD = this.cumDD[m] - inDD;
+  }
+}
+
+/** Σ (y − f0 T(x − Δt))² over all samples. */
+function chi2Of(data: FoldedData, tpl: TransitTemplate, q: Params, tmp: Float64Array): number {
+  const { x, y } = data;
+  data.select(tpl, q.dt);
+  let c = 0;
+  for (let r = 0; r < data.lo.length; r++) {
+    for (let i = data.lo[r]; i < data.hi[r]; i++) {
+      templateFluxSlope(tpl, x[i] - q.dt, tmp);
+      const res = y[i] - q.f0 * tmp[0];
+      c += res * res;
+    }
+  }
+  const e = q.f0 - 1;
+  return c + data.sumDD - 2 * e * data.sumD + data.nOut * e * e;
 }
 
 function clampParams(q: Params): Params {
@@ -254,8 +338,7 @@ interface LmResult {
 }
 
 function runLm(
-  x: Float64Array,
-  y: Float64Array,
+  data: FoldedData,
   sigma: number,
   g: TemplateGeometry,
   start: Params,
@@ -263,6 +346,7 @@ function runLm(
   maxIterations: number,
 ): LmResult {
   // Parameter order: p, [b], s, dt, f0.
+  const { x } = data;
   const np = fitImpact ? 5 : 4;
   const tmp = new Float64Array(2);
   const A = new Float64Array(np * np);
@@ -270,14 +354,13 @@ function runLm(
   const M = new Float64Array(np * np);
   const delta = new Float64Array(np);
   const cov = new Float64Array(np * np);
-  const jrow = new Float64Array(np);
   const lastCov = new Float64Array(np * np).fill(NaN);
   const ws = new TemplateWorkspace();
   let lastCovOk = false;
   let q = clampParams(start);
   let atStart = true;
   let tpl = startTemplateFor(g, q, COARSE_STEPS_PER_T14, ws);
-  let chi2 = chi2Of(x, y, tpl, q, tmp);
+  let chi2 = chi2Of(data, tpl, q, tmp);
   let lambda = 1e-3;
   let converged = false;
   let it = 0;
@@ -298,7 +381,7 @@ function runLm(
   const refine = (): void => {
     stepsPerT14 = ITERATION_STEPS_PER_T14;
     tpl = atStart ? startTemplateFor(g, q, stepsPerT14, ws) : templateFor(g, q, stepsPerT14, ws);
-    chi2 = chi2Of(x, y, tpl, q, tmp);
+    chi2 = chi2Of(data, tpl, q, tmp);
   };
   for (; it < maxIterations; it++) {
     paramVector(q, fitImpact, current);
@@ -317,42 +400,57 @@ function runLm(
       const bStep = q.b + db < 1 + q.p - 1e-3 ? db : -db;
       const build = atStart ? startTemplateFor : templateFor;
       const tplP = build(g, { ...q, p: q.p + dp }, stepsPerT14, ws);
-      for (let i = 0; i < x.length; i++) {
-        const u = x[i] - q.dt;
-        colP[i] = (templateFlux(tplP, u) - templateFlux(tpl, u)) / dp;
-      }
-      if (fitImpact) {
-        const tplB = build(g, { ...q, b: q.b + bStep }, stepsPerT14, ws);
-        for (let i = 0; i < x.length; i++) {
+      const tplB = fitImpact ? build(g, { ...q, b: q.b + bStep }, stepsPerT14, ws) : null;
+      // Zero outside the selection (which holds both neighbours' tables), so they stay exact there.
+      data.select(tpl, q.dt);
+      colP.fill(0);
+      colB.fill(0);
+      for (let run = 0; run < data.lo.length; run++) {
+        for (let i = data.lo[run]; i < data.hi[run]; i++) {
           const u = x[i] - q.dt;
-          colB[i] = (templateFlux(tplB, u) - templateFlux(tpl, u)) / bStep;
+          const T = templateFlux(tpl, u);
+          colP[i] = (templateFlux(tplP, u) - T) / dp;
+          if (tplB) colB[i] = (templateFlux(tplB, u) - T) / bStep;
         }
       }
       ref.set(current);
       haveCols = true;
     }
-    A.fill(0);
-    grad.fill(0);
-    for (let i = 0; i < x.length; i++) {
-      const u = x[i] - q.dt;
-      templateFluxSlope(tpl, u, tmp);
-      const T = tmp[0];
-      const dT = tmp[1];
-      let c = 0;
-      jrow[c++] = q.f0 * colP[i];
-      if (fitImpact) jrow[c++] = q.f0 * colB[i];
-      jrow[c++] = (-q.f0 * dT * u) / q.s;
-      jrow[c++] = -q.f0 * dT;
-      jrow[c++] = T;
-      const r = y[i] - q.f0 * T;
-      for (let a = 0; a < np; a++) {
-        const ja = jrow[a];
-        if (ja === 0) continue;
-        grad[a] += ja * r;
-        for (let b = a; b < np; b++) A[a * np + b] += ja * jrow[b];
+    // JᵀJ and Jᵀr over the five columns p, b, s, Δt, f0 (b's column is zero when b is fixed), in scalars.
+    let pp = 0, pb = 0, ps = 0, pt = 0, pf = 0, bb = 0, bs = 0, bt = 0, bf = 0;
+    let ss = 0, st = 0, sf = 0, tt = 0, tf = 0, ff = 0;
+    let gp = 0, gb = 0, gs = 0, gt = 0, gf = 0;
+    const f0 = q.f0;
+    const sInv = 1 / q.s;
+    data.select(tpl, q.dt);
+    for (let run = 0; run < data.lo.length; run++) {
+      for (let i = data.lo[run]; i < data.hi[run]; i++) {
+        const u = x[i] - q.dt;
+        templateFluxSlope(tpl, u, tmp);
+        const T = tmp[0];
+        const jt = -f0 * tmp[1];
+        const js = jt * u * sInv;
+        const jp = f0 * colP[i];
+        const jb = fitImpact ? f0 * colB[i] : 0;
+        const r = data.y[i] - f0 * T;
+        pp += jp * jp; pb += jp * jb; ps += jp * js; pt += jp * jt; pf += jp * T;
+        bb += jb * jb; bs += jb * js; bt += jb * jt; bf += jb * T;
+        ss += js * js; st += js * jt; sf += js * T;
+        tt += jt * jt; tf += jt * T;
+        ff += T * T;
+        gp += jp * r; gb += jb * r; gs += js * r; gt += jt * r; gf += T * r;
       }
     }
-    for (let a = 0; a < np; a++) for (let b = 0; b < a; b++) A[a * np + b] = A[b * np + a];
+    // Outside the selection T = 1, T′ = 0 and the p, b columns vanish: only ∂m/∂f0 = 1 remains.
+    ff += data.nOut;
+    gf += data.sumD - data.nOut * (f0 - 1);
+    const full = [pp, pb, ps, pt, pf, pb, bb, bs, bt, bf, ps, bs, ss, st, sf, pt, bt, st, tt, tf, pf, bf, sf, tf, ff];
+    const g5 = [gp, gb, gs, gt, gf];
+    const cols = fitImpact ? [0, 1, 2, 3, 4] : [0, 2, 3, 4];
+    for (let a = 0; a < np; a++) {
+      grad[a] = g5[cols[a]];
+      for (let b = 0; b < np; b++) A[a * np + b] = full[cols[a] * 5 + cols[b]];
+    }
     const okCov = invertSymmetricPositive(A, np, cov);
     lastCov.set(cov);
     lastCovOk = okCov;
@@ -410,7 +508,7 @@ function runLm(
       trial.f0 += delta[c++];
       const tq = clampParams(trial);
       const ttpl = templateFor(g, tq, stepsPerT14, ws);
-      const tchi2 = chi2Of(x, y, ttpl, tq, tmp);
+      const tchi2 = chi2Of(data, ttpl, tq, tmp);
       if (tchi2 <= chi2) {
         const relDrop = (chi2 - tchi2) / Math.max(tchi2, 1e-300);
         if (relDrop < 1e-12) small = true;
@@ -446,12 +544,7 @@ function runLm(
   // and b columns are forward differences of tables built on the same nodes, so their interpolation
   // errors largely cancel. The returned template is built once, finer, at the optimum.
   const fine = templateFor(g, q, FINAL_STEPS_PER_T14, ws);
-  let chi2Fine = 0;
-  for (let i = 0; i < x.length; i++) {
-    templateFluxSlope(fine, x[i] - q.dt, tmp);
-    const r = y[i] - q.f0 * tmp[0];
-    chi2Fine += r * r;
-  }
+  const chi2Fine = chi2Of(data, fine, q, tmp);
   const w = 1 / (sigma * sigma);
   if (!lastCovOk) converged = false;
   for (let k = 0; k < np * np; k++) cov[k] = lastCov[k] / w;
@@ -498,7 +591,8 @@ export function globalTransitFit(
     j++;
   }
   const start: Params = { p: geometry.radiusRatio, b: geometry.impactParameter, s: geometry.timeScale ?? 1, dt: 0, f0: 1 };
-  let res = runLm(x, y, sigma, geometry, start, fitImpact, maxIterations);
+  const data = new FoldedData(x, y);
+  let res = runLm(data, sigma, geometry, start, fitImpact, maxIterations);
   let impactFixed = !fitImpact;
   let impactNote = fitImpact ? '' : 'held fixed at the input value (fitImpact = false)';
   if (fitImpact) {
@@ -508,7 +602,7 @@ export function globalTransitFit(
         ? 'held fixed at the input value: the fit with free b did not converge'
         : `held fixed at the input value: b undetermined (σ_b = ${sb.toPrecision(3)} > 0.3)`;
       impactFixed = true;
-      res = runLm(x, y, sigma, geometry, start, false, maxIterations);
+      res = runLm(data, sigma, geometry, start, false, maxIterations);
     }
   }
   const np = impactFixed ? 4 : 5;
