@@ -226,8 +226,8 @@ function checkCoverage(
   return { ok: true, nIn, reason: '' };
 }
 
-/** Caller-owned scratch for `fitOneTransit` (no allocation per point or per transit loop step). */
-class FitScratch {
+/** Caller-owned scratch for `fitOneTransit` (no allocation per point or per transit loop step; one per thread of work, reused from transit to transit). */
+export class FitScratch {
   readonly ts = new Float64Array(3);
   readonly A = new Float64Array(9);
   readonly H = new Float64Array(9);
@@ -235,6 +235,14 @@ class FitScratch {
   readonly inv = new Float64Array(9);
   readonly grad = new Float64Array(3);
   readonly delta = new Float64Array(3);
+  /** Running-sum buffers for TransitWindow (grown on demand, reused from one transit to the next). */
+  cumD = new Float64Array(0);
+  cumDD = new Float64Array(0);
+  sums(n: number): void {
+    if (this.cumD.length >= n) return;
+    this.cumD = new Float64Array(n);
+    this.cumDD = new Float64Array(n);
+  }
 }
 
 /**
@@ -262,10 +270,14 @@ class TransitWindow {
     readonly i0: number,
     readonly i1: number,
     readonly tpl: TransitTemplate,
+    scratch: FitScratch,
   ) {
     const n = i1 - i0;
-    this.cumD = new Float64Array(n + 1);
-    this.cumDD = new Float64Array(n + 1);
+    scratch.sums(n + 1);
+    this.cumD = scratch.cumD;
+    this.cumDD = scratch.cumDD;
+    this.cumD[0] = 0;
+    this.cumDD[0] = 0;
     for (let k = 0; k < n; k++) {
       const d = flux[order[i0 + k]] - 1;
       this.cumD[k + 1] = this.cumD[k] + d;
@@ -494,8 +506,9 @@ export function fitOneTransit(
   epoch: number,
   tcPredS: number,
   opts: PerTransitFitOptions,
+  scratch?: FitScratch,
 ): TransitFit {
-  const w = new FitScratch();
+  const w = scratch ?? new FitScratch();
   const nPoints = i1 - i0;
   const T14 = tpl.t14S;
   const ingress = tpl.ingressS > 0 ? tpl.ingressS : 0.5 * T14;
@@ -520,7 +533,7 @@ export function fitOneTransit(
 
   // 1. Coarse grid in t_c (s = 1, f0 linear), in terms of d = y − 1 and q = T − 1 (q = 0 outside the
   // table): with f0 = 1 + e the residual is (d − q) − e(1 + q), linear in e.
-  const win = new TransitWindow(timeS, flux, order, i0, i1, tpl);
+  const win = new TransitWindow(timeS, flux, order, i0, i1, tpl, w);
   const coarseChi2 = (tc: number): number => {
     win.span(tc, 1);
     // Residual r = d − q − e(1 + q): with a = 1 + q, χ²(e) = Σ(d − q)² − 2eΣ(d − q)a + e²Σa².
@@ -623,9 +636,10 @@ export function fitTransits(
   if (!(Number.isInteger(epochs) && epochs >= 0)) throw new RangeError(`epochs must be a non-negative integer, got ${epochs}`);
   const { order, start } = groupByEpoch(timeS, epoch, epochs);
   const fits: TransitFit[] = [];
+  const scratch = new FitScratch();
   for (let e = 0; e < epochs; e++) {
     const pred = opts.ephemeris.t0S + e * opts.ephemeris.periodS;
-    fits.push(fitOneTransit(timeS, flux, sigma, order, start[e], start[e + 1], tpl, e, pred, opts));
+    fits.push(fitOneTransit(timeS, flux, sigma, order, start[e], start[e + 1], tpl, e, pred, opts, scratch));
   }
   if ((opts.beta ?? 'pooled') === 'off') return { fits, beta: null };
 
