@@ -15,7 +15,8 @@
  *    h = min(ingress/2, half-width/4), then the two nodes h/2 either side of
  *    the best one: the start is within ingress/8 of the χ² minimum near that
  *    node, as on a grid of step h/2, at about half its cost (ours, no
- *    source); s = 1 and f0 solved linearly at each node.
+ *    source); s = 1 and f0 solved linearly at each node. The samples are
+ *    binned to ~ingress/8 for this search when that spans two cadences or more.
  * 2. Damped Newton / Levenberg–Marquardt from the best node (Levenberg 1944,
  *    Q. Appl. Math. 2, 164; Marquardt 1963, J. SIAM 11, 431; see
  *    `levenbergMarquardt` below), Jacobian from the template's analytic
@@ -243,6 +244,32 @@ export class FitScratch {
     this.cumD = new Float64Array(n);
     this.cumDD = new Float64Array(n);
   }
+  /** Bins of the coarse search: mean time, mean d, count, and running sums of n, n·d̄, n·d̄². */
+  binT = new Float64Array(0);
+  binD = new Float64Array(0);
+  binN = new Float64Array(0);
+  binCumN = new Float64Array(0);
+  binCumD = new Float64Array(0);
+  binCumDD = new Float64Array(0);
+  bins(n: number): void {
+    if (this.binT.length >= n + 1) return;
+    this.binT = new Float64Array(n + 1);
+    this.binD = new Float64Array(n + 1);
+    this.binN = new Float64Array(n + 1);
+    this.binCumN = new Float64Array(n + 1);
+    this.binCumD = new Float64Array(n + 1);
+    this.binCumDD = new Float64Array(n + 1);
+  }
+}
+
+/** First k in [a, b) with v[k] ≥ x (b if none); v ascending. */
+function lowerBoundOf(v: Float64Array, a: number, b: number, x: number): number {
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (v[m] < x) a = m + 1;
+    else b = m;
+  }
+  return a;
 }
 
 /**
@@ -534,7 +561,61 @@ export function fitOneTransit(
   // 1. Coarse grid in t_c (s = 1, f0 linear), in terms of d = y − 1 and q = T − 1 (q = 0 outside the
   // table): with f0 = 1 + e the residual is (d − q) − e(1 + q), linear in e.
   const win = new TransitWindow(timeS, flux, order, i0, i1, tpl, w);
+  // The search runs on bins of ~ingress/8 when that spans two or more cadences: the χ² of the samples
+  // is, up to a constant, Σ n_b (d̄_b − q_b − e·a_b)² with the template at each bin's mean time, whose
+  // error (the template's curvature over a bin) is far below what a grid of step ingress/2 resolves
+  // (ours, no source). The fit below uses every sample.
+  const binWidth = ingress / 8;
+  let nBins = 0;
+  if (binWidth >= 2 * opts.cadenceS) {
+    w.bins(i1 - i0);
+    const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
+    let k = i0;
+    while (k < i1) {
+      const t0 = timeS[order[k]];
+      let st = 0, sd = 0, n = 0;
+      while (k < i1 && timeS[order[k]] - t0 < binWidth) {
+        st += timeS[order[k]];
+        sd += flux[order[k]] - 1;
+        n++;
+        k++;
+      }
+      binT[nBins] = st / n;
+      binD[nBins] = sd / n;
+      binN[nBins] = n;
+      nBins++;
+    }
+    binCumN[0] = 0;
+    binCumD[0] = 0;
+    binCumDD[0] = 0;
+    for (let b = 0; b < nBins; b++) {
+      binCumN[b + 1] = binCumN[b] + binN[b];
+      binCumD[b + 1] = binCumD[b] + binN[b] * binD[b];
+      binCumDD[b + 1] = binCumDD[b] + binN[b] * binD[b] * binD[b];
+    }
+  }
+  const tableFirst = tpl.x0S - tpl.stepS;
+  const tableLast = tpl.x0S + tpl.values.length * tpl.stepS;
   const coarseChi2 = (tc: number): number => {
+    if (nBins > 0) {
+      const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
+      const a = lowerBoundOf(binT, 0, nBins, tc + tableFirst);
+      const b = Math.max(a, lowerBoundOf(binT, a, nBins, tc + tableLast));
+      let srr = 0, sra = 0, saa = 0;
+      for (let k = a; k < b; k++) {
+        const q = templateFlux(tpl, binT[k] - tc) - 1;
+        const r = binD[k] - q;
+        const aa = 1 + q;
+        const n = binN[k];
+        srr += n * r * r;
+        sra += n * r * aa;
+        saa += n * aa * aa;
+      }
+      srr += binCumDD[nBins] - (binCumDD[b] - binCumDD[a]);
+      sra += binCumD[nBins] - (binCumD[b] - binCumD[a]);
+      saa += binCumN[nBins] - (binCumN[b] - binCumN[a]);
+      return fitBaseline ? srr - (sra * sra) / saa : srr;
+    }
     win.span(tc, 1);
     // Residual r = d − q − e(1 + q): with a = 1 + q, χ²(e) = Σ(d − q)² − 2eΣ(d − q)a + e²Σa².
     let srr = 0, sra = 0, saa = 0;
