@@ -24,8 +24,10 @@
  * orbits, transitTemplate.ts).
  * The fit iterates on tables of step T14/1000 (interpolation error ≲ 7e-7 of
  * the flux instantaneous, ≲ 2e-7 with a 1-min and ≲ 1.2e-7 with a 2-min
- * exposure; measured as in transitTemplate.ts) and returns a T14/4000 table
- * (≲ 2e-8, 1e-8) built once at the optimum for the per-transit fits. Earlier,
+ * exposure; measured as in transitTemplate.ts) and returns, for the
+ * per-transit fits, a T14/4000 table (≲ 2e-8, 1e-8) built once at the
+ * optimum when σ < 1e-5 per point, else the last iteration table
+ * (FINE_BELOW_SIGMA). Earlier,
  * measured on the demo scenario
  * (scenarios/demo-observer.yaml, 3176 points, 8 transits, noisy machine, min
  * of 8 × 20 calls): the whole recoverTimings 23–25 → 6.6–7.8 ms, mid-times
@@ -164,6 +166,16 @@ const COARSE_STEPS_PER_T14 = 250;
 const COARSE_UNTIL = 1;
 /** Table step T14/4000 for the returned template: ≲ 5e-8 (instantaneous), ≲ 1e-8 (1–2 min exposure). */
 const FINAL_STEPS_PER_T14 = 4000;
+/**
+ * Below this per-point σ the per-transit fits get the T14/4000 table; at or
+ * above it, the last T14/1000 iteration table. Its interpolation error
+ * (1.6e-7 of the flux on the bench reference scenario, ≲ 7e-7 in the cases of
+ * the file header) is then ≤ 7 % of σ, and, being the same template for every
+ * transit, it moves all mid-times and durations alike, which the TTV and TDV
+ * statistics (residuals from a line and from the mean) remove. Saves the
+ * costliest build of the fit (ours, no source).
+ */
+const FINE_BELOW_SIGMA = 1e-5;
 
 /** Re-use the p and b Jacobian columns until some parameter has moved by this many standard errors. */
 const REFRESH_SIGMAS = 1;
@@ -542,8 +554,10 @@ function runLm(
   // columns from within REFRESH_SIGMAS standard errors, where they change by ~1e-3 or less of
   // themselves: the matrix is that of the optimum to far better than the 1 % an error bar needs. The p
   // and b columns are forward differences of tables built on the same nodes, so their interpolation
-  // errors largely cancel. The returned template is built once, finer, at the optimum.
-  const fine = templateFor(g, q, FINAL_STEPS_PER_T14, ws);
+  // errors largely cancel. The returned template is the last iteration table (at q) when the noise
+  // allows it (FINE_BELOW_SIGMA), else one built finer at the optimum.
+  const fine =
+    sigma < FINE_BELOW_SIGMA || stepsPerT14 !== ITERATION_STEPS_PER_T14 ? templateFor(g, q, FINAL_STEPS_PER_T14, ws) : tpl;
   const chi2Fine = chi2Of(data, fine, q, tmp);
   const w = 1 / (sigma * sigma);
   if (!lastCovOk) converged = false;
