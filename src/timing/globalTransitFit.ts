@@ -316,6 +316,93 @@ class FoldedData {
   }
 }
 
+/**
+ * The sums of JᵀJ and Jᵀr for the columns p, b, s, Δt, f0 at (f0, Δt, 1/s),
+ * written to `out` in the order pp, pb, ps, pt, pf, bb, bs, bt, bf, ss, st,
+ * sf, tt, tf, ff, gp, gb, gs, gt, gf. A separate small function with scalar
+ * accumulators, so the optimising compiler keeps every intermediate in
+ * registers (inside runLm's closure scope it allocated once per sample).
+ */
+function accumulateNormal(
+  data: FoldedData,
+  tpl: TransitTemplate,
+  colP: Float64Array,
+  colB: Float64Array,
+  fitImpact: boolean,
+  f0: number,
+  dt: number,
+  sInv: number,
+  out: Float64Array,
+): void {
+  const { x, y } = data;
+  const tmp = SLOPE;
+  let pp = 0, pb = 0, ps = 0, pt = 0, pf = 0, bb = 0, bs = 0, bt = 0, bf = 0;
+  let ss = 0, st = 0, sf = 0, tt = 0, tf = 0, ff = 0;
+  let gp = 0, gb = 0, gs = 0, gt = 0, gf = 0;
+  data.select(tpl, dt);
+  for (let run = 0; run < data.lo.length; run++) {
+    const hi = data.hi[run];
+    for (let i = data.lo[run]; i < hi; i++) {
+      const u = x[i] - dt;
+      templateFluxSlope(tpl, u, tmp);
+      const T = tmp[0];
+      const jt = -f0 * tmp[1];
+      const js = jt * u * sInv;
+      const jp = f0 * colP[i];
+      const jb = fitImpact ? f0 * colB[i] : 0;
+      const r = y[i] - f0 * T;
+      pp += jp * jp; pb += jp * jb; ps += jp * js; pt += jp * jt; pf += jp * T;
+      bb += jb * jb; bs += jb * js; bt += jb * jt; bf += jb * T;
+      ss += js * js; st += js * jt; sf += js * T;
+      tt += jt * jt; tf += jt * T;
+      ff += T * T;
+      gp += jp * r; gb += jb * r; gs += js * r; gt += jt * r; gf += T * r;
+    }
+  }
+  // Outside the selection T = 1, T′ = 0 and the p, b columns vanish: only ∂m/∂f0 = 1 remains.
+  ff += data.nOut;
+  gf += data.sumD - data.nOut * (f0 - 1);
+  out[0] = pp; out[1] = pb; out[2] = ps; out[3] = pt; out[4] = pf;
+  out[5] = bb; out[6] = bs; out[7] = bt; out[8] = bf;
+  out[9] = ss; out[10] = st; out[11] = sf; out[12] = tt; out[13] = tf; out[14] = ff;
+  out[15] = gp; out[16] = gb; out[17] = gs; out[18] = gt; out[19] = gf;
+}
+
+/**
+ * The p and b columns ∂T/∂p, ∂T/∂b by forward differences of the neighbours'
+ * tables, zero outside the selection (which holds both neighbours' tables, so
+ * they are exact there). A top-level function for the same reason as
+ * `accumulateNormal`.
+ */
+function jacobianColumns(
+  data: FoldedData,
+  tpl: TransitTemplate,
+  tplP: TransitTemplate,
+  tplB: TransitTemplate | null,
+  dt: number,
+  dp: number,
+  bStep: number,
+  colP: Float64Array,
+  colB: Float64Array,
+): void {
+  const x = data.x;
+  data.select(tpl, dt);
+  colP.fill(0);
+  colB.fill(0);
+  for (let run = 0; run < data.lo.length; run++) {
+    const hi = data.hi[run];
+    for (let i = data.lo[run]; i < hi; i++) {
+      const u = x[i] - dt;
+      const T = templateFlux(tpl, u);
+      colP[i] = (templateFlux(tplP, u) - T) / dp;
+      if (tplB !== null) colB[i] = (templateFlux(tplB, u) - T) / bStep;
+    }
+  }
+}
+
+/** Scratch for the template value and slope (module-level; single-threaded per isolate). */
+const SLOPE = new Float64Array(2);
+
 /** Σ (y − f0 T(x − Δt))² over all samples. */
 function chi2Of(data: FoldedData, tpl: TransitTemplate, q: Params, tmp: Float64Array): number {
   const { x, y } = data;
@@ -367,6 +454,7 @@ function runLm(
   const delta = new Float64Array(np);
   const cov = new Float64Array(np * np);
   const lastCov = new Float64Array(np * np).fill(NaN);
+  const sums = new Float64Array(20);
   const ws = new TemplateWorkspace();
   let lastCovOk = false;
   let q = clampParams(start);
@@ -413,49 +501,13 @@ function runLm(
       const build = atStart ? startTemplateFor : templateFor;
       const tplP = build(g, { ...q, p: q.p + dp }, stepsPerT14, ws);
       const tplB = fitImpact ? build(g, { ...q, b: q.b + bStep }, stepsPerT14, ws) : null;
-      // Zero outside the selection (which holds both neighbours' tables), so they stay exact there.
-      data.select(tpl, q.dt);
-      colP.fill(0);
-      colB.fill(0);
-      for (let run = 0; run < data.lo.length; run++) {
-        for (let i = data.lo[run]; i < data.hi[run]; i++) {
-          const u = x[i] - q.dt;
-          const T = templateFlux(tpl, u);
-          colP[i] = (templateFlux(tplP, u) - T) / dp;
-          if (tplB) colB[i] = (templateFlux(tplB, u) - T) / bStep;
-        }
-      }
+      jacobianColumns(data, tpl, tplP, tplB, q.dt, dp, bStep, colP, colB);
       ref.set(current);
       haveCols = true;
     }
-    // JᵀJ and Jᵀr over the five columns p, b, s, Δt, f0 (b's column is zero when b is fixed), in scalars.
-    let pp = 0, pb = 0, ps = 0, pt = 0, pf = 0, bb = 0, bs = 0, bt = 0, bf = 0;
-    let ss = 0, st = 0, sf = 0, tt = 0, tf = 0, ff = 0;
-    let gp = 0, gb = 0, gs = 0, gt = 0, gf = 0;
-    const f0 = q.f0;
-    const sInv = 1 / q.s;
-    data.select(tpl, q.dt);
-    for (let run = 0; run < data.lo.length; run++) {
-      for (let i = data.lo[run]; i < data.hi[run]; i++) {
-        const u = x[i] - q.dt;
-        templateFluxSlope(tpl, u, tmp);
-        const T = tmp[0];
-        const jt = -f0 * tmp[1];
-        const js = jt * u * sInv;
-        const jp = f0 * colP[i];
-        const jb = fitImpact ? f0 * colB[i] : 0;
-        const r = data.y[i] - f0 * T;
-        pp += jp * jp; pb += jp * jb; ps += jp * js; pt += jp * jt; pf += jp * T;
-        bb += jb * jb; bs += jb * js; bt += jb * jt; bf += jb * T;
-        ss += js * js; st += js * jt; sf += js * T;
-        tt += jt * jt; tf += jt * T;
-        ff += T * T;
-        gp += jp * r; gb += jb * r; gs += js * r; gt += jt * r; gf += T * r;
-      }
-    }
-    // Outside the selection T = 1, T′ = 0 and the p, b columns vanish: only ∂m/∂f0 = 1 remains.
-    ff += data.nOut;
-    gf += data.sumD - data.nOut * (f0 - 1);
+    // JᵀJ and Jᵀr over the five columns p, b, s, Δt, f0 (b's column is zero when b is fixed).
+    accumulateNormal(data, tpl, colP, colB, fitImpact, q.f0, q.dt, 1 / q.s, sums);
+    const [pp, pb, ps, pt, pf, bb, bs, bt, bf, ss, st, sf, tt, tf, ff, gp, gb, gs, gt, gf] = sums;
     const full = [pp, pb, ps, pt, pf, pb, bb, bs, bt, bf, ps, bs, ss, st, sf, pt, bt, st, tt, tf, pf, bf, sf, tf, ff];
     const g5 = [gp, gb, gs, gt, gf];
     const cols = fitImpact ? [0, 1, 2, 3, 4] : [0, 2, 3, 4];

@@ -262,6 +262,53 @@ export class FitScratch {
   }
 }
 
+/**
+ * χ² of the coarse search at t_c (s = 1, f0 linear) on the bins in `w`: up to
+ * a constant, Σ n_b (d̄_b − q_b − e·a_b)² minimised over e (see fitOneTransit).
+ * Top-level, so that no intermediate is boxed (as a closure it allocated per bin).
+ */
+function coarseChi2Binned(w: FitScratch, nBins: number, tpl: TransitTemplate, tc: number, fitBaseline: boolean): number {
+  const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
+  const a = lowerBoundOf(binT, 0, nBins, tc + tpl.x0S - tpl.stepS);
+  const b = Math.max(a, lowerBoundOf(binT, a, nBins, tc + tpl.x0S + tpl.values.length * tpl.stepS));
+  let srr = 0, sra = 0, saa = 0;
+  for (let k = a; k < b; k++) {
+    const q = templateFlux(tpl, binT[k] - tc) - 1;
+    const r = binD[k] - q;
+    const aa = 1 + q;
+    const n = binN[k];
+    srr += n * r * r;
+    sra += n * r * aa;
+    saa += n * aa * aa;
+  }
+  srr += binCumDD[nBins] - (binCumDD[b] - binCumDD[a]);
+  sra += binCumD[nBins] - (binCumD[b] - binCumD[a]);
+  saa += binCumN[nBins] - (binCumN[b] - binCumN[a]);
+  return fitBaseline ? srr - (sra * sra) / saa : srr;
+}
+
+/** The same χ² on every sample of the window (when the bins would be under two cadences wide). */
+function coarseChi2Samples(win: TransitWindow, tc: number, fitBaseline: boolean): number {
+  const { timeS, flux, order, tpl } = win;
+  win.span(tc, 1);
+  // Residual r = d − q − e(1 + q): with a = 1 + q, χ²(e) = Σ(d − q)² − 2eΣ(d − q)a + e²Σa².
+  let srr = 0, sra = 0, saa = 0;
+  for (let k = win.lo; k < win.hi; k++) {
+    const i = order[k];
+    const q = templateFlux(tpl, timeS[i] - tc) - 1;
+    const r = flux[i] - 1 - q;
+    const a = 1 + q;
+    srr += r * r;
+    sra += r * a;
+    saa += a * a;
+  }
+  // Samples outside the table: q = 0, a = 1.
+  srr += win.sumDD;
+  sra += win.sumD;
+  saa += win.nOut;
+  return fitBaseline ? srr - (sra * sra) / saa : srr;
+}
+
 /** First k in [a, b) with v[k] ≥ x (b if none); v ascending. */
 function lowerBoundOf(v: Float64Array, a: number, b: number, x: number): number {
   while (a < b) {
@@ -594,47 +641,8 @@ export function fitOneTransit(
       binCumDD[b + 1] = binCumDD[b] + binN[b] * binD[b] * binD[b];
     }
   }
-  const tableFirst = tpl.x0S - tpl.stepS;
-  const tableLast = tpl.x0S + tpl.values.length * tpl.stepS;
-  const coarseChi2 = (tc: number): number => {
-    if (nBins > 0) {
-      const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
-      const a = lowerBoundOf(binT, 0, nBins, tc + tableFirst);
-      const b = Math.max(a, lowerBoundOf(binT, a, nBins, tc + tableLast));
-      let srr = 0, sra = 0, saa = 0;
-      for (let k = a; k < b; k++) {
-        const q = templateFlux(tpl, binT[k] - tc) - 1;
-        const r = binD[k] - q;
-        const aa = 1 + q;
-        const n = binN[k];
-        srr += n * r * r;
-        sra += n * r * aa;
-        saa += n * aa * aa;
-      }
-      srr += binCumDD[nBins] - (binCumDD[b] - binCumDD[a]);
-      sra += binCumD[nBins] - (binCumD[b] - binCumD[a]);
-      saa += binCumN[nBins] - (binCumN[b] - binCumN[a]);
-      return fitBaseline ? srr - (sra * sra) / saa : srr;
-    }
-    win.span(tc, 1);
-    // Residual r = d − q − e(1 + q): with a = 1 + q, χ²(e) = Σ(d − q)² − 2eΣ(d − q)a + e²Σa².
-    let srr = 0, sra = 0, saa = 0;
-    for (let k = win.lo; k < win.hi; k++) {
-      const i = order[k];
-      const q = templateFlux(tpl, timeS[i] - tc) - 1;
-      const r = flux[i] - 1 - q;
-      const a = 1 + q;
-      srr += r * r;
-      sra += r * a;
-      saa += a * a;
-    }
-    // Samples outside the table: q = 0, a = 1.
-    srr += win.sumDD;
-    sra += win.sumD;
-    saa += win.nOut;
-    // χ² after the linear f0 (or with f0 = 1).
-    return fitBaseline ? srr - (sra * sra) / saa : srr;
-  };
+  const coarseChi2 = (tc: number): number =>
+    nBins > 0 ? coarseChi2Binned(w, nBins, tpl, tc, fitBaseline) : coarseChi2Samples(win, tc, fitBaseline);
   const step = Math.min(ingress / 2, half / 4);
   const nGrid = Math.max(1, Math.ceil(half / step));
   let bestTc = tcPredS;

@@ -1,0 +1,42 @@
+/**
+ * What this machine gives two threads: the same fixed arithmetic loop (no
+ * memory traffic, no allocation) timed alone on one worker thread and on two
+ * worker threads at once. Ratio = 2 × (time alone) / (mean time of the pair):
+ * 2.0 on two free cores, less when the cores are shared (hyper-threads, other
+ * tenants). The sweep's 2-over-1-worker speed-up cannot exceed it, so the
+ * bench prints both, measured in the same run.
+ */
+import { Worker } from 'node:worker_threads';
+import { median } from './measure.js';
+
+const LOOP = `
+const { parentPort, workerData } = require('node:worker_threads');
+let x = 0;
+const t = performance.now();
+for (let i = 0; i < workerData; i++) x += Math.sqrt(i) * 1e-9;
+parentPort.postMessage([performance.now() - t, x]);
+`;
+
+function spin(threads: number, iterations: number): Promise<number[]> {
+  return Promise.all(
+    Array.from({ length: threads }, () => new Promise<number>((resolve, reject) => {
+      const w = new Worker(LOOP, { eval: true, workerData: iterations });
+      w.on('message', (m: [number, number]) => {
+        resolve(m[0]);
+        void w.terminate();
+      });
+      w.on('error', reject);
+    })),
+  );
+}
+
+/** Median over `repeats` of the two-thread capacity ratio (see the file header). */
+export async function threadScaling(repeats = 3, iterations = 1e8): Promise<number> {
+  const ratios: number[] = [];
+  for (let r = 0; r < repeats; r++) {
+    const [alone] = await spin(1, iterations);
+    const pair = await spin(2, iterations);
+    ratios.push((2 * alone) / ((pair[0] + pair[1]) / 2));
+  }
+  return median(ratios);
+}
