@@ -641,15 +641,13 @@ export function fitOneTransit(
       binCumDD[b + 1] = binCumDD[b] + binN[b] * binD[b] * binD[b];
     }
   }
-  const coarseChi2 = (tc: number): number =>
-    nBins > 0 ? coarseChi2Binned(w, nBins, tpl, tc, fitBaseline) : coarseChi2Samples(win, tc, fitBaseline);
   const step = Math.min(ingress / 2, half / 4);
   const nGrid = Math.max(1, Math.ceil(half / step));
   let bestTc = tcPredS;
   let bestChi2 = Infinity;
   for (let g = -nGrid; g <= nGrid; g++) {
     const tc = tcPredS + g * step;
-    const c = coarseChi2(tc);
+    const c = nBins > 0 ? coarseChi2Binned(w, nBins, tpl, tc, fitBaseline) : coarseChi2Samples(win, tc, fitBaseline);
     if (c < bestChi2) {
       bestChi2 = c;
       bestTc = tc;
@@ -658,7 +656,7 @@ export function fitOneTransit(
   // Refinement: the two half-step neighbours of the best node.
   const centre = bestTc;
   for (const tc of [centre - 0.5 * step, centre + 0.5 * step]) {
-    const c = coarseChi2(tc);
+    const c = nBins > 0 ? coarseChi2Binned(w, nBins, tpl, tc, fitBaseline) : coarseChi2Samples(win, tc, fitBaseline);
     if (c < bestChi2) {
       bestChi2 = c;
       bestTc = tc;
