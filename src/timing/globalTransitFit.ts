@@ -319,7 +319,7 @@ class FoldedData {
 /**
  * The sums of JᵀJ and Jᵀr for the columns p, b, s, Δt, f0 at (f0, Δt, 1/s),
  * written to `out` in the order pp, pb, ps, pt, pf, bb, bs, bt, bf, ss, st,
- * sf, tt, tf, ff, gp, gb, gs, gt, gf. A separate small function with scalar
+ * sf, tt, tf, ff, gp, gb, gs, gt, gf (`tmp`: two numbers of scratch). A separate small function with scalar
  * accumulators, so the optimising compiler keeps every intermediate in
  * registers (inside runLm's closure scope it allocated once per sample).
  */
@@ -333,9 +333,9 @@ function accumulateNormal(
   dt: number,
   sInv: number,
   out: Float64Array,
+  tmp: Float64Array,
 ): void {
   const { x, y } = data;
-  const tmp = SLOPE;
   let pp = 0, pb = 0, ps = 0, pt = 0, pf = 0, bb = 0, bs = 0, bt = 0, bf = 0;
   let ss = 0, st = 0, sf = 0, tt = 0, tf = 0, ff = 0;
   let gp = 0, gb = 0, gs = 0, gt = 0, gf = 0;
@@ -399,9 +399,6 @@ function jacobianColumns(
     }
   }
 }
-
-/** Scratch for the template value and slope (module-level; single-threaded per isolate). */
-const SLOPE = new Float64Array(2);
 
 /** Σ (y − f0 T(x − Δt))² over all samples. */
 function chi2Of(data: FoldedData, tpl: TransitTemplate, q: Params, tmp: Float64Array): number {
@@ -506,7 +503,7 @@ function runLm(
       haveCols = true;
     }
     // JᵀJ and Jᵀr over the five columns p, b, s, Δt, f0 (b's column is zero when b is fixed).
-    accumulateNormal(data, tpl, colP, colB, fitImpact, q.f0, q.dt, 1 / q.s, sums);
+    accumulateNormal(data, tpl, colP, colB, fitImpact, q.f0, q.dt, 1 / q.s, sums, tmp);
     const [pp, pb, ps, pt, pf, bb, bs, bt, bf, ss, st, sf, tt, tf, ff, gp, gb, gs, gt, gf] = sums;
     const full = [pp, pb, ps, pt, pf, pb, bb, bs, bt, bf, ps, bs, ss, st, sf, pt, bt, st, tt, tf, pf, bf, sf, tf, ff];
     const g5 = [gp, gb, gs, gt, gf];
