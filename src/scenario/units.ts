@@ -7,7 +7,8 @@
  * come from `physics/constants.ts` (IAU 2015 B3 nominal values, IAU 2012 au).
  * Spellings follow astropy's aliases (`Mjup`, `M_jup`, `Rearth`, `AU`/`au`).
  */
-import { create, all, type MathJsInstance, type Unit } from 'mathjs';
+import { createRequire } from 'node:module';
+import type { MathJsInstance, Unit } from 'mathjs';
 import {
   AU_M,
   DAY_S,
@@ -63,6 +64,9 @@ let mathInstance: MathJsInstance | null = null;
 /** The mathjs instance with astronomy units; created once, never mutated afterwards. */
 function astroMath(): MathJsInstance {
   if (mathInstance) return mathInstance;
+  // Loaded on first use (about a second): a sweep worker whose unit cache was primed by the main
+  // thread (`primeUnitValues`) never needs it.
+  const { create, all } = createRequire(import.meta.url)('mathjs') as typeof import('mathjs');
   const math = create(all);
   const defs: Array<[string, string]> = [
     ['Msun', `${M_SUN_KG} kg`],
@@ -158,6 +162,16 @@ export function parseQuantity(
  * the same few units, and mathjs takes ~0.2 ms per unit.
  */
 const unitValues = new Map<string, number | 'unknown' | 'wrong kind'>();
+
+/** The unit values known so far, as plain data (for `primeUnitValues` in another thread). */
+export function unitValueEntries(): Array<[string, number | 'unknown' | 'wrong kind']> {
+  return [...unitValues.entries()];
+}
+
+/** Add unit values computed by another thread (same keys, same pure function of the unit text). */
+export function primeUnitValues(entries: ReadonlyArray<readonly [string, number | 'unknown' | 'wrong kind']>): void {
+  for (const [k, v] of entries) if (!unitValues.has(k)) unitValues.set(k, v);
+}
 function unitValue(unitText: string, kind: QuantityKind): number | 'unknown' | 'wrong kind' {
   const key = `${kind}|${unitText}`;
   const hit = unitValues.get(key);

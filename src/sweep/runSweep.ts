@@ -158,6 +158,13 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
       ...(spec.nullRealizations !== null ? { nullRealizations: spec.nullRealizations } : {}),
     },
   };
+  // Parse one cell here, so that the unit values its axis fields use are known to this thread and
+  // handed to the workers (units.ts); a cell that does not parse is reported by the runner instead.
+  try {
+    if (meta.cells > 0) parseScenario(cellTask(prepareJob(job), runCells[0] ?? 0).scenarioDoc);
+  } catch {
+    // the runner reports it, with the cell's index
+  }
   // The default runner on worker threads: compute each no-moon calibration set once, spread over the workers.
   const calibration = options.runner === undefined && !forecastOnly
     ? (cells: readonly number[], threads: number) => {

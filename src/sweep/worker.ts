@@ -11,6 +11,7 @@ import type { CellRunner, CellShared } from './cellTypes.js';
 import { cellTask, prepareJob, runOneCell, type CellJob } from './cellJob.js';
 import type { FromWorker, ToWorker } from './workerMessages.js';
 import type { NullSet } from './nullSet.js';
+import { primeUnitValues } from '../scenario/units.js';
 
 export interface WorkerInit {
   job: CellJob;
@@ -19,6 +20,8 @@ export interface WorkerInit {
   runnerExport: string;
   /** Take part in the calibration pre-pass (the default runner only). */
   calibrate: boolean;
+  /** The main thread's unit values (units.ts), so that the worker need not load mathjs. */
+  unitValues?: Array<[string, number | 'unknown' | 'wrong kind']>;
 }
 
 function describeError(e: unknown, index: number): FromWorker {
@@ -37,6 +40,7 @@ async function start(): Promise<void> {
   const port = parentPort;
   if (!port) throw new Error('worker.js must run in a worker thread');
   const init = workerData as WorkerInit;
+  if (init.unitValues) primeUnitValues(init.unitValues);
   const post = (m: FromWorker, transfer?: ArrayBuffer[]): void => port.postMessage(m, transfer);
   let runner: CellRunner;
   let calib: { cells: typeof import('./runCell.js'); sets: typeof import('./nullSet.js') } | null = null;

@@ -23,6 +23,7 @@ import { prepareJob, runOneCell, type CellJob } from './cellJob.js';
 import type { WorkerInit } from './worker.js';
 import type { FromWorker, ToWorker } from './workerMessages.js';
 import type { CalibrationClassPlan, CalibrationPlan } from './calibrationPlan.js';
+import { unitValueEntries } from '../scenario/units.js';
 import { joinNullRanges, type PackedNullRange } from './nullSet.js';
 
 /** A runner that worker threads load by module: a path or file: URL, and its export (default `runCell`). */
@@ -162,6 +163,7 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
     runnerModule: runner ? moduleUrl(runner) : null,
     runnerExport: runner?.exportName ?? 'runCell',
     calibrate: plan !== null,
+    unitValues: unitValueEntries(),
   };
   // Phases: the plan's, or one phase of every cell when there is nothing to calibrate.
   const chunkTable: Array<{ phase: number; cls: number; start: number; n: number }> = [];
