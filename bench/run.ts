@@ -23,9 +23,10 @@ function print(title: string, rows: BenchMedian[]): void {
 /** Sweep throughput on the reference sweep (see bench/sweep.ts), 1 and 2 workers, and the projection. */
 async function sweepSection(full: boolean): Promise<BenchMedian[]> {
   const rows: BenchMedian[] = [];
-  // 60 cells × 20 realizations plus the shared no-moon set of 1000: about ten seconds on one worker.
-  const cells = 60;
-  const realizations = 20;
+  // 120 cells × 25 realizations plus the shared no-moon set of 1000: about fifteen seconds on one worker,
+  // long enough that start-up and compilation weigh little in the speed-up.
+  const cells = 120;
+  const realizations = 25;
   const rates: Record<number, number> = {};
   for (const workers of full ? [2] : [1, 2]) {
     const doc = referenceSweepDoc(full ? 100 : realizations);

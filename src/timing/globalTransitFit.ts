@@ -45,7 +45,7 @@
  */
 import {
   buildTransitTemplate,
-  templateFlux,
+  templateFluxArray,
   templateFluxSlope,
   TemplateWorkspace,
   type TemplateGeometry,
@@ -389,13 +389,22 @@ function jacobianColumns(
   data.select(tpl, dt);
   colP.fill(0);
   colB.fill(0);
+  // Per run: u = x − Δt of the selected samples, then each table over the whole run in one call.
+  let longest = 0;
+  for (let run = 0; run < data.lo.length; run++) longest = Math.max(longest, data.hi[run] - data.lo[run]);
+  const u = new Float64Array(longest);
+  const t0 = new Float64Array(longest);
+  const t1 = new Float64Array(longest);
   for (let run = 0; run < data.lo.length; run++) {
-    const hi = data.hi[run];
-    for (let i = data.lo[run]; i < hi; i++) {
-      const u = x[i] - dt;
-      const T = templateFlux(tpl, u);
-      colP[i] = (templateFlux(tplP, u) - T) / dp;
-      if (tplB !== null) colB[i] = (templateFlux(tplB, u) - T) / bStep;
+    const lo = data.lo[run];
+    const n = data.hi[run] - lo;
+    for (let k = 0; k < n; k++) u[k] = x[lo + k] - dt;
+    templateFluxArray(tpl, u, n, t0);
+    templateFluxArray(tplP, u, n, t1);
+    for (let k = 0; k < n; k++) colP[lo + k] = (t1[k] - t0[k]) / dp;
+    if (tplB !== null) {
+      templateFluxArray(tplB, u, n, t1);
+      for (let k = 0; k < n; k++) colB[lo + k] = (t1[k] - t0[k]) / bStep;
     }
   }
 }

@@ -101,7 +101,7 @@
  */
 import { betaFactor, binSizesForTimescale, type BetaFactorResult } from './betaFactor.js';
 import { invertSymmetricPositive, solveSymmetricPositive } from './globalTransitFit.js';
-import { templateFlux, templateFluxDerivatives, templateFluxSlope, type TransitTemplate } from './transitTemplate.js';
+import { templateFlux, templateFluxArray, templateFluxDerivatives, templateFluxSlope, type TransitTemplate } from './transitTemplate.js';
 
 export type TransitFitStatus = 'ok' | 'skipped-partial' | 'skipped-no-data' | 'failed';
 
@@ -251,8 +251,13 @@ export class FitScratch {
   binCumN = new Float64Array(0);
   binCumD = new Float64Array(0);
   binCumDD = new Float64Array(0);
+  /** Scratch: shifted bin times and their template values. */
+  binU = new Float64Array(0);
+  binQ = new Float64Array(0);
   bins(n: number): void {
     if (this.binT.length >= n + 1) return;
+    this.binU = new Float64Array(n + 1);
+    this.binQ = new Float64Array(n + 1);
     this.binT = new Float64Array(n + 1);
     this.binD = new Float64Array(n + 1);
     this.binN = new Float64Array(n + 1);
@@ -268,12 +273,14 @@ export class FitScratch {
  * Top-level, so that no intermediate is boxed (as a closure it allocated per bin).
  */
 function coarseChi2Binned(w: FitScratch, nBins: number, tpl: TransitTemplate, tc: number, fitBaseline: boolean): number {
-  const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
+  const { binT, binD, binN, binCumN, binCumD, binCumDD, binU, binQ } = w;
   const a = lowerBoundOf(binT, 0, nBins, tc + tpl.x0S - tpl.stepS);
   const b = Math.max(a, lowerBoundOf(binT, a, nBins, tc + tpl.x0S + tpl.values.length * tpl.stepS));
+  for (let k = a; k < b; k++) binU[k - a] = binT[k] - tc;
+  templateFluxArray(tpl, binU, b - a, binQ);
   let srr = 0, sra = 0, saa = 0;
   for (let k = a; k < b; k++) {
-    const q = templateFlux(tpl, binT[k] - tc) - 1;
+    const q = binQ[k - a] - 1;
     const r = binD[k] - q;
     const aa = 1 + q;
     const n = binN[k];
@@ -307,6 +314,37 @@ function coarseChi2Samples(win: TransitWindow, tc: number, fitBaseline: boolean)
   sra += win.sumD;
   saa += win.nOut;
   return fitBaseline ? srr - (sra * sra) / saa : srr;
+}
+
+/** Bin the window's samples (time order) into `w`'s bins of width `binWidth`; returns the number of bins. */
+function binWindow(w: FitScratch, timeS: Float64Array, flux: Float64Array, order: Int32Array, i0: number, i1: number, binWidth: number): number {
+  w.bins(i1 - i0);
+  const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
+  let nBins = 0;
+  let k = i0;
+  while (k < i1) {
+    const t0 = timeS[order[k]];
+    let st = 0, sd = 0, n = 0;
+    while (k < i1 && timeS[order[k]] - t0 < binWidth) {
+      st += timeS[order[k]];
+      sd += flux[order[k]] - 1;
+      n++;
+      k++;
+    }
+    binT[nBins] = st / n;
+    binD[nBins] = sd / n;
+    binN[nBins] = n;
+    nBins++;
+  }
+  binCumN[0] = 0;
+  binCumD[0] = 0;
+  binCumDD[0] = 0;
+  for (let b = 0; b < nBins; b++) {
+    binCumN[b + 1] = binCumN[b] + binN[b];
+    binCumD[b + 1] = binCumD[b] + binN[b] * binD[b];
+    binCumDD[b + 1] = binCumDD[b] + binN[b] * binD[b] * binD[b];
+  }
+  return nBins;
 }
 
 /** First k in [a, b) with v[k] ≥ x (b if none); v ascending. */
@@ -613,34 +651,7 @@ export function fitOneTransit(
   // error (the template's curvature over a bin) is far below what a grid of step ingress/2 resolves
   // (ours, no source). The fit below uses every sample.
   const binWidth = ingress / 8;
-  let nBins = 0;
-  if (binWidth >= 2 * opts.cadenceS) {
-    w.bins(i1 - i0);
-    const { binT, binD, binN, binCumN, binCumD, binCumDD } = w;
-    let k = i0;
-    while (k < i1) {
-      const t0 = timeS[order[k]];
-      let st = 0, sd = 0, n = 0;
-      while (k < i1 && timeS[order[k]] - t0 < binWidth) {
-        st += timeS[order[k]];
-        sd += flux[order[k]] - 1;
-        n++;
-        k++;
-      }
-      binT[nBins] = st / n;
-      binD[nBins] = sd / n;
-      binN[nBins] = n;
-      nBins++;
-    }
-    binCumN[0] = 0;
-    binCumD[0] = 0;
-    binCumDD[0] = 0;
-    for (let b = 0; b < nBins; b++) {
-      binCumN[b + 1] = binCumN[b] + binN[b];
-      binCumD[b + 1] = binCumD[b] + binN[b] * binD[b];
-      binCumDD[b + 1] = binCumDD[b] + binN[b] * binD[b] * binD[b];
-    }
-  }
+  const nBins = binWidth >= 2 * opts.cadenceS ? binWindow(w, timeS, flux, order, i0, i1, binWidth) : 0;
   const step = Math.min(ingress / 2, half / 4);
   const nGrid = Math.max(1, Math.ceil(half / step));
   let bestTc = tcPredS;
