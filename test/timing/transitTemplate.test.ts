@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { buildTransitTemplate, directTemplateFlux, templateFlux, type TemplateGeometry } from '../../src/timing/transitTemplate.js';
+import { buildTransitTemplate, directTemplateFlux, templateFlux, templateFluxArray, type TemplateGeometry } from '../../src/timing/transitTemplate.js';
 import { DAY_S } from '../../src/physics/constants.js';
 
 /** Invented geometry: a warm Neptune-size planet, a/R* = 40, 12-day orbit, 2-min exposure. */
@@ -62,5 +62,22 @@ describe('transit template on a circular orbit (closed-form contacts, mirrored t
     expect(tpl.t23S).toBe(0);
     expect(tpl.t14S).toBeGreaterThan(0);
     expect(tpl.depth).toBeGreaterThan(0);
+  });
+
+  it('templateFluxArray equals templateFlux point by point, 1 outside the table and NaN for NaN', () => {
+    // Same spline (Press et al. 2007, eq. 3.3.3), evaluated over an array: must agree exactly (common practice, no source).
+    const tpl = buildTransitTemplate(circular, { stepsPerT14: 1000 });
+    const n = 257;
+    const x = new Float64Array(n);
+    for (let i = 0; i < n; i++) x[i] = (i / (n - 1) - 0.5) * 1.4 * tpl.t14S;
+    x[5] = NaN;
+    const out = new Float64Array(n);
+    templateFluxArray(tpl, x, n, out);
+    for (let i = 0; i < n; i++) {
+      if (i === 5) expect(out[i]).toBeNaN();
+      else expect(out[i]).toBe(templateFlux(tpl, x[i]));
+    }
+    expect(out[0]).toBe(1);
+    expect(out[n - 1]).toBe(1);
   });
 });
