@@ -30,13 +30,20 @@ function spin(threads: number, iterations: number): Promise<number[]> {
   );
 }
 
-/** Median over `repeats` of the two-thread capacity ratio (see the file header). */
-export async function threadScaling(repeats = 3, iterations = 1e8): Promise<number> {
+/**
+ * Medians over `repeats` of the two-thread capacity ratio (see the file header)
+ * and of the loop's time alone, ms: a yardstick of the machine's speed at the
+ * time of the run (a shared machine can run at half speed for minutes; 0.95 s
+ * was typical here on 2026-12-02, 1.9 s when slowed).
+ */
+export async function threadScaling(repeats = 3, iterations = 1e8): Promise<{ ratio: number; aloneMs: number }> {
   const ratios: number[] = [];
+  const alone: number[] = [];
   for (let r = 0; r < repeats; r++) {
-    const [alone] = await spin(1, iterations);
+    const [one] = await spin(1, iterations);
     const pair = await spin(2, iterations);
-    ratios.push((2 * alone) / ((pair[0] + pair[1]) / 2));
+    alone.push(one);
+    ratios.push((2 * one) / ((pair[0] + pair[1]) / 2));
   }
-  return median(ratios);
+  return { ratio: median(ratios), aloneMs: median(alone) };
 }
