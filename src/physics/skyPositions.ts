@@ -322,7 +322,9 @@ export function skyPositions(t: Float64Array, sys: OrbitSystem, out: SkyPosition
 
   for (let k = 0; k < n; k++) {
     // Barycentre: Murray & Dermott 1999 eqs. 2.41 (perifocal position) and 2.122 (rotation to sky).
-    const EB = eccentricAnomaly(bm0 + bn * t[k], be);
+    // E = M exactly when e = 0 (the solver's own first line); inline it to spare a call per point.
+    const MB = bm0 + bn * t[k];
+    const EB = be === 0 ? MB : eccentricAnomaly(MB, be);
     const ub = ba * (Math.cos(EB) - be);
     const vb = bb * Math.sin(EB);
     const X = ub * B.px + vb * B.qx;
@@ -341,7 +343,8 @@ export function skyPositions(t: Float64Array, sys: OrbitSystem, out: SkyPosition
       continue;
     }
     // Relative orbit r_rel = r_M − r_P, same equations in the moon's perifocal frame.
-    const ES = eccentricAnomaly(S.meanAnomalyAtZeroRad + S.meanMotionRadS * t[k], S.eccentricity);
+    const MS = S.meanAnomalyAtZeroRad + S.meanMotionRadS * t[k];
+    const ES = S.eccentricity === 0 ? MS : eccentricAnomaly(MS, S.eccentricity);
     const us = S.aRstar * (Math.cos(ES) - S.eccentricity);
     const vs = S.bRstar * Math.sin(ES);
     const rx = us * S.px + vs * S.qx;
