@@ -33,8 +33,8 @@ function spin(threads: number, iterations: number): Promise<number[]> {
 /**
  * Medians over `repeats` of the two-thread capacity ratio (see the file header)
  * and of the loop's time alone, ms: a yardstick of the machine's speed at the
- * time of the run (a shared machine can run at half speed for minutes; 0.95 s
- * was typical here on 2026-12-02, 1.9 s when slowed).
+ * time of the run (a shared machine can run at half speed for minutes; 0.57 s
+ * for 1e8 steps was typical here on 2026-12-02, about twice that when slowed).
  */
 export async function threadScaling(repeats = 3, iterations = 1e8): Promise<{ ratio: number; aloneMs: number }> {
   const ratios: number[] = [];
