@@ -51,6 +51,7 @@ import {
   type TemplateGeometry,
   type TransitTemplate,
 } from './transitTemplate.js';
+import { lowerBound } from './lowerBound.js';
 
 export interface LinearEphemerisGuess {
   /** Mid-time of epoch 0, s since t0. */
@@ -275,16 +276,6 @@ class FoldedData {
     }
   }
 
-  private lowerBound(a: number, b: number, v: number): number {
-    const x = this.x;
-    while (a < b) {
-      const mid = (a + b) >>> 1;
-      if (x[mid] < v) a = mid + 1;
-      else b = mid;
-    }
-    return a;
-  }
-
   /**
    * Select the samples with x in [dt + x0 − margin, dt + x_end + margin] of
    * a template's table, margin 2 % of its span plus four steps (so that the
@@ -301,8 +292,8 @@ class FoldedData {
     for (let r = 0; r < this.lo.length; r++) {
       const s = this.runStart[r];
       const e = this.runStart[r + 1];
-      const lo = this.lowerBound(s, e, a);
-      const hi = Math.max(lo, this.lowerBound(lo, e, b));
+      const lo = lowerBound(this.x, s, e, a);
+      const hi = Math.max(lo, lowerBound(this.x, lo, e, b));
       this.lo[r] = lo;
       this.hi[r] = hi;
       nIn += hi - lo;

@@ -100,6 +100,7 @@
  * t_c outside the search range widened by D/2, is 'failed'.
  */
 import { betaFactor, binSizesForTimescale, type BetaFactorResult } from './betaFactor.js';
+import { lowerBound } from './lowerBound.js';
 import { invertSymmetricPositive, solveSymmetricPositive } from './globalTransitFit.js';
 import { templateFlux, templateFluxArray, templateFluxDerivatives, templateFluxSlope, type TransitTemplate } from './transitTemplate.js';
 
@@ -274,8 +275,8 @@ export class FitScratch {
  */
 function coarseChi2Binned(w: FitScratch, nBins: number, tpl: TransitTemplate, tc: number, fitBaseline: boolean): number {
   const { binT, binD, binN, binCumN, binCumD, binCumDD, binU, binQ } = w;
-  const a = lowerBoundOf(binT, 0, nBins, tc + tpl.x0S - tpl.stepS);
-  const b = Math.max(a, lowerBoundOf(binT, a, nBins, tc + tpl.x0S + tpl.values.length * tpl.stepS));
+  const a = lowerBound(binT, 0, nBins, tc + tpl.x0S - tpl.stepS);
+  const b = Math.max(a, lowerBound(binT, a, nBins, tc + tpl.x0S + tpl.values.length * tpl.stepS));
   for (let k = a; k < b; k++) binU[k - a] = binT[k] - tc;
   templateFluxArray(tpl, binU, b - a, binQ);
   let srr = 0, sra = 0, saa = 0;
@@ -347,15 +348,6 @@ function binWindow(w: FitScratch, timeS: Float64Array, flux: Float64Array, order
   return nBins;
 }
 
-/** First k in [a, b) with v[k] ≥ x (b if none); v ascending. */
-function lowerBoundOf(v: Float64Array, a: number, b: number, x: number): number {
-  while (a < b) {
-    const m = (a + b) >>> 1;
-    if (v[m] < x) a = m + 1;
-    else b = m;
-  }
-  return a;
-}
 
 /**
  * One transit window: samples `order[i0..i1)` in time order, and running sums
