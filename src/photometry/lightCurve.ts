@@ -74,6 +74,13 @@ export class LightCurveWorkspace {
 
 const FAR = 1e9;
 
+/** Flux with planet and moon at index k of the position buffers; a body behind the star (z < 0, observer along +z) occults nothing. */
+function fluxAt(b: LightCurveWorkspace, k: number, m: LightCurveModel, hasMoon: boolean): number {
+  const px = b.zp[k] > 0 ? b.xp[k] : FAR;
+  const mx = hasMoon && b.zm[k] > 0 ? b.xm[k] : FAR;
+  return pairTransitFlux(px, b.yp[k], m.rp, mx, hasMoon ? b.ym[k] : 0, hasMoon ? m.rm : 0, m.u1, m.u2);
+}
+
 /**
  * Largest sky-plane speeds (stellar radii per s) of the planet, the moon and
  * their separation: the periapsis speed n·a·√((1 + e)/(1 − e)) of each
@@ -156,10 +163,7 @@ export function modelFlux(
       continue;
     }
     kind[i] = 1;
-    // A body behind the star (z < 0, observer along +z) occults nothing.
-    const pxi = zp[i] > 0 ? xp[i] : FAR;
-    const mxi = hasMoon && zm[i] > 0 ? xm[i] : FAR;
-    out[i] = pairTransitFlux(pxi, yp[i], rp, mxi, hasMoon ? ym[i] : 0, rm, m.u1, m.u2);
+    out[i] = fluxAt(ws, i, m, hasMoon);
   }
   // Curvature check of the single evaluations (not needed without sub-exposures: ns = 1).
   let nRough = 0;
@@ -199,12 +203,7 @@ export function modelFlux(
   for (let r = 0; r < nRough; r++) {
     let acc = 0;
     const base = r * ns;
-    for (let j = 0; j < ns; j++) {
-      const k = base + j;
-      const pxk = ws.zp[k] > 0 ? ws.xp[k] : FAR;
-      const mxk = hasMoon && ws.zm[k] > 0 ? ws.xm[k] : FAR;
-      acc += pairTransitFlux(pxk, ws.yp[k], rp, mxk, hasMoon ? ws.ym[k] : 0, rm, m.u1, m.u2);
-    }
+    for (let j = 0; j < ns; j++) acc += fluxAt(ws, base + j, m, hasMoon);
     out[idx[r]] = acc / ns;
   }
   return out;
