@@ -22,6 +22,7 @@ import {
   R_SUN_M,
 } from '../physics/constants.js';
 import { fieldError } from './errors.js';
+import { remembered } from '../memo.js';
 
 export type QuantityKind =
   | 'mass'
@@ -173,25 +174,19 @@ export function primeUnitValues(entries: ReadonlyArray<readonly [string, number 
   for (const [k, v] of entries) if (!unitValues.has(k)) unitValues.set(k, v);
 }
 function unitValue(unitText: string, kind: QuantityKind): number | 'unknown' | 'wrong kind' {
-  const key = `${kind}|${unitText}`;
-  const hit = unitValues.get(key);
-  if (hit !== undefined) return hit;
-  const math = astroMath();
-  let result: number | 'unknown' | 'wrong kind';
-  let u: Unit | null = null;
-  try {
-    u = math.unit(normaliseUnitText(unitText));
-  } catch {
-    result = 'unknown';
-  }
-  if (u === null) result = 'unknown';
-  else if (!hasKind(u, kind)) result = 'wrong kind';
-  // u.value holds the SI value of one `unitText`; mathjs units made from a
-  // string without a number have value null, so multiply explicitly.
-  else result = math.unit(`1 ${normaliseUnitText(unitText)}`).value as number;
-  if (unitValues.size > 1000) unitValues.clear();
-  unitValues.set(key, result);
-  return result;
+  return remembered(unitValues, 1000, `${kind}|${unitText}`, () => {
+    const math = astroMath();
+    let u: Unit;
+    try {
+      u = math.unit(normaliseUnitText(unitText));
+    } catch {
+      return 'unknown';
+    }
+    if (!hasKind(u, kind)) return 'wrong kind';
+    // u.value holds the SI value of one `unitText`; mathjs units made from a
+    // string without a number have value null, so multiply explicitly.
+    return math.unit(`1 ${normaliseUnitText(unitText)}`).value as number;
+  });
 }
 
 /** True if the text names a unit (used for special separation units). */

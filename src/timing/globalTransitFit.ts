@@ -52,6 +52,7 @@ import {
   type TransitTemplate,
 } from './transitTemplate.js';
 import { lowerBound } from './lowerBound.js';
+import { remembered } from '../memo.js';
 
 export interface LinearEphemerisGuess {
   /** Mid-time of epoch 0, s since t0. */
@@ -231,12 +232,7 @@ function startTemplateFor(g: TemplateGeometry, q: Params, stepsPerT14: number, w
   const key = [
     g.periodS, g.aOverRstar, g.eccentricity, g.omegaRad, g.u1, g.u2, g.exposureS, q.p, q.b, q.s, stepsPerT14,
   ].join(',');
-  const hit = startCache.get(key);
-  if (hit !== undefined) return hit;
-  const tpl = templateFor(g, q, stepsPerT14, workspace);
-  if (startCache.size >= START_CACHE_SIZE) startCache.delete(startCache.keys().next().value as string);
-  startCache.set(key, tpl);
-  return tpl;
+  return remembered(startCache, START_CACHE_SIZE, key, () => templateFor(g, q, stepsPerT14, workspace));
 }
 
 /**
@@ -308,9 +304,8 @@ class FoldedData {
 }
 
 /**
- * The sums of JᵀJ and Jᵀr for the columns p, b, s, Δt, f0 at (f0, Δt, 1/s),
- * written to `out` in the order pp, pb, ps, pt, pf, bb, bs, bt, bf, ss, st,
- * sf, tt, tf, ff, gp, gb, gs, gt, gf (`tmp`: two numbers of scratch). A separate small function with scalar
+ * JᵀJ (5 × 5, row-major, into `out`) and Jᵀr (into `grad`) for the columns
+ * p, b, s, Δt, f0 at (f0, Δt, 1/s) (`tmp`: two numbers of scratch). A separate small function with scalar
  * accumulators, so the optimising compiler keeps every intermediate in
  * registers (inside runLm's closure scope it allocated once per sample).
  */
@@ -324,6 +319,7 @@ function accumulateNormal(
   dt: number,
   sInv: number,
   out: Float64Array,
+  grad: Float64Array,
   tmp: Float64Array,
 ): void {
   const { x, y } = data;
@@ -353,10 +349,8 @@ function accumulateNormal(
   // Outside the selection T = 1, T′ = 0 and the p, b columns vanish: only ∂m/∂f0 = 1 remains.
   ff += data.nOut;
   gf += data.sumD - data.nOut * (f0 - 1);
-  out[0] = pp; out[1] = pb; out[2] = ps; out[3] = pt; out[4] = pf;
-  out[5] = bb; out[6] = bs; out[7] = bt; out[8] = bf;
-  out[9] = ss; out[10] = st; out[11] = sf; out[12] = tt; out[13] = tf; out[14] = ff;
-  out[15] = gp; out[16] = gb; out[17] = gs; out[18] = gt; out[19] = gf;
+  out.set([pp, pb, ps, pt, pf, pb, bb, bs, bt, bf, ps, bs, ss, st, sf, pt, bt, st, tt, tf, pf, bf, sf, tf, ff]);
+  grad.set([gp, gb, gs, gt, gf]);
 }
 
 /**
@@ -451,7 +445,10 @@ function runLm(
   const delta = new Float64Array(np);
   const cov = new Float64Array(np * np);
   const lastCov = new Float64Array(np * np).fill(NaN);
-  const sums = new Float64Array(20);
+  // The five-column normal equations, and the columns used (b's left out when it is held fixed).
+  const full = new Float64Array(25);
+  const g5 = new Float64Array(5);
+  const cols = fitImpact ? [0, 1, 2, 3, 4] : [0, 2, 3, 4];
   const ws = new TemplateWorkspace();
   let lastCovOk = false;
   let q = clampParams(start);
@@ -503,11 +500,7 @@ function runLm(
       haveCols = true;
     }
     // JᵀJ and Jᵀr over the five columns p, b, s, Δt, f0 (b's column is zero when b is fixed).
-    accumulateNormal(data, tpl, colP, colB, fitImpact, q.f0, q.dt, 1 / q.s, sums, tmp);
-    const [pp, pb, ps, pt, pf, bb, bs, bt, bf, ss, st, sf, tt, tf, ff, gp, gb, gs, gt, gf] = sums;
-    const full = [pp, pb, ps, pt, pf, pb, bb, bs, bt, bf, ps, bs, ss, st, sf, pt, bt, st, tt, tf, pf, bf, sf, tf, ff];
-    const g5 = [gp, gb, gs, gt, gf];
-    const cols = fitImpact ? [0, 1, 2, 3, 4] : [0, 2, 3, 4];
+    accumulateNormal(data, tpl, colP, colB, fitImpact, q.f0, q.dt, 1 / q.s, full, g5, tmp);
     for (let a = 0; a < np; a++) {
       grad[a] = g5[cols[a]];
       for (let b = 0; b < np; b++) A[a * np + b] = full[cols[a] * 5 + cols[b]];

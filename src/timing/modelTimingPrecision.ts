@@ -15,6 +15,7 @@
  */
 import { buildTransitTemplate, templateFluxSlope, type TemplateGeometry } from './transitTemplate.js';
 import { invertSymmetricPositive } from './globalTransitFit.js';
+import { remembered } from '../memo.js';
 
 export interface ModelTimingPrecision {
   /** Mid-time 1σ, s. */
@@ -40,12 +41,7 @@ export function modelTimingPrecision(geometry: TemplateGeometry, sigma: number, 
     geometry.impactParameter, geometry.u1, geometry.u2, geometry.exposureS, geometry.timeScale ?? 1,
     sigma, cadenceS, halfWindowS, phases,
   ].join(',');
-  const hit = cache.get(key);
-  if (hit) return { ...hit };
-  const result = computePrecision(geometry, sigma, cadenceS, halfWindowS, phases);
-  if (cache.size >= CACHE_SIZE) cache.delete(cache.keys().next().value as string);
-  cache.set(key, result);
-  return { ...result };
+  return { ...remembered(cache, CACHE_SIZE, key, () => computePrecision(geometry, sigma, cadenceS, halfWindowS, phases)) };
 }
 
 const CACHE_SIZE = 32;
