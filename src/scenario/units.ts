@@ -92,6 +92,49 @@ function astroMath(): MathJsInstance {
   return math;
 }
 
+/**
+ * The units scenarios use most, by kind, with their SI values: the same
+ * definitions astroMath registers (constants.ts) and the SI's own (BIPM 2019,
+ * The International System of Units, 9th ed., Tables 2, 5 and 8: 1 min = 60 s,
+ * 1 h = 3600 s, 1 d = 86 400 s, 1° = π/180 rad, 1 g = 10⁻³ kg). A unit text
+ * found here (after ALIASES) needs no mathjs, whose first use costs about a
+ * second of start-up; every other text goes to mathjs. The tests check each
+ * entry against mathjs.
+ */
+export const COMMON_UNITS: Readonly<Record<string, { kind: QuantityKind; si: number }>> = {
+  kg: { kind: 'mass', si: 1 },
+  g: { kind: 'mass', si: 1e-3 },
+  Msun: { kind: 'mass', si: M_SUN_KG },
+  Mjup: { kind: 'mass', si: M_JUP_KG },
+  Mearth: { kind: 'mass', si: M_EARTH_KG },
+  m: { kind: 'length', si: 1 },
+  km: { kind: 'length', si: 1e3 },
+  cm: { kind: 'length', si: 1e-2 },
+  Rsun: { kind: 'length', si: R_SUN_M },
+  Rjup: { kind: 'length', si: R_JUP_M },
+  Rearth: { kind: 'length', si: R_EARTH_M },
+  AU: { kind: 'length', si: AU_M },
+  s: { kind: 'time', si: 1 },
+  min: { kind: 'time', si: 60 },
+  h: { kind: 'time', si: 3600 },
+  hour: { kind: 'time', si: 3600 },
+  d: { kind: 'time', si: DAY_S },
+  day: { kind: 'time', si: DAY_S },
+  yr: { kind: 'time', si: JULIAN_YEAR_S },
+  Myr: { kind: 'time', si: 1e6 * JULIAN_YEAR_S },
+  Gyr: { kind: 'time', si: 1e9 * JULIAN_YEAR_S },
+  deg: { kind: 'angle', si: Math.PI / 180 },
+  rad: { kind: 'angle', si: 1 },
+  K: { kind: 'temperature', si: 1 },
+  'g/cm^3': { kind: 'density', si: 1e3 },
+  'kg/m^3': { kind: 'density', si: 1 },
+  ppm: { kind: 'fraction', si: 1e-6 },
+  ppt: { kind: 'fraction', si: 1e-3 },
+  percent: { kind: 'fraction', si: 1e-2 },
+  W: { kind: 'power', si: 1 },
+  Lsun: { kind: 'power', si: L_SUN_W },
+};
+
 const NUMBER_UNIT = /^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$/;
 
 function normaliseUnitText(text: string): string {
@@ -175,18 +218,25 @@ export function primeUnitValues(entries: ReadonlyArray<readonly [string, number 
 }
 function unitValue(unitText: string, kind: QuantityKind): number | 'unknown' | 'wrong kind' {
   return remembered(unitValues, 1000, `${kind}|${unitText}`, () => {
-    const math = astroMath();
-    let u: Unit;
-    try {
-      u = math.unit(normaliseUnitText(unitText));
-    } catch {
-      return 'unknown';
-    }
-    if (!hasKind(u, kind)) return 'wrong kind';
-    // u.value holds the SI value of one `unitText`; mathjs units made from a
-    // string without a number have value null, so multiply explicitly.
-    return math.unit(`1 ${normaliseUnitText(unitText)}`).value as number;
+    const common = COMMON_UNITS[normaliseUnitText(unitText)];
+    if (common !== undefined) return common.kind === kind ? common.si : 'wrong kind';
+    return mathjsUnitValue(unitText, kind);
   });
+}
+
+/** unitValue through mathjs alone (exported for the tests that check COMMON_UNITS against it). */
+export function mathjsUnitValue(unitText: string, kind: QuantityKind): number | 'unknown' | 'wrong kind' {
+  const math = astroMath();
+  let u: Unit;
+  try {
+    u = math.unit(normaliseUnitText(unitText));
+  } catch {
+    return 'unknown';
+  }
+  if (!hasKind(u, kind)) return 'wrong kind';
+  // u.value holds the SI value of one `unitText`; mathjs units made from a
+  // string without a number have value null, so multiply explicitly.
+  return math.unit(`1 ${normaliseUnitText(unitText)}`).value as number;
 }
 
 /** True if the text names a unit (used for special separation units). */

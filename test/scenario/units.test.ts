@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { parseQuantity } from '../../src/scenario/units.js';
+import { COMMON_UNITS, mathjsUnitValue, parseQuantity, type QuantityKind } from '../../src/scenario/units.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { AU_M, M_JUP_KG, R_EARTH_M } from '../../src/physics/constants.js';
 
@@ -41,5 +41,31 @@ describe('parseQuantity', () => {
     expect(() => parseQuantity('1 Mjup', 'planet.radius', 'length')).toThrow(/planet\.radius.*not a unit of length/);
     expect(() => parseQuantity('heavy', 'planet.mass', 'mass')).toThrow(/planet\.mass/);
     expect(() => parseQuantity(Number.NaN, 'planet.mass', 'mass', 1, 'kg')).toThrow(/planet\.mass/);
+  });
+});
+
+describe('COMMON_UNITS (the table that spares mathjs)', () => {
+  const kinds: QuantityKind[] = ['mass', 'length', 'time', 'angle', 'temperature', 'density', 'fraction', 'power'];
+  // Reference: mathjs 15 (a general-purpose units library from the npm registry), the path
+  // every unit outside the table takes. Each entry must give its value to 2 ulp (mathjs builds
+  // g/cm^3 as 1e-3/1e-6 = 999.9999999999999) and be of no other kind.
+  it('agrees with mathjs on every entry and every kind', () => {
+    for (const [text, { kind, si }] of Object.entries(COMMON_UNITS)) {
+      const ref = mathjsUnitValue(text, kind);
+      expect(typeof ref, text).toBe('number');
+      expect(Math.abs(si - (ref as number)), text).toBeLessThanOrEqual(4.5e-16 * si);
+      for (const other of kinds) if (other !== kind) expect(mathjsUnitValue(text, other), `${text} as ${other}`).toBe('wrong kind');
+    }
+  });
+
+  it('is what parseQuantity uses, aliases included, and the rest still goes to mathjs', () => {
+    expect(parseQuantity('2 M_sun', 'x', 'mass')).toBe(2 * COMMON_UNITS.Msun.si);
+    expect(parseQuantity('3 hr', 'x', 'time')).toBe(3 * 3600);
+    expect(parseQuantity('4 g/cm^3', 'x', 'density')).toBe(4000);
+    expect(parseQuantity('2 %', 'x', 'fraction')).toBe(0.02);
+    // Outside the table (mathjs): 1 mm = 1e-3 m, 1 arcsec = π/648000 rad (BIPM 2019, SI Brochure, Table 8).
+    expect(parseQuantity('5 mm', 'x', 'length')).toBeCloseTo(5e-3, 18);
+    expect(parseQuantity('3600 arcsec', 'x', 'angle')).toBeCloseTo(Math.PI / 180, 15);
+    expect(() => parseQuantity('1 kg', 'planet.radius', 'length')).toThrow(/planet\.radius.*not a unit of length/);
   });
 });
