@@ -43,12 +43,21 @@ export function observeScenario(s: Scenario, rng: Rng | null, ws: LightCurveWork
   if (rng !== null && sigma > 0) {
     const noise = new Float64Array(fullFlux.length);
     rng.fillNormal(noise, sigma);
-    for (let i = 0; i < fullFlux.length; i++) fullFlux[i] += noise[i];
+    addInto(fullFlux, noise);
   }
   if (rng !== null && s.instrument.redNoise) addRedNoise(fullFlux, grid.timeS, s.instrument.cadenceS, s.instrument.redNoise, rng);
   if (rng === null) return { windows, timeS: grid.timeS, epoch: grid.epoch, model: full, flux: fullFlux, sigma, lightCurve: lc };
   const keep = gapMask(s, grid.timeS, grid.epoch, rng);
   return { windows, ...subset(keep, grid.timeS, grid.epoch, full, fullFlux), sigma, lightCurve: lc };
+}
+
+/**
+ * a[i] += b[i]. A top-level loop: inside observeScenario it ran as on-stack
+ * replacement code that V8 discarded at every call (a "wrong map" deoptimization
+ * on the next scenario object, measured once per realization).
+ */
+function addInto(a: Float64Array, b: Float64Array): void {
+  for (let i = 0; i < a.length; i++) a[i] += b[i];
 }
 
 /** Keep the samples where `keep` is 1. */
