@@ -9,7 +9,7 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import { orbitSystemFromScenario, skyPositions, type OrbitSystem } from '../physics/skyPositions.js';
-import { pairTransitFlux } from './pairTransitFlux.js';
+import { pairTransitFluxArray } from './pairTransitFlux.js';
 import { supersampleCount } from './exposureSmearing.js';
 import { scenarioDurations } from './transitWindows.js';
 
@@ -56,6 +56,13 @@ export class LightCurveWorkspace {
   rough = new Int32Array(0);
   /** 0: needs sub-exposures; 1: evaluated once at its middle; 2: both bodies off the disc throughout. */
   kind = new Uint8Array(0);
+  /** Occulter centres handed to the flux kernel (a body behind the star moved far off the disc), and its fluxes. */
+  ax = new Float64Array(0);
+  ay = new Float64Array(0);
+  bx = new Float64Array(0);
+  by = new Float64Array(0);
+  fa = new Float64Array(0);
+  fb = new Float64Array(0);
 
   ensure(n: number): void {
     if (n <= this.size) return;
@@ -69,16 +76,33 @@ export class LightCurveWorkspace {
     this.zm = new Float64Array(n);
     this.rough = new Int32Array(n);
     this.kind = new Uint8Array(n);
+    this.ax = new Float64Array(n);
+    this.ay = new Float64Array(n);
+    this.bx = new Float64Array(n);
+    this.by = new Float64Array(n);
+    this.fa = new Float64Array(n);
+    this.fb = new Float64Array(n);
   }
 }
 
 const FAR = 1e9;
 
-/** Flux with planet and moon at index k of the position buffers; a body behind the star (z < 0, observer along +z) occults nothing. */
-function fluxAt(b: LightCurveWorkspace, k: number, m: LightCurveModel, hasMoon: boolean): number {
-  const px = b.zp[k] > 0 ? b.xp[k] : FAR;
-  const mx = hasMoon && b.zm[k] > 0 ? b.xm[k] : FAR;
-  return pairTransitFlux(px, b.yp[k], m.rp, mx, hasMoon ? b.ym[k] : 0, hasMoon ? m.rm : 0, m.u1, m.u2);
+/**
+ * Copies the centres at position index k into slot j of the kernel's input
+ * (ws.ax, ay, bx, by); a body behind the star (z < 0, observer along +z)
+ * occults nothing, so it is moved far off the disc.
+ */
+function stage(b: LightCurveWorkspace, k: number, j: number, hasMoon: boolean): void {
+  b.ax[j] = b.zp[k] > 0 ? b.xp[k] : FAR;
+  b.ay[j] = b.yp[k];
+  b.bx[j] = hasMoon && b.zm[k] > 0 ? b.xm[k] : FAR;
+  b.by[j] = hasMoon ? b.ym[k] : 0;
+}
+
+/** Pair fluxes of the first n staged slots into ws.fa (one array call: no per-point boxing). */
+function stagedFluxes(b: LightCurveWorkspace, n: number, m: LightCurveModel, hasMoon: boolean): Float64Array {
+  const part = (a: Float64Array): Float64Array => (a.length === n ? a : a.subarray(0, n));
+  return pairTransitFluxArray(part(b.ax), part(b.ay), m.rp, part(b.bx), part(b.by), hasMoon ? m.rm : 0, m.u1, m.u2, b.fa, b.fb);
 }
 
 /**
@@ -163,7 +187,13 @@ export function modelFlux(
       continue;
     }
     kind[i] = 1;
-    out[i] = fluxAt(ws, i, m, hasMoon);
+  }
+  // The exposures evaluated once, at their middle.
+  let nSingle = 0;
+  for (let i = 0; i < n; i++) if (kind[i] === 1) stage(ws, i, nSingle++, hasMoon);
+  if (nSingle > 0) {
+    const f = stagedFluxes(ws, nSingle, m, hasMoon);
+    for (let i = 0, j = 0; i < n; i++) if (kind[i] === 1) out[i] = f[j++];
   }
   // Curvature check of the single evaluations (not needed without sub-exposures: ns = 1).
   let nRough = 0;
@@ -200,10 +230,12 @@ export function modelFlux(
   }
   const tv = total === ws.t.length ? ws.t : ws.t.subarray(0, total);
   skyPositions(tv, m.sys, { xp: ws.xp, yp: ws.yp, xm: ws.xm, ym: ws.ym, zp: ws.zp, zm: ws.zm });
+  for (let k = 0; k < total; k++) stage(ws, k, k, hasMoon);
+  const f = stagedFluxes(ws, total, m, hasMoon);
   for (let r = 0; r < nRough; r++) {
     let acc = 0;
     const base = r * ns;
-    for (let j = 0; j < ns; j++) acc += fluxAt(ws, base + j, m, hasMoon);
+    for (let j = 0; j < ns; j++) acc += f[base + j];
     out[idx[r]] = acc / ns;
   }
   return out;
