@@ -25,7 +25,7 @@
  * Gaussian deviates: ziggurat (Marsaglia & Tsang 2000; Doornik 2005), see
  * `gaussian.ts`.
  */
-import { normalZiggurat } from './gaussian.js';
+import { fillNormalZiggurat, normalZiggurat } from './gaussian.js';
 
 /** A seeded source of uniform and normal deviates. Not shared between threads. */
 export interface Rng {
@@ -96,8 +96,7 @@ class Xoroshiro128PlusRng implements Rng {
     if (!(sigma >= 0) || !Number.isFinite(sigma)) {
       throw new RangeError(`sigma must be a finite number >= 0, got ${sigma}`);
     }
-    const n = out.length;
-    for (let k = 0; k < n; k++) out[k] = sigma * normalZiggurat(this);
+    fillNormalZiggurat(this, out, sigma);
   }
 }
 
