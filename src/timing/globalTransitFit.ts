@@ -101,8 +101,17 @@ export interface GlobalTransitFit {
  * ed., Alg. 4.2.1). Writes the inverse into `out`; returns false (and fills
  * `out` with NaN) if the matrix is not positive definite.
  */
-export function invertSymmetricPositive(a: Float64Array, n: number, out: Float64Array): boolean {
-  const l = new Float64Array(n * n);
+export function invertSymmetricPositive(
+  a: Float64Array,
+  n: number,
+  out: Float64Array,
+  work: Float64Array = new Float64Array(n * n + n),
+): boolean {
+  // work: the factor L (n×n, row-major) then one column y (n). A caller-owned
+  // `work` saves an allocation per call (arrays over 64 bytes live outside the
+  // V8 heap and cost the garbage collector more than their size).
+  const l = work;
+  const y0 = n * n;
   for (let j = 0; j < n; j++) {
     let d = a[j * n + j];
     for (let k = 0; k < j; k++) d -= l[j * n + k] * l[j * n + k];
@@ -119,15 +128,14 @@ export function invertSymmetricPositive(a: Float64Array, n: number, out: Float64
     }
   }
   // Columns of the inverse: solve L Lᵀ x = e_c.
-  const y = new Float64Array(n);
   for (let c = 0; c < n; c++) {
     for (let i = 0; i < n; i++) {
       let s = i === c ? 1 : 0;
-      for (let k = 0; k < i; k++) s -= l[i * n + k] * y[k];
-      y[i] = s / l[i * n + i];
+      for (let k = 0; k < i; k++) s -= l[i * n + k] * work[y0 + k];
+      work[y0 + i] = s / l[i * n + i];
     }
     for (let i = n - 1; i >= 0; i--) {
-      let s = y[i];
+      let s = work[y0 + i];
       for (let k = i + 1; k < n; k++) s -= l[k * n + i] * out[k * n + c];
       out[i * n + c] = s / l[i * n + i];
     }
@@ -135,10 +143,20 @@ export function invertSymmetricPositive(a: Float64Array, n: number, out: Float64
   return true;
 }
 
-/** Solve the symmetric positive-definite system a·x = b (n ≤ ~10) via its inverse; false if not positive definite. */
-export function solveSymmetricPositive(a: Float64Array, n: number, b: Float64Array, x: Float64Array): boolean {
-  const inv = new Float64Array(n * n);
-  if (!invertSymmetricPositive(a, n, inv)) return false;
+/**
+ * Solve the symmetric positive-definite system a·x = b (n ≤ ~10) via its
+ * inverse; false if not positive definite. `inv` (n²) and `work` (n² + n)
+ * are scratch, as in invertSymmetricPositive.
+ */
+export function solveSymmetricPositive(
+  a: Float64Array,
+  n: number,
+  b: Float64Array,
+  x: Float64Array,
+  inv: Float64Array = new Float64Array(n * n),
+  work: Float64Array = new Float64Array(n * n + n),
+): boolean {
+  if (!invertSymmetricPositive(a, n, inv, work)) return false;
   for (let i = 0; i < n; i++) {
     let s = 0;
     for (let k = 0; k < n; k++) s += inv[i * n + k] * b[k];
@@ -444,6 +462,8 @@ function runLm(
   const M = new Float64Array(np * np);
   const delta = new Float64Array(np);
   const cov = new Float64Array(np * np);
+  const inv = new Float64Array(np * np);
+  const cholesky = new Float64Array(np * np + np);
   const lastCov = new Float64Array(np * np).fill(NaN);
   // The five-column normal equations, and the columns used (b's left out when it is held fixed).
   const full = new Float64Array(25);
@@ -505,7 +525,7 @@ function runLm(
       grad[a] = g5[cols[a]];
       for (let b = 0; b < np; b++) A[a * np + b] = full[cols[a] * 5 + cols[b]];
     }
-    const okCov = invertSymmetricPositive(A, np, cov);
+    const okCov = invertSymmetricPositive(A, np, cov, cholesky);
     lastCov.set(cov);
     lastCovOk = okCov;
     // Converged when the Gauss–Newton step δ = (JᵀJ)⁻¹Jᵀr is below STEP_TOLERANCE of every standard
@@ -537,7 +557,7 @@ function runLm(
     for (let tries = 0; tries < 12; tries++) {
       M.set(A);
       for (let a = 0; a < np; a++) M[a * np + a] = A[a * np + a] * (1 + lambda) + 1e-300;
-      if (!solveSymmetricPositive(M, np, grad, delta)) {
+      if (!solveSymmetricPositive(M, np, grad, delta, inv, cholesky)) {
         lambda *= 10;
         continue;
       }

@@ -235,6 +235,9 @@ export class FitScratch {
   readonly H = new Float64Array(9);
   readonly M = new Float64Array(9);
   readonly inv = new Float64Array(9);
+  /** Scratch of the 3×3 solves: an inverse, and a Cholesky factor with one column. */
+  readonly solveInv = new Float64Array(9);
+  readonly cholesky = new Float64Array(12);
   readonly grad = new Float64Array(3);
   readonly delta = new Float64Array(3);
   /** Running-sum buffers for TransitWindow (grown on demand, reused from one transit to the next). */
@@ -551,13 +554,13 @@ function levenbergMarquardt(
   const nn = np * np;
   for (let it = 0; it < maxIterations; it++) {
     normalEquations(win, tc, s, f0, np, w);
-    const okInv = invertSymmetricPositive(w.A.subarray(0, nn), np, w.inv);
+    const okInv = invertSymmetricPositive(w.A, np, w.inv, w.cholesky);
     let accepted = false;
     let small = false;
     for (let tries = 0; tries < 16; tries++) {
       for (let k = 0; k < nn; k++) w.M[k] = w.H[k];
       for (let a = 0; a < np; a++) w.M[a * np + a] = w.H[a * np + a] + lambda * w.A[a * np + a] + 1e-300;
-      if (!solveSymmetricPositive(w.M.subarray(0, nn), np, w.grad, w.delta)) {
+      if (!solveSymmetricPositive(w.M, np, w.grad, w.delta, w.solveInv, w.cholesky)) {
         lambda = Math.max(lambda * 10, 1e-6);
         continue;
       }
@@ -590,7 +593,7 @@ function levenbergMarquardt(
   // Fisher matrix at the optimum: cov = σ² (JᵀJ)⁻¹.
   normalEquations(win, tc, s, f0, np, w);
   const cov = new Float64Array(nn);
-  if (!invertSymmetricPositive(w.A.subarray(0, nn), np, cov)) converged = false;
+  if (!invertSymmetricPositive(w.A, np, cov, w.cholesky)) converged = false;
   for (let k = 0; k < nn; k++) cov[k] *= sigma * sigma;
   return { tc, s, f0, cov, np, chi2, converged };
 }
