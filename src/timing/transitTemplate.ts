@@ -265,6 +265,51 @@ function templateOrbit(g: Readonly<Required<TemplateGeometry>>): { sys: OrbitSys
   return { sys, inc };
 }
 
+// The loops of a build, each in a small top-level function: inside the large
+// buildTransitTemplate they ran as on-stack-replacement code that V8 threw
+// away at nearly every build ("wrong map" deoptimizations, measured 141 in a
+// 120-cell sweep), recompiling the function seven times.
+
+/** Node times in the orbit's time unit: tt[k] = mid + (x0S + (k − halfK)·h)/ts, k < n. */
+function nodeTimes(tt: Float64Array, n: number, mid: number, x0S: number, halfK: number, h: number, ts: number): void {
+  for (let k = 0; k < n; k++) tt[k] = mid + (x0S + (k - halfK) * h) / ts;
+}
+
+/** out[k] = the planet's sky separation from the star's centre, or 1e9 (no occultation) when it is behind the star (z < 0). */
+function separations(xp: Float64Array, yp: Float64Array, zp: Float64Array, n: number, out: Float64Array): void {
+  for (let k = 0; k < n; k++) out[k] = zp[k] > 0 ? Math.sqrt(xp[k] * xp[k] + yp[k] * yp[k]) : 1e9;
+}
+
+/** inst[c + j] = inst[c − j] = half[j], j < m: a circular orbit's track about conjunction. */
+function mirror(half: Float64Array, m: number, c: number, inst: Float64Array): void {
+  for (let j = 0; j < m; j++) {
+    inst[c + j] = half[j];
+    inst[c - j] = half[j];
+  }
+}
+
+/** values[k] = mean of inst[k … k + kSub − 1], k < n, by a running sum (Kipping 2010, §3, midpoint rule). */
+function slidingMean(inst: Float64Array, kSub: number, n: number, values: Float64Array): void {
+  let acc = 0;
+  for (let k = 0; k < kSub; k++) acc += inst[k];
+  values[0] = acc / kSub;
+  for (let k = 1; k < n; k++) {
+    acc += inst[k + kSub - 1] - inst[k - 1];
+    values[k] = acc / kSub;
+  }
+}
+
+/** Sets values[k] = 1 where the node x0S + k·h lies at or beyond ±edge; returns the smallest value. */
+function clampOutside(values: Float64Array, n: number, x0S: number, h: number, edge: number): number {
+  let minV = 1;
+  for (let k = 0; k < n; k++) {
+    const x = x0S + k * h;
+    if (Math.abs(x) >= edge) values[k] = 1;
+    if (values[k] < minV) minV = values[k];
+  }
+  return minV;
+}
+
 /**
  * Build the template table for a geometry (see the file header).
  * @throws RangeError naming the first invalid field, or when the planet does not transit.
@@ -339,38 +384,23 @@ export function buildTransitTemplate(geometry: TemplateGeometry, opts: TemplateB
     const c = nHalf + halfK;
     const m = nWide - c;
     const tHalf = tt.subarray(0, m);
-    for (let j = 0; j < m; j++) tHalf[j] = (j * h) / ts;
+    nodeTimes(tHalf, m, 0, 0, 0, h, ts);
     skyPositions(tHalf, sys, { xp, yp, xm: dummy, ym: dummy, zp });
-    for (let j = 0; j < m; j++) tHalf[j] = zp[j] > 0 ? Math.sqrt(xp[j] * xp[j] + yp[j] * yp[j]) : 1e9;
+    separations(xp, yp, zp, m, tHalf);
     const half = transitFlux(tHalf, p, g.u1, g.u2, xp.subarray(0, m));
     inst = yp;
-    for (let j = 0; j < m; j++) {
-      inst[c + j] = half[j];
-      inst[c - j] = half[j];
-    }
+    mirror(half, m, c, inst);
   } else {
-    for (let k = 0; k < nWide; k++) tt[k] = mid + (x0S + (k - halfK) * h) / ts;
+    nodeTimes(tt, nWide, mid, x0S, halfK, h, ts);
     skyPositions(tt, sys, { xp, yp, xm: dummy, ym: dummy, zp });
     const z = tt; // reuse
-    for (let k = 0; k < nWide; k++) z[k] = zp[k] > 0 ? Math.sqrt(xp[k] * xp[k] + yp[k] * yp[k]) : 1e9;
+    separations(xp, yp, zp, nWide, z);
     inst = transitFlux(z, p, g.u1, g.u2, xp);
   }
-  // Sliding mean of K instantaneous values (Kipping 2010, §3, midpoint rule).
   const values = new Float64Array(n);
-  let acc = 0;
-  for (let k = 0; k < kSub; k++) acc += inst[k];
-  values[0] = acc / kSub;
-  for (let k = 1; k < n; k++) {
-    acc += inst[k + kSub - 1] - inst[k - 1];
-    values[k] = acc / kSub;
-  }
+  slidingMean(inst, kSub, n, values);
   // Outside the exposure-widened contacts the flux is exactly 1; remove rounding drift of the running sum.
-  let minV = 1;
-  for (let k = 0; k < n; k++) {
-    const x = x0S + k * h;
-    if (Math.abs(x) >= 0.5 * t14S + 0.5 * g.exposureS + h) values[k] = 1;
-    if (values[k] < minV) minV = values[k];
-  }
+  const minV = clampOutside(values, n, x0S, h, 0.5 * t14S + 0.5 * g.exposureS + h);
   const curvature = new Float64Array(n);
   naturalSplineCurvature(values, h, curvature, dummy);
   return { geometry: g, t14S, t23S, ingressS, depth: 1 - minV, x0S, stepS: h, values, curvature };
