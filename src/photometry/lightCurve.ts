@@ -151,18 +151,60 @@ export function modelFlux(
   const n = timeS.length;
   const ns = Math.max(1, Math.round(m.supersample));
   const hasMoon = m.sys.moon !== null && m.rm > 0;
-  const rp = m.rp;
-  const rm = hasMoon ? m.rm : 0;
-  const adaptive = ns > 1 && !m.supersampleEverywhere;
   ws.ensure(Math.max(n, 1));
-  const { xp, yp, xm, ym, zp, zm, rough, kind } = ws;
   // Mid-exposure positions of every exposure.
-  skyPositions(timeS, m.sys, { xp, yp, xm, ym, zp, zm });
+  skyPositions(timeS, m.sys, { xp: ws.xp, yp: ws.yp, xm: ws.xm, ym: ws.ym, zp: ws.zp, zm: ws.zm });
   const v = speedBounds(m.sys);
   const half = 0.5 * m.exposureS * (1 + 1e-9) + 1e-9;
-  const reachP = v.planet * half;
-  const reachM = v.moon * half;
-  const reachPM = v.relative * half;
+  const adaptive = ns > 1 && !m.supersampleEverywhere;
+  classifyExposures(ws, n, ns, adaptive, hasMoon, m.rp, hasMoon ? m.rm : 0, v.planet * half, v.moon * half, v.relative * half, out);
+  // The exposures evaluated once, at their middle.
+  const nSingle = stageKind(ws, n, SINGLE, hasMoon);
+  if (nSingle > 0) scatterKind(ws.kind, n, SINGLE, stagedFluxes(ws, nSingle, m, hasMoon), out);
+  // Curvature check of the single evaluations (not needed without sub-exposures: ns = 1).
+  const limit = 0.25 * (m.tolerance ?? DEFAULT_SMEARING_TOLERANCE);
+  const nRough = roughExposures(ws.kind, timeS, n, ns, out, limit, (m.exposureS * m.exposureS) / 24, 3 * m.exposureS, ws.rough);
+  if (nRough === 0) return out;
+  // Centred midpoints of ns equal sub-exposures (Kipping 2010, §3) for the other exposures.
+  const total = nRough * ns;
+  const idx = Int32Array.from(ws.rough.subarray(0, nRough));
+  ws.ensure(total);
+  subExposureTimes(timeS, idx, nRough, ns, m.exposureS / ns, ws.t);
+  const tv = total === ws.t.length ? ws.t : ws.t.subarray(0, total);
+  skyPositions(tv, m.sys, { xp: ws.xp, yp: ws.yp, xm: ws.xm, ym: ws.ym, zp: ws.zp, zm: ws.zm });
+  stageAll(ws, total, hasMoon);
+  meansOfGroups(stagedFluxes(ws, total, m, hasMoon), idx, nRough, ns, out);
+  return out;
+}
+
+// The passes of modelFlux, each a small top-level loop (the rule in DEVELOPERS.md):
+// as one large function it was recompiled nine times in a 120-cell sweep, mostly
+// as on-stack replacement of its loops.
+
+/** Exposure kinds in LightCurveWorkspace.kind. */
+const ROUGH = 0;
+const SINGLE = 1;
+const OFF_DISC = 2;
+
+/**
+ * kind[i] for each exposure from its mid-exposure positions (see modelFlux);
+ * out[i] = 1 for those wholly off the disc. reachP, reachM, reachPM: the
+ * farthest the planet, the moon and their separation move in half an exposure.
+ */
+function classifyExposures(
+  ws: LightCurveWorkspace,
+  n: number,
+  ns: number,
+  adaptive: boolean,
+  hasMoon: boolean,
+  rp: number,
+  rm: number,
+  reachP: number,
+  reachM: number,
+  reachPM: number,
+  out: Float64Array,
+): void {
+  const { xp, yp, xm, ym, kind } = ws;
   for (let i = 0; i < n; i++) {
     const dp = Math.sqrt(xp[i] * xp[i] + yp[i] * yp[i]);
     const offP = dp - reachP >= 1 + rp;
@@ -178,33 +220,56 @@ export function modelFlux(
         (offP || offM || Math.sqrt(dx * dx + dy * dy) - reachPM >= rp + rm);
     }
     if (!smooth) {
-      kind[i] = 0;
-      continue;
-    }
-    if (offP && offM) {
-      kind[i] = 2;
+      kind[i] = ROUGH;
+    } else if (offP && offM) {
+      kind[i] = OFF_DISC;
       out[i] = 1;
-      continue;
+    } else {
+      kind[i] = SINGLE;
     }
-    kind[i] = 1;
   }
-  // The exposures evaluated once, at their middle.
-  let nSingle = 0;
-  for (let i = 0; i < n; i++) if (kind[i] === 1) stage(ws, i, nSingle++, hasMoon);
-  if (nSingle > 0) {
-    const f = stagedFluxes(ws, nSingle, m, hasMoon);
-    for (let i = 0, j = 0; i < n; i++) if (kind[i] === 1) out[i] = f[j++];
-  }
-  // Curvature check of the single evaluations (not needed without sub-exposures: ns = 1).
+}
+
+/** Stages the exposures of kind k (in order) for stagedFluxes; returns how many. */
+function stageKind(ws: LightCurveWorkspace, n: number, k: number, hasMoon: boolean): number {
+  const kind = ws.kind;
+  let j = 0;
+  for (let i = 0; i < n; i++) if (kind[i] === k) stage(ws, i, j++, hasMoon);
+  return j;
+}
+
+/** Stages the first n positions as they are. */
+function stageAll(ws: LightCurveWorkspace, n: number, hasMoon: boolean): void {
+  for (let k = 0; k < n; k++) stage(ws, k, k, hasMoon);
+}
+
+/** out[i] = the next of f for each exposure of kind k (the inverse of stageKind). */
+function scatterKind(kind: Uint8Array, n: number, k: number, f: Float64Array, out: Float64Array): void {
+  for (let i = 0, j = 0; i < n; i++) if (kind[i] === k) out[i] = f[j++];
+}
+
+/**
+ * Indices (into `rough`) of the exposures that need sub-exposures: kind ROUGH,
+ * and kind SINGLE where the midpoint rule's error estimate e2·|F″| exceeds
+ * `limit` or cannot be formed (see modelFlux). Returns their count.
+ */
+function roughExposures(
+  kind: Uint8Array,
+  timeS: Float64Array,
+  n: number,
+  ns: number,
+  out: Float64Array,
+  limit: number,
+  e2: number,
+  reach: number,
+  rough: Int32Array,
+): number {
   let nRough = 0;
-  const limit = 0.25 * (m.tolerance ?? DEFAULT_SMEARING_TOLERANCE);
-  const e2 = (m.exposureS * m.exposureS) / 24;
-  const reach = 3 * m.exposureS;
   for (let i = 0; i < n; i++) {
-    if (kind[i] === 2) continue;
-    if (kind[i] === 1) {
+    if (kind[i] === OFF_DISC) continue;
+    if (kind[i] === SINGLE) {
       if (ns === 1) continue;
-      if (i > 0 && i < n - 1 && kind[i - 1] !== 0 && kind[i + 1] !== 0) {
+      if (i > 0 && i < n - 1 && kind[i - 1] !== ROUGH && kind[i + 1] !== ROUGH) {
         const h1 = timeS[i] - timeS[i - 1];
         const h2 = timeS[i + 1] - timeS[i];
         if (h1 > 0 && h2 > 0 && h1 <= reach && h2 <= reach) {
@@ -216,27 +281,24 @@ export function modelFlux(
     }
     rough[nRough++] = i;
   }
-  if (nRough === 0) return out;
-  // Centred midpoints of ns equal sub-exposures (Kipping 2010, §3) for the other exposures.
-  const total = nRough * ns;
-  const idx = Int32Array.from(rough.subarray(0, nRough));
-  ws.ensure(total);
-  const { t } = ws;
-  const dt = m.exposureS / ns;
+  return nRough;
+}
+
+/** t[r·ns + j] = the midpoint of sub-exposure j of exposure idx[r] (ns of length dt, centred). */
+function subExposureTimes(timeS: Float64Array, idx: Int32Array, nRough: number, ns: number, dt: number, t: Float64Array): void {
   for (let r = 0; r < nRough; r++) {
     const base = r * ns;
     const ti = timeS[idx[r]];
     for (let j = 0; j < ns; j++) t[base + j] = ti + (j - (ns - 1) / 2) * dt;
   }
-  const tv = total === ws.t.length ? ws.t : ws.t.subarray(0, total);
-  skyPositions(tv, m.sys, { xp: ws.xp, yp: ws.yp, xm: ws.xm, ym: ws.ym, zp: ws.zp, zm: ws.zm });
-  for (let k = 0; k < total; k++) stage(ws, k, k, hasMoon);
-  const f = stagedFluxes(ws, total, m, hasMoon);
+}
+
+/** out[idx[r]] = the mean of f[r·ns … r·ns + ns − 1]. */
+function meansOfGroups(f: Float64Array, idx: Int32Array, nRough: number, ns: number, out: Float64Array): void {
   for (let r = 0; r < nRough; r++) {
     let acc = 0;
     const base = r * ns;
     for (let j = 0; j < ns; j++) acc += f[base + j];
     out[idx[r]] = acc / ns;
   }
-  return out;
 }
