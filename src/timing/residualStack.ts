@@ -46,20 +46,59 @@ export function stackResiduals(
   const x0S = -((nb - 1) / 2) * binS;
   const sum = new Float64Array(nb);
   const count = new Float64Array(nb);
-  const byEpoch = new Map<number, TransitFit>();
-  for (const f of fits) if (f.status === 'ok') byEpoch.set(f.epoch, f);
+  // Each ok fit's mid-time, time scale and baseline, found from a point's epoch by a table.
+  const ok = fits.filter((f) => f.status === 'ok');
+  let e0 = 0;
+  let e1 = -1;
+  if (ok.length > 0) {
+    e0 = Math.min(...ok.map((f) => f.epoch));
+    e1 = Math.max(...ok.map((f) => f.epoch));
+  }
+  const slot = new Int32Array(e1 - e0 + 1).fill(-1);
+  const tc = new Float64Array(ok.length);
+  const scale = new Float64Array(ok.length);
+  const base = new Float64Array(ok.length);
+  ok.forEach((f, j) => {
+    slot[f.epoch - e0] = j; // a later fit of the same epoch wins, as before
+    tc[j] = f.tcS;
+    scale[j] = f.durationS / template.t14S;
+    base[j] = f.baseline;
+  });
+  binResiduals(timeS, flux, epoch, e0, slot, tc, scale, base, template, x0S, binS, sum, count);
+  return { x0S, binS, sum, count, sigma };
+}
+
+/**
+ * The binning loop of stackResiduals, top-level and over arrays (it ran as
+ * on-stack-replacement code that was discarded on property loads of the fits).
+ */
+function binResiduals(
+  timeS: Float64Array,
+  flux: Float64Array,
+  epoch: Int32Array,
+  e0: number,
+  slot: Int32Array,
+  tc: Float64Array,
+  scale: Float64Array,
+  base: Float64Array,
+  template: TransitTemplate,
+  x0S: number,
+  binS: number,
+  sum: Float64Array,
+  count: Float64Array,
+): void {
+  const nb = sum.length;
   for (let i = 0; i < timeS.length; i++) {
-    const f = byEpoch.get(epoch[i]);
-    if (!f) continue;
-    const x = timeS[i] - f.tcS;
+    const e = epoch[i] - e0;
+    const j = e >= 0 && e < slot.length ? slot[e] : -1;
+    if (j < 0) continue;
+    const x = timeS[i] - tc[j];
     const k = Math.round((x - x0S) / binS);
     if (k < 0 || k >= nb) continue;
-    const scale = f.durationS / template.t14S;
-    const model = f.baseline * templateFlux(template, x / scale);
+    const model = base[j] * templateFlux(template, x / scale[j]);
     sum[k] += flux[i] - model;
     count[k] += 1;
   }
-  return { x0S, binS, sum, count, sigma };
 }
 
 export interface StackedDip {
