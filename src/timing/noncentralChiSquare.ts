@@ -93,15 +93,37 @@ export function chiSquareQuantile(p: number, df: number): number {
 }
 
 /**
- * Poisson-mixture sum Σ_j w_j T_j with w_j = Pois(j; λ/2) and T_j = term(k/2 + j),
+ * The terms T(a) of a Poisson mixture, asked for in `poissonMixture`'s order.
+ * Objects rather than closures: a closure created per call was compiled anew
+ * by V8 for most cells of a sweep (~30 times per worker), and each update of
+ * a number it captured allocated a heap number.
+ */
+interface MixtureTerms {
+  at(a: number): number;
+}
+
+/** T(a) = Q(a, y) (upper) or P(a, y), each evaluated afresh. */
+class GammaTerms implements MixtureTerms {
+  constructor(
+    private readonly upper: boolean,
+    private readonly y: number,
+  ) {}
+
+  at(a: number): number {
+    return this.upper ? regularizedGammaQ(a, this.y) : regularizedGammaP(a, this.y);
+  }
+}
+
+/**
+ * Poisson-mixture sum Σ_j w_j T_j with w_j = Pois(j; λ/2) and T_j = T(k/2 + j),
  * summed outward from the Poisson mode (JKB 1995 ch. 29, eq. 29.2).
  */
-function poissonMixture(df: number, lambda: number, term: (a: number) => number): number {
+function poissonMixture(df: number, lambda: number, terms: MixtureTerms): number {
   const mu = lambda / 2;
-  if (mu === 0) return term(df / 2);
+  if (mu === 0) return terms.at(df / 2);
   const j0 = Math.floor(mu);
   const w0 = Math.exp(j0 * Math.log(mu) - mu - lnGamma(j0 + 1));
-  const t0 = w0 * term(df / 2 + j0);
+  const t0 = w0 * terms.at(df / 2 + j0);
   let sum = t0;
   // Upward: stop once the terms have started to fall and are negligible; the
   // remaining Poisson mass bound (w_j · μ/(j+1−μ)) then covers the rest since T_j ≤ 1.
@@ -109,7 +131,7 @@ function poissonMixture(df: number, lambda: number, term: (a: number) => number)
   let prev = t0;
   for (let j = j0 + 1; j < j0 + MAX_TERMS; j++) {
     w *= mu / j;
-    const t = w * term(df / 2 + j);
+    const t = w * terms.at(df / 2 + j);
     sum += t;
     const tailMass = (w * mu) / (j + 1 - mu);
     if (t <= prev && t <= SUM_EPS * sum && tailMass <= SUM_EPS * Math.max(sum, 1e-300)) break;
@@ -120,7 +142,7 @@ function poissonMixture(df: number, lambda: number, term: (a: number) => number)
   w = w0;
   for (let j = j0 - 1; j >= 0; j--) {
     w *= (j + 1) / mu;
-    const t = w * term(df / 2 + j);
+    const t = w * terms.at(df / 2 + j);
     sum += t;
     if (t <= SUM_EPS * sum && w <= SUM_EPS) break;
     if (w === 0) break;
@@ -136,7 +158,7 @@ export function noncentralChiSquareSurvival(x: number, df: number, lambda: numbe
   if (!(df > 0) || !(lambda >= 0) || !Number.isFinite(lambda) || Number.isNaN(x)) return NaN;
   if (x <= 0) return 1;
   const hx = x / 2;
-  const s = poissonMixture(df, lambda, survivalTerms(df, lambda, hx) ?? ((a) => regularizedGammaQ(a, hx)));
+  const s = poissonMixture(df, lambda, SurvivalRecurrence.create(df, lambda, hx) ?? new GammaTerms(true, hx));
   return Math.min(1, s);
 }
 
@@ -152,30 +174,53 @@ export function noncentralChiSquareSurvival(x: number, df: number, lambda: numbe
  * df 1–45, λ 0.01–3000, x 0.1–4000. About 30× faster. Null when d(a₀) under-
  * or overflows (the caller then evaluates every term).
  */
-function survivalTerms(df: number, lambda: number, y: number): ((a: number) => number) | null {
-  const a0 = df / 2 + Math.floor(lambda / 2);
-  const d0 = Math.exp(a0 * Math.log(y) - y - lnGamma(a0 + 1));
-  if (!(d0 > 0) || !Number.isFinite(d0)) return null;
-  const q0 = regularizedGammaQ(a0, y);
-  let upA = a0, upQ = q0, upD = d0;
-  let downA = a0, downQ = q0, downD = d0;
-  return (a: number): number => {
-    if (a > a0) {
+class SurvivalRecurrence implements MixtureTerms {
+  private upA: number;
+  private upQ: number;
+  private upD: number;
+  private downA: number;
+  private downQ: number;
+  private downD: number;
+
+  private constructor(
+    private readonly a0: number,
+    private readonly q0: number,
+    d0: number,
+    private readonly y: number,
+  ) {
+    this.upA = a0;
+    this.upQ = q0;
+    this.upD = d0;
+    this.downA = a0;
+    this.downQ = q0;
+    this.downD = d0;
+  }
+
+  /** Null when d(a₀) under- or overflows. */
+  static create(df: number, lambda: number, y: number): SurvivalRecurrence | null {
+    const a0 = df / 2 + Math.floor(lambda / 2);
+    const d0 = Math.exp(a0 * Math.log(y) - y - lnGamma(a0 + 1));
+    if (!(d0 > 0) || !Number.isFinite(d0)) return null;
+    return new SurvivalRecurrence(a0, regularizedGammaQ(a0, y), d0, y);
+  }
+
+  at(a: number): number {
+    if (a > this.a0) {
       // the next term up: Q(upA + 1) = Q(upA) + d(upA)
-      upQ += upD;
-      upD *= y / (upA + 1);
-      upA += 1;
-      return upQ;
+      this.upQ += this.upD;
+      this.upD *= this.y / (this.upA + 1);
+      this.upA += 1;
+      return this.upQ;
     }
-    if (a < a0) {
+    if (a < this.a0) {
       // the next term down: d(downA − 1) = d(downA)·downA/y, Q(downA − 1) = Q(downA) − d(downA − 1)
-      downD *= downA / y;
-      downQ = Math.max(0, downQ - downD);
-      downA -= 1;
-      return downQ;
+      this.downD *= this.downA / this.y;
+      this.downQ = Math.max(0, this.downQ - this.downD);
+      this.downA -= 1;
+      return this.downQ;
     }
-    return q0;
-  };
+    return this.q0;
+  }
 }
 
 /** Noncentral chi-square cumulative distribution F(x; k, λ) = 1 − S (same Poisson mixture with P). */
@@ -183,6 +228,6 @@ export function noncentralChiSquareCdf(x: number, df: number, lambda: number): n
   if (!(df > 0) || !(lambda >= 0) || !Number.isFinite(lambda) || Number.isNaN(x)) return NaN;
   if (x <= 0) return 0;
   const hx = x / 2;
-  const f = poissonMixture(df, lambda, (a) => regularizedGammaP(a, hx));
+  const f = poissonMixture(df, lambda, new GammaTerms(false, hx));
   return Math.min(1, f);
 }
