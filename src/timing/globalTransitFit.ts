@@ -268,10 +268,14 @@ class FoldedData {
   readonly cumDD: Float64Array;
   readonly lo: Int32Array;
   readonly hi: Int32Array;
-  /** Samples outside the last selection: count, Σd, Σd². */
+  /**
+   * Samples outside the last selection: count, Σd, Σd². The sums start as
+   * NaN, a non-integer: a field that starts as a small integer and later
+   * holds a fraction makes V8 recompile every function that reads it.
+   */
   nOut = 0;
-  sumD = 0;
-  sumDD = 0;
+  sumD = Number.NaN;
+  sumDD = Number.NaN;
 
   constructor(readonly x: Float64Array, readonly y: Float64Array) {
     const m = x.length;

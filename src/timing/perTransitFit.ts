@@ -368,8 +368,9 @@ class TransitWindow {
   lo = 0;
   hi = 0;
   nOut = 0;
-  sumD = 0;
-  sumDD = 0;
+  /** NaN until the first span: non-integers from the start (see FoldedData in globalTransitFit.ts). */
+  sumD = Number.NaN;
+  sumDD = Number.NaN;
   constructor(
     readonly timeS: Float64Array,
     readonly flux: Float64Array,
