@@ -9,7 +9,7 @@ import { lightCurveModel, LightCurveWorkspace, modelFlux } from '../src/photomet
 import { observeScenario } from '../src/noise/observe.js';
 import { createRng } from '../src/noise/rng.js';
 import { recoverTimings } from '../src/timing/timingSeries.js';
-import { runRealization } from '../src/timing/realization.js';
+import { RealizationWorkspace, runRealization } from '../src/timing/realization.js';
 import { timeMs, type BenchMedian } from './measure.js';
 
 /** An invented system whose transit lasts about 13 h (Sun-like star, 1-yr orbit, Earth-size planet). */
@@ -45,7 +45,7 @@ export function benchRecovery(scenarioPath = 'scenarios/demo-observer.yaml', rep
     unit: '/s',
     repeats,
   };
-  const ws = new LightCurveWorkspace();
+  const ws = new RealizationWorkspace();
   let r = 0;
   const one = timeMs('one realization of the demo scenario (simulate → recover → statistics)', repeats, () => runRealization(s, createRng(s.seed, 0, r++), { workspace: ws }), 10);
   const noise = new Float64Array(obs.timeS.length);

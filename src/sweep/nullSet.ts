@@ -20,8 +20,7 @@
 import { createHash } from 'node:crypto';
 import type { Scenario } from '../scenario/types.js';
 import { createRng } from '../noise/rng.js';
-import { LightCurveWorkspace } from '../photometry/lightCurve.js';
-import { runRealization } from '../timing/realization.js';
+import { RealizationWorkspace, runRealization } from '../timing/realization.js';
 import type { ResidualStack } from '../timing/residualStack.js';
 import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
 import { canonicalJson } from './canonicalJson.js';
@@ -87,7 +86,7 @@ export function nullClassOfScenario(s: Scenario, seed: number, count: number): N
 }
 
 /** Run realizations [start, start + n) of null class `c` and pack them. */
-export function computeNullRange(c: NullClass, start: number, n: number, ws: LightCurveWorkspace = new LightCurveWorkspace()): PackedNullRange {
+export function computeNullRange(c: NullClass, start: number, n: number, ws: RealizationWorkspace = new RealizationWorkspace()): PackedNullRange {
   if (!(Number.isInteger(start) && Number.isInteger(n) && start >= 0 && n >= 0 && start + n <= c.count)) {
     throw new RangeError(`realizations [${start}, ${start + n}) are outside the null set of ${c.count}`);
   }
@@ -177,6 +176,6 @@ export function unpackNullSet(p: PackedNullRange): NullSet {
 }
 
 /** The whole null set of class `c`, computed here (the fallback when none was provided). */
-export function computeNullSet(c: NullClass, ws?: LightCurveWorkspace): NullSet {
+export function computeNullSet(c: NullClass, ws?: RealizationWorkspace): NullSet {
   return unpackNullSet(computeNullRange(c, 0, c.count, ws));
 }

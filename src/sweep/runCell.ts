@@ -37,8 +37,7 @@ import type { Scenario } from '../scenario/types.js';
 import { computeLimits, moonPlacement, type LimitsJson } from '../physics/computeLimits.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
 import { createRng } from '../noise/rng.js';
-import { LightCurveWorkspace } from '../photometry/lightCurve.js';
-import { runRealization, type RealizationRecord } from '../timing/realization.js';
+import { RealizationWorkspace, runRealization, type RealizationRecord } from '../timing/realization.js';
 import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
@@ -100,13 +99,13 @@ export function cellNeedsCalibration(task: CellTask, ctx: CellContext): boolean 
  * Realizations [start, start + n) of the null set of this cell's class,
  * packed (the calibration pre-pass runs these chunks on the workers).
  */
-export function nullChunkOf(task: CellTask, ctx: CellContext, start: number, n: number, ws?: LightCurveWorkspace): { key: string; range: PackedNullRange } {
+export function nullChunkOf(task: CellTask, ctx: CellContext, start: number, n: number, ws?: RealizationWorkspace): { key: string; range: PackedNullRange } {
   const c = classOfCell(task.scenarioDoc, parseScenario(task.scenarioDoc, `cell ${task.index}`), ctx);
   return { key: c.key, range: computeNullRange(c, start, n, ws) };
 }
 
 /** The provided null set of class `c`, else one from this thread's cache, else computed here. */
-function nullSetFor(c: NullClass, shared: CellShared | undefined, ws: LightCurveWorkspace): NullSet {
+function nullSetFor(c: NullClass, shared: CellShared | undefined, ws: RealizationWorkspace): NullSet {
   const provided = shared?.nullSets?.get(c.key);
   if (provided) return provided;
   if (shared?.nullSets) shared.onNullMiss?.(c.key);
@@ -188,7 +187,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   const alpha = s.detection.falseAlarm;
   const nullClass = classOfCell(task.scenarioDoc, s, ctx);
   const nNull = nullClass.count;
-  const ws = new LightCurveWorkspace();
+  const ws = new RealizationWorkspace();
   const nulls = nullSetFor(nullClass, shared, ws);
 
   // Dip channel: this cell's profile applied to the stored no-moon stacks.

@@ -67,6 +67,31 @@ export interface GlobalFitOptions {
   fitImpact?: boolean;
   /** Largest number of Levenberg–Marquardt steps (default 60). */
   maxIterations?: number;
+  /** Scratch to reuse from one fit to the next (default: allocate). */
+  workspace?: GlobalFitWorkspace;
+}
+
+/**
+ * Scratch arrays of globalTransitFit, reusable from one fit to the next (grown
+ * on demand, never shrunk; not shared between threads): the template builds'
+ * and six per-sample arrays (folded x and y, the running sums, the p and b
+ * Jacobian columns). Nothing in a fit's result points into it. A sweep makes
+ * one per cell: a realization otherwise allocated ~0.3 MB of array buffers
+ * here, whose churn made V8 run a full (mark-compact) collection every few
+ * dozen realizations, its marking on the other core.
+ */
+export class GlobalFitWorkspace {
+  readonly templates = new TemplateWorkspace();
+  private buf: Float64Array[] = [];
+
+  /** The six per-sample arrays, of length m + 1. */
+  samples(m: number): Float64Array[] {
+    if (this.buf.length === 0 || this.buf[0].length < m + 1) {
+      const size = Math.max(m + 1, Math.ceil(1.25 * (this.buf[0]?.length ?? 0)));
+      this.buf = [0, 1, 2, 3, 4, 5].map(() => new Float64Array(size));
+    }
+    return this.buf.map((a) => a.subarray(0, m + 1));
+  }
 }
 
 export interface GlobalTransitFit {
@@ -277,7 +302,8 @@ class FoldedData {
   sumD = Number.NaN;
   sumDD = Number.NaN;
 
-  constructor(readonly x: Float64Array, readonly y: Float64Array) {
+  /** cumD, cumDD: arrays of length ≥ x.length + 1 to hold the running sums (default: allocate). */
+  constructor(readonly x: Float64Array, readonly y: Float64Array, cumD?: Float64Array, cumDD?: Float64Array) {
     const m = x.length;
     const starts = [0];
     for (let i = 1; i < m; i++) if (!(x[i] >= x[i - 1])) starts.push(i);
@@ -285,8 +311,10 @@ class FoldedData {
     this.runStart = Int32Array.from(starts);
     this.lo = new Int32Array(starts.length - 1);
     this.hi = new Int32Array(starts.length - 1);
-    this.cumD = new Float64Array(m + 1);
-    this.cumDD = new Float64Array(m + 1);
+    this.cumD = cumD ?? new Float64Array(m + 1);
+    this.cumDD = cumDD ?? new Float64Array(m + 1);
+    this.cumD[0] = 0;
+    this.cumDD[0] = 0;
     for (let i = 0; i < m; i++) {
       const d = y[i] - 1;
       this.cumD[i + 1] = this.cumD[i] + d;
@@ -456,6 +484,7 @@ function runLm(
   start: Params,
   fitImpact: boolean,
   maxIterations: number,
+  scratch: { templates: TemplateWorkspace; colP: Float64Array; colB: Float64Array },
 ): LmResult {
   // Parameter order: p, [b], s, dt, f0.
   const { x } = data;
@@ -473,7 +502,7 @@ function runLm(
   const full = new Float64Array(25);
   const g5 = new Float64Array(5);
   const cols = fitImpact ? [0, 1, 2, 3, 4] : [0, 2, 3, 4];
-  const ws = new TemplateWorkspace();
+  const ws = scratch.templates;
   let lastCovOk = false;
   let q = clampParams(start);
   let atStart = true;
@@ -488,8 +517,7 @@ function runLm(
   // Gauss–Newton convergence slightly (Nocedal & Wright 2006, Numerical Optimization, 2nd ed., §10.3)
   // and moves its fixed point J̃ᵀr = 0 from the least-squares optimum by about (J̃ − J)/J of a standard
   // error: ~1e-3 σ for a 1σ lag here (the columns change by that fraction over 1σ of p or b).
-  const colP = new Float64Array(x.length);
-  const colB = new Float64Array(x.length);
+  const { colP, colB } = scratch;
   const ref = new Float64Array(np);
   let haveCols = false;
   const current = new Float64Array(np);
@@ -662,8 +690,10 @@ export function globalTransitFit(
   // Folded times and finite data only.
   let m = 0;
   for (let i = 0; i < n; i++) if (Number.isFinite(flux[i]) && Number.isFinite(timeS[i])) m++;
-  const x = new Float64Array(m);
-  const y = new Float64Array(m);
+  const ws = opts.workspace ?? new GlobalFitWorkspace();
+  const [xBuf, yBuf, cumD, cumDD, colP, colB] = ws.samples(m);
+  const x = xBuf.subarray(0, m);
+  const y = yBuf.subarray(0, m);
   for (let i = 0, j = 0; i < n; i++) {
     if (!(Number.isFinite(flux[i]) && Number.isFinite(timeS[i]))) continue;
     x[j] = timeS[i] - (eph.t0S + epoch[i] * eph.periodS);
@@ -671,8 +701,9 @@ export function globalTransitFit(
     j++;
   }
   const start: Params = { p: geometry.radiusRatio, b: geometry.impactParameter, s: geometry.timeScale ?? 1, dt: 0, f0: 1 };
-  const data = new FoldedData(x, y);
-  let res = runLm(data, sigma, geometry, start, fitImpact, maxIterations);
+  const data = new FoldedData(x, y, cumD, cumDD);
+  const scratch = { templates: ws.templates, colP: colP.subarray(0, m), colB: colB.subarray(0, m) };
+  let res = runLm(data, sigma, geometry, start, fitImpact, maxIterations, scratch);
   let impactFixed = !fitImpact;
   let impactNote = fitImpact ? '' : 'held fixed at the input value (fitImpact = false)';
   if (fitImpact) {
@@ -682,7 +713,7 @@ export function globalTransitFit(
         ? 'held fixed at the input value: the fit with free b did not converge'
         : `held fixed at the input value: b undetermined (σ_b = ${sb.toPrecision(3)} > 0.3)`;
       impactFixed = true;
-      res = runLm(data, sigma, geometry, start, false, maxIterations);
+      res = runLm(data, sigma, geometry, start, false, maxIterations, scratch);
     }
   }
   const np = impactFixed ? 4 : 5;

@@ -13,6 +13,7 @@ import type { Scenario } from '../scenario/types.js';
 import type { Rng } from '../noise/rng.js';
 import { observeScenario, type Observation } from '../noise/observe.js';
 import { LightCurveWorkspace } from '../photometry/lightCurve.js';
+import { GlobalFitWorkspace } from './globalTransitFit.js';
 import { recoverTimings, type TimingRecovery } from './timingSeries.js';
 import { ttvExcess, tdvExcess } from './chiSquareStatistics.js';
 import { lombScargle } from './lombScargle.js';
@@ -33,6 +34,12 @@ export interface RealizationRecord {
   periodogramFap: number;
   /** Residuals of the planet-only fits, stacked on the fitted mid-times (moon-dip channel). */
   stack: ResidualStack;
+}
+
+/** Scratch reused from one realization to the next (not shared between threads): the light curve's and the global fit's. */
+export class RealizationWorkspace {
+  readonly lightCurve = new LightCurveWorkspace();
+  readonly globalFit = new GlobalFitWorkspace();
 }
 
 /** The moon's orbital angles that a realization does not know: drawn uniformly per realization. */
@@ -105,10 +112,10 @@ export function realizationStatistics(s: Scenario, obs: Observation, rec: Timing
 export function runRealization(
   s: Scenario,
   rng: Rng,
-  opts: { withMoon?: boolean; workspace?: LightCurveWorkspace } = {},
+  opts: { withMoon?: boolean; workspace?: RealizationWorkspace } = {},
 ): { record: RealizationRecord; scenario: Scenario; observation: Observation; recovery: TimingRecovery } {
   const drawn = opts.withMoon === false ? { ...s, moon: null } : drawMoonOrientation(s, rng);
-  const observation = observeScenario(drawn, rng, opts.workspace);
-  const recovery = recoverTimings(drawn, observation);
+  const observation = observeScenario(drawn, rng, opts.workspace?.lightCurve);
+  const recovery = recoverTimings(drawn, observation, { workspace: opts.workspace?.globalFit });
   return { record: realizationStatistics(drawn, observation, recovery), scenario: drawn, observation, recovery };
 }

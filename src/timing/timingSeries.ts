@@ -12,7 +12,7 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import type { Observation } from '../noise/observe.js';
-import { globalTransitFit, type GlobalTransitFit } from './globalTransitFit.js';
+import { globalTransitFit, type GlobalFitWorkspace, type GlobalTransitFit } from './globalTransitFit.js';
 import { fitTransits, type PerTransitFitResult, type TransitFit } from './perTransitFit.js';
 import { ephemerisTime, fitLinearEphemeris, type LinearEphemeris } from './linearEphemeris.js';
 import { templateGeometryFromScenario } from './transitTemplate.js';
@@ -84,6 +84,8 @@ export interface RecoverOptions {
   beta?: 'pooled' | 'off';
   /** Fit each window's baseline level (default true). */
   fitBaseline?: boolean;
+  /** Scratch for the global fit, reused between calls (default: allocate). */
+  workspace?: GlobalFitWorkspace;
 }
 
 export interface TimingRecovery {
@@ -110,6 +112,7 @@ export function recoverTimings(scenario: Scenario, observation: Observation, opt
     globalTransitFit(o.timeS, o.flux, o.sigma, o.epoch, geometry, {
       ephemeris: { t0S: 0, periodS: scenario.planet.periodS },
       fitImpact: opts.fitImpact ?? true,
+      workspace: opts.workspace,
     });
   const per: PerTransitFitResult = fitTransits(o.timeS, o.flux, o.sigma, o.epoch, global.template, {
     ephemeris: { t0S: global.offsetS, periodS: scenario.planet.periodS },

@@ -14,6 +14,7 @@ import {
 } from '../../src/timing/transitTemplate.js';
 import { fitTransits } from '../../src/timing/perTransitFit.js';
 import { recoverTimings } from '../../src/timing/timingSeries.js';
+import { GlobalFitWorkspace } from '../../src/timing/globalTransitFit.js';
 
 /**
  * Invented test system "Tessel b": a hot Jupiter (p = 0.1) on a 2-day orbit
@@ -247,5 +248,26 @@ describe('per-transit fits', () => {
     expect(Math.abs(tc.mean)).toBeLessThan(0.15);
     expect(tc.rms).toBeLessThan(1.4);
     expect(tc.rms).toBeGreaterThan(0.95);
+  });
+});
+
+describe('a reused global-fit workspace', () => {
+  // Property test (common practice, no source): scratch reused across fits of different sizes
+  // must not change any result, bit for bit, against a fit that allocates its own.
+  it('gives the same recovery as fresh allocation, after larger and smaller fits', () => {
+    const ws = new GlobalFitWorkspace();
+    const runs = [
+      { transits: 6, seed: 1 },
+      { transits: 3, seed: 2 },
+      { transits: 8, seed: 3 },
+    ];
+    for (const { transits, seed } of runs) {
+      const s = tessel({ noise: 2e-3, transits, seed });
+      const obs = observeScenario(s, createRng(seed, 0, 0));
+      const fresh = recoverTimings(s, obs);
+      const reused = recoverTimings(s, obs, { workspace: ws });
+      expect(reused.global).toEqual(fresh.global);
+      expect(reused.fits).toEqual(fresh.fits);
+    }
   });
 });
