@@ -20,29 +20,45 @@ function print(title: string, rows: BenchMedian[]): void {
   }
 }
 
-/** Sweep throughput on the reference sweep (see bench/sweep.ts), 1 and 2 workers, and the projection. */
+/**
+ * Sweep throughput on the reference sweep (see bench/sweep.ts) with 1 and 2
+ * workers, and the speed-up. The machine is shared and its speed drifts by up
+ * to 2× within minutes, so the runs go in the order 1, 2, 2, 1 workers (a
+ * linear drift then cancels in the ratio of the sums) and the machine's own
+ * two-thread ceiling is measured beside them. Default: 120 cells × 25
+ * realizations (~15 s per run on one worker), where each worker's start-up and
+ * V8 compilation (~1.3 s of CPU per worker, on the other core when there is one)
+ * weigh more than in a real sweep; `--full`: the whole 20 × 20 × 100 grid once
+ * per worker count (about five minutes).
+ */
 async function sweepSection(full: boolean): Promise<BenchMedian[]> {
   const rows: BenchMedian[] = [];
-  // 120 cells × 25 realizations plus the shared no-moon set of 1000: about fifteen seconds on one worker,
-  // long enough that start-up and compilation weigh little in the speed-up.
-  const cells = 120;
-  const realizations = 25;
-  const rates: Record<number, number> = {};
-  for (const workers of full ? [2] : [1, 2]) {
-    const doc = referenceSweepDoc(full ? 100 : realizations);
-    const r = await benchSweep(doc, { workers, maxCells: full ? undefined : cells, label: `reference sweep, ${workers} worker(s)` });
-    rates[workers] = r.allRealizationsPerSecond;
-    rows.push({ label: `${r.cells} cells × ${full ? 100 : realizations} realizations (+ no-moon calibration), ${workers} worker(s): wall time`, median: r.seconds, unit: 's', repeats: 1 });
-    rows.push({ label: `  cells per second`, median: r.cellsPerSecond, unit: '/s', repeats: 1 });
-    rows.push({ label: `  realizations per second (${r.realizations} with a moon + ${r.calibrationRealizations} no-moon)`, median: r.allRealizationsPerSecond, unit: '/s', repeats: 1 });
-    rows.push({ label: `  peak resident memory`, median: r.peakRssMb, unit: 'MB', repeats: 1 });
+  const realizations = full ? 100 : 25;
+  const order = full ? [2, 1] : [1, 2, 2, 1];
+  const seconds: Record<number, number[]> = { 1: [], 2: [] };
+  const runs: Record<number, Awaited<ReturnType<typeof benchSweep>>[]> = { 1: [], 2: [] };
+  for (const workers of order) {
+    const r = await benchSweep(referenceSweepDoc(realizations), { workers, maxCells: full ? undefined : 120, label: `reference sweep, ${workers} worker(s)` });
+    seconds[workers].push(r.seconds);
+    runs[workers].push(r);
   }
+  for (const workers of [1, 2]) {
+    const r = runs[workers][0];
+    const ts = seconds[workers];
+    const mean = ts.reduce((a, t) => a + t, 0) / ts.length;
+    rows.push({ label: `${r.cells} cells × ${realizations} realizations (+ ${r.calibrationRealizations} no-moon), ${workers} worker(s): wall time${ts.length > 1 ? ` (mean of ${ts.map((t) => t.toFixed(1)).join(', ')} s)` : ''}`, median: mean, unit: 's', repeats: ts.length });
+    rows.push({ label: `  cells per second`, median: r.cells / mean, unit: '/s', repeats: ts.length });
+    rows.push({ label: `  realizations per second (${r.realizations} with a moon + ${r.calibrationRealizations} no-moon)`, median: (r.realizations + r.calibrationRealizations) / mean, unit: '/s', repeats: ts.length });
+    rows.push({ label: `  peak resident memory`, median: Math.max(...runs[workers].map((x) => x.peakRssMb)), unit: 'MB', repeats: ts.length });
+  }
+  const sum = (xs: number[]): number => xs.reduce((a, t) => a + t, 0);
   const machine = await threadScaling();
+  rows.push({ label: `speed-up, 2 workers over 1 (goal ≥ 1.8)${full ? '' : ', runs in the order 1, 2, 2, 1'}`, median: sum(seconds[1]) / seconds[1].length / (sum(seconds[2]) / seconds[2].length), unit: '×', repeats: order.length });
+  rows.push({ label: '  this machine\'s two-thread ceiling: a pure arithmetic loop, 2 threads over 1 (bench/threadScaling.ts)', median: machine.ratio, unit: '×', repeats: 3 });
   if (!full) {
-    rows.push({ label: 'speed-up, 2 workers over 1 (goal ≥ 1.8)', median: rates[2] / rates[1], unit: '×', repeats: 1 });
-    rows.push({ label: '  this machine\'s two-thread ceiling: a pure arithmetic loop, 2 threads over 1 (bench/threadScaling.ts)', median: machine.ratio, unit: '×', repeats: 3 });
     // The whole grid: 400 cells × 100 realizations plus one shared no-moon set (1000 at α = 1 %).
-    rows.push({ label: 'projected 20 × 20 × 100 sweep on 2 workers from this short run (start-up and warm-up included: pessimistic; --full measures it)', median: (400 * 100 + 1000) / rates[2], unit: 's', repeats: 1 });
+    const twoRate = (runs[2][0].realizations + runs[2][0].calibrationRealizations) / (sum(seconds[2]) / seconds[2].length);
+    rows.push({ label: 'projected 20 × 20 × 100 sweep on 2 workers from this short run (start-up and warm-up included: pessimistic; --full measures it)', median: (400 * 100 + 1000) / twoRate, unit: 's', repeats: 1 });
   }
   rows.push({ label: 'machine speed after the sweep: that loop (1e8 steps) alone on one thread (0.57 s typical here; larger = slowed)', median: machine.aloneMs / 1000, unit: 's', repeats: 3 });
   return rows;
