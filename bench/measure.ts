@@ -7,6 +7,8 @@ export interface BenchMedian {
   median: number;
   unit: string;
   repeats: number;
+  /** How the figure was formed, when not a median of `repeats` runs (e.g. "mean of 2"). */
+  summary?: string;
 }
 
 export function median(xs: number[]): number {

@@ -16,7 +16,7 @@ function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
   for (const r of rows) {
     const v = r.median >= 100 ? r.median.toFixed(0) : r.median >= 1 ? r.median.toFixed(2) : r.median.toPrecision(3);
-    process.stdout.write(`  ${r.label.padEnd(92)} ${v.padStart(10)} ${r.unit}  (median of ${r.repeats})\n`);
+    process.stdout.write(`  ${r.label.padEnd(92)} ${v.padStart(10)} ${r.unit}  (${r.summary ?? `median of ${r.repeats}`})\n`);
   }
 }
 
@@ -46,19 +46,20 @@ async function sweepSection(full: boolean): Promise<BenchMedian[]> {
     const r = runs[workers][0];
     const ts = seconds[workers];
     const mean = ts.reduce((a, t) => a + t, 0) / ts.length;
-    rows.push({ label: `${r.cells} cells × ${realizations} realizations (+ ${r.calibrationRealizations} no-moon), ${workers} worker(s): wall time${ts.length > 1 ? ` (mean of ${ts.map((t) => t.toFixed(1)).join(', ')} s)` : ''}`, median: mean, unit: 's', repeats: ts.length });
-    rows.push({ label: `  cells per second`, median: r.cells / mean, unit: '/s', repeats: ts.length });
-    rows.push({ label: `  realizations per second (${r.realizations} with a moon + ${r.calibrationRealizations} no-moon)`, median: (r.realizations + r.calibrationRealizations) / mean, unit: '/s', repeats: ts.length });
-    rows.push({ label: `  peak resident memory`, median: Math.max(...runs[workers].map((x) => x.peakRssMb)), unit: 'MB', repeats: ts.length });
+    rows.push({ label: `${r.cells} cells × ${realizations} realizations (+ ${r.calibrationRealizations} no-moon), ${workers} worker(s): wall time${ts.length > 1 ? ` (${ts.map((t) => t.toFixed(1)).join(', ')} s)` : ''}`, median: mean, unit: 's', repeats: ts.length, summary: `mean of ${ts.length}` });
+    rows.push({ label: `  cells per second`, median: r.cells / mean, unit: '/s', repeats: ts.length, summary: 'from the mean' });
+    rows.push({ label: `  realizations per second (${r.realizations} with a moon + ${r.calibrationRealizations} no-moon)`, median: (r.realizations + r.calibrationRealizations) / mean, unit: '/s', repeats: ts.length, summary: 'from the mean' });
   }
+  // maxRSS is the process's peak so far, so one figure covers every run above.
+  rows.push({ label: 'peak resident memory of this process over those runs (main thread + workers)', median: Math.max(...[...runs[1], ...runs[2]].map((x) => x.peakRssMb)), unit: 'MB', repeats: order.length, summary: `peak of ${order.length} runs` });
   const sum = (xs: number[]): number => xs.reduce((a, t) => a + t, 0);
   const machine = await threadScaling();
-  rows.push({ label: `speed-up, 2 workers over 1 (goal ≥ 1.8)${full ? '' : ', runs in the order 1, 2, 2, 1'}`, median: sum(seconds[1]) / seconds[1].length / (sum(seconds[2]) / seconds[2].length), unit: '×', repeats: order.length });
+  rows.push({ label: `speed-up, 2 workers over 1 (goal ≥ 1.8)${full ? '' : ', runs in the order 1, 2, 2, 1'}`, median: sum(seconds[1]) / seconds[1].length / (sum(seconds[2]) / seconds[2].length), unit: '×', repeats: order.length, summary: 'ratio of the means' });
   rows.push({ label: '  this machine\'s two-thread ceiling: a pure arithmetic loop, 2 threads over 1 (bench/threadScaling.ts)', median: machine.ratio, unit: '×', repeats: 3 });
   if (!full) {
     // The whole grid: 400 cells × 100 realizations plus one shared no-moon set (1000 at α = 1 %).
     const twoRate = (runs[2][0].realizations + runs[2][0].calibrationRealizations) / (sum(seconds[2]) / seconds[2].length);
-    rows.push({ label: 'projected 20 × 20 × 100 sweep on 2 workers from this short run (start-up and warm-up included: pessimistic; --full measures it)', median: (400 * 100 + 1000) / twoRate, unit: 's', repeats: 1 });
+    rows.push({ label: 'projected 20 × 20 × 100 sweep on 2 workers from this short run (start-up and warm-up included: pessimistic; --full measures it)', median: (400 * 100 + 1000) / twoRate, unit: 's', repeats: 1, summary: 'from the mean' });
   }
   rows.push({ label: 'machine speed after the sweep: that loop (1e8 steps) alone on one thread (0.57 s typical here; larger = slowed)', median: machine.aloneMs / 1000, unit: 's', repeats: 3 });
   return rows;

@@ -192,7 +192,8 @@ function lensDeficit(
  * Writes each disc's own flux (MA02; fluxKernelAt) at the centres (x[i], y[i])
  * into out[i], i < n. In passes over arrays, because V8 does not inline the
  * MA02 kernel and every call that passed or returned a number allocated a heap
- * number for it (pairTransitFluxArray measured 196 → 22 bytes per point).
+ * number for it (pairTransitFluxArray measured 196 → 38 bytes and 0.94 → 0.35 µs
+ * per point over a planet–moon transit).
  */
 function discFluxes(x: Float64Array, y: Float64Array, n: number, r: number, u1: number, u2: number, omega4: number, out: Float64Array): void {
   const outside = 1 + r;
