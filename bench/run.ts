@@ -54,7 +54,7 @@ async function sweepSection(full: boolean): Promise<BenchMedian[]> {
   rows.push({ label: 'peak resident memory of this process over those runs (main thread + workers)', median: Math.max(...[...runs[1], ...runs[2]].map((x) => x.peakRssMb)), unit: 'MB', repeats: order.length, summary: `peak of ${order.length} runs` });
   const sum = (xs: number[]): number => xs.reduce((a, t) => a + t, 0);
   const machine = await threadScaling();
-  rows.push({ label: `speed-up, 2 workers over 1 (goal ≥ 1.8)${full ? '' : ', runs in the order 1, 2, 2, 1'}`, median: sum(seconds[1]) / seconds[1].length / (sum(seconds[2]) / seconds[2].length), unit: '×', repeats: order.length, summary: 'ratio of the means' });
+  rows.push({ label: full ? 'speed-up, 2 workers over 1 on the whole grid (goal ≥ 1.8)' : 'speed-up, 2 workers over 1, runs in the order 1, 2, 2, 1 (start-up weighs more here than in the whole grid the ≥ 1.8 goal is for: --full)', median: sum(seconds[1]) / seconds[1].length / (sum(seconds[2]) / seconds[2].length), unit: '×', repeats: order.length, summary: 'ratio of the means' });
   rows.push({ label: '  this machine\'s two-thread ceiling: a pure arithmetic loop, 2 threads over 1 (bench/threadScaling.ts)', median: machine.ratio, unit: '×', repeats: 3 });
   if (!full) {
     // The whole grid: 400 cells × 100 realizations plus one shared no-moon set (1000 at α = 1 %).
