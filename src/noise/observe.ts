@@ -100,8 +100,7 @@ function gapMask(s: Scenario, timeS: Float64Array, epoch: Int32Array, rng: Rng):
  */
 function addRedNoise(flux: Float64Array, timeS: Float64Array, cadenceS: number, red: RedNoiseSpec, rng: Rng): void {
   if (red.model === 'drw') {
-    const x = dampedRandomWalkNoise(timeS, red.tauS, red.rmsFraction, rng);
-    for (let i = 0; i < flux.length; i++) flux[i] += x[i];
+    addInto(flux, dampedRandomWalkNoise(timeS, red.tauS, red.rmsFraction, rng));
     return;
   }
   let start = 0;
