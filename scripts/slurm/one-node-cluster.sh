@@ -35,12 +35,16 @@ need_commands() {
   [ ${#missing[@]} -eq 0 ] || die "missing ${missing[*]}: install Debian's slurm-wlm and munge (apt-get install slurm-wlm munge)"
 }
 
-# A pid file names a live process of the given command (a stale file from a killed daemon does not count).
+# A pid file names a live process of the given command (a stale file from a killed daemon does not
+# count, nor a zombie: in a container whose init does not reap, a killed daemon lingers as one).
 alive() {
-  local pidfile=$1 comm=$2 pid
+  local pidfile=$1 comm=$2 pid stat
   [ -s "$pidfile" ] || return 1
-  pid=$(cat "$pidfile")
-  [ -n "$pid" ] && [ "$(ps -p "$pid" -o comm= 2>/dev/null)" = "$comm" ]
+  pid=$(tr -dc 0-9 <"$pidfile")
+  [ -n "$pid" ] || return 1
+  [ "$(ps -p "$pid" -o comm= 2>/dev/null || true)" = "$comm" ] || return 1
+  stat=$(ps -p "$pid" -o stat= 2>/dev/null | tr -d ' ' || true)
+  [ -n "$stat" ] && [[ $stat != Z* ]]
 }
 
 munge_ok() { munge -n 2>/dev/null | unmunge >/dev/null 2>&1; }
@@ -86,6 +90,7 @@ TaskPlugin=task/none
 JobAcctGatherType=jobacct_gather/none
 AccountingStorageType=accounting_storage/none
 JobCompType=jobcomp/none
+MailProg=/bin/true
 SchedulerType=sched/backfill
 SelectType=select/cons_tres
 SelectTypeParameters=CR_CPU
@@ -101,7 +106,8 @@ PartitionName=main Nodes=$name Default=YES MaxTime=INFINITE State=UP
 CONF
 }
 
-node_state() { sinfo -h -N -o '%t' 2>/dev/null | head -n 1; }
+# The node's compact state (idle, mix, alloc, down*, …), or nothing while slurmctld does not answer.
+node_state() { { sinfo -h -N -o '%t' 2>/dev/null || true; } | head -n 1; }
 
 stop_daemons() {
   local f comm pid
@@ -111,8 +117,8 @@ stop_daemons() {
       pid=$(cat "$STATE/$f.pid")
       say "stopping $f (pid $pid)"
       kill "$pid"
-      for _ in $(seq 1 40); do ps -p "$pid" >/dev/null 2>&1 || break; sleep 0.25; done
-      if ps -p "$pid" >/dev/null 2>&1; then kill -9 "$pid"; fi
+      for _ in $(seq 1 40); do alive "$STATE/$f.pid" "$comm" || break; sleep 0.25; done
+      if alive "$STATE/$f.pid" "$comm"; then kill -9 "$pid"; fi
     fi
     rm -f "$STATE/$f.pid"
   done
