@@ -1,6 +1,7 @@
 /**
- * The `sweep:` block of a scenario: one or two axes over any numeric
- * scenario field, the realizations per cell and whether physically
+ * The `sweep:` block of a scenario: one to three axes over any numeric
+ * scenario field (nested fields by their dotted path, e.g.
+ * `instrument.ground.aperture`; the third axis is drawn as small multiples), the realizations per cell and whether physically
  * unstable cells are simulated (and, optionally, `null_realizations`: the
  * no-moon realizations that calibrate the false alarms, ≥ 20; by default
  * max(R, 200, ⌈10/α⌉)). A scenario with a moon and no sweep block
@@ -19,6 +20,13 @@
  * `stable` (the prograde or retrograde stable limit, by the moon's direction),
  * "0.3 hill" (fraction of the Hill radius) or "12 Rp" (planet radii), all of
  * the base scenario as `computeLimits` gives them.
+ *
+ * Level fields (`instrument.noise`, `instrument.red_noise.amplitude`,
+ * `instrument.ground.floor`) take endpoints as the field does: a fraction
+ * ("300 ppm") or a level at a timescale ("50 ppm per 1 h"). With a timescale
+ * the axis states every level at it (both ends must agree; an end without one
+ * takes the other's); without, the scenario's own timescale is kept (or, when
+ * the scenario writes a bare level, the values are bare levels too).
  */
 import { computeLimits } from '../physics/computeLimits.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
@@ -26,7 +34,7 @@ import { FieldReader } from '../scenario/fieldReader.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { parseQuantity, splitNumberUnit } from '../scenario/units.js';
-import { AXIS_FIELDS, axisUnit, type AxisFieldDef, type AxisWriteContext } from './axisFields.js';
+import { AXIS_FIELDS, axisUnit, parseLevel, valueAtPath, type AxisFieldDef, type AxisWriteContext } from './axisFields.js';
 import { applyAxisValues } from './applyAxes.js';
 
 export { applyAxisValues };
@@ -48,6 +56,8 @@ export interface SweepAxis {
   /** Axis values, SI. */
   values: number[];
   write: AxisWriteContext;
+  /** Level fields: the timescale, s, at which the values are stated (absent: bare levels). */
+  timescaleS?: number;
 }
 
 export interface SweepSpec {
@@ -66,6 +76,8 @@ export const DEFAULT_REALIZATIONS = 100;
 /** Fewest no-moon calibration realizations a sweep block may ask for. */
 export const MIN_NULL_REALIZATIONS = 20;
 export const MAX_AXIS_COUNT = 10000;
+/** Most axes a sweep block may give (the third is drawn as small multiples). */
+export const MAX_AXES = 3;
 
 /** The default axes, in the same form as a sweep block's. */
 export const DEFAULT_AXES: ReadonlyArray<Record<string, unknown>> = [
@@ -113,8 +125,8 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
     }
     axisDocs = base.moon ? (DEFAULT_AXES as unknown[]) : [];
     prefix = 'sweep.axes (default)';
-  } else if (!Array.isArray(axesRaw) || axesRaw.length < 1 || axesRaw.length > 2) {
-    problems.push({ path: 'sweep.axes', value: axesRaw, allowed: 'expected a list of one or two axes, each {field, from, to, count, spacing}' });
+  } else if (!Array.isArray(axesRaw) || axesRaw.length < 1 || axesRaw.length > MAX_AXES) {
+    problems.push({ path: 'sweep.axes', value: axesRaw, allowed: `expected a list of one to ${MAX_AXES} axes, each {field, from, to, count, spacing} (a third axis is drawn as small multiples, one map per value)` });
   } else {
     axisDocs = axesRaw;
   }
@@ -153,9 +165,25 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     r.problem('field', field, 'the scenario has no moon block to vary; add one (its values are the defaults for the other moon fields)');
     return null;
   }
-  const from = readEndpoint(r, 'from', fromRaw, field, d, base);
-  const to = readEndpoint(r, 'to', toRaw, field, d, base);
+  const refusal = fieldRefusal(field, d, doc, base);
+  if (refusal) {
+    r.problem('field', field, refusal);
+    return null;
+  }
+  const timescales: Array<number | undefined> = [];
+  const from = readEndpoint(r, 'from', fromRaw, field, d, base, timescales);
+  const to = readEndpoint(r, 'to', toRaw, field, d, base, timescales);
   if (problems.length > before) return null;
+  let timescaleS: number | undefined;
+  if (d.value.type === 'level') {
+    const [tFrom, tTo] = timescales;
+    if (tFrom !== undefined && tTo !== undefined && Math.abs(tFrom - tTo) > 1e-9 * Math.max(tFrom, tTo)) {
+      r.problem('to', toRaw, `both ends must state the level at the same timescale (from is per ${tFrom} s, to per ${tTo} s); write e.g. from: "50 ppm per 1 h", to: "500 ppm per 1 h"`);
+      return null;
+    }
+    timescaleS = tFrom ?? tTo ?? scenarioTimescale(doc, d);
+    if ((tFrom === undefined) !== (tTo === undefined)) notes.push(`${field}: the end given without a timescale is read at the other end's, per ${timescaleS} s`);
+  }
   if (spacing === 'log' && !(from > 0 && to > 0)) {
     r.problem(from > 0 ? 'to' : 'from', from > 0 ? toRaw : fromRaw, 'log spacing needs from and to above zero');
     return null;
@@ -169,7 +197,7 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     values = rounded;
   }
   const write: AxisWriteContext = {};
-  if (field === 'instrument.noise') write.noiseTimescaleS = base.instrument.noiseTimescaleS;
+  if (timescaleS !== undefined) write.levelTimescaleS = timescaleS;
   if (field === 'instrument.cadence') {
     const instrument = (doc as Record<string, unknown>).instrument as Record<string, unknown> | undefined;
     if (instrument && instrument.exposure !== undefined && instrument.exposure !== null) {
@@ -183,6 +211,7 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     if (lim.roche_limit_m >= stable) notes.push(`moon.separation: the fluid Roche limit (${lim.roche_limit_m.toPrecision(4)} m) lies beyond the stable limit (${stable.toPrecision(4)} m): no separation is both`);
   }
   const axis: SweepAxis = { field, unit: axisUnit(d), spacing, fromText: endpointText(fromRaw), toText: endpointText(toRaw), from, to, count, values, write };
+  if (timescaleS !== undefined) axis.timescaleS = timescaleS;
   checkEndpointsParse(axis, path, doc, problems);
   return axis;
 }
@@ -191,15 +220,56 @@ function endpointText(raw: unknown): string {
   return typeof raw === 'string' ? raw : String(raw);
 }
 
-/** An endpoint in SI, read like the scenario field itself (plus the separation words). */
-function readEndpoint(r: FieldReader, key: 'from' | 'to', raw: unknown, field: string, d: AxisFieldDef, base: Scenario): number {
+const GROUND_FIELDS = [...AXIS_FIELDS.keys()].filter((f) => f.startsWith('instrument.ground.'));
+
+/** Why the base scenario cannot vary `field` (a block it lacks, a field its model has not), or null. */
+function fieldRefusal(field: string, d: AxisFieldDef, doc: unknown, base: Scenario): string | null {
+  if (field === 'instrument.noise' && base.instrument.ground) {
+    return `the white noise of this scenario comes from its ground budget (instrument.ground), so there is no noise level to vary: sweep ${GROUND_FIELDS.join(', ')} instead (the floor is the systematic level), or replace the ground block by instrument.noise to sweep the level directly`;
+  }
+  if (d.block && !isMapping(valueAtPath(doc, d.block.split('.')))) {
+    if (d.block === 'instrument.ground') {
+      return `the scenario has no ground budget (instrument.ground) to vary${base.instrument.ground ? '' : '; its white noise is instrument.noise: sweep that, or replace it by a ground block {aperture, magnitude, ...}'}`;
+    }
+    return `the scenario has no ${d.block} block to vary; add one (e.g. red_noise: {model: power_law, amplitude: "150 ppm per 30 min", slope: 1})`;
+  }
+  if (d.model) {
+    const model = base.instrument.redNoise?.model;
+    if (model !== d.model) return `${field} belongs to the ${d.model} red-noise model; this scenario's instrument.red_noise is ${model ?? 'absent'}`;
+  }
+  return null;
+}
+
+function isMapping(v: unknown): boolean {
+  return v !== null && typeof v === 'object' && !Array.isArray(v);
+}
+
+/** The timescale, s, at which the scenario states a level field ("X per T"), or undefined for a bare level. */
+function scenarioTimescale(doc: unknown, d: AxisFieldDef): number | undefined {
+  const raw = valueAtPath(doc, d.path);
+  if (typeof raw !== 'string' || !/\sper\s/.test(raw)) return undefined;
+  try {
+    return parseLevel(raw, d.path.join('.')).timescaleS;
+  } catch {
+    return undefined;
+  }
+}
+
+/** An endpoint in SI, read like the scenario field itself (plus the separation words); a level's timescale goes to `timescales`. */
+function readEndpoint(r: FieldReader, key: 'from' | 'to', raw: unknown, field: string, d: AxisFieldDef, base: Scenario, timescales: Array<number | undefined>): number {
   const path = r.path(key);
+  timescales.push(undefined);
   if (raw === undefined || raw === null) {
     r.problem(key, raw, `required: the ${key === 'from' ? 'first' : 'last'} value of ${field}`);
     return Number.NaN;
   }
   try {
     if (field === 'moon.separation') return separationEndpoint(raw, path, base);
+    if (d.value.type === 'level') {
+      const lv = parseLevel(raw, path);
+      timescales[timescales.length - 1] = lv.timescaleS;
+      return lv.fraction;
+    }
     if (d.value.type === 'quantity') return parseQuantity(raw, path, d.value.kind, d.value.bare?.[0], d.value.bare?.[1]);
     const n = typeof raw === 'number' ? raw : typeof raw === 'string' && raw.trim() !== '' ? Number(raw) : Number.NaN;
     if (!Number.isFinite(n)) throw new InputError([{ path, value: raw, allowed: `expected a number (${field} has no unit)` }]);
