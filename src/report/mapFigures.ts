@@ -232,7 +232,8 @@ function contourTrace(z: unknown, a: Axes2, level: number, dash: string): Record
 
 function mapTitle(meta: SweepMeta, channel: MapChannel): string {
   const below = channel === 'combined' && !meta.forecast_only ? '; can be below a single channel, tested at α' : '';
-  return `Detection probability, ${channelLabel(channel, meta.forecast_only)}${below}${meta.forecast_only ? ' (analytic forecast)' : ''}`;
+  const forecast = meta.forecast_only && channel !== 'combined' ? ' (analytic forecast)' : '';
+  return `Detection probability, ${channelLabel(channel, meta.forecast_only)}${below}${forecast}`;
 }
 
 /** The map's title per channel (the selector sets it). */

@@ -343,7 +343,10 @@ function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, proble
     } catch (e) {
       if (!(e instanceof InputError)) throw e;
       for (const p of e.problems) {
-        problems.push({ path: `${path}.${key}`, value: text, allowed: `with ${axis.field} = ${value}${axis.unit ? ' ' + axis.unit : ''} the scenario is refused: ${p.path}: ${p.allowed}` });
+        const shown = AXIS_FIELDS.get(axis.field)?.value.type === 'level'
+          ? `${Number((value * 1e6).toPrecision(6))} ppm${axis.timescaleS !== undefined ? ` per ${axis.timescaleS} s` : ''}`
+          : `${value}${axis.unit ? ' ' + axis.unit : ''}`;
+        problems.push({ path: `${path}.${key}`, value: text, allowed: `with ${axis.field} = ${shown} the scenario is refused: ${p.path}: ${p.allowed}` });
       }
       if (axis.values.length === 1) break;
     }

@@ -13,6 +13,7 @@ import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { createGrid } from '../../src/sweep/grid.js';
 import { HOUR_S, MINUTE_S } from '../../src/physics/constants.js';
+import { computeLimits } from '../../src/physics/computeLimits.js';
 
 const WHITE: Record<string, unknown> = {
   name: 'Axis world',
@@ -156,6 +157,37 @@ describe('axis endpoints take the same forms as the field', () => {
     expect(lastCell(GROUND, { field: 'instrument.ground.aperture', from: '40 cm', to: '150 cm', count: 2 }).cell.instrument.ground!.apertureM).toBeCloseTo(1.5, 12);
     // The aperture, like the field, needs a unit.
     expect(problems(() => spec(withAxes(GROUND, [{ field: 'instrument.ground.aperture', from: 1, to: 2, count: 2 }])))[0].allowed).toMatch(/unit is required/);
+  });
+});
+
+describe('every form an endpoint takes is the field\'s own', () => {
+  const end = (doc: Record<string, unknown>, field: string, from: unknown, to: unknown) => spec(withAxes(doc, [{ field, from, to, count: 2 }])).axes[0];
+  const base = parseScenario(WHITE);
+
+  it('moon separation: "f hill", "N Rp", roche/stable and a length', () => {
+    const lim = computeLimits(base);
+    expect(end(WHITE, 'moon.separation', '0.1 hill', '0.3 hill').to).toBeCloseTo(0.3 * lim.hill_radius_m, 3);
+    expect(end(WHITE, 'moon.separation', '5 Rp', '12 Rp').to).toBe(12 * base.planet.radiusM);
+    expect(end(WHITE, 'moon.separation', 'roche', 'stable').from).toBe(lim.roche_limit_m);
+    expect(end(WHITE, 'moon.separation', '1e9 m', '2e6 km').to).toBe(2e9);
+  });
+
+  it('angles in degrees (bare or with a unit), a bare temperature in K, a percentage, a whole number', () => {
+    expect(end(WHITE, 'planet.inclination', 89.5, '90 deg').from).toBeCloseTo(89.5 * Math.PI / 180, 15);
+    expect(end(WHITE, 'moon.inclination', '0.1 rad', 30).to).toBeCloseTo(Math.PI / 6, 15);
+    expect(end(WHITE, 'star.teff', 5000, '6000 K').from).toBe(5000);
+    expect(end(WHITE, 'detection.false_alarm', '0.1 %', 0.05).from).toBeCloseTo(1e-3, 18);
+    expect(end(WHITE, 'observation.transits', 3, 9).values).toEqual([3, 9]);
+  });
+
+  it('a level the field itself refuses is refused on that end with the field\'s reason', () => {
+    // A damped random walk's amplitude is a stationary rms (a fraction), not a level at a timescale, as the scenario says.
+    const drw = { ...WHITE, instrument: { cadence: '2 min', noise: '300 ppm per 2 min', red_noise: { model: 'drw', amplitude: '200 ppm', timescale: '45 min' } } };
+    const p = problems(() => spec(withAxes(drw, [{ field: 'instrument.red_noise.amplitude', from: '100 ppm per 1 h', to: '200 ppm per 1 h', count: 2 }])));
+    expect(p.map((x) => x.path)).toEqual(['sweep.axes[0].from', 'sweep.axes[0].to']);
+    expect(p[0].allowed).toMatch(/instrument\.red_noise\.amplitude = 100 ppm per 3600 s the scenario is refused: instrument\.red_noise\.amplitude: .*a dimensionless fraction/);
+    // Bare ends over a power law keep the scenario's averaging timescale (30 min).
+    expect(spec(withAxes(WHITE, [{ field: 'instrument.red_noise.amplitude', from: '100 ppm', to: '200 ppm', count: 2 }])).axes[0].timescaleS).toBe(30 * MINUTE_S);
   });
 });
 
