@@ -129,18 +129,25 @@ document.addEventListener('click', function (e) {
 });
 </script>`;
 
-  const linesDrawn = boundaries !== null && meta.axes.some((a) => a.field === 'moon.separation' || a.field === 'moon.mass');
+  // The limit lines drawn (mapFigures.boundaryTraces): separations across (x), the tidal-survival mass up (y).
+  const roles = meta.axes.length >= 2 ? axisRoles(meta) : null;
+  const sepLines = boundaries !== null && roles !== null && meta.axes[roles.xAxis].field === 'moon.separation';
+  const massLine = boundaries !== null && roles !== null && roles.yAxis !== null && meta.axes[roles.yAxis].field === 'moon.mass';
+  const linesText = [
+    sepLines ? 'orange lines: Roche limit (dashed), stable limit for prograde (solid) and retrograde (dotted) moons' : '',
+    massLine ? 'pink dash-dot: the largest moon that survives tidal migration' : '',
+  ].filter((t) => t !== '').join('; ');
   const facetAxis = grid.faceted ? meta.axes[axisRoles(meta).facetAxis as number] : null;
   const facetNote = facetAxis ? `One map per value of ${axisDisplay(facetAxis).title}, all on the same colour scale; each panel is labelled with its value. ` : '';
   const mapNote = grid.twoAxis
-    ? `${facetNote}White contours at 50 % (dashed) and 90 % (solid). Green outline: cells whose energy budget is temperate (the habitable region). ${linesDrawn ? 'Orange lines: Roche limit (dashed), stable limit for prograde (solid) and retrograde (dotted) moons; pink dash-dot: the largest moon that survives tidal migration (base scenario; shown where the axes are moon separation and mass). ' : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits)${meta.forecast_only ? '' : '; they are not simulated and left blank'}. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
+    ? `${facetNote}White contours at 50 % (dashed) and 90 % (solid). Green outline: cells whose energy budget is temperate (the habitable region). ${linesText ? `${linesText[0].toUpperCase()}${linesText.slice(1)} (of the base scenario). ` : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits)${meta.forecast_only ? '' : '; they are not simulated and left blank'}. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
     : 'Lines: detection probability per channel with 95 % Wilson intervals; grey lines at 50 % and 90 %; green bands: temperate energy budget; crosses: cells whose moon is not physically allowed.';
   const cautions = [...CAUTIONS];
   const massCaution = planetMassCaution(meta, scenarioDoc);
   if (massCaution) cautions.push(massCaution);
   const mcSection = meta.forecast_only
     ? '<p>Not available: this is a forecast-only run (no Monte Carlo).</p>'
-    : `<p>Red: the simulations detect more often than the analytic forecast predicts; blue: less often. Circles mark cells where the forecast falls outside the Monte Carlo 95 % interval.</p><div id="mcdiff" class="plot"></div>`;
+    : `<p>Red: the simulations detect more often than the analytic forecast predicts; blue: less often. Circles mark cells where the forecast falls outside the Monte Carlo 95 % interval.</p><div id="mcdiff" class="plot"${grid.faceted ? ` style="height: ${grid.mapHeightPx}px"` : ''}></div>`;
   const body = `
 <header>
 <h1>Exomoon detectability: ${escapeHtml(meta.scenario)}</h1>
