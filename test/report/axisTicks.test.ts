@@ -8,6 +8,9 @@ import { describe, it, expect } from 'vitest';
 import { axisDisplay, logTickLayout, logTickValues, tickLabel, linearTicks } from '../../src/report/axisDisplay.js';
 import { gridFigures } from '../../src/report/mapFigures.js';
 import { buildSummary } from '../../src/report/summary.js';
+import { renderSummaryHtml } from '../../src/report/summaryText.js';
+import { combinedMeaning } from '../../src/report/reportGrid.js';
+import { escapeHtml } from '../../src/report/escape.js';
 import { M_EARTH_KG, M_JUP_KG, MINUTE_S } from '../../src/physics/constants.js';
 import type { SweepMeta, SweepAxisMeta } from '../../src/sweep/sweepMeta.js';
 import type { CellResult } from '../../src/sweep/cellTypes.js';
@@ -98,5 +101,12 @@ describe('every log axis of the sweep figures has explicit 1-2-5 ticks', () => {
     // The moon-mass axis goes up (y); its range is 0.1–25.6 M⊕ plus half a cell (×2) each side: 0.05–51.2.
     expect((map.yaxis as { ticktext: string[] }).ticktext).toEqual(['0.05', '0.1', '0.2', '0.5', '1', '2', '5', '10', '20', '50']);
     expect((map.xaxis as { ticktext: string[] }).ticktext).toEqual(['1', '2', '5', '10', '20', '50']);
+
+    // "combined" is explained where it can read below a single channel: map title and summary.
+    expect((map.title as { text: string }).text).toBe('Detection probability, combined (any channel, each at α/3); can be below a single channel, tested at α');
+    const summaryHtml = renderSummaryHtml(buildSummary(meta, cells), meta);
+    expect(summaryHtml).toContain(escapeHtml(combinedMeaning(false, 0.01)));
+    // α/3 of α = 0.01 (Bonferroni over the three channels).
+    expect(combinedMeaning(false, 0.01)).toMatch(/each tested at α\/3 = 0\.00333 .*α = 0\.01 \(Bonferroni\).*can be below it/);
   });
 });
