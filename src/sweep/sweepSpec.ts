@@ -21,6 +21,11 @@
  * "0.3 hill" (fraction of the Hill radius) or "12 Rp" (planet radii), all of
  * the base scenario as `computeLimits` gives them.
  *
+ * Instead of from/to/count an axis may list its values, each written as the
+ * field takes it, in increasing or decreasing order:
+ *       - {field: instrument.ground.aperture, values: ["0.4 m", "1 m", "2.5 m"], spacing: log}
+ * (`spacing` then only says how the report draws the axis).
+ *
  * Level fields (`instrument.noise`, `instrument.red_noise.amplitude`,
  * `instrument.ground.floor`) take endpoints as the field does: a fraction
  * ("300 ppm") or a level at a timescale ("50 ppm per 1 h"). With a timescale
@@ -151,11 +156,21 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
   const before = problems.length;
   const r = new FieldReader(raw, path, problems);
   const field = r.string('field', '');
+  const valuesRaw = r.raw('values');
+  const listed = valuesRaw !== undefined && valuesRaw !== null;
   const fromRaw = r.raw('from');
   const toRaw = r.raw('to');
-  const count = r.number('count', { integer: true, min: 1, max: MAX_AXIS_COUNT, rangeText: `expected a whole number of values from 1 to ${MAX_AXIS_COUNT}` });
+  const count = listed ? (r.raw('count'), Number.NaN) : r.number('count', { integer: true, min: 1, max: MAX_AXIS_COUNT, rangeText: `expected a whole number of values from 1 to ${MAX_AXIS_COUNT}` });
   const spacing = r.choice('spacing', ['linear', 'log'] as const, 'linear');
   r.rejectUnknown();
+  if (listed && [fromRaw, toRaw, r.raw('count')].some((v) => v !== undefined && v !== null)) {
+    r.problem('values', valuesRaw, 'give either a list of values or from, to and count, not both');
+    return null;
+  }
+  if (listed && (!Array.isArray(valuesRaw) || valuesRaw.length < 1 || valuesRaw.length > MAX_AXIS_COUNT)) {
+    r.problem('values', valuesRaw, `expected a list of 1 to ${MAX_AXIS_COUNT} values, each written as the field takes it, e.g. values: ["0.4 m", "1 m", "2.5 m"]`);
+    return null;
+  }
   const d = AXIS_FIELDS.get(field);
   if (!d) {
     r.problem('field', field === '' ? r.raw('field') : field, `expected one of the numeric scenario fields: ${[...AXIS_FIELDS.keys()].join(', ')}`);
@@ -170,25 +185,41 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     r.problem('field', field, refusal);
     return null;
   }
+  // The values as written: the two ends, or the listed values.
+  const raws: unknown[] = listed ? (valuesRaw as unknown[]) : [fromRaw, toRaw];
+  const keys = listed ? raws.map((_, k) => `values[${k}]`) : ['from', 'to'];
   const timescales: Array<number | undefined> = [];
-  const from = readEndpoint(r, 'from', fromRaw, field, d, base, timescales);
-  const to = readEndpoint(r, 'to', toRaw, field, d, base, timescales);
+  const read = raws.map((v, k) => readEndpoint(r, keys[k], v, field, d, base, timescales));
   if (problems.length > before) return null;
   let timescaleS: number | undefined;
   if (d.value.type === 'level') {
-    const [tFrom, tTo] = timescales;
-    if (tFrom !== undefined && tTo !== undefined && Math.abs(tFrom - tTo) > 1e-9 * Math.max(tFrom, tTo)) {
-      r.problem('to', toRaw, `both ends must state the level at the same timescale (from is per ${tFrom} s, to per ${tTo} s); write e.g. from: "50 ppm per 1 h", to: "500 ppm per 1 h"`);
+    const stated = timescales.map((t, k) => ({ t, k })).filter((e): e is { t: number; k: number } => e.t !== undefined);
+    const odd = stated.find((e) => Math.abs(e.t - stated[0].t) > 1e-9 * Math.max(e.t, stated[0].t));
+    if (odd) {
+      r.problem(keys[odd.k], raws[odd.k], `every value must state the level at the same timescale (${keys[stated[0].k]} is per ${stated[0].t} s, ${keys[odd.k]} per ${odd.t} s); write e.g. from: "50 ppm per 1 h", to: "500 ppm per 1 h"`);
       return null;
     }
-    timescaleS = tFrom ?? tTo ?? scenarioTimescale(doc, d);
-    if ((tFrom === undefined) !== (tTo === undefined)) notes.push(`${field}: the end given without a timescale is read at the other end's, per ${timescaleS} s`);
+    timescaleS = stated.length ? stated[0].t : scenarioTimescale(doc, d);
+    if (stated.length > 0 && stated.length < raws.length) notes.push(`${field}: ${listed ? 'the values given without a timescale are read at the others\'' : 'the end given without a timescale is read at the other end\'s'}, per ${timescaleS} s`);
   }
-  if (spacing === 'log' && !(from > 0 && to > 0)) {
-    r.problem(from > 0 ? 'to' : 'from', from > 0 ? toRaw : fromRaw, 'log spacing needs from and to above zero');
-    return null;
+  if (spacing === 'log') {
+    const k = read.findIndex((v) => !(v > 0));
+    if (k >= 0) {
+      r.problem(keys[k], raws[k], `log spacing needs ${listed ? 'every value' : 'from and to'} above zero`);
+      return null;
+    }
   }
-  let values = spacedValues(from, to, count, spacing);
+  if (listed && read.length > 1) {
+    const up = read[1] > read[0];
+    const k = read.findIndex((v, i) => i > 0 && (up ? !(v > read[i - 1]) : !(v < read[i - 1])));
+    if (k >= 0) {
+      r.problem(keys[k], raws[k], 'expected the values in increasing (or decreasing) order, each once');
+      return null;
+    }
+  }
+  const from = read[0];
+  const to = read[read.length - 1];
+  let values = listed ? read : spacedValues(from, to, count, spacing);
   if (d.value.type === 'integer') {
     const rounded = [...new Set(values.map((v) => Math.round(v)))];
     if (rounded.length !== values.length || rounded.some((v, k) => v !== values[k])) {
@@ -210,9 +241,12 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     const stable = base.moon.retrograde ? lim.stable_max_separation_retrograde_m : lim.stable_max_separation_m;
     if (lim.roche_limit_m >= stable) notes.push(`moon.separation: the fluid Roche limit (${lim.roche_limit_m.toPrecision(4)} m) lies beyond the stable limit (${stable.toPrecision(4)} m): no separation is both`);
   }
-  const axis: SweepAxis = { field, unit: axisUnit(d), spacing, fromText: endpointText(fromRaw), toText: endpointText(toRaw), from, to, count, values, write };
+  const axis: SweepAxis = {
+    field, unit: axisUnit(d), spacing, fromText: endpointText(raws[0]), toText: endpointText(raws[raws.length - 1]), from, to,
+    count: listed ? read.length : count, values, write,
+  };
   if (timescaleS !== undefined) axis.timescaleS = timescaleS;
-  checkEndpointsParse(axis, path, doc, problems);
+  checkEndpointsParse(axis, path, doc, problems, listed ? keys : null, raws);
   return axis;
 }
 
@@ -256,11 +290,11 @@ function scenarioTimescale(doc: unknown, d: AxisFieldDef): number | undefined {
 }
 
 /** An endpoint in SI, read like the scenario field itself (plus the separation words); a level's timescale goes to `timescales`. */
-function readEndpoint(r: FieldReader, key: 'from' | 'to', raw: unknown, field: string, d: AxisFieldDef, base: Scenario, timescales: Array<number | undefined>): number {
+function readEndpoint(r: FieldReader, key: string, raw: unknown, field: string, d: AxisFieldDef, base: Scenario, timescales: Array<number | undefined>): number {
   const path = r.path(key);
   timescales.push(undefined);
   if (raw === undefined || raw === null) {
-    r.problem(key, raw, `required: the ${key === 'from' ? 'first' : 'last'} value of ${field}`);
+    r.problem(key, raw, `required: ${key === 'from' ? 'the first value' : key === 'to' ? 'the last value' : 'a value'} of ${field}`);
     return Number.NaN;
   }
   try {
@@ -335,8 +369,11 @@ export function spacedValues(from: number, to: number, count: number, spacing: A
  * between them, so the range checks of the scenario hold for the whole axis).
  * A refusal is reported on the axis's `from`/`to`.
  */
-function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, problems: FieldProblem[]): void {
-  const ends: Array<['from' | 'to', number, string]> = [['from', axis.values[0], axis.fromText], ['to', axis.values[axis.values.length - 1], axis.toText]];
+function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, problems: FieldProblem[], listKeys: string[] | null, raws: unknown[]): void {
+  // A listed axis need not be evenly spaced, but its values are monotonic, so its ends bound it too; each is checked all the same.
+  const ends: Array<[string, number, string]> = listKeys && listKeys.length === axis.values.length
+    ? axis.values.map((v, k) => [listKeys[k], v, endpointText(raws[k])])
+    : [['from', axis.values[0], axis.fromText], ['to', axis.values[axis.values.length - 1], axis.toText]];
   for (const [key, value, text] of ends) {
     try {
       parseScenario(applyAxisValues(doc, [axis], [value]));

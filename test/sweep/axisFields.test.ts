@@ -191,6 +191,31 @@ describe('every form an endpoint takes is the field\'s own', () => {
   });
 });
 
+describe('an axis may list its values, each in the field\'s own form', () => {
+  it('uneven apertures in mixed units; levels at one timescale; written into each cell', () => {
+    const s = spec(withAxes(GROUND, [{ field: 'instrument.ground.aperture', values: ['40 cm', '1 m', '2.5 m'], spacing: 'log' }]));
+    expect(s.axes[0].values).toEqual([0.4, 1, 2.5]);
+    expect([s.axes[0].fromText, s.axes[0].toText, s.axes[0].count]).toEqual(['40 cm', '2.5 m', 3]);
+    expect(parseScenario(applyAxisValues(GROUND, s.axes, [1])).instrument.ground!.apertureM).toBe(1);
+    const n = spec(withAxes(WHITE, [{ field: 'instrument.noise', values: ['800 ppm per 1 h', '400 ppm', '100 ppm per 1 h'] }]));
+    expect(n.axes[0].timescaleS).toBe(HOUR_S);
+    expect(n.axes[0].values[1]).toBeCloseTo(400e-6, 18);
+  });
+
+  it('refuses a list with from/to, out of order, with mixed timescales, or a value the field refuses', () => {
+    expect(problems(() => spec(withAxes(GROUND, [{ field: 'instrument.ground.aperture', values: ['1 m'], from: '1 m' }])))[0].allowed).toMatch(/either a list of values or from, to and count/);
+    const order = problems(() => spec(withAxes(GROUND, [{ field: 'instrument.ground.aperture', values: ['1 m', '2 m', '1.5 m'] }])));
+    expect(order[0].path).toBe('sweep.axes[0].values[2]');
+    expect(order[0].allowed).toMatch(/increasing \(or decreasing\) order/);
+    const ts = problems(() => spec(withAxes(WHITE, [{ field: 'instrument.noise', values: ['100 ppm per 1 h', '200 ppm per 2 h'] }])));
+    expect(ts[0].path).toBe('sweep.axes[0].values[1]');
+    // The middle value is checked against the scenario as well (magnitude above 25 is refused).
+    const mid = problems(() => spec(withAxes(GROUND, [{ field: 'instrument.ground.magnitude', values: [10, 30, 40] }])));
+    expect(mid.map((x) => x.path)).toEqual(['sweep.axes[0].values[1]', 'sweep.axes[0].values[2]']);
+    expect(problems(() => spec(withAxes(GROUND, [{ field: 'instrument.ground.aperture', values: [] }])))[0].path).toBe('sweep.axes[0].values');
+  });
+});
+
 describe('three axes', () => {
   it('are accepted, four are refused; the grid is row-major, last axis fastest', () => {
     const s = spec(withAxes(GROUND, [
