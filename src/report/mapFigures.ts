@@ -241,6 +241,10 @@ export function mapTitles(meta: SweepMeta): Record<MapChannel, string> {
   return Object.fromEntries(MAP_CHANNELS.map((ch) => [ch, mapTitle(meta, ch)])) as Record<MapChannel, string>;
 }
 
+/** Bottom margin of a faceted map, px, and the legend's place: 70 px below the plot area, clear of the x-axis title. */
+const FACET_MARGIN_B = 90;
+const FACET_LEGEND_Y = (heightPx: number): number => -70 / (heightPx - 80 - FACET_MARGIN_B);
+
 /** Height of a map of `rows` rows of panels, px. */
 function mapHeight(rows: number): number {
   return rows <= 1 ? 640 : 120 + 330 * rows;
@@ -296,8 +300,8 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
       layout: {
         title: { text: mapTitle(meta, 'combined') },
         ...panelAxesLayout(a),
-        legend: { orientation: 'h', y: faceted ? -60 / mapHeightPx : -0.18, yanchor: 'top', x: 0, font: { size: 11 } },
-        margin: { t: faceted ? 80 : 50, r: 30, b: faceted ? 60 : 40 },
+        legend: { orientation: 'h', ...(faceted ? { y: FACET_LEGEND_Y(mapHeightPx), yanchor: 'top' } : { y: -0.18 }), x: 0, font: { size: 11 } },
+        margin: { t: faceted ? 80 : 50, r: 30, b: faceted ? FACET_MARGIN_B : 40 },
         plot_bgcolor: '#f4f4f4',
         ...(faceted ? { height: mapHeightPx } : {}),
       },
@@ -363,8 +367,8 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
       layout: {
         title: { text: 'TTV channel: Monte Carlo detection probability minus the analytic forecast' },
         ...panelAxesLayout(a),
-        legend: { orientation: 'h', y: faceted ? -60 / mapHeightPx : -0.18, yanchor: 'top' },
-        margin: { t: faceted ? 80 : 50, b: faceted ? 60 : undefined },
+        legend: { orientation: 'h', ...(faceted ? { y: FACET_LEGEND_Y(mapHeightPx), yanchor: 'top' } : { y: -0.18 }) },
+        margin: { t: faceted ? 80 : 50, b: faceted ? FACET_MARGIN_B : undefined },
         plot_bgcolor: '#f4f4f4',
         ...(faceted ? { height: mapHeightPx } : {}),
       },
