@@ -31,7 +31,8 @@ export function exampleFigures(ex: ExampleCell, k: number): Figure[] {
       layout: {
         title: { text: 'Recovered TTV and TDV with 1σ errors' },
         grid: { rows: 2, columns: 1, pattern: 'coupled' },
-        xaxis: { title: { text: 'transit epoch' }, dtick: 1 },
+        // One tick per epoch only while they fit (a tick per epoch of 500 transits is a black bar).
+        xaxis: { title: { text: 'transit epoch' }, ...(Math.max(0, ...ex.ttv.epoch, ...ex.tdv.epoch) - Math.min(0, ...ex.ttv.epoch, ...ex.tdv.epoch) <= 20 ? { dtick: 1 } : {}) },
         yaxis: { title: { text: 'TTV (min)' }, domain: [0.55, 1] },
         yaxis2: { title: { text: 'TDV (min)' }, domain: [0, 0.45] },
         legend: { orientation: 'h', y: -0.22 },

@@ -1,6 +1,8 @@
 /**
  * The figures drawn over the sweep grid: the detectability map (or, for a
- * one-axis sweep, detection probability against the axis), the minimum
+ * one-axis sweep, detection probability against the axis; for a three-axis
+ * sweep, small multiples: one map per value of the third axis, all on the
+ * same colour scale, each labelled with its value and unit), the minimum
  * detectable moon mass at 50 % and 90 %, and Monte Carlo against the
  * analytic forecast. Plain plotly data/layout objects (see plotlyPage.ts).
  *
@@ -12,8 +14,8 @@ import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
 import type { Figure } from './plotlyPage.js';
 import { escapeHtml } from './escape.js';
-import { axisDisplay, formatDisplay, formatNumber, type AxisDisplay } from './axisDisplay.js';
-import { CHANNEL_LABELS, MAP_CHANNELS, cellEdges, cellProbability, gridLayout, gridMatrix, num, regionOutline, type GridLayout, type MapChannel } from './reportGrid.js';
+import { axisDisplay, formatDisplay, formatNumber, logTickLayout, type AxisDisplay } from './axisDisplay.js';
+import { MAP_CHANNELS, cellEdges, cellProbability, channelLabel, gridLayout, gridMatrix, num, regionOutline, type GridLayout, type MapChannel } from './reportGrid.js';
 import type { PhysicalBoundaries } from './physicalBoundaries.js';
 import type { SweepSummary } from './summary.js';
 
@@ -23,19 +25,53 @@ export const MAP_Z_TRACES = [0, 1, 2];
 
 export interface GridFigures {
   figures: Figure[];
-  /** Per channel, the map's z (2-axis) or y (1-axis) values; null for a channel this run lacks. */
-  channelZ: Record<MapChannel, Array<Array<number | null>> | Array<number | null> | null>;
+  /**
+   * Per channel, the map's z (2 axes: one matrix; 3 axes: one matrix per
+   * panel) or y (1 axis) values; null for a channel this run lacks.
+   */
+  channelZ: Record<MapChannel, Array<Array<number | null>> | Array<number | null> | Array<Array<Array<number | null>>> | null>;
   twoAxis: boolean;
+  /** Three axes: the map's trace indices the channel selector restyles, and the panel of each. */
+  mapTraces: number[];
+  mapTraceFacet: number[];
+  faceted: boolean;
+  /** Height of the map figure, px (taller with more rows of panels). */
+  mapHeightPx: number;
+}
+
+/** One panel of a (possibly faceted) map: its grid, its plotly axes and its label. */
+interface Panel {
+  layout: GridLayout;
+  /** Trace axis references ('x', 'y' for the first panel, then 'x2', 'y2', ...). */
+  xref: string;
+  yref: string;
+  /** Layout keys of its axes ('xaxis', 'xaxis2', ...). */
+  xKey: string;
+  yKey: string;
+  /** "telescope aperture = 1 m" on a faceted map, else null. */
+  label: string | null;
+  first: boolean;
+  row: number;
+  col: number;
 }
 
 interface Axes2 {
-  layout: GridLayout;
   xd: AxisDisplay;
   yd: AxisDisplay;
+  /** Display of the facet axis, null with two axes. */
+  fd: AxisDisplay | null;
   x: number[];
   y: number[];
   xEdges: number[];
   yEdges: number[];
+  panels: Panel[];
+  rows: number;
+  cols: number;
+}
+
+/** Columns of small multiples for n panels (2 to 4 across). */
+export function facetColumns(n: number): number {
+  return n <= 1 ? 1 : n <= 4 ? 2 : n <= 9 ? 3 : 4;
 }
 
 function axisLayout(d: AxisDisplay, edges: number[]): Record<string, unknown> {
@@ -48,31 +84,79 @@ function axisLayout(d: AxisDisplay, edges: number[]): Record<string, unknown> {
     type: d.log ? 'log' : 'linear',
     range: d.log ? [Math.log10(lo), Math.log10(hi)] : [lo, hi],
     zeroline: false,
+    // Log axes: full labels at 1-2-5 steps, never plotly's bare minor digits.
+    ...(d.log ? logTickLayout(lo, hi) : {}),
   };
 }
 
 function axes2(meta: SweepMeta, cells: readonly CellResult[]): Axes2 {
-  const layout = gridLayout(meta, cells);
-  const xa = meta.axes[layout.xAxis];
-  const ya = meta.axes[layout.yAxis as number];
+  const first = gridLayout(meta, cells);
+  const xa = meta.axes[first.xAxis];
+  const ya = meta.axes[first.yAxis as number];
+  const fa = first.facetAxis === null ? null : meta.axes[first.facetAxis];
   const xd = axisDisplay(xa);
   const yd = axisDisplay(ya);
+  const fd = fa ? axisDisplay(fa) : null;
   const x = xa.values.map((v) => v / xd.divisor);
   const y = ya.values.map((v) => v / yd.divisor);
-  return { layout, xd, yd, x, y, xEdges: cellEdges(x, xd.log), yEdges: cellEdges(y, yd.log) };
+  const n = first.nFacets;
+  const cols = facetColumns(n);
+  const rows = Math.ceil(n / cols);
+  const panels: Panel[] = [];
+  for (let k = 0; k < n; k++) {
+    const suffix = k === 0 ? '' : String(k + 1);
+    panels.push({
+      layout: k === 0 ? first : gridLayout(meta, cells, k),
+      xref: `x${suffix}`, yref: `y${suffix}`, xKey: `xaxis${suffix}`, yKey: `yaxis${suffix}`,
+      label: fa && fd ? `${fd.title.replace(/ \(.*\)$/, '')} = ${formatDisplay(fd, fa.values[k])}` : null,
+      first: k === 0, row: Math.floor(k / cols), col: k % cols,
+    });
+  }
+  return { xd, yd, fd, x, y, xEdges: cellEdges(x, xd.log), yEdges: cellEdges(y, yd.log), panels, rows, cols };
 }
 
-/** Hover text per cell (already escaped, lines joined by <br>): coordinates, placement, habitability, probability. */
-function hoverMatrix(meta: SweepMeta, a: Axes2): string[][] {
+/** Put a trace on a panel: its axes, and on panels after the first no second legend entry. */
+function onPanel(trace: Record<string, unknown>, p: Panel, faceted: boolean): Record<string, unknown> {
+  if (!faceted) return trace;
+  const name = typeof trace.name === 'string' ? trace.name : undefined;
+  return { ...trace, xaxis: p.xref, yaxis: p.yref, legendgroup: name, ...(p.first ? {} : { showlegend: false }) };
+}
+
+/** Layout entries of a map's axes: one pair, or one pair per panel with its label above it. */
+function panelAxesLayout(a: Axes2): Record<string, unknown> {
+  if (a.panels.length === 1) return { xaxis: axisLayout(a.xd, a.xEdges), yaxis: axisLayout(a.yd, a.yEdges) };
+  const out: Record<string, unknown> = {};
+  const gapX = 0.07;
+  const gapY = 0.1;
+  const annotations: unknown[] = [];
+  const n = a.panels.length;
+  for (const p of a.panels) {
+    const x0 = p.col / a.cols + (p.col > 0 ? gapX / 2 : 0);
+    const x1 = (p.col + 1) / a.cols - (p.col < a.cols - 1 ? gapX / 2 : 0);
+    const y1 = 1 - p.row / a.rows - gapY * 0.55;
+    const y0 = 1 - (p.row + 1) / a.rows + (p.row < a.rows - 1 ? gapY * 0.45 : 0);
+    const below = p.row < a.rows - 1 && (p.row + 1) * a.cols + p.col < n;
+    const xl = axisLayout(a.xd, a.xEdges);
+    const yl = axisLayout(a.yd, a.yEdges);
+    out[p.xKey] = { ...xl, title: { text: below ? '' : a.xd.title, font: { size: 12 } }, domain: [x0, x1], anchor: p.yref };
+    out[p.yKey] = { ...yl, title: { text: p.col === 0 ? a.yd.title : '', font: { size: 12 } }, domain: [y0, y1], anchor: p.xref };
+    annotations.push({ text: p.label, xref: 'paper', yref: 'paper', x: (x0 + x1) / 2, y: y1, xanchor: 'center', yanchor: 'bottom', showarrow: false, font: { size: 13 } });
+  }
+  out.annotations = annotations;
+  return out;
+}
+
+/** Hover text per cell of a panel (already escaped, lines joined by <br>): coordinates, placement, habitability, probability. */
+function hoverMatrix(meta: SweepMeta, a: Axes2, p: Panel): string[][] {
   const fo = meta.forecast_only;
-  const xa = meta.axes[a.layout.xAxis];
-  const ya = meta.axes[a.layout.yAxis as number];
-  return gridMatrix(a.layout, () => 0).map((row, j) =>
+  const xa = meta.axes[p.layout.xAxis];
+  const ya = meta.axes[p.layout.yAxis as number];
+  return gridMatrix(p.layout, () => 0).map((row, j) =>
     row.map((_, i) => {
-      const c = a.layout.cellAt(i, j);
+      const c = p.layout.cellAt(i, j);
       if (!c) return 'not in this output';
       const lines = [
-        `cell ${c.index}: ${formatDisplay(a.yd, ya.values[j])}, ${formatDisplay(a.xd, xa.values[i])}`,
+        `cell ${c.index}: ${formatDisplay(a.yd, ya.values[j])}, ${formatDisplay(a.xd, xa.values[i])}${p.label ? `, ${p.label}` : ''}`,
         `placement: ${String(c.placement ?? '?')}; energy budget: ${String(c.habitability ?? '?')}`,
       ];
       if (fo) lines.push(`forecast joint ${pct(num(c, 'forecast_joint'))}, TTV ${pct(num(c, 'forecast_ttv'))}, TDV ${pct(num(c, 'forecast_tdv'))}`);
@@ -88,11 +172,11 @@ function pct(p: number | null): string {
 }
 
 /** Markers on cells whose moon is not physically allowed, one trace per label. */
-function placementTraces(a: Axes2): unknown[] {
+function placementTraces(a: Axes2, p: Panel): Array<Record<string, unknown>> {
   const groups = new Map<string, { x: number[]; y: number[] }>();
-  for (let j = 0; j < a.layout.ny; j++) {
-    for (let i = 0; i < a.layout.nx; i++) {
-      const c = a.layout.cellAt(i, j);
+  for (let j = 0; j < p.layout.ny; j++) {
+    for (let i = 0; i < p.layout.nx; i++) {
+      const c = p.layout.cellAt(i, j);
       if (!c || c.stable === true || typeof c.placement !== 'string') continue;
       for (const label of c.placement.split('; ')) {
         if (label === 'stable' || label === 'no moon') continue;
@@ -112,11 +196,11 @@ function placementTraces(a: Axes2): unknown[] {
 }
 
 /** Vertical and horizontal lines of the base scenario's limits (mass × separation maps only). */
-function boundaryTraces(meta: SweepMeta, a: Axes2, b: PhysicalBoundaries | null): unknown[] {
+function boundaryTraces(meta: SweepMeta, a: Axes2, b: PhysicalBoundaries | null, p: Panel): Array<Record<string, unknown>> {
   if (!b) return [];
-  const xf = meta.axes[a.layout.xAxis].field;
-  const yf = meta.axes[a.layout.yAxis as number].field;
-  const out: unknown[] = [];
+  const xf = meta.axes[p.layout.xAxis].field;
+  const yf = meta.axes[p.layout.yAxis as number].field;
+  const out: Array<Record<string, unknown>> = [];
   const yLo = Math.min(a.yEdges[0], a.yEdges[a.yEdges.length - 1]);
   const yHi = Math.max(a.yEdges[0], a.yEdges[a.yEdges.length - 1]);
   const xLo = Math.min(a.xEdges[0], a.xEdges[a.xEdges.length - 1]);
@@ -138,7 +222,7 @@ function boundaryTraces(meta: SweepMeta, a: Axes2, b: PhysicalBoundaries | null)
   return out;
 }
 
-function contourTrace(z: unknown, a: Axes2, level: number, dash: string): unknown {
+function contourTrace(z: unknown, a: Axes2, level: number, dash: string): Record<string, unknown> {
   return {
     type: 'contour', x: a.x, y: a.y, z, showscale: false, hoverinfo: 'skip', name: `${Math.round(level * 100)} % contour`,
     autocontour: false, contours: { coloring: 'none', start: level, end: level, size: 1, showlabels: true, labelfont: { color: '#fff', size: 12 } },
@@ -147,7 +231,9 @@ function contourTrace(z: unknown, a: Axes2, level: number, dash: string): unknow
 }
 
 function mapTitle(meta: SweepMeta, channel: MapChannel): string {
-  return `Detection probability, ${CHANNEL_LABELS[channel]}${meta.forecast_only ? ' (analytic forecast)' : ''}`;
+  const below = channel === 'combined' && !meta.forecast_only ? '; can be below a single channel, tested at α' : '';
+  const forecast = meta.forecast_only && channel !== 'combined' ? ' (analytic forecast)' : '';
+  return `Detection probability, ${channelLabel(channel, meta.forecast_only)}${below}${forecast}`;
 }
 
 /** The map's title per channel (the selector sets it). */
@@ -155,54 +241,91 @@ export function mapTitles(meta: SweepMeta): Record<MapChannel, string> {
   return Object.fromEntries(MAP_CHANNELS.map((ch) => [ch, mapTitle(meta, ch)])) as Record<MapChannel, string>;
 }
 
+/** Bottom margin of a faceted map, px, and the legend's place: 70 px below the plot area, clear of the x-axis title. */
+const FACET_MARGIN_B = 90;
+const FACET_LEGEND_Y = (heightPx: number): number => -70 / (heightPx - 80 - FACET_MARGIN_B);
+
+/** Height of a map of `rows` rows of panels, px. */
+function mapHeight(rows: number): number {
+  return rows <= 1 ? 640 : 120 + 330 * rows;
+}
+
+/** Line colours of the panels on the minimum-detectable plot: dark blue to olive along the facet axis (Cividis end points). */
+function facetColour(k: number, n: number): string {
+  const from = [0x00, 0x20, 0x4c];
+  const to = [0xa6, 0x9d, 0x5a];
+  const t = n <= 1 ? 0 : k / (n - 1);
+  return `#${from.map((c, i) => Math.round(c + t * (to[i] - c)).toString(16).padStart(2, '0')).join('')}`;
+}
+
 function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: PhysicalBoundaries | null, summary: SweepSummary): GridFigures {
   const a = axes2(meta, cells);
   const fo = meta.forecast_only;
+  const faceted = a.panels.length > 1;
+  const perPanel = (ch: MapChannel) => a.panels.map((p) => gridMatrix(p.layout, (c) => cellProbability(c, ch, fo)));
+  const zByChannel = Object.fromEntries(MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? perPanel(ch) : null])) as Record<MapChannel, Array<Array<Array<number | null>>> | null>;
   const channelZ = Object.fromEntries(
-    MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? gridMatrix(a.layout, (c) => cellProbability(c, ch, fo)) : null]),
+    MAP_CHANNELS.map((ch) => [ch, zByChannel[ch] === null ? null : faceted ? zByChannel[ch] : (zByChannel[ch] as Array<Array<Array<number | null>>>)[0]]),
   ) as GridFigures['channelZ'];
-  const z = channelZ.combined as Array<Array<number | null>>;
-  const outline = regionOutline(a.layout, (c) => c.habitability === 'temperate', a.xEdges, a.yEdges);
-  const data: unknown[] = [
-    {
-      type: 'heatmap', x: a.x, y: a.y, z, zmin: 0, zmax: 1, colorscale: MAP_COLORSCALE, name: 'detection probability',
-      colorbar: { title: { text: 'P(detect)', side: 'right' }, tickformat: '.0%', x: 1.02, len: 0.75, y: 0.5 },
-      hovertext: hoverMatrix(meta, a), hoverinfo: 'text', showlegend: false,
-    },
-    contourTrace(z, a, 0.5, 'dash'),
-    contourTrace(z, a, 0.9, 'solid'),
-    { type: 'scatter', mode: 'lines', x: outline.x, y: outline.y, name: 'habitable region (temperate energy budget)', line: { color: '#1b9e77', width: 4 }, hoverinfo: 'skip', connectgaps: false },
-    ...boundaryTraces(meta, a, b),
-    ...placementTraces(a),
-  ];
+  const combined = zByChannel.combined as Array<Array<Array<number | null>>>;
+  const data: unknown[] = [];
+  const mapTraces: number[] = [];
+  const mapTraceFacet: number[] = [];
+  a.panels.forEach((p, k) => {
+    const z = combined[k];
+    const outline = regionOutline(p.layout, (c) => c.habitability === 'temperate', a.xEdges, a.yEdges);
+    mapTraces.push(data.length, data.length + 1, data.length + 2);
+    mapTraceFacet.push(k, k, k);
+    const traces: Array<Record<string, unknown>> = [
+      {
+        // Every panel on the same colour scale (zmin 0, zmax 1); the first shows it.
+        type: 'heatmap', x: a.x, y: a.y, z, zmin: 0, zmax: 1, colorscale: MAP_COLORSCALE, name: 'detection probability',
+        showscale: p.first,
+        colorbar: { title: { text: 'P(detect)', side: 'right' }, tickformat: '.0%', x: 1.02, len: 0.75, y: 0.5 },
+        hovertext: hoverMatrix(meta, a, p), hoverinfo: 'text', showlegend: false,
+      },
+      contourTrace(z, a, 0.5, 'dash'),
+      contourTrace(z, a, 0.9, 'solid'),
+      { type: 'scatter', mode: 'lines', x: outline.x, y: outline.y, name: 'habitable region (temperate energy budget)', line: { color: '#1b9e77', width: 4 }, hoverinfo: 'skip', connectgaps: false },
+      ...boundaryTraces(meta, a, b, p),
+      ...placementTraces(a, p),
+    ];
+    for (const t of traces) data.push(onPanel(t, p, faceted));
+  });
+  const mapHeightPx = mapHeight(a.rows);
   const figures: Figure[] = [
     {
       id: 'map',
       data,
       layout: {
         title: { text: mapTitle(meta, 'combined') },
-        xaxis: axisLayout(a.xd, a.xEdges),
-        yaxis: axisLayout(a.yd, a.yEdges),
-        legend: { orientation: 'h', y: -0.18, x: 0, font: { size: 11 } },
-        margin: { t: 50, r: 30, b: 40 },
+        ...panelAxesLayout(a),
+        legend: { orientation: 'h', ...(faceted ? { y: FACET_LEGEND_Y(mapHeightPx), yanchor: 'top' } : { y: -0.18 }), x: 0, font: { size: 11 } },
+        margin: { t: faceted ? 80 : 50, r: 30, b: faceted ? FACET_MARGIN_B : 40 },
         plot_bgcolor: '#f4f4f4',
+        ...(faceted ? { height: mapHeightPx } : {}),
       },
     },
   ];
   const md = summary.min_detectable;
   if (md) {
-    const line = (pts: typeof md.level_50, level: string, dash: string) => ({
-      type: 'scatter', mode: 'lines+markers', name: `${level} detection probability`,
-      x: pts.map((p) => p.x / a.xd.divisor), y: pts.map((p) => (p.y === null ? null : p.y / a.yd.divisor)),
-      line: { dash, width: 2.5, color: level === '90 %' ? '#00204c' : '#7c7b78' },
-      marker: { symbol: pts.map((p) => (p.atGridEdge ? 'triangle-down' : 'circle')), size: 8 },
-      connectgaps: false,
-    });
+    const fa = a.fd && md.facet_field ? meta.axes.find((ax) => ax.field === md.facet_field) : undefined;
+    const groups = fa ? fa.values.map((v, k) => ({ k, v, label: a.panels[k]?.label ?? '' })) : [{ k: 0, v: undefined as number | undefined, label: '' }];
+    const line = (pts: typeof md.level_50, level: string, dash: string, g: (typeof groups)[number]) => {
+      const mine = g.v === undefined ? pts : pts.filter((p) => p.facet === g.v);
+      return {
+        type: 'scatter', mode: 'lines+markers', name: `${level} detection probability${g.label ? `, ${g.label}` : ''}`,
+        x: mine.map((p) => p.x / a.xd.divisor), y: mine.map((p) => (p.y === null ? null : p.y / a.yd.divisor)),
+        line: { dash, width: 2.5, color: g.v === undefined ? (level === '90 %' ? '#00204c' : '#7c7b78') : facetColour(g.k, groups.length) },
+        marker: { symbol: mine.map((p) => (p.atGridEdge ? 'triangle-down' : 'circle')), size: 8 },
+        connectgaps: false,
+      };
+    };
     const yName = a.yd.title;
     const what = md.direction === 'increasing' ? 'minimum detectable' : 'largest detectable';
     figures.push({
       id: 'mindet',
-      data: [line(md.level_50, '50 %', 'dash'), line(md.level_90, '90 %', 'solid')],
+      data: groups.flatMap((g) => [line(md.level_50, '50 %', 'dash', g), line(md.level_90, '90 %', 'solid', g)]),
       layout: {
         title: { text: `${what[0].toUpperCase()}${what.slice(1)} ${yName.replace(/ \(.*\)$/, '')} at 50 % and 90 %` },
         xaxis: { ...axisLayout(a.xd, a.xEdges) },
@@ -213,41 +336,45 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
     });
   }
   if (!fo) {
-    const diff = gridMatrix(a.layout, (c) => {
-      const p = cellProbability(c, 'ttv', false);
-      const f = num(c, 'forecast_ttv');
-      return p === null || f === null ? null : p - f;
-    });
-    const ox: number[] = [];
-    const oy: number[] = [];
-    for (let j = 0; j < a.layout.ny; j++) {
-      for (let i = 0; i < a.layout.nx; i++) {
-        if (a.layout.cellAt(i, j)?.forecast_ttv_outside_interval === true) {
-          ox.push(a.x[i]);
-          oy.push(a.y[j]);
+    const diffData: unknown[] = [];
+    a.panels.forEach((p) => {
+      const diff = gridMatrix(p.layout, (c) => {
+        const pr = cellProbability(c, 'ttv', false);
+        const f = num(c, 'forecast_ttv');
+        return pr === null || f === null ? null : pr - f;
+      });
+      const ox: number[] = [];
+      const oy: number[] = [];
+      for (let j = 0; j < p.layout.ny; j++) {
+        for (let i = 0; i < p.layout.nx; i++) {
+          if (p.layout.cellAt(i, j)?.forecast_ttv_outside_interval === true) {
+            ox.push(a.x[i]);
+            oy.push(a.y[j]);
+          }
         }
       }
-    }
+      diffData.push(
+        onPanel({
+          type: 'heatmap', x: a.x, y: a.y, z: diff, zmin: -1, zmax: 1, zmid: 0, colorscale: 'RdBu', name: 'Monte Carlo − forecast', showscale: p.first,
+          colorbar: { title: { text: 'MC − forecast', side: 'right' }, tickformat: '+.0%' }, hovertemplate: 'MC − forecast: %{z:+.0%}<extra></extra>', showlegend: false,
+        }, p, faceted),
+        onPanel({ type: 'scatter', mode: 'markers', x: ox, y: oy, name: 'forecast outside the Monte Carlo 95 % interval', marker: { symbol: 'circle-open', size: 11, color: '#000', line: { width: 2 } }, hoverinfo: 'skip' }, p, faceted),
+      );
+    });
     figures.push({
       id: 'mcdiff',
-      data: [
-        {
-          type: 'heatmap', x: a.x, y: a.y, z: diff, zmin: -1, zmax: 1, zmid: 0, colorscale: 'RdBu', name: 'Monte Carlo − forecast',
-          colorbar: { title: { text: 'MC − forecast', side: 'right' }, tickformat: '+.0%' }, hovertemplate: 'MC − forecast: %{z:+.0%}<extra></extra>', showlegend: false,
-        },
-        { type: 'scatter', mode: 'markers', x: ox, y: oy, name: 'forecast outside the Monte Carlo 95 % interval', marker: { symbol: 'circle-open', size: 11, color: '#000', line: { width: 2 } }, hoverinfo: 'skip' },
-      ],
+      data: diffData,
       layout: {
         title: { text: 'TTV channel: Monte Carlo detection probability minus the analytic forecast' },
-        xaxis: axisLayout(a.xd, a.xEdges),
-        yaxis: axisLayout(a.yd, a.yEdges),
-        legend: { orientation: 'h', y: -0.18 },
-        margin: { t: 50 },
+        ...panelAxesLayout(a),
+        legend: { orientation: 'h', ...(faceted ? { y: FACET_LEGEND_Y(mapHeightPx), yanchor: 'top' } : { y: -0.18 }) },
+        margin: { t: faceted ? 80 : 50, b: faceted ? FACET_MARGIN_B : undefined },
         plot_bgcolor: '#f4f4f4',
+        ...(faceted ? { height: mapHeightPx } : {}),
       },
     });
   }
-  return { figures, channelZ, twoAxis: true };
+  return { figures, channelZ, twoAxis: true, mapTraces: faceted ? mapTraces : MAP_Z_TRACES, mapTraceFacet: faceted ? mapTraceFacet : [0, 0, 0], faceted, mapHeightPx };
 }
 
 export function channelAvailable(meta: SweepMeta, ch: MapChannel): boolean {
@@ -272,13 +399,14 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
     const lo = x.map((_, i) => (fo ? null : num(at(i), `p_${ch}_lo`)));
     const hi = x.map((_, i) => (fo ? null : num(at(i), `p_${ch}_hi`)));
     data.push({
-      type: 'scatter', mode: 'lines+markers', x, y, name: CHANNEL_LABELS[ch],
+      type: 'scatter', mode: 'lines+markers', x, y, name: channelLabel(ch, fo),
       line: { width: ch === 'combined' ? 3.5 : 2, color: colors[ch], dash: ch === 'combined' ? 'solid' : ch === 'ttv' ? 'dash' : ch === 'tdv' ? 'dot' : 'dashdot' },
       error_y: fo ? undefined : { type: 'data', symmetric: false, array: y.map((p, i) => (p === null || hi[i] === null ? null : (hi[i] as number) - p)), arrayminus: y.map((p, i) => (p === null || lo[i] === null ? null : p - (lo[i] as number))), thickness: 1, width: 3 },
     });
   }
   const shapes: unknown[] = [0.5, 0.9].map((lv) => ({ type: 'line', xref: 'paper', x0: 0, x1: 1, y0: lv, y1: lv, line: { dash: lv === 0.5 ? 'dash' : 'solid', color: '#888', width: 1 } }));
   const edges = cellEdges(x, d.log);
+  const oneAxisX = { title: { text: d.title }, type: d.log ? 'log' : 'linear', ...(d.log ? logTickLayout(Math.min(...x), Math.max(...x)) : {}) };
   x.forEach((_, i) => {
     const c = at(i);
     if (c?.habitability === 'temperate') shapes.push({ type: 'rect', xref: 'x', yref: 'paper', x0: edges[i], x1: edges[i + 1], y0: 0, y1: 1, fillcolor: '#1b9e77', opacity: 0.12, line: { width: 0 }, layer: 'below' });
@@ -293,7 +421,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
       data,
       layout: {
         title: { text: `Detection probability against ${d.title}${fo ? ' (analytic forecast)' : ''}; green band: temperate energy budget` },
-        xaxis: { title: { text: d.title }, type: d.log ? 'log' : 'linear' },
+        xaxis: oneAxisX,
         yaxis: { title: { text: 'detection probability' }, range: [-0.03, 1.03], tickformat: '.0%' },
         shapes,
         legend: { orientation: 'h', y: -0.2 },
@@ -317,17 +445,17 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
       ],
       layout: {
         title: { text: 'TTV channel: Monte Carlo against the analytic forecast' },
-        xaxis: { title: { text: d.title }, type: d.log ? 'log' : 'linear' },
+        xaxis: oneAxisX,
         yaxis: { title: { text: 'detection probability' }, range: [-0.03, 1.03], tickformat: '.0%' },
         legend: { orientation: 'h', y: -0.2 },
         margin: { t: 50 },
       },
     });
   }
-  return { figures, channelZ, twoAxis: false };
+  return { figures, channelZ, twoAxis: false, mapTraces: [], mapTraceFacet: [], faceted: false, mapHeightPx: 640 };
 }
 
 /** Every grid figure of a sweep. */
 export function gridFigures(meta: SweepMeta, cells: readonly CellResult[], boundaries: PhysicalBoundaries | null, summary: SweepSummary): GridFigures {
-  return meta.axes.length === 2 ? twoAxisFigures(meta, cells, boundaries, summary) : oneAxisFigures(meta, cells);
+  return meta.axes.length >= 2 ? twoAxisFigures(meta, cells, boundaries, summary) : oneAxisFigures(meta, cells);
 }

@@ -20,6 +20,8 @@ export interface MinDetectablePoint {
   /** Minimum detectable y (SI), or null when no cell in the column reaches the level. */
   y: number | null;
   atGridEdge: boolean;
+  /** On a three-axis grid: the panel's value (SI) of the facet axis (see reportGrid.ts); absent otherwise. */
+  facet?: number;
 }
 
 export function minDetectable(

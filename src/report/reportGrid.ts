@@ -9,7 +9,27 @@ import type { SweepMeta, SweepAxisMeta } from '../sweep/sweepMeta.js';
 
 export type MapChannel = 'combined' | 'ttv' | 'tdv' | 'dip';
 export const MAP_CHANNELS: readonly MapChannel[] = ['combined', 'ttv', 'tdv', 'dip'];
-export const CHANNEL_LABELS: Record<MapChannel, string> = { combined: 'combined (any channel)', ttv: 'TTV', tdv: 'TDV', dip: 'moon dip' };
+export const CHANNEL_LABELS: Record<MapChannel, string> = { combined: 'combined (any channel, each at α/3)', ttv: 'TTV', tdv: 'TDV', dip: 'moon dip' };
+
+/** A channel's label; in a forecast-only run "combined" is the joint TTV + TDV forecast. */
+export function channelLabel(ch: MapChannel, forecastOnly: boolean): string {
+  return forecastOnly && ch === 'combined' ? 'combined (joint TTV + TDV forecast)' : CHANNEL_LABELS[ch];
+}
+
+/**
+ * What "combined" means, in one sentence for the map and the summary: in a
+ * Monte Carlo run a detection in any of the three channels, each tested at
+ * α/3 so that the three together keep the false-alarm probability α
+ * (Bonferroni 1936; Dunn 1961, JASA 56, 52); a single channel's map tests
+ * that channel alone at α, so where one channel carries the signal the
+ * combined probability can read below it.
+ */
+export function combinedMeaning(forecastOnly: boolean, alpha: number): string {
+  const a = String(Number(alpha.toPrecision(3)));
+  return forecastOnly
+    ? `"combined" is the analytic joint TTV + TDV test at the false-alarm probability α = ${a}.`
+    : `"combined" counts a detection in any of TTV, TDV and moon dip, each tested at α/3 = ${String(Number((alpha / 3).toPrecision(3)))} so that the three together keep the false-alarm probability α = ${a} (Bonferroni); a single channel's map tests that channel alone at α, so where one channel carries the signal the combined probability can be below it.`;
+}
 
 /** The cell field holding a channel's detection probability, or null when the run has none. */
 export function channelField(channel: MapChannel, forecastOnly: boolean): string | null {
@@ -35,35 +55,51 @@ export interface GridLayout {
   /** Index into meta.axes of the axis drawn across (x) and up (y); y is null for a 1-axis sweep. */
   xAxis: number;
   yAxis: number | null;
+  /** Index into meta.axes of the axis drawn as small multiples (one panel per value), null with fewer than 3 axes. */
+  facetAxis: number | null;
+  /** The panel (index on the facet axis) this layout reads; 0 without a facet axis. */
+  facet: number;
+  /** Number of panels (values of the facet axis; 1 without one). */
+  nFacets: number;
   nx: number;
   ny: number;
-  /** Cell at column i (x), row j (y); undefined where the output lacks it (a shard). */
+  /** Cell at column i (x), row j (y) of this panel; undefined where the output lacks it (a shard). */
   cellAt(i: number, j: number): CellResult | undefined;
 }
 
 /**
- * Axis placement: with two axes, y is the moon mass when it is swept (so the
- * minimum detectable mass reads upward), else the first axis; x is the other.
+ * Which axes the map draws where: y is the moon mass when it is swept (so the
+ * minimum detectable mass reads upward), else the first axis; x is the first
+ * other axis; with three axes the remaining one (the third, unless the moon
+ * mass is third) is drawn as small multiples, one panel per value.
  */
-export function gridLayout(meta: SweepMeta, cells: readonly CellResult[]): GridLayout {
+export function axisRoles(meta: Pick<SweepMeta, 'axes'>): { xAxis: number; yAxis: number | null; facetAxis: number | null } {
+  const n = meta.axes.length;
+  if (n === 1) return { xAxis: 0, yAxis: null, facetAxis: null };
+  const massAxis = meta.axes.findIndex((a) => a.field === 'moon.mass');
+  const yAxis = massAxis >= 0 ? massAxis : 0;
+  const rest = meta.axes.map((_, k) => k).filter((k) => k !== yAxis);
+  return { xAxis: rest[0], yAxis, facetAxis: n >= 3 ? rest[1] : null };
+}
+
+/** The grid of one panel (`facet`: index on the facet axis; ignored without one). */
+export function gridLayout(meta: SweepMeta, cells: readonly CellResult[], facet = 0): GridLayout {
   const byIndex = new Map<number, CellResult>();
   for (const c of cells) byIndex.set(c.index, c);
   const axes = meta.axes;
-  if (axes.length === 1) {
-    return { xAxis: 0, yAxis: null, nx: axes[0].values.length, ny: 1, cellAt: (i) => byIndex.get(i) };
+  const { xAxis, yAxis, facetAxis } = axisRoles(meta);
+  if (yAxis === null) {
+    return { xAxis: 0, yAxis: null, facetAxis: null, facet: 0, nFacets: 1, nx: axes[0].values.length, ny: 1, cellAt: (i) => byIndex.get(i) };
   }
-  const massAxis = axes.findIndex((a) => a.field === 'moon.mass');
-  const yAxis = massAxis >= 0 ? massAxis : 0;
-  const xAxis = 1 - yAxis;
-  const n1 = axes[1].values.length;
+  // Row-major strides, last axis fastest (src/sweep/grid.ts).
+  const stride = axes.map((_, a) => axes.slice(a + 1).reduce((n, b) => n * b.values.length, 1));
+  const nFacets = facetAxis === null ? 1 : axes[facetAxis].values.length;
+  if (!Number.isInteger(facet) || facet < 0 || facet >= nFacets) throw new RangeError(`facet must be an integer from 0 to ${nFacets - 1}, got ${facet}`);
+  const base = facetAxis === null ? 0 : facet * stride[facetAxis];
   const nx = axes[xAxis].values.length;
   const ny = axes[yAxis].values.length;
-  const cellAt = (i: number, j: number): CellResult | undefined => {
-    const i0 = yAxis === 0 ? j : i;
-    const i1 = yAxis === 0 ? i : j;
-    return byIndex.get(i0 * n1 + i1);
-  };
-  return { xAxis, yAxis, nx, ny, cellAt };
+  const cellAt = (i: number, j: number): CellResult | undefined => byIndex.get(base + i * stride[xAxis] + j * stride[yAxis]);
+  return { xAxis, yAxis, facetAxis, facet: facetAxis === null ? 0 : facet, nFacets, nx, ny, cellAt };
 }
 
 /** z[row j][col i] of any per-cell quantity (null where undefined). */

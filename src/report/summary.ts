@@ -71,6 +71,8 @@ export interface SweepSummary {
     y_field: string;
     direction: 'increasing' | 'decreasing';
     x_field: string;
+    /** On a three-axis grid, the axis drawn as small multiples; each point then carries its `facet` value, panel after panel. */
+    facet_field?: string;
     level_50: MinDetectablePoint[];
     level_90: MinDetectablePoint[];
   } | null;
@@ -107,23 +109,32 @@ function lightest(cs: Array<{ c: CellResult; p: number }>): SummaryCell | null {
 }
 
 /** Fields along which a larger value makes a moon easier to detect. */
-const EASIER_WHEN_LARGER = new Set(['moon.mass', 'moon.radius', 'moon.separation', 'observation.transits', 'observation.baseline', 'moon.density']);
+const EASIER_WHEN_LARGER = new Set([
+  'moon.mass', 'moon.radius', 'moon.separation', 'observation.transits', 'observation.baseline', 'moon.density',
+  'instrument.ground.aperture', 'instrument.ground.throughput', 'observation.duty_cycle', 'detection.false_alarm',
+]);
 /** Fields along which a larger value makes it harder. */
-const HARDER_WHEN_LARGER = new Set(['instrument.noise', 'instrument.cadence', 'instrument.exposure', 'star.radius', 'planet.mass']);
+const HARDER_WHEN_LARGER = new Set([
+  'instrument.noise', 'instrument.cadence', 'instrument.exposure', 'star.radius', 'planet.mass',
+  'instrument.red_noise.amplitude', 'instrument.ground.magnitude', 'instrument.ground.airmass', 'instrument.ground.floor',
+  'instrument.ground.scintillation_coefficient', 'observation.missed_fraction',
+]);
 
-/** Whether detection improves ('increasing') or worsens ('decreasing') along the y axis: known fields, else the data. */
-function detectionDirection(layout: GridLayout, field: string, yValues: readonly number[], prob: (c: CellResult) => number | null): 'increasing' | 'decreasing' {
+/** Whether detection improves ('increasing') or worsens ('decreasing') along the y axis: known fields, else the data (all panels). */
+function detectionDirection(layouts: readonly GridLayout[], field: string, yValues: readonly number[], prob: (c: CellResult) => number | null): 'increasing' | 'decreasing' {
   if (EASIER_WHEN_LARGER.has(field)) return 'increasing';
   if (HARDER_WHEN_LARGER.has(field)) return 'decreasing';
   const jLo = yValues.indexOf(Math.min(...yValues));
   const jHi = yValues.indexOf(Math.max(...yValues));
   let lo = 0;
   let hi = 0;
-  for (let i = 0; i < layout.nx; i++) {
-    const a = layout.cellAt(i, jLo);
-    const b = layout.cellAt(i, jHi);
-    lo += (a && prob(a)) ?? 0;
-    hi += (b && prob(b)) ?? 0;
+  for (const layout of layouts) {
+    for (let i = 0; i < layout.nx; i++) {
+      const a = layout.cellAt(i, jLo);
+      const b = layout.cellAt(i, jHi);
+      lo += (a && prob(a)) ?? 0;
+      hi += (b && prob(b)) ?? 0;
+    }
   }
   return hi >= lo ? 'increasing' : 'decreasing';
 }
@@ -148,18 +159,25 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
   const fa = sorted.filter((c) => c.simulated === true).map((c) => num(c, 'false_alarm_measured_combined')).filter((x): x is number => x !== null);
 
   let minDet: SweepSummary['min_detectable'] = null;
-  if (meta.axes.length === 2) {
-    const layout = gridLayout(meta, sorted);
-    const xa = meta.axes[layout.xAxis];
-    const ya = meta.axes[layout.yAxis as number];
+  if (meta.axes.length >= 2) {
+    const first = gridLayout(meta, sorted);
+    const layouts = Array.from({ length: first.nFacets }, (_, k) => (k === 0 ? first : gridLayout(meta, sorted, k)));
+    const xa = meta.axes[first.xAxis];
+    const ya = meta.axes[first.yAxis as number];
+    const fa = first.facetAxis === null ? null : meta.axes[first.facetAxis];
     const ylog = ya.spacing === 'log';
-    const direction = detectionDirection(layout, ya.field, ya.values, prob);
+    const direction = detectionDirection(layouts, ya.field, ya.values, prob);
+    const level = (lv: number): MinDetectablePoint[] => layouts.flatMap((layout, k) => {
+      const pts = minDetectable(layout, xa.values, ya.values, ylog, prob, lv, direction);
+      return fa ? pts.map((p) => ({ ...p, facet: fa.values[k] })) : pts;
+    });
     minDet = {
       y_field: ya.field,
       direction,
       x_field: xa.field,
-      level_50: minDetectable(layout, xa.values, ya.values, ylog, prob, 0.5, direction),
-      level_90: minDetectable(layout, xa.values, ya.values, ylog, prob, 0.9, direction),
+      ...(fa ? { facet_field: fa.field } : {}),
+      level_50: level(0.5),
+      level_90: level(0.9),
     };
   }
 

@@ -7,6 +7,7 @@
  */
 import { escapeHtml } from './escape.js';
 import { axisDisplay, formatNumber } from './axisDisplay.js';
+import { combinedMeaning } from './reportGrid.js';
 import type { SweepSummary, SummaryCell } from './summary.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
 
@@ -25,9 +26,10 @@ function span(key: string, v: number, format: Format, unit = '', divisor = 1): s
   return `<span class="num" data-summary-key="${escapeHtml(key)}" data-value="${escapeHtml(JSON.stringify(v))}" data-divisor="${divisor}" data-format="${format}">${escapeHtml(text)}</span>`;
 }
 
-/** An axis value (SI) in the axis's display unit. */
-function axisSpan(key: string, v: number, field: string, unit: string): string {
-  const d = axisDisplay({ field, unit, spacing: 'linear' });
+/** An axis value (SI) in the axis's display unit (the sweep's axis when it has the field, for its unit choices). */
+function axisSpan(key: string, v: number, field: string, unit: string, meta?: SweepMeta): string {
+  const axis = meta?.axes.find((a) => a.field === field);
+  const d = axisDisplay(axis ? { ...axis, spacing: 'linear' } : { field, unit, spacing: 'linear' });
   return span(key, v, 'sig3', d.unitLabel, d.divisor);
 }
 
@@ -41,7 +43,7 @@ function describeCell(key: string, c: SummaryCell, meta: SweepMeta): string {
     .filter(({ a }) => a.field !== 'moon.mass' && a.field !== 'moon.separation')
     .map(({ a, k }) => {
       const d = axisDisplay(a);
-      return `${escapeHtml(d.title.replace(/ \(.*\)$/, ''))} ${axisSpan(`${key}.coords.${k}`, c.coords[k], a.field, a.unit)}`;
+      return `${escapeHtml(d.title.replace(/ \(.*\)$/, ''))} ${axisSpan(`${key}.coords.${k}`, c.coords[k], a.field, a.unit, meta)}`;
     });
   if (other.length) parts.push(`with ${other.join(', ')}`);
   parts.push(`(cell ${span(`${key}.index`, c.index, 'count')}, probability ${span(`${key}.probability`, c.probability, 'percent')})`);
@@ -54,6 +56,7 @@ export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
     ? 'analytic forecast only (no simulations were run: <code>--forecast-only</code>); probabilities are the joint TTV/TDV forecast'
     : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (TTV, TDV or moon dip), per-channel false-alarm probability ${span('false_alarm_requested', s.false_alarm_requested, 'sig3')}`;
   out.push(`<p><strong>Basis:</strong> ${basis}.</p>`);
+  out.push(`<p class="note" data-role="combined-meaning">${escapeHtml(combinedMeaning(s.basis === 'forecast', s.false_alarm_requested))}</p>`);
   const hz = `Of the ${span('cells', s.cells, 'count')} cells, ${span('cells_habitable', s.cells_habitable, 'count')} hold a habitable-zone moon (physically allowed and with a temperate energy budget).`;
   if (s.cells_habitable > 0) {
     let t = `${hz} Detected with at least 90 % probability: ${span('habitable_detected_90', s.habitable_detected_90, 'count')}`;
@@ -68,7 +71,7 @@ export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
     if (!s.moon_mass_varies && s.habitable_detected_90_axis_ranges.length) {
       const r = s.habitable_detected_90_axis_ranges.map((a, k) => {
         const d = axisDisplay({ field: a.field, unit: a.unit, spacing: 'linear' });
-        return `${escapeHtml(d.title.replace(/ \(.*\)$/, ''))} from ${axisSpan(`habitable_detected_90_axis_ranges.${k}.min`, a.min, a.field, a.unit)} to ${axisSpan(`habitable_detected_90_axis_ranges.${k}.max`, a.max, a.field, a.unit)}`;
+        return `${escapeHtml(d.title.replace(/ \(.*\)$/, ''))} from ${axisSpan(`habitable_detected_90_axis_ranges.${k}.min`, a.min, a.field, a.unit, meta)} to ${axisSpan(`habitable_detected_90_axis_ranges.${k}.max`, a.max, a.field, a.unit, meta)}`;
       });
       out.push(`<p>The habitable-zone cells detected at 90 % span ${r.join('; ')}.</p>`);
     }

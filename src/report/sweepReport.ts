@@ -21,7 +21,9 @@ import { computeExampleCells, type ExampleCell } from './exampleCells.js';
 import { exampleFigures } from './exampleFigures.js';
 import { assumptionRows } from './assumptionsTable.js';
 import { axisDisplay, formatDisplay, formatNumber } from './axisDisplay.js';
-import { CHANNEL_LABELS, MAP_CHANNELS } from './reportGrid.js';
+import { MAP_CHANNELS, axisRoles, channelLabel, combinedMeaning } from './reportGrid.js';
+import { parseQuantity } from '../scenario/units.js';
+import { R_EARTH_M, R_JUP_M } from '../physics/constants.js';
 
 export interface SweepReportInput {
   meta: SweepMeta;
@@ -38,6 +40,31 @@ export interface SweepReportInput {
   examples?: ExampleCell[];
   /** The summary; built with buildSummary(meta, cells) when omitted. */
   summary?: SweepSummary;
+}
+
+/**
+ * The planet-mass caution: a planet-mass axis with the radius held at the
+ * scenario's value (no radius axis, and a radius written as a length rather
+ * than left to a mass–radius relation).
+ */
+export function planetMassCaution(meta: SweepMeta, scenarioDoc: unknown): string | null {
+  const fields = new Set(meta.axes.map((a) => a.field));
+  if (!fields.has('planet.mass') || fields.has('planet.radius')) return null;
+  const planet = scenarioDoc !== null && typeof scenarioDoc === 'object' ? (scenarioDoc as Record<string, unknown>).planet : undefined;
+  const radius = planet !== null && typeof planet === 'object' ? (planet as Record<string, unknown>).radius : undefined;
+  let fixed = scenarioDoc === null || scenarioDoc === undefined;
+  let radiusText = '';
+  if (radius !== undefined && radius !== null) {
+    try {
+      const r = parseQuantity(radius, 'planet.radius', 'length');
+      fixed = true;
+      radiusText = ` at ${formatNumber(r / R_JUP_M)} R_J (${formatNumber(r / R_EARTH_M)} R⊕)`;
+    } catch {
+      fixed = false; // not a plain length: a relation or other rule sets it
+    }
+  }
+  if (!fixed) return null;
+  return `The planet-mass axis keeps the planet's radius fixed${radiusText}: along the axis the planet's bulk density, and with it the moon's Roche limit, changes as it would not for real planets of those masses, and the transit depth and duration stay the same. Give a mass–radius relation to let the radius follow.`;
 }
 
 const CAUTIONS = [
@@ -79,16 +106,16 @@ export function renderSweepReport(input: SweepReportInput): string {
 
   const buttons = MAP_CHANNELS.map((ch) => {
     const ok = grid.channelZ[ch] !== null;
-    return `<button type="button" data-channel="${ch}" aria-pressed="${ch === 'combined'}"${ok ? '' : ' disabled title="not available in a forecast-only run"'}>${escapeHtml(CHANNEL_LABELS[ch])}</button>`;
+    return `<button type="button" data-channel="${ch}" aria-pressed="${ch === 'combined'}"${ok ? '' : ' disabled title="not available in a forecast-only run"'}>${escapeHtml(channelLabel(ch, meta.forecast_only))}</button>`;
   }).join('');
   const selectorScript = `<script>
-window.moonsieveMap = ${jsonForScript({ z: grid.channelZ, titles: mapTitles(meta), traces: MAP_Z_TRACES, twoAxis: grid.twoAxis, channels: MAP_CHANNELS })};
+window.moonsieveMap = ${jsonForScript({ z: grid.channelZ, titles: mapTitles(meta), traces: grid.twoAxis ? grid.mapTraces : MAP_Z_TRACES, traceFacet: grid.mapTraceFacet, faceted: grid.faceted, twoAxis: grid.twoAxis, channels: MAP_CHANNELS })};
 function moonsieveSelectChannel(ch) {
   var m = window.moonsieveMap, z = m.z[ch];
   if (!z) return;
   var el = document.getElementById('map');
   if (m.twoAxis) {
-    Plotly.restyle(el, { z: m.traces.map(function () { return z; }) }, m.traces);
+    Plotly.restyle(el, { z: m.traces.map(function (t, k) { return m.faceted ? z[m.traceFacet[k]] : z; }) }, m.traces);
     Plotly.relayout(el, { 'title.text': m.titles[ch] });
   } else {
     var vis = m.channels.map(function (c) { return c === ch ? true : 'legendonly'; });
@@ -102,13 +129,25 @@ document.addEventListener('click', function (e) {
 });
 </script>`;
 
-  const linesDrawn = boundaries !== null && meta.axes.some((a) => a.field === 'moon.separation' || a.field === 'moon.mass');
+  // The limit lines drawn (mapFigures.boundaryTraces): separations across (x), the tidal-survival mass up (y).
+  const roles = meta.axes.length >= 2 ? axisRoles(meta) : null;
+  const sepLines = boundaries !== null && roles !== null && meta.axes[roles.xAxis].field === 'moon.separation';
+  const massLine = boundaries !== null && roles !== null && roles.yAxis !== null && meta.axes[roles.yAxis].field === 'moon.mass';
+  const linesText = [
+    sepLines ? 'orange lines: Roche limit (dashed), stable limit for prograde (solid) and retrograde (dotted) moons' : '',
+    massLine ? 'pink dash-dot: the largest moon that survives tidal migration' : '',
+  ].filter((t) => t !== '').join('; ');
+  const facetAxis = grid.faceted ? meta.axes[axisRoles(meta).facetAxis as number] : null;
+  const facetNote = facetAxis ? `One map per value of ${axisDisplay(facetAxis).title}, all on the same colour scale; each panel is labelled with its value. ` : '';
   const mapNote = grid.twoAxis
-    ? `White contours at 50 % (dashed) and 90 % (solid). Green outline: cells whose energy budget is temperate (the habitable region). ${linesDrawn ? 'Orange lines: Roche limit (dashed), stable limit for prograde (solid) and retrograde (dotted) moons; pink dash-dot: the largest moon that survives tidal migration (base scenario; shown where the axes are moon separation and mass). ' : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits)${meta.forecast_only ? '' : '; they are not simulated and left blank'}. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
+    ? `${facetNote}White contours at 50 % (dashed) and 90 % (solid). Green outline: cells whose energy budget is temperate (the habitable region). ${linesText ? `${linesText[0].toUpperCase()}${linesText.slice(1)} (of the base scenario). ` : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits)${meta.forecast_only ? '' : '; they are not simulated and left blank'}. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
     : 'Lines: detection probability per channel with 95 % Wilson intervals; grey lines at 50 % and 90 %; green bands: temperate energy budget; crosses: cells whose moon is not physically allowed.';
+  const cautions = [...CAUTIONS];
+  const massCaution = planetMassCaution(meta, scenarioDoc);
+  if (massCaution) cautions.push(massCaution);
   const mcSection = meta.forecast_only
     ? '<p>Not available: this is a forecast-only run (no Monte Carlo).</p>'
-    : `<p>Red: the simulations detect more often than the analytic forecast predicts; blue: less often. Circles mark cells where the forecast falls outside the Monte Carlo 95 % interval.</p><div id="mcdiff" class="plot"></div>`;
+    : `<p>Red: the simulations detect more often than the analytic forecast predicts; blue: less often. Circles mark cells where the forecast falls outside the Monte Carlo 95 % interval.</p><div id="mcdiff" class="plot"${grid.faceted ? ` style="height: ${grid.mapHeightPx}px"` : ''}></div>`;
   const body = `
 <header>
 <h1>Exomoon detectability: ${escapeHtml(meta.scenario)}</h1>
@@ -117,16 +156,17 @@ document.addEventListener('click', function (e) {
 ${renderSummaryHtml(summary, meta)}
 <section id="cautions" class="caution">
 <h2>Cautions</h2>
-<ul>${CAUTIONS.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
+<ul>${cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
 </section>
 <section id="map-section">
 <h2>Detectability map</h2>
 <div id="channel-select" role="group" aria-label="detection channel">Channel: ${buttons}</div>
-<div id="map" class="plot plot-tall"></div>
+<div id="map" class="plot plot-tall"${grid.faceted ? ` style="height: ${grid.mapHeightPx}px"` : ''}></div>
 <p class="note">${escapeHtml(mapNote)}</p>
+<p class="note" id="combined-note">${escapeHtml(combinedMeaning(meta.forecast_only, meta.false_alarm))}</p>
 </section>
-${ids.has('mindet') && summary.min_detectable ? `<section id="mindet-section"><h2>${summary.min_detectable.direction === 'increasing' ? 'Minimum' : 'Largest'} detectable ${escapeHtml(axisDisplay(meta.axes[summary.min_detectable.y_field === meta.axes[0].field ? 0 : 1]).title.replace(/ \(.*\)$/, ''))}</h2>
-<p class="note">For each column of the map, the ${summary.min_detectable.direction === 'increasing' ? 'smallest' : 'largest'} value reaching the level, interpolated between grid cells; triangles: already reached at the ${summary.min_detectable.direction === 'increasing' ? 'lowest' : 'highest'} grid value (the true limit lies beyond the grid); gaps: not reached on the grid.</p>
+${ids.has('mindet') && summary.min_detectable ? `<section id="mindet-section"><h2>${summary.min_detectable.direction === 'increasing' ? 'Minimum' : 'Largest'} detectable ${escapeHtml(axisDisplay(meta.axes.find((a) => a.field === summary.min_detectable?.y_field) ?? meta.axes[0]).title.replace(/ \(.*\)$/, ''))}</h2>
+<p class="note">For each column of the map, the ${summary.min_detectable.direction === 'increasing' ? 'smallest' : 'largest'} value reaching the level, interpolated between grid cells${facetAxis ? `, one pair of lines per value of ${escapeHtml(axisDisplay(facetAxis).title)}` : ''}; triangles: already reached at the ${summary.min_detectable.direction === 'increasing' ? 'lowest' : 'highest'} grid value (the true limit lies beyond the grid); gaps: not reached on the grid.</p>
 <div id="mindet" class="plot"></div></section>` : ''}
 <section id="mc-section">
 <h2>Monte Carlo against the analytic forecast</h2>

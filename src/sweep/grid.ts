@@ -1,5 +1,5 @@
 /**
- * The sweep grid: the Cartesian product of one or two axes, cells indexed
+ * The sweep grid: the Cartesian product of one to three axes, cells indexed
  * row-major (the last axis varies fastest), so cell i of a 2-axis grid with
  * counts (n0, n1) sits at axis indices (⌊i / n1⌋, i mod n1).
  */

@@ -20,6 +20,8 @@ export interface SweepAxisMeta {
   to: number;
   count: number;
   values: number[];
+  /** Level fields stated at a timescale ("50 ppm per 1 h"): that timescale, s (absent otherwise). */
+  timescale_s?: number;
 }
 
 export interface SweepMeta {
@@ -56,6 +58,7 @@ export function buildSweepMeta(scenario: Scenario, hash: string, spec: SweepSpec
     axes: spec.axes.map((a) => ({
       field: a.field, unit: a.unit, spacing: a.spacing, from_text: a.fromText, to_text: a.toText,
       from: a.from, to: a.to, count: a.count, values: a.values,
+      ...(a.timescaleS !== undefined ? { timescale_s: a.timescaleS } : {}),
     })),
     cells: spec.axes.reduce((n, a) => n * a.values.length, 1),
     notes: spec.notes,

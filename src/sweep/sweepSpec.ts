@@ -1,6 +1,7 @@
 /**
- * The `sweep:` block of a scenario: one or two axes over any numeric
- * scenario field, the realizations per cell and whether physically
+ * The `sweep:` block of a scenario: one to three axes over any numeric
+ * scenario field (nested fields by their dotted path, e.g.
+ * `instrument.ground.aperture`; the third axis is drawn as small multiples), the realizations per cell and whether physically
  * unstable cells are simulated (and, optionally, `null_realizations`: the
  * no-moon realizations that calibrate the false alarms, ≥ 20; by default
  * max(R, 200, ⌈10/α⌉)). A scenario with a moon and no sweep block
@@ -19,6 +20,18 @@
  * `stable` (the prograde or retrograde stable limit, by the moon's direction),
  * "0.3 hill" (fraction of the Hill radius) or "12 Rp" (planet radii), all of
  * the base scenario as `computeLimits` gives them.
+ *
+ * Instead of from/to/count an axis may list its values, each written as the
+ * field takes it, in increasing or decreasing order:
+ *       - {field: instrument.ground.aperture, values: ["0.4 m", "1 m", "2.5 m"], spacing: log}
+ * (`spacing` then only says how the report draws the axis).
+ *
+ * Level fields (`instrument.noise`, `instrument.red_noise.amplitude`,
+ * `instrument.ground.floor`) take endpoints as the field does: a fraction
+ * ("300 ppm") or a level at a timescale ("50 ppm per 1 h"). With a timescale
+ * the axis states every level at it (both ends must agree; an end without one
+ * takes the other's); without, the scenario's own timescale is kept (or, when
+ * the scenario writes a bare level, the values are bare levels too).
  */
 import { computeLimits } from '../physics/computeLimits.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
@@ -26,7 +39,7 @@ import { FieldReader } from '../scenario/fieldReader.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { parseQuantity, splitNumberUnit } from '../scenario/units.js';
-import { AXIS_FIELDS, axisUnit, type AxisFieldDef, type AxisWriteContext } from './axisFields.js';
+import { AXIS_FIELDS, axisUnit, parseLevel, valueAtPath, type AxisFieldDef, type AxisWriteContext } from './axisFields.js';
 import { applyAxisValues } from './applyAxes.js';
 
 export { applyAxisValues };
@@ -48,6 +61,8 @@ export interface SweepAxis {
   /** Axis values, SI. */
   values: number[];
   write: AxisWriteContext;
+  /** Level fields: the timescale, s, at which the values are stated (absent: bare levels). */
+  timescaleS?: number;
 }
 
 export interface SweepSpec {
@@ -66,6 +81,8 @@ export const DEFAULT_REALIZATIONS = 100;
 /** Fewest no-moon calibration realizations a sweep block may ask for. */
 export const MIN_NULL_REALIZATIONS = 20;
 export const MAX_AXIS_COUNT = 10000;
+/** Most axes a sweep block may give (the third is drawn as small multiples). */
+export const MAX_AXES = 3;
 
 /** The default axes, in the same form as a sweep block's. */
 export const DEFAULT_AXES: ReadonlyArray<Record<string, unknown>> = [
@@ -113,8 +130,8 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
     }
     axisDocs = base.moon ? (DEFAULT_AXES as unknown[]) : [];
     prefix = 'sweep.axes (default)';
-  } else if (!Array.isArray(axesRaw) || axesRaw.length < 1 || axesRaw.length > 2) {
-    problems.push({ path: 'sweep.axes', value: axesRaw, allowed: 'expected a list of one or two axes, each {field, from, to, count, spacing}' });
+  } else if (!Array.isArray(axesRaw) || axesRaw.length < 1 || axesRaw.length > MAX_AXES) {
+    problems.push({ path: 'sweep.axes', value: axesRaw, allowed: `expected a list of one to ${MAX_AXES} axes, each {field, from, to, count, spacing} (a third axis is drawn as small multiples, one map per value)` });
   } else {
     axisDocs = axesRaw;
   }
@@ -139,11 +156,21 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
   const before = problems.length;
   const r = new FieldReader(raw, path, problems);
   const field = r.string('field', '');
+  const valuesRaw = r.raw('values');
+  const listed = valuesRaw !== undefined && valuesRaw !== null;
   const fromRaw = r.raw('from');
   const toRaw = r.raw('to');
-  const count = r.number('count', { integer: true, min: 1, max: MAX_AXIS_COUNT, rangeText: `expected a whole number of values from 1 to ${MAX_AXIS_COUNT}` });
+  const count = listed ? (r.raw('count'), Number.NaN) : r.number('count', { integer: true, min: 1, max: MAX_AXIS_COUNT, rangeText: `expected a whole number of values from 1 to ${MAX_AXIS_COUNT}` });
   const spacing = r.choice('spacing', ['linear', 'log'] as const, 'linear');
   r.rejectUnknown();
+  if (listed && [fromRaw, toRaw, r.raw('count')].some((v) => v !== undefined && v !== null)) {
+    r.problem('values', valuesRaw, 'give either a list of values or from, to and count, not both');
+    return null;
+  }
+  if (listed && (!Array.isArray(valuesRaw) || valuesRaw.length < 1 || valuesRaw.length > MAX_AXIS_COUNT)) {
+    r.problem('values', valuesRaw, `expected a list of 1 to ${MAX_AXIS_COUNT} values, each written as the field takes it, e.g. values: ["0.4 m", "1 m", "2.5 m"]`);
+    return null;
+  }
   const d = AXIS_FIELDS.get(field);
   if (!d) {
     r.problem('field', field === '' ? r.raw('field') : field, `expected one of the numeric scenario fields: ${[...AXIS_FIELDS.keys()].join(', ')}`);
@@ -153,14 +180,46 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     r.problem('field', field, 'the scenario has no moon block to vary; add one (its values are the defaults for the other moon fields)');
     return null;
   }
-  const from = readEndpoint(r, 'from', fromRaw, field, d, base);
-  const to = readEndpoint(r, 'to', toRaw, field, d, base);
-  if (problems.length > before) return null;
-  if (spacing === 'log' && !(from > 0 && to > 0)) {
-    r.problem(from > 0 ? 'to' : 'from', from > 0 ? toRaw : fromRaw, 'log spacing needs from and to above zero');
+  const refusal = fieldRefusal(field, d, doc, base);
+  if (refusal) {
+    r.problem('field', field, refusal);
     return null;
   }
-  let values = spacedValues(from, to, count, spacing);
+  // The values as written: the two ends, or the listed values.
+  const raws: unknown[] = listed ? (valuesRaw as unknown[]) : [fromRaw, toRaw];
+  const keys = listed ? raws.map((_, k) => `values[${k}]`) : ['from', 'to'];
+  const timescales: Array<number | undefined> = [];
+  const read = raws.map((v, k) => readEndpoint(r, keys[k], v, field, d, base, timescales));
+  if (problems.length > before) return null;
+  let timescaleS: number | undefined;
+  if (d.value.type === 'level') {
+    const stated = timescales.map((t, k) => ({ t, k })).filter((e): e is { t: number; k: number } => e.t !== undefined);
+    const odd = stated.find((e) => Math.abs(e.t - stated[0].t) > 1e-9 * Math.max(e.t, stated[0].t));
+    if (odd) {
+      r.problem(keys[odd.k], raws[odd.k], `every value must state the level at the same timescale (${keys[stated[0].k]} is per ${stated[0].t} s, ${keys[odd.k]} per ${odd.t} s); write e.g. from: "50 ppm per 1 h", to: "500 ppm per 1 h"`);
+      return null;
+    }
+    timescaleS = stated.length ? stated[0].t : scenarioTimescale(doc, d);
+    if (stated.length > 0 && stated.length < raws.length) notes.push(`${field}: ${listed ? 'the values given without a timescale are read at the others\'' : 'the end given without a timescale is read at the other end\'s'}, per ${timescaleS} s`);
+  }
+  if (spacing === 'log') {
+    const k = read.findIndex((v) => !(v > 0));
+    if (k >= 0) {
+      r.problem(keys[k], raws[k], `log spacing needs ${listed ? 'every value' : 'from and to'} above zero`);
+      return null;
+    }
+  }
+  if (listed && read.length > 1) {
+    const up = read[1] > read[0];
+    const k = read.findIndex((v, i) => i > 0 && (up ? !(v > read[i - 1]) : !(v < read[i - 1])));
+    if (k >= 0) {
+      r.problem(keys[k], raws[k], 'expected the values in increasing (or decreasing) order, each once');
+      return null;
+    }
+  }
+  const from = read[0];
+  const to = read[read.length - 1];
+  let values = listed ? read : spacedValues(from, to, count, spacing);
   if (d.value.type === 'integer') {
     const rounded = [...new Set(values.map((v) => Math.round(v)))];
     if (rounded.length !== values.length || rounded.some((v, k) => v !== values[k])) {
@@ -169,7 +228,7 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     values = rounded;
   }
   const write: AxisWriteContext = {};
-  if (field === 'instrument.noise') write.noiseTimescaleS = base.instrument.noiseTimescaleS;
+  if (timescaleS !== undefined) write.levelTimescaleS = timescaleS;
   if (field === 'instrument.cadence') {
     const instrument = (doc as Record<string, unknown>).instrument as Record<string, unknown> | undefined;
     if (instrument && instrument.exposure !== undefined && instrument.exposure !== null) {
@@ -182,8 +241,12 @@ function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, prob
     const stable = base.moon.retrograde ? lim.stable_max_separation_retrograde_m : lim.stable_max_separation_m;
     if (lim.roche_limit_m >= stable) notes.push(`moon.separation: the fluid Roche limit (${lim.roche_limit_m.toPrecision(4)} m) lies beyond the stable limit (${stable.toPrecision(4)} m): no separation is both`);
   }
-  const axis: SweepAxis = { field, unit: axisUnit(d), spacing, fromText: endpointText(fromRaw), toText: endpointText(toRaw), from, to, count, values, write };
-  checkEndpointsParse(axis, path, doc, problems);
+  const axis: SweepAxis = {
+    field, unit: axisUnit(d), spacing, fromText: endpointText(raws[0]), toText: endpointText(raws[raws.length - 1]), from, to,
+    count: listed ? read.length : count, values, write,
+  };
+  if (timescaleS !== undefined) axis.timescaleS = timescaleS;
+  checkEndpointsParse(axis, path, doc, problems, listed ? keys : null, raws);
   return axis;
 }
 
@@ -191,15 +254,56 @@ function endpointText(raw: unknown): string {
   return typeof raw === 'string' ? raw : String(raw);
 }
 
-/** An endpoint in SI, read like the scenario field itself (plus the separation words). */
-function readEndpoint(r: FieldReader, key: 'from' | 'to', raw: unknown, field: string, d: AxisFieldDef, base: Scenario): number {
+const GROUND_FIELDS = [...AXIS_FIELDS.keys()].filter((f) => f.startsWith('instrument.ground.'));
+
+/** Why the base scenario cannot vary `field` (a block it lacks, a field its model has not), or null. */
+function fieldRefusal(field: string, d: AxisFieldDef, doc: unknown, base: Scenario): string | null {
+  if (field === 'instrument.noise' && base.instrument.ground) {
+    return `the white noise of this scenario comes from its ground budget (instrument.ground), so there is no noise level to vary: sweep ${GROUND_FIELDS.join(', ')} instead (the floor is the systematic level), or replace the ground block by instrument.noise to sweep the level directly`;
+  }
+  if (d.block && !isMapping(valueAtPath(doc, d.block.split('.')))) {
+    if (d.block === 'instrument.ground') {
+      return `the scenario has no ground budget (instrument.ground) to vary${base.instrument.ground ? '' : '; its white noise is instrument.noise: sweep that, or replace it by a ground block {aperture, magnitude, ...}'}`;
+    }
+    return `the scenario has no ${d.block} block to vary; add one (e.g. red_noise: {model: power_law, amplitude: "150 ppm per 30 min", slope: 1})`;
+  }
+  if (d.model) {
+    const model = base.instrument.redNoise?.model;
+    if (model !== d.model) return `${field} belongs to the ${d.model} red-noise model; this scenario's instrument.red_noise is ${model ?? 'absent'}`;
+  }
+  return null;
+}
+
+function isMapping(v: unknown): boolean {
+  return v !== null && typeof v === 'object' && !Array.isArray(v);
+}
+
+/** The timescale, s, at which the scenario states a level field ("X per T"), or undefined for a bare level. */
+function scenarioTimescale(doc: unknown, d: AxisFieldDef): number | undefined {
+  const raw = valueAtPath(doc, d.path);
+  if (typeof raw !== 'string' || !/\sper\s/.test(raw)) return undefined;
+  try {
+    return parseLevel(raw, d.path.join('.')).timescaleS;
+  } catch {
+    return undefined;
+  }
+}
+
+/** An endpoint in SI, read like the scenario field itself (plus the separation words); a level's timescale goes to `timescales`. */
+function readEndpoint(r: FieldReader, key: string, raw: unknown, field: string, d: AxisFieldDef, base: Scenario, timescales: Array<number | undefined>): number {
   const path = r.path(key);
+  timescales.push(undefined);
   if (raw === undefined || raw === null) {
-    r.problem(key, raw, `required: the ${key === 'from' ? 'first' : 'last'} value of ${field}`);
+    r.problem(key, raw, `required: ${key === 'from' ? 'the first value' : key === 'to' ? 'the last value' : 'a value'} of ${field}`);
     return Number.NaN;
   }
   try {
     if (field === 'moon.separation') return separationEndpoint(raw, path, base);
+    if (d.value.type === 'level') {
+      const lv = parseLevel(raw, path);
+      timescales[timescales.length - 1] = lv.timescaleS;
+      return lv.fraction;
+    }
     if (d.value.type === 'quantity') return parseQuantity(raw, path, d.value.kind, d.value.bare?.[0], d.value.bare?.[1]);
     const n = typeof raw === 'number' ? raw : typeof raw === 'string' && raw.trim() !== '' ? Number(raw) : Number.NaN;
     if (!Number.isFinite(n)) throw new InputError([{ path, value: raw, allowed: `expected a number (${field} has no unit)` }]);
@@ -265,15 +369,21 @@ export function spacedValues(from: number, to: number, count: number, spacing: A
  * between them, so the range checks of the scenario hold for the whole axis).
  * A refusal is reported on the axis's `from`/`to`.
  */
-function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, problems: FieldProblem[]): void {
-  const ends: Array<['from' | 'to', number, string]> = [['from', axis.values[0], axis.fromText], ['to', axis.values[axis.values.length - 1], axis.toText]];
+function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, problems: FieldProblem[], listKeys: string[] | null, raws: unknown[]): void {
+  // A listed axis need not be evenly spaced, but its values are monotonic, so its ends bound it too; each is checked all the same.
+  const ends: Array<[string, number, string]> = listKeys && listKeys.length === axis.values.length
+    ? axis.values.map((v, k) => [listKeys[k], v, endpointText(raws[k])])
+    : [['from', axis.values[0], axis.fromText], ['to', axis.values[axis.values.length - 1], axis.toText]];
   for (const [key, value, text] of ends) {
     try {
       parseScenario(applyAxisValues(doc, [axis], [value]));
     } catch (e) {
       if (!(e instanceof InputError)) throw e;
       for (const p of e.problems) {
-        problems.push({ path: `${path}.${key}`, value: text, allowed: `with ${axis.field} = ${value}${axis.unit ? ' ' + axis.unit : ''} the scenario is refused: ${p.path}: ${p.allowed}` });
+        const shown = AXIS_FIELDS.get(axis.field)?.value.type === 'level'
+          ? `${Number((value * 1e6).toPrecision(6))} ppm${axis.timescaleS !== undefined ? ` per ${axis.timescaleS} s` : ''}`
+          : `${value}${axis.unit ? ' ' + axis.unit : ''}`;
+        problems.push({ path: `${path}.${key}`, value: text, allowed: `with ${axis.field} = ${shown} the scenario is refused: ${p.path}: ${p.allowed}` });
       }
       if (axis.values.length === 1) break;
     }

@@ -118,11 +118,11 @@ describe('sweep block validation', () => {
     expect(p[0].allowed).toMatch(/planet\.eccentricity: expected an eccentricity from 0 to 0\.9/);
   });
 
-  it('refuses a wrong unit, a non-list of axes, three axes and a repeated field', () => {
+  it('refuses a wrong unit, a non-list of axes, four axes and a repeated field', () => {
     expect(problems(() => spec(withSweep({ axes: [{ field: 'planet.period', from: '3 kg', to: '10 d', count: 2 }] })))[0].path).toBe('sweep.axes[0].from');
     expect(problems(() => spec(withSweep({ axes: 'moon.mass' })))[0].path).toBe('sweep.axes');
     const ax = { field: 'moon.mass', from: '0.1 Mearth', to: '1 Mearth', count: 2 };
-    expect(problems(() => spec(withSweep({ axes: [ax, ax, ax] })))[0].path).toBe('sweep.axes');
+    expect(problems(() => spec(withSweep({ axes: [ax, ax, ax, ax] })))[0].path).toBe('sweep.axes');
     expect(problems(() => spec(withSweep({ axes: [ax, ax] })))[0].path).toBe('sweep.axes[1].field');
     expect(problems(() => spec(withSweep({ simulate_unstable: 'yes' })))[0].path).toBe('sweep.simulate_unstable');
   });
