@@ -44,6 +44,9 @@ export function registerSimulate(program: Command, io: CliIo): void {
       io.out(`${scenario.name}: ${sim.observation.timeS.length} points in ${scenario.observation.transits} transit windows` +
         `${noiseless ? ' (noiseless)' : `, white noise ${(sim.observation.sigma * 1e6).toFixed(1)} ppm per exposure`}\n`);
       for (const line of noiseModelLines(scenario, noiseless)) io.out(`  ${line}\n`);
+      if (sim.recovery.noTransitObserved) {
+        io.out(`  no transit observed in this realization: every transit was lost to missed transits or gaps (${sim.observation.timeS.length} points kept); nothing was fitted\n`);
+      }
       io.out('epoch   true TTV (s)  true TDV (s) | fit    fitted TTV (s)       fitted TDV (s)\n');
       const meanDur = sim.truth.reduce((a, t) => a + t.durationS, 0) / sim.truth.length;
       const fits = fitOf(sim);
