@@ -4,7 +4,9 @@
  */
 import { DEFAULT_MOON_DENSITY_KG_M3, type LimitsJson } from '../physics/computeLimits.js';
 import { meanDensity } from '../physics/rocheLimit.js';
-import { InputError } from '../scenario/errors.js';
+import { describeValue, InputError, type FieldProblem } from '../scenario/errors.js';
+import { parseQuantity, splitNumberUnit } from '../scenario/units.js';
+import { M_EARTH_KG } from '../physics/constants.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { writeAxisValue } from '../sweep/axisFields.js';
@@ -50,13 +52,38 @@ export function withTargetMoon(doc: unknown, t: ResolvedBudgetTarget, source = '
     return { doc: out, scenario: parseScenario(out, source), notes };
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
-    const rename = (p: string): string => {
-      if (p.startsWith('moon.mass') && t.moonMassKg !== null) return `${t.moonMassSource} (the target moon's mass)`;
-      if (p.startsWith('moon.separation') && t.moonSeparation !== null) return `${t.moonSeparationSource} (the target moon's separation)`;
+    // Blame what the user changed: a problem in moon.* that only the target's mass can have caused
+    // (the scenario's own separation now too close, since the radius follows the mass at the
+    // scenario's density) names the mass flag, with the value as they wrote it.
+    const massValue = t.moonMassText ?? t.moonMassKg;
+    const renamed = e.problems.map((p): FieldProblem => {
+      if (p.path.startsWith('moon.mass') && t.moonMassKg !== null) return { ...p, path: `${t.moonMassSource} (the target moon's mass)`, value: massValue };
+      if (p.path.startsWith('moon.separation') && t.moonSeparation !== null) return { ...p, path: `${t.moonSeparationSource} (the target moon's separation)` };
+      if (p.path.startsWith('moon.') && t.moonMassKg !== null) {
+        const what = p.path.startsWith('moon.separation') ? `at the scenario's moon.separation ${describeValue(p.value)}` : `with the scenario's ${p.path} ${describeValue(p.value)}`;
+        return { path: `${t.moonMassSource} (the target moon's mass)`, value: massValue, allowed: `${what} (the moon's radius follows from this mass and the scenario's moon density): ${p.allowed}; choose a lighter moon or give --moon-separation` };
+      }
       return p;
-    };
-    throw new InputError(e.problems.map((p) => ({ ...p, path: rename(p.path) })), source);
+    });
+    throw new InputError(renamed, source);
   }
+}
+
+/**
+ * A mass in the unit the user wrote (`userText`, e.g. "10 Msun" → "10.0 Msun"),
+ * else in Earth masses.
+ */
+export function massInUserUnit(kg: number, userText: string | null | undefined): string {
+  const nu = typeof userText === 'string' ? splitNumberUnit(userText.trim()) : null;
+  if (nu && nu.unit) {
+    try {
+      const per = parseQuantity(`1 ${nu.unit}`, 'unit', 'mass');
+      if (per > 0 && Number.isFinite(per)) return `${(kg / per).toPrecision(3)} ${nu.unit}`;
+    } catch {
+      // not a mass unit: fall through
+    }
+  }
+  return `${(kg / M_EARTH_KG).toPrecision(3)} Mearth`;
 }
 
 /** A moon document for a population grid: mass and separation (SI) at the given density, radius from it. */
@@ -74,10 +101,11 @@ export function scenarioMoonDensity(s: Scenario): number {
   return s.moon ? meanDensity(s.moon.massKg, s.moon.radiusM) : DEFAULT_MOON_DENSITY_KG_M3;
 }
 
-export function targetMoonInfo(s: Scenario, l: LimitsJson): BudgetTargetMoon {
+export function targetMoonInfo(s: Scenario, l: LimitsJson, massText: string | null = null): BudgetTargetMoon {
   const m = s.moon!;
   return {
     mass_kg: m.massKg,
+    mass_text: massInUserUnit(m.massKg, massText),
     separation_m: m.separationM,
     radius_m: m.radiusM,
     placement: l.moon_placement ?? [],
