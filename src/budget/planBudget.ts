@@ -23,7 +23,7 @@ import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
 import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
 import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
-import { windowHalfWidthS } from '../photometry/transitWindows.js';
+import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../photometry/transitWindows.js';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
 import { parseScenario } from '../scenario/parseScenario.js';
@@ -102,7 +102,18 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   const t = resolveBudgetTarget(doc, target, source);
   const clean = withoutBlocks(doc);
   const base = parseScenario(clean, source);
+  assertObservable(base, source);
   const q = solvedQuantity(t.solve, clean, base, t.maxTransits, t.channel);
+  if (q.solve === 'transits') {
+    // The largest transit count must fit in memory too: blame the option that sets it.
+    const most = { ...base, observation: { ...base.observation, transits: q.values[q.values.length - 1] } };
+    const size = observationSizeProblems(most);
+    if (size.length > 0) {
+      const block = (doc as { budget?: Record<string, unknown> } | null)?.budget;
+      const src = target.maxTransits !== undefined ? '--max-transits' : block && block.max_transits !== undefined ? 'budget.max_transits' : `--max-transits (default ${t.maxTransits})`;
+      throw new InputError([{ path: src, value: t.maxTransits, allowed: `${size[0].allowed.replace(/; use a coarser cadence.*$/, '')}; use fewer transits at most, or a coarser cadence (instrument.cadence)` }], source);
+    }
+  }
   const ctx: Context = {
     t, base, q,
     mc: { seed: base.seed, realizations: t.realizations, nullRealizations: t.nullRealizations, channel: t.channel, probability: t.probability },

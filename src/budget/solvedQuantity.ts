@@ -11,7 +11,7 @@
  */
 import { MINUTE_S } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
-import { scenarioDurations } from '../photometry/transitWindows.js';
+import { lightCurvePointCount, MAX_LIGHT_CURVE_POINTS, scenarioDurations } from '../photometry/transitWindows.js';
 import { writeAxisValue, type AxisWriteContext } from '../sweep/axisFields.js';
 import type { BudgetChannel, BudgetQuantityInfo, BudgetSolve } from './budgetTypes.js';
 import { minTransitsFor } from './budgetSpec.js';
@@ -60,7 +60,9 @@ export function solvedQuantity(solve: BudgetSolve, doc: unknown, base: Scenario,
   if (solve === 'cadence') {
     const c0 = base.instrument.cadenceS;
     const t14 = scenarioDurations(base).t14S;
-    const values = geometricGrid(c0, MIN_CADENCE_S, MAX_CADENCE_PER_T14 * t14).reverse(); // coarsest (cheapest) first
+    // Coarsest (cheapest) first; cadences whose light curve would exceed the size limit are left out.
+    const values = geometricGrid(c0, MIN_CADENCE_S, MAX_CADENCE_PER_T14 * t14).reverse()
+      .filter((c) => c === c0 || lightCurvePointCount({ ...base, instrument: { ...base.instrument, cadenceS: c } }) <= MAX_LIGHT_CURVE_POINTS);
     const write: AxisWriteContext = {};
     const instrument = (doc as Record<string, unknown>).instrument as Record<string, unknown> | undefined;
     if (instrument && instrument.exposure !== undefined && instrument.exposure !== null) write.exposureRatio = base.instrument.exposureS / c0;

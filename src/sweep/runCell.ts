@@ -49,7 +49,7 @@ import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
-import { scenarioDurations } from '../photometry/transitWindows.js';
+import { assertObservable, scenarioDurations } from '../photometry/transitWindows.js';
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import {
   chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
@@ -193,6 +193,8 @@ function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, excl
 
 export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared): CellResult => {
   const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
+  // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
+  assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);
   const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits) };
   const skipped = skipReason(s, base, ctx);
