@@ -200,6 +200,21 @@ export function computeLimits(s: Scenario): LimitsJson {
   if (grazing) {
     assumptions.push(`grazing transit (b = ${planet.impactParameter.toFixed(3)} > 1 − Rp/R* = ${(1 - p).toFixed(3)}): no flat bottom (Seager & Mallén-Ornelas 2003), so the "mid-ingress to mid-egress" duration is T14/2 and Carter et al.'s (2008) trapezoid precision is not given; the timing precision is the Fisher bound of the exact grazing model, and a grazing transit's shape is degenerate between b and Rp/R* in a real fit`);
   }
+  // Say what the forecast leaves out of what the scenario sets (the Monte Carlo of sweep and budget includes it).
+  const red = instrument.redNoise;
+  if (red) {
+    assumptions.push(`the forecast ignores the scenario's red noise (${red.model === 'drw' ? 'damped random walk' : 'power law'}, rms ${(red.rmsFraction * 1e6).toPrecision(3)} ppm): correlated noise makes the per-transit timing errors larger than the white-noise bound (Pont, Zucker & Queloz 2006, MNRAS 373, 231), so the forecast is optimistic; sweep and budget simulate it`);
+  }
+  if (observation.missedFraction > 0 || observation.dutyCycle < 1) {
+    const kept = (1 - observation.missedFraction) * observation.transits;
+    assumptions.push(`the forecast assumes all ${observation.transits} transits fully observed; the scenario misses each transit with probability ${observation.missedFraction} (about ${kept.toPrecision(3)} observed on average) and observes ${(100 * observation.dutyCycle).toPrecision(3)} % of each window: the forecast is optimistic; sweep and budget simulate the gaps`);
+  }
+  if (observation.transits > 1 && 2 * windowHalfWidthS(s) > planet.periodS) {
+    assumptions.push(`the baseline (${(observation.baselineS / 3600).toPrecision(3)} h each side) reaches past half the period: consecutive windows are cut at the midpoints between conjunctions, so the observation is continuous there and each time stamp is simulated once`);
+  }
+  if (moon && moon.massKg > planet.massKg) {
+    assumptions.push(`the moon (${(moon.massKg / planet.massKg).toPrecision(3)} × the planet's mass) is heavier than its planet: the labels "planet" and "moon" are swapped in a binary, and the nested-orbit formulas (Kipping 2009a) assume M_S ≪ M_P`);
+  }
   if (!hzValid) assumptions.push(`Teff ${star.teffK} K is outside the Kopparapu et al. (2013) fit range 2600–7200 K: no habitable-zone limits given`);
 
   const out: LimitsJson = {
