@@ -42,6 +42,7 @@ const pct = (p: number | null, none: string) => (p === null ? none : `${(100 * p
 
 /** The forecast row: every channel that the transit count allows, and which ones it does not. */
 function forecastText(l: LimitsJson): string {
+  if (l.forecast_detection_probability === null && l.transits >= 2) return 'no forecast (see below)';
   if (l.forecast_detection_probability === null) return `no timing channel with ${l.transits} transit${l.transits === 1 ? '' : 's'}; moon dip only (not forecast; see below)`;
   if (l.forecast_ttv_probability === null) {
     return `no TTV channel with ${l.transits} transits; TDV ${pct(l.forecast_tdv_probability, '–')} (1 degree of freedom) at false-alarm ${l.false_alarm_probability}; moon dip not forecast`;

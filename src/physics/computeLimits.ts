@@ -293,15 +293,20 @@ export function computeLimits(s: Scenario): LimitsJson {
   const alias = ttvAlias(planet.periodS, sig.moonPeriodS);
   const family = aliasFamily(planet.periodS, alias.aliasFrequencyPerEpoch, 4).map((m) => m.moonPeriodS);
   const dip = moonDipDepth({ moonRadiusM: moon.radiusM, starRadiusM: star.radiusM, u1: star.u1, u2: star.u2, impactParameter: Math.min(planet.impactParameter, 0.999) });
-  const forecast = forecastDetection({
-    nTransits: observation.transits,
-    sigmaTcS: modelTcPrecision,
-    sigmaDurS: durationPrecision,
-    ttvRmsS: sig.ttvRmsS,
-    tdvRmsS: sig.tdvRmsS,
-    falseAlarm: s.detection.falseAlarm,
-    aliasFrequencyPerEpoch: alias.aliasFrequencyPerEpoch,
-  });
+  // Without noise the timing precision is not a positive number (no Cramér–Rao bound to compare
+  // against): no forecast, said so, rather than a failure.
+  const precisionOk = modelTcPrecision > 0 && durationPrecision > 0 && Number.isFinite(modelTcPrecision + durationPrecision);
+  const forecast = precisionOk
+    ? forecastDetection({
+        nTransits: observation.transits,
+        sigmaTcS: modelTcPrecision,
+        sigmaDurS: durationPrecision,
+        ttvRmsS: sig.ttvRmsS,
+        tdvRmsS: sig.tdvRmsS,
+        falseAlarm: s.detection.falseAlarm,
+        aliasFrequencyPerEpoch: alias.aliasFrequencyPerEpoch,
+      })
+    : { ttv: null, tdv: null, joint: null, notes: [`no detection forecast: the per-transit timing precision is ${modelTcPrecision} s (noise ${sigma}), not a positive number, so there is no white-noise χ² test to forecast`] };
 
   const tidal = tidalHeatFlux({
     planetMassKg: planet.massKg,

@@ -172,6 +172,7 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
     forecast_tdv: l.forecast_tdv_probability,
     forecast_joint: l.forecast_detection_probability,
     forecast_regime_ok: l.forecast_regime_ok,
+    channels_note: s.moon ? missingChannelSummary(s.observation.transits) : null,
     photocentric_ratio: l.photocentric_ratio,
     energy_total_W_m2: l.energy_budget?.total_W_m2 ?? null,
   };
@@ -275,7 +276,6 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
     null_realizations: nNull,
     ...prob,
     channels_used: channels.join(' '),
-    channels_note: missingChannelSummary(s.observation.transits),
     no_transit_observed: nothingObserved,
     forecast_ttv_outside_interval: disagrees,
     median_fitted_ttv_rms_s: median(ttvRms),
