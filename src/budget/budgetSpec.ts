@@ -210,8 +210,13 @@ function readHabitable(get: (key: string) => Source | null, base: HabitableTarge
   if ((s = get('fraction'))) h.fraction = !parses(s, 'fraction', FRACTION_TEXT, [1, 'a fraction']) ? Number.NaN : s.r.quantity(s.key, 'fraction', { bare: [1, 'a fraction'], min: 0, minExclusive: true, max: 1, rangeText: 'expected a fraction of the target moons above 0 and at most 1, e.g. 0.5 or "50 %"' });
   if ((s = get('confirm_moons'))) h.confirmMoons = readInt(s, 1, 1600, 'expected a whole number of moons to simulate from 1 to 1600');
   if (Number.isFinite(h.massFromKg) && Number.isFinite(h.massToKg) && !(h.massToKg > h.massFromKg)) {
-    const key = get('mass_to') ?? get('mass_from');
-    if (key) key.r.problem(key.key, key.r.raw(key.key), 'the mass range needs mass_to above mass_from');
+    const to = get('mass_to');
+    const from = get('mass_from');
+    const key = to ?? from;
+    // Name the other end as the user knows it (a flag or a block key, or the default), in Earth masses.
+    const other = to ? (from ? from.key : `the default ${(base.massFromKg / M_EARTH_KG).toPrecision(2)} Mearth`) : `the default ${(base.massToKg / M_EARTH_KG).toPrecision(2)} Mearth`;
+    const otherMass = to ? h.massFromKg : h.massToKg;
+    if (key) key.r.problem(key.key, key.r.raw(key.key), to ? `must be heavier than the lightest moon (${from ? `${other} = ${(otherMass / M_EARTH_KG).toPrecision(3)} Mearth` : other})` : `must be lighter than the heaviest moon (${other})`);
   }
   return h;
 }

@@ -156,4 +156,24 @@ describe('budget messages', () => {
     expect(k.code).toBe(0);
     expect(k.out).toMatch(/a 1\.20e\+25 kg moon/);
   });
+
+  it('--html naming a folder or a path under a file: exit 2 before any work, nothing written', async () => {
+    const folder = mkdtempSync(join(tmpdir(), 'ms-html-'));
+    const r = await run(['budget', six(), '--forecast-only', '--html', folder]);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--html: got .*is a folder; give a file name/);
+    expect(r.out).toBe('');
+    const file = join(folder, 'plain.txt');
+    writeFileSync(file, 'x');
+    const u = await run(['budget', six(), '--forecast-only', '--html', join(file, 'page.html')]);
+    expect(u.code).toBe(2);
+    expect(u.err).toMatch(/is a file, not a folder/);
+    noStack(u.err);
+  });
+
+  it('a habitable mass range the wrong way round names the flag and the other end', async () => {
+    const r = await run(['budget', six(), '--forecast-only', '--habitable', '--mass-to', '0.01 Mearth']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--mass-to: got "0.01 Mearth"; must be heavier than the lightest moon \(the default 0.10 Mearth\)/);
+  });
 });
