@@ -303,7 +303,10 @@ function channelAbsent(ctx: Context): string | null {
 }
 
 /** Why no value has a forecast: the dip channel has none; a timing channel may not exist at this transit count. */
-function noForecastReason(ctx: Context): string {
+function noForecastReason(ctx: Context, precisions: ValuePrecision[]): string {
+  if (ctx.t.channel !== 'dip' && precisions.every((p) => !(p.sigmaTcS > 0 && Number.isFinite(p.sigmaTcS)))) {
+    return 'no analytic forecast: without noise the timing precision is not a positive number, so there is no white-noise χ² test to forecast (run without --forecast-only for the Monte Carlo)';
+  }
   const n = ctx.base.observation.transits;
   const ch = ctx.t.channel;
   if (ctx.q.solve !== 'transits' && ch !== 'dip' && n < minTransitsFor(ch === 'combined' ? 'tdv' : ch)) {
@@ -318,7 +321,7 @@ function forecastAnswer(ctx: Context, fc: Array<number | null>, fcIndex: number 
   const { q, t } = ctx;
   if (fcIndex === null) {
     const reasons = fc.every((p) => p === null)
-      ? [noForecastReason(ctx)]
+      ? [noForecastReason(ctx, precisions)]
       : limits ? diagnose(ctx, limits, precisions, null, fc) : [`the forecast stays below the target over the whole range (at most ${pct(Math.max(...fc.map((p) => p ?? 0)))})`];
     return unreached(ctx, null, reasons);
   }

@@ -198,7 +198,7 @@ export function computeLimits(s: Scenario): LimitsJson {
     'Roche limit, stability band and tidal survival are fits and idealisations, not guarantees',
   ];
   if (grazing) {
-    assumptions.push(`grazing transit (b = ${planet.impactParameter.toFixed(3)} > 1 − Rp/R* = ${(1 - p).toFixed(3)}): no flat bottom (Seager & Mallén-Ornelas 2003), so the "mid-ingress to mid-egress" duration is T14/2 and Carter et al.'s (2008) trapezoid precision is not given; the timing precision is the Fisher bound of the exact grazing model, and a grazing transit's shape is degenerate between b and Rp/R* in a real fit`);
+    assumptions.push(`grazing transit (b = ${planet.impactParameter.toFixed(3)} > 1 − Rp/R* = ${(1 - p).toFixed(3)}): no flat bottom (Seager & Mallén-Ornelas 2003), so the "mid-ingress to mid-egress" duration is T14/2 and Carter et al.'s (2008) trapezoid precision is not given; the timing precision is the Fisher bound of the exact grazing model, and a grazing transit's shape is degenerate between b and Rp/R* in a real fit${planet.impactParameter >= 0.999 ? `; the moon's dip is modelled at b = 0.999 (the orbital-sampling profile, Heller 2014, needs b < 1), which overstates it for b = ${planet.impactParameter.toFixed(3)}` : ''}`);
   }
   // Say what the forecast leaves out of what the scenario sets (the Monte Carlo of sweep and budget includes it).
   const red = instrument.redNoise;

@@ -6,7 +6,7 @@
  */
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
-import { windowsOverlap } from '../photometry/transitWindows.js';
+import { scenarioDurations, windowsOverlap } from '../photometry/transitWindows.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { AU_M, DAY_S, HOUR_S, JULIAN_YEAR_S, L_SUN_W, M_EARTH_KG, M_JUP_KG, M_SUN_KG, R_EARTH_M, R_JUP_M, R_SUN_M } from '../physics/constants.js';
 import type { CellResult } from '../sweep/cellTypes.js';
@@ -64,7 +64,7 @@ export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioD
     const st = s.star;
     rows.push(['star', `M = ${f(st.massKg / M_SUN_KG)} M☉, R = ${f(st.radiusM / R_SUN_M)} R☉, Teff = ${f(st.teffK)} K, L = ${f(st.luminosityW / L_SUN_W)} L☉, age ${f(st.ageS / (1e9 * JULIAN_YEAR_S))} Gyr; quadratic limb darkening u1 = ${st.u1}, u2 = ${st.u2}`]);
     const p = s.planet;
-    rows.push(['planet', `M = ${f(p.massKg / M_JUP_KG)} M_J${mark('planet.mass')}, R = ${f(p.radiusM / R_JUP_M)} R_J, P = ${f(p.periodS / DAY_S, 5)} d${mark('planet.period')}, a = ${f(p.semiMajorAxisM / AU_M)} au, e = ${p.eccentricity}, impact parameter ${f(p.impactParameter)}, Bond albedo ${p.albedo}, k2 = ${p.k2}, Q = ${f(p.tidalQ)}`]);
+    rows.push(['planet', `M = ${f(p.massKg / M_JUP_KG)} M_J${mark('planet.mass')}, R = ${f(p.radiusM / R_JUP_M)} R_J, P = ${f(p.periodS / DAY_S, 5)} d${mark('planet.period')}, a = ${f(p.semiMajorAxisM / AU_M)} au, e = ${p.eccentricity}, impact parameter ${f(p.impactParameter)}, Bond albedo ${p.albedo}, k2 = ${p.k2}, Q = ${f(p.tidalQ)}${scenarioDurations(s).t23S > 0 ? '' : `; grazing transit (no flat bottom, Seager & Mallén-Ornelas 2003)${p.impactParameter >= 0.999 ? ', moon dip modelled at b = 0.999' : ''}`}`]);
     const m = s.moon;
     rows.push(['moon (base values; swept fields vary by cell)', m
       ? `M = ${f(m.massKg / M_EARTH_KG)} M⊕${mark('moon.mass')}, R = ${f(m.radiusM / R_EARTH_M)} R⊕, separation ${f(m.separationM / p.radiusM)} Rp${mark('moon.separation')}, e = ${m.eccentricity}, inclination ${f(m.inclinationRad * DEG)}°, ${m.retrograde ? 'retrograde' : 'prograde'}; orbital phase (and node, periapsis where they matter) drawn at random in each realization`
