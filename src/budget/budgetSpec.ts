@@ -178,7 +178,10 @@ export function readBudgetFlags(flags: BudgetFlags): BudgetTarget {
     t.moonMassKg = readMass(s);
     if (typeof byFlag['--moon-mass'] === 'string') t.moonMassText = byFlag['--moon-mass'];
   }
-  if ((s = src('--moon-separation'))) t.moonSeparation = readSeparation(s) ?? undefined;
+  if ((s = src('--moon-separation'))) {
+    t.moonSeparation = readSeparation(s) ?? undefined;
+    if (typeof byFlag['--moon-separation'] === 'string') t.moonSeparationText = byFlag['--moon-separation'];
+  }
   if ((s = src('--probability'))) t.probability = readProbability(s);
   if ((s = src('--solve'))) t.solve = r.choice(s.key, BUDGET_SOLVES, 'transits');
   if ((s = src('--channel'))) t.channel = r.choice(s.key, BUDGET_CHANNELS, 'combined');
@@ -259,6 +262,7 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   let moonMassKg: number | null = null;
   let moonMassSource = 'moon.mass';
   let moonMassText: string | null = target.moonMassText ?? null;
+  let moonSeparationText: string | null = target.moonSeparationText ?? null;
   if (target.moonMassKg !== undefined) {
     checkTyped(problems, 'moonMassKg', target.moonMassKg, target.moonMassKg > 0 && Number.isFinite(target.moonMassKg), 'must be a positive mass in kg');
     moonMassKg = target.moonMassKg;
@@ -278,6 +282,7 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   } else if (has('moon_separation')) {
     moonSeparation = readSeparation({ r: b, key: 'moon_separation' });
     moonSeparationSource = 'budget.moon_separation';
+    moonSeparationText = typeof b.raw('moon_separation') === 'string' ? (b.raw('moon_separation') as string) : null;
   }
 
   let habitable: HabitableTarget | null = null;
@@ -308,5 +313,5 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   const realizations = pick('realizations', 'realizations', (v) => isInt(v, 1, 100000), REALIZATIONS_TEXT, (s) => readInt(s, 1, 100000, REALIZATIONS_TEXT), habitable ? DEFAULT_HABITABLE_REALIZATIONS : DEFAULT_BUDGET_REALIZATIONS);
   b.rejectUnknown();
   if (problems.length > 0) throw new InputError(problems, source);
-  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable };
+  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, moonSeparationText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable };
 }

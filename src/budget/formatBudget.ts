@@ -20,7 +20,7 @@ export function formatBudget(r: BudgetResult): string {
   lines.push(`${r.scenario}: observing budget`, '');
   if (r.target_moon) {
     const m = r.target_moon;
-    lines.push(`  target     ${pct(r.probability_target)} ${r.channel} detection of a ${m.mass_text} moon (radius ${(m.radius_m / 1e3).toFixed(0)} km) at ${(m.separation_m / 1e3).toFixed(0)} km; ${m.placement.join('; ')}${m.habitability ? `, ${m.habitability}` : ''}`);
+    lines.push(`  target     ${pct(r.probability_target)} ${r.channel} detection of a ${m.mass_text} moon (radius ${(m.radius_m / 1e3).toFixed(0)} km) at ${m.separation_text}; ${m.placement.join('; ')}${m.habitability ? `, ${m.habitability}` : ''}`);
   } else if (r.habitable) {
     const h = r.habitable;
     lines.push(`  target     ${(100 * h.fraction).toFixed(0)} % of the temperate, stable moons of ${(h.mass_from_kg / M_EARTH_KG).toPrecision(2)}–${(h.mass_to_kg / M_EARTH_KG).toPrecision(2)} Mearth (${h.targets.length} of ${h.candidates} on the grid) at ${pct(r.probability_target)} ${r.channel} detection each`);

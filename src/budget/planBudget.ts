@@ -202,7 +202,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   const tm = withTargetMoon(clean, t, source);
   ctx.notes.push(...tm.notes);
   const limits = computeLimits(tm.scenario);
-  const moon = targetMoonInfo(tm.scenario, limits, t.moonMassText);
+  const moon = targetMoonInfo(tm.scenario, limits, t.moonMassText, t.moonSeparationText);
   const sig = moonSignal(limits);
   const tf = performance.now();
   const precisions = precisionsAlong(q, tm.doc, tm.scenario);

@@ -70,6 +70,25 @@ export function withTargetMoon(doc: unknown, t: ResolvedBudgetTarget, source = '
 }
 
 /**
+ * A separation in km, followed by the unit the user wrote when it was another one
+ * ("18 Rp" → "857904 km (18.0 Rp)", "0.2 hill", "0.01 AU").
+ */
+export function separationInUserUnit(m: number, userText: string | null | undefined, planetRadiusM: number, hillRadiusM: number): string {
+  const km = `${(m / 1e3).toFixed(0)} km`;
+  const nu = typeof userText === 'string' ? splitNumberUnit(userText.trim()) : null;
+  if (!nu || !nu.unit || nu.unit === 'km') return km;
+  if (nu.unit === 'Rp') return `${km} (${(m / planetRadiusM).toPrecision(3)} Rp)`;
+  if (nu.unit === 'hill') return `${km} (${(m / hillRadiusM).toPrecision(3)} Hill radii)`;
+  try {
+    const per = parseQuantity(`1 ${nu.unit}`, 'unit', 'length');
+    if (per > 0 && Number.isFinite(per)) return `${km} (${(m / per).toPrecision(3)} ${nu.unit})`;
+  } catch {
+    // not a length unit: km alone
+  }
+  return km;
+}
+
+/**
  * A mass in the unit the user wrote (`userText`, e.g. "10 Msun" → "10.0 Msun"),
  * else in Earth masses.
  */
@@ -101,11 +120,12 @@ export function scenarioMoonDensity(s: Scenario): number {
   return s.moon ? meanDensity(s.moon.massKg, s.moon.radiusM) : DEFAULT_MOON_DENSITY_KG_M3;
 }
 
-export function targetMoonInfo(s: Scenario, l: LimitsJson, massText: string | null = null): BudgetTargetMoon {
+export function targetMoonInfo(s: Scenario, l: LimitsJson, massText: string | null = null, separationText: string | null = null): BudgetTargetMoon {
   const m = s.moon!;
   return {
     mass_kg: m.massKg,
     mass_text: massInUserUnit(m.massKg, massText),
+    separation_text: separationInUserUnit(m.separationM, separationText, s.planet.radiusM, l.hill_radius_m),
     separation_m: m.separationM,
     radius_m: m.radiusM,
     placement: l.moon_placement ?? [],

@@ -155,6 +155,9 @@ describe('budget messages', () => {
     const k = await run(['budget', six(), '--forecast-only', '--moon-mass', '1.2e25 kg']);
     expect(k.code).toBe(0);
     expect(k.out).toMatch(/a 1\.20e\+25 kg moon/);
+    const h = await run(['budget', six(), '--forecast-only', '--moon-separation', '0.2 hill']);
+    expect(h.code).toBe(0);
+    expect(h.out).toMatch(/at \d+ km \(0\.200 Hill radii\)/);
   });
 
   it('--html naming a folder or a path under a file: exit 2 before any work, nothing written', async () => {
