@@ -49,7 +49,8 @@ import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
-import { assertObservable, scenarioDurations } from '../photometry/transitWindows.js';
+import { assertObservable, observationSizeProblems, scenarioDurations } from '../photometry/transitWindows.js';
+import type { FieldProblem } from '../scenario/errors.js';
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import {
   chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
@@ -103,6 +104,15 @@ export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null 
   const placement = moonPlacement(s) ?? ['no moon'];
   const base = { placement: placement.join('; '), stable: placement.length === 1 && placement[0] === 'stable' };
   return skipReason(s, base as unknown as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
+}
+
+/**
+ * What would make `runCell` refuse this cell (a cadence no shorter than the transit, a light curve
+ * above the size limit: transitWindows.ts), for a sweep that validates every cell before any work;
+ * empty when the cell can run. Throws the scenario's own InputError for an invalid document.
+ */
+export function cellComputeProblems(task: CellTask): FieldProblem[] {
+  return observationSizeProblems(parseScenario(task.scenarioDoc, `cell ${task.index}`));
 }
 
 /** Whether `runCell` will simulate this cell (and so needs its null set). */
