@@ -43,10 +43,12 @@ export function valuePrecision(l: LimitsJson): ValuePrecision {
  * Forecast detection probability of `channel`: TTV, TDV, or for `combined`
  * the joint χ²_TTV + χ²_TDV test (a stand-in: the Monte Carlo's combined rule
  * is a Bonferroni union of the TTV, TDV and dip tests). Null for the dip
- * channel (no analytic forecast), below 3 transits, or without a finite precision.
+ * channel (no analytic forecast), for a channel the transit count does not
+ * allow (TTV below 3 transits, TDV and combined below 2; detectionForecast.ts),
+ * or without a finite precision.
  */
 export function forecastProbability(channel: BudgetChannel, sig: MoonSignal, p: ValuePrecision): number | null {
-  if (channel === 'dip' || p.transits < MIN_BUDGET_TRANSITS) return null;
+  if (channel === 'dip' || !(p.transits >= 1)) return null;
   if (!(p.sigmaTcS > 0 && p.sigmaDurS > 0) || !Number.isFinite(p.sigmaTcS + p.sigmaDurS)) return null;
   const f = forecastDetection({
     nTransits: p.transits,
@@ -57,7 +59,9 @@ export function forecastProbability(channel: BudgetChannel, sig: MoonSignal, p: 
     falseAlarm: p.falseAlarm,
     aliasFrequencyPerEpoch: Math.min(0.5, Math.max(0, sig.aliasFrequencyPerEpoch)),
   });
-  return channel === 'ttv' ? f.ttv.probability : channel === 'tdv' ? f.tdv.probability : f.joint.probability;
+  // A channel that the transit count does not allow (TTV below 3, any timing below 2) has no forecast.
+  const c = channel === 'ttv' ? f.ttv : channel === 'tdv' ? f.tdv : f.joint;
+  return c ? c.probability : null;
 }
 
 /**

@@ -41,6 +41,15 @@ export const DEFAULT_BUDGET_NULL_REALIZATIONS = 400;
 export const DEFAULT_MAX_TRANSITS = 50;
 /** The TTV excess against a linear ephemeris needs at least 3 transits (N − 2 degrees of freedom). */
 export const MIN_BUDGET_TRANSITS = 3;
+
+/**
+ * The fewest transits at which `channel` exists (detectionForecast.ts, "Few transits"): TTV 3
+ * (N − 2 ≥ 1 dof against a linear ephemeris), TDV 2 (N − 1 ≥ 1 about the mean duration), the moon
+ * dip 1; the combined rule is the union of the channels that exist, so from 1 transit it is the dip.
+ */
+export function minTransitsFor(channel: BudgetChannel): number {
+  return channel === 'ttv' ? 3 : channel === 'tdv' ? 2 : 1;
+}
 export const MAX_BUDGET_TRANSITS = 10000;
 
 export const DEFAULT_HABITABLE: HabitableTarget = {
@@ -54,7 +63,7 @@ export const DEFAULT_HABITABLE: HabitableTarget = {
 const PROBABILITY_TEXT = 'expected a detection probability above 0 and below 1, e.g. 0.9 or "90 %"';
 const REALIZATIONS_TEXT = 'expected a whole number of moon realizations from 1 to 100000';
 const NULL_TEXT = 'expected a whole number of no-moon realizations from 4 to 1000000';
-const MAX_TRANSITS_TEXT = `expected a whole number of transits from ${MIN_BUDGET_TRANSITS} to ${MAX_BUDGET_TRANSITS}`;
+const MAX_TRANSITS_TEXT = `expected a whole number of transits from 1 to ${MAX_BUDGET_TRANSITS}`;
 const SEPARATION_TEXT = 'expected a length ("1e9 m", "0.01 AU"), planet radii ("18 Rp") or a fraction of the Hill radius ("0.2 hill")';
 
 /** Where a value is read from: a reader and the key inside it (so its path names the source). */
@@ -87,7 +96,25 @@ const HABITABLE_KEYS: ReadonlyArray<[string, string]> = [
   ['confirm_moons', '--confirm-moons'],
 ];
 
+/**
+ * Whether the raw value parses as a quantity of `kind` (a bare number counts when `bare`);
+ * if not, record `allowed` as the problem: the unit parser's generic examples ("60 ppm" for
+ * a fraction, "1 Msun" for a mass) would mislead for a probability or a moon's mass.
+ */
+function parses(s: Source, kind: 'fraction' | 'mass', allowed: string, bare?: [number, string]): boolean {
+  const raw = s.r.raw(s.key);
+  if (raw === undefined || raw === null) return true;
+  try {
+    parseQuantity(raw, s.r.path(s.key), kind, bare?.[0], bare?.[1]);
+    return true;
+  } catch {
+    s.r.problem(s.key, raw, allowed);
+    return false;
+  }
+}
+
 function readProbability(s: Source): number {
+  if (!parses(s, 'fraction', PROBABILITY_TEXT, [1, 'a fraction'])) return Number.NaN;
   return s.r.quantity(s.key, 'fraction', { bare: [1, 'a fraction'], min: 0, minExclusive: true, max: 1, maxExclusive: true, rangeText: PROBABILITY_TEXT });
 }
 
@@ -95,8 +122,11 @@ function readInt(s: Source, min: number, max: number, text: string): number {
   return s.r.number(s.key, { integer: true, min, max, rangeText: text });
 }
 
+const MOON_MASS_TEXT = 'expected a positive moon mass, e.g. "0.6 Mearth" or "7e22 kg"';
+
 function readMass(s: Source): number {
-  return s.r.quantity(s.key, 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass, e.g. "0.6 Mearth"' });
+  if (!parses(s, 'mass', MOON_MASS_TEXT)) return Number.NaN;
+  return s.r.quantity(s.key, 'mass', { min: 0, minExclusive: true, rangeText: MOON_MASS_TEXT });
 }
 
 /** A separation as the scenario accepts it; kept as text for "Rp" and "hill" (resolved against the scenario later). */
@@ -144,14 +174,20 @@ export function readBudgetFlags(flags: BudgetFlags): BudgetTarget {
   const src = (flag: string): Source | null => (byFlag[flag] === undefined ? null : { r, key: flag });
   const t: BudgetTarget = {};
   let s: Source | null;
-  if ((s = src('--moon-mass'))) t.moonMassKg = readMass(s);
-  if ((s = src('--moon-separation'))) t.moonSeparation = readSeparation(s) ?? undefined;
+  if ((s = src('--moon-mass'))) {
+    t.moonMassKg = readMass(s);
+    if (typeof byFlag['--moon-mass'] === 'string') t.moonMassText = byFlag['--moon-mass'];
+  }
+  if ((s = src('--moon-separation'))) {
+    t.moonSeparation = readSeparation(s) ?? undefined;
+    if (typeof byFlag['--moon-separation'] === 'string') t.moonSeparationText = byFlag['--moon-separation'];
+  }
   if ((s = src('--probability'))) t.probability = readProbability(s);
   if ((s = src('--solve'))) t.solve = r.choice(s.key, BUDGET_SOLVES, 'transits');
   if ((s = src('--channel'))) t.channel = r.choice(s.key, BUDGET_CHANNELS, 'combined');
   if ((s = src('--realizations'))) t.realizations = readInt(s, 1, 100000, REALIZATIONS_TEXT);
   if ((s = src('--null-realizations'))) t.nullRealizations = readInt(s, 4, 1_000_000, NULL_TEXT);
-  if ((s = src('--max-transits'))) t.maxTransits = readInt(s, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT);
+  if ((s = src('--max-transits'))) t.maxTransits = readInt(s, 1, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT);
   if (flags.forecastOnly === true) t.forecastOnly = true;
   const habitableFlags = HABITABLE_KEYS.filter(([, f]) => byFlag[f] !== undefined).map(([, f]) => f);
   if (flags.habitable === true) {
@@ -173,11 +209,17 @@ function readHabitable(get: (key: string) => Source | null, base: HabitableTarge
   if ((s = get('mass_from'))) h.massFromKg = readMass(s);
   if ((s = get('mass_to'))) h.massToKg = readMass(s);
   if ((s = get('grid'))) h.grid = readInt(s, 2, 40, 'expected a whole number of grid points per axis from 2 to 40');
-  if ((s = get('fraction'))) h.fraction = s.r.quantity(s.key, 'fraction', { bare: [1, 'a fraction'], min: 0, minExclusive: true, max: 1, rangeText: 'expected a fraction of the target moons above 0 and at most 1, e.g. 0.5 or "50 %"' });
+  const FRACTION_TEXT = 'expected a fraction of the target moons above 0 and at most 1, e.g. 0.5 or "50 %"';
+  if ((s = get('fraction'))) h.fraction = !parses(s, 'fraction', FRACTION_TEXT, [1, 'a fraction']) ? Number.NaN : s.r.quantity(s.key, 'fraction', { bare: [1, 'a fraction'], min: 0, minExclusive: true, max: 1, rangeText: 'expected a fraction of the target moons above 0 and at most 1, e.g. 0.5 or "50 %"' });
   if ((s = get('confirm_moons'))) h.confirmMoons = readInt(s, 1, 1600, 'expected a whole number of moons to simulate from 1 to 1600');
   if (Number.isFinite(h.massFromKg) && Number.isFinite(h.massToKg) && !(h.massToKg > h.massFromKg)) {
-    const key = get('mass_to') ?? get('mass_from');
-    if (key) key.r.problem(key.key, key.r.raw(key.key), 'the mass range needs mass_to above mass_from');
+    const to = get('mass_to');
+    const from = get('mass_from');
+    const key = to ?? from;
+    // Name the other end as the user knows it (a flag or a block key, or the default), in Earth masses.
+    const other = to ? (from ? from.key : `the default ${(base.massFromKg / M_EARTH_KG).toPrecision(2)} Mearth`) : `the default ${(base.massToKg / M_EARTH_KG).toPrecision(2)} Mearth`;
+    const otherMass = to ? h.massFromKg : h.massToKg;
+    if (key) key.r.problem(key.key, key.r.raw(key.key), to ? `must be heavier than the lightest moon (${from ? `${other} = ${(otherMass / M_EARTH_KG).toPrecision(3)} Mearth` : other})` : `must be lighter than the heaviest moon (${other})`);
   }
   return h;
 }
@@ -214,11 +256,13 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   const solve = pick<BudgetSolve>('solve', 'solve', (v) => (BUDGET_SOLVES as readonly unknown[]).includes(v), `expected one of ${BUDGET_SOLVES.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_SOLVES, 'transits'), 'transits');
   const channel = pick<BudgetChannel>('channel', 'channel', (v) => (BUDGET_CHANNELS as readonly unknown[]).includes(v), `expected one of ${BUDGET_CHANNELS.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_CHANNELS, 'combined'), 'combined');
   const nullRealizations = pick('nullRealizations', 'null_realizations', (v) => isInt(v, 4, 1_000_000), NULL_TEXT, (s) => readInt(s, 4, 1_000_000, NULL_TEXT), DEFAULT_BUDGET_NULL_REALIZATIONS);
-  const maxTransits = pick('maxTransits', 'max_transits', (v) => isInt(v, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS), MAX_TRANSITS_TEXT, (s) => readInt(s, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT), DEFAULT_MAX_TRANSITS);
+  const maxTransits = pick('maxTransits', 'max_transits', (v) => isInt(v, 1, MAX_BUDGET_TRANSITS), MAX_TRANSITS_TEXT, (s) => readInt(s, 1, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT), DEFAULT_MAX_TRANSITS);
   const forecastOnly = pick('forecastOnly', 'forecast_only', (v) => typeof v === 'boolean', 'expected true or false', (s) => readBool(s) ?? false, false);
 
   let moonMassKg: number | null = null;
   let moonMassSource = 'moon.mass';
+  let moonMassText: string | null = target.moonMassText ?? null;
+  let moonSeparationText: string | null = target.moonSeparationText ?? null;
   if (target.moonMassKg !== undefined) {
     checkTyped(problems, 'moonMassKg', target.moonMassKg, target.moonMassKg > 0 && Number.isFinite(target.moonMassKg), 'must be a positive mass in kg');
     moonMassKg = target.moonMassKg;
@@ -226,6 +270,7 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   } else if (has('moon_mass')) {
     moonMassKg = readMass({ r: b, key: 'moon_mass' });
     moonMassSource = 'budget.moon_mass';
+    moonMassText = typeof b.raw('moon_mass') === 'string' ? (b.raw('moon_mass') as string) : null;
   }
   let moonSeparation: number | string | null = null;
   let moonSeparationSource = 'moon.separation';
@@ -237,6 +282,7 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   } else if (has('moon_separation')) {
     moonSeparation = readSeparation({ r: b, key: 'moon_separation' });
     moonSeparationSource = 'budget.moon_separation';
+    moonSeparationText = typeof b.raw('moon_separation') === 'string' ? (b.raw('moon_separation') as string) : null;
   }
 
   let habitable: HabitableTarget | null = null;
@@ -267,5 +313,5 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   const realizations = pick('realizations', 'realizations', (v) => isInt(v, 1, 100000), REALIZATIONS_TEXT, (s) => readInt(s, 1, 100000, REALIZATIONS_TEXT), habitable ? DEFAULT_HABITABLE_REALIZATIONS : DEFAULT_BUDGET_REALIZATIONS);
   b.rejectUnknown();
   if (problems.length > 0) throw new InputError(problems, source);
-  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable };
+  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, moonSeparationText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable };
 }

@@ -49,6 +49,10 @@ export interface BudgetTarget {
   habitable?: HabitableTarget | null;
   /** Names of the moon values' source for messages (the CLI passes its flag names); default `target.<field>`. */
   sourceNames?: { moonMassKg?: string; moonSeparation?: string };
+  /** The target moon's mass as the user wrote it (the CLI sets it), so answers use their unit. */
+  moonMassText?: string;
+  /** The target moon's separation as the user wrote it ("18 Rp", "0.2 hill", "0.01 AU"). */
+  moonSeparationText?: string;
 }
 
 /** The question with every default filled in and every value checked. */
@@ -58,6 +62,10 @@ export interface ResolvedBudgetTarget {
   /** Where the moon values came from (for messages): a flag name or a `budget.` path. */
   moonMassSource: string;
   moonSeparationSource: string;
+  /** The target moon's mass as the user wrote it ("0.6 Mearth"), for answers in their unit; null when not given as text. */
+  moonMassText: string | null;
+  /** The separation as the user wrote it, for answers in their unit; null when not given as text. */
+  moonSeparationText: string | null;
   probability: number;
   solve: BudgetSolve;
   channel: BudgetChannel;
@@ -138,6 +146,10 @@ export interface BudgetForecastCurve {
 
 export interface BudgetTargetMoon {
   mass_kg: number;
+  /** The mass in the unit the user wrote (Earth masses otherwise), for display. */
+  mass_text: string;
+  /** The separation in km, and in the unit the user wrote when it was not a length in km. */
+  separation_text: string;
   separation_m: number;
   radius_m: number;
   placement: string[];

@@ -1,7 +1,7 @@
 /** The readable form of a `BudgetResult`: the answer, a table of evaluated values, notes and assumptions. */
 import { M_EARTH_KG } from '../physics/constants.js';
 import type { BudgetResult } from './budgetTypes.js';
-import { formatQuantity } from './solvedQuantity.js';
+import { formatQuantity, pct } from './solvedQuantity.js';
 
 const p3 = (p: number | null | undefined): string => (p === null || p === undefined || !Number.isFinite(p) ? '—' : p.toFixed(3));
 
@@ -20,10 +20,10 @@ export function formatBudget(r: BudgetResult): string {
   lines.push(`${r.scenario}: observing budget`, '');
   if (r.target_moon) {
     const m = r.target_moon;
-    lines.push(`  target     ${(100 * r.probability_target).toFixed(0)} % ${r.channel} detection of a ${(m.mass_kg / M_EARTH_KG).toPrecision(3)} Mearth moon (radius ${(m.radius_m / 1e3).toFixed(0)} km) at ${(m.separation_m / 1e3).toFixed(0)} km; ${m.placement.join('; ')}${m.habitability ? `, ${m.habitability}` : ''}`);
+    lines.push(`  target     ${pct(r.probability_target)} ${r.channel} detection of a ${m.mass_text} moon (radius ${(m.radius_m / 1e3).toFixed(0)} km) at ${m.separation_text}; ${m.placement.join('; ')}${m.habitability ? `, ${m.habitability}` : ''}`);
   } else if (r.habitable) {
     const h = r.habitable;
-    lines.push(`  target     ${(100 * h.fraction).toFixed(0)} % of the temperate, stable moons of ${(h.mass_from_kg / M_EARTH_KG).toPrecision(2)}–${(h.mass_to_kg / M_EARTH_KG).toPrecision(2)} Mearth (${h.targets.length} of ${h.candidates} on the grid) at ${(100 * r.probability_target).toFixed(0)} % ${r.channel} detection each`);
+    lines.push(`  target     ${(100 * h.fraction).toFixed(0)} % of the temperate, stable moons of ${(h.mass_from_kg / M_EARTH_KG).toPrecision(2)}–${(h.mass_to_kg / M_EARTH_KG).toPrecision(2)} Mearth (${h.targets.length} of ${h.candidates} on the grid) at ${pct(r.probability_target)} ${r.channel} detection each`);
   }
   lines.push(`  solve for  ${solveText(r)}, the rest of the scenario fixed`);
   lines.push(`  method     ${r.monte_carlo ? `analytic forecast as the first guess, then a Monte Carlo search: ${r.realizations} moon realizations${r.habitable ? ` for each of ${r.habitable.simulated} moons` : ''} and ${r.null_realizations} no-moon realizations per value, false-alarm ${r.false_alarm} per channel` : 'analytic forecast only (no Monte Carlo)'}`);

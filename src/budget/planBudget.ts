@@ -23,7 +23,7 @@ import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
 import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
 import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
-import { windowHalfWidthS } from '../photometry/transitWindows.js';
+import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../photometry/transitWindows.js';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
 import { parseScenario } from '../scenario/parseScenario.js';
@@ -31,12 +31,12 @@ import type { Scenario } from '../scenario/types.js';
 import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
 } from './budgetTypes.js';
-import { resolveBudgetTarget } from './budgetSpec.js';
+import { minTransitsFor, resolveBudgetTarget } from './budgetSpec.js';
 import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlong, type ValuePrecision } from './budgetForecast.js';
 import { habitablePopulation, spreadEvenly } from './habitableTargets.js';
 import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from './monteCarloPoint.js';
 import { searchCheapestPassing } from './monotoneSearch.js';
-import { applyQuantity, formatQuantity, solvedQuantity, type SolvedQuantity } from './solvedQuantity.js';
+import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from './solvedQuantity.js';
 import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from './targetMoon.js';
 
 /** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
@@ -44,7 +44,6 @@ const COMBINED_CHANNELS = 3;
 /** Forecast search limit when extrapolating beyond --max-transits. */
 const FORECAST_TRANSITS_LIMIT = 10000;
 
-const pct = (p: number): string => `${(100 * p).toFixed(p > 0.995 && p < 1 ? 1 : 0)} %`;
 const p3 = (p: number): string => (Number.isFinite(p) ? p.toFixed(3) : 'n/a');
 
 /** "p = 0.930 [0.862, 0.966]" */
@@ -103,7 +102,18 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   const t = resolveBudgetTarget(doc, target, source);
   const clean = withoutBlocks(doc);
   const base = parseScenario(clean, source);
-  const q = solvedQuantity(t.solve, clean, base, t.maxTransits);
+  assertObservable(base, source);
+  const q = solvedQuantity(t.solve, clean, base, t.maxTransits, t.channel);
+  if (q.solve === 'transits') {
+    // The largest transit count must fit in memory too: blame the option that sets it.
+    const most = { ...base, observation: { ...base.observation, transits: q.values[q.values.length - 1] } };
+    const size = observationSizeProblems(most);
+    if (size.length > 0) {
+      const block = (doc as { budget?: Record<string, unknown> } | null)?.budget;
+      const src = target.maxTransits !== undefined ? '--max-transits' : block && block.max_transits !== undefined ? 'budget.max_transits' : `--max-transits (default ${t.maxTransits})`;
+      throw new InputError([{ path: src, value: t.maxTransits, allowed: `${size[0].allowed.replace(/; use a coarser cadence.*$/, '')}; use fewer transits at most, or a coarser cadence (instrument.cadence)` }], source);
+    }
+  }
   const ctx: Context = {
     t, base, q,
     mc: { seed: base.seed, realizations: t.realizations, nullRealizations: t.nullRealizations, channel: t.channel, probability: t.probability },
@@ -192,7 +202,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   const tm = withTargetMoon(clean, t, source);
   ctx.notes.push(...tm.notes);
   const limits = computeLimits(tm.scenario);
-  const moon = targetMoonInfo(tm.scenario, limits);
+  const moon = targetMoonInfo(tm.scenario, limits, t.moonMassText, t.moonSeparationText);
   const sig = moonSignal(limits);
   const tf = performance.now();
   const precisions = precisionsAlong(q, tm.doc, tm.scenario);
@@ -214,6 +224,8 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
     const reasons = [`the target moon is not where a moon can orbit (${moon.placement.join('; ')}; computeLimits): it is not simulated and no budget reaches it`];
     return { ...part, evaluations: [], answer: unreached(ctx, null, reasons) };
   }
+  const absent = channelAbsent(ctx);
+  if (absent) return { ...part, evaluations: [], answer: unreached(ctx, null, [absent]) };
   if (t.forecastOnly) return { ...part, evaluations: [], answer: forecastAnswer(ctx, fc, fcIndex, limits, precisions) };
 
   const K = q.values.length;
@@ -277,12 +289,39 @@ function unreached(ctx: Context, best: BudgetEvaluation | null, reasons: string[
   return { reached: false, value: null, index: null, transits, hours, at: best, cheaperNeighbour: null, dearerNeighbour: null, statement, reasons };
 }
 
+/**
+ * Why the asked channel cannot exist whatever the cadence or noise (the scenario's transit count is
+ * below what it needs, budgetSpec.ts minTransitsFor), or null. Solving for transits starts the grid
+ * where the channel exists instead.
+ */
+function channelAbsent(ctx: Context): string | null {
+  const n = ctx.base.observation.transits;
+  const ch = ctx.t.channel;
+  if (ctx.q.solve === 'transits' || n >= minTransitsFor(ch)) return null;
+  const why = ch === 'ttv' ? 'a linear ephemeris (2 free parameters) fits 2 mid-times exactly, TTV needs 3 transits' : 'one duration leaves no degree of freedom, TDV needs 2 transits';
+  return `no ${ch.toUpperCase()} channel with ${n} transit${n === 1 ? '' : 's'}: ${why}; choose --channel ${ch === 'ttv' ? 'tdv, dip or combined' : 'dip or combined'}, or more transits (observation.transits)`;
+}
+
+/** Why no value has a forecast: the dip channel has none; a timing channel may not exist at this transit count. */
+function noForecastReason(ctx: Context, precisions: ValuePrecision[]): string {
+  if (ctx.t.channel !== 'dip' && precisions.every((p) => !(p.sigmaTcS > 0 && Number.isFinite(p.sigmaTcS)))) {
+    return 'no analytic forecast: without noise the timing precision is not a positive number, so there is no white-noise χ² test to forecast (run without --forecast-only for the Monte Carlo)';
+  }
+  const n = ctx.base.observation.transits;
+  const ch = ctx.t.channel;
+  if (ctx.q.solve !== 'transits' && ch !== 'dip' && n < minTransitsFor(ch === 'combined' ? 'tdv' : ch)) {
+    const what = ch === 'ttv' ? `no TTV channel with ${n} transit${n === 1 ? '' : 's'} (a linear ephemeris has 2 free parameters; TTV needs 3)` : `no timing channel with ${n} transit; moon dip only`;
+    return `${what}: no analytic forecast; run without --forecast-only for the Monte Carlo${ch === 'ttv' ? ', or choose --channel tdv, dip or combined' : ''}`;
+  }
+  return 'there is no analytic forecast for this channel (run without forecast-only for the Monte Carlo)';
+}
+
 /** The answer when the user asked for the forecast alone. */
 function forecastAnswer(ctx: Context, fc: Array<number | null>, fcIndex: number | null, limits: LimitsJson | null, precisions: ValuePrecision[]): BudgetAnswer {
   const { q, t } = ctx;
   if (fcIndex === null) {
     const reasons = fc.every((p) => p === null)
-      ? ['there is no analytic forecast for this channel (run without forecast-only for the Monte Carlo)']
+      ? [noForecastReason(ctx, precisions)]
       : limits ? diagnose(ctx, limits, precisions, null, fc) : [`the forecast stays below the target over the whole range (at most ${pct(Math.max(...fc.map((p) => p ?? 0)))})`];
     return unreached(ctx, null, reasons);
   }
@@ -396,6 +435,8 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
     const ex = Object.entries(pop.excluded).map(([k, v]) => `${v} ${k}`).join(', ');
     return { ...part, evaluations: [], answer: unreached(ctx, null, [`none of the ${pop.candidates} candidate moons of ${(h.massFromKg / M_EARTH_KG).toPrecision(2)}–${(h.massToKg / M_EARTH_KG).toPrecision(2)} Mearth is both stable and temperate (${ex || 'no separation lies between the Roche and the stable limit'})`]) };
   }
+  const absent = channelAbsent(ctx);
+  if (absent) return { ...part, evaluations: [], answer: unreached(ctx, null, [absent]) };
   if (t.forecastOnly) return { ...part, evaluations: [], answer: forecastAnswer(ctx, fc, fcIndex, null, precisions) };
   const K = q.values.length;
   const start = startIndex(ctx, fc, fcIndex);
@@ -459,6 +500,8 @@ function assumptions(ctx: Context): string[] {
   ];
   if (ctx.q.solve === 'cadence') out.push('the finest cadence considered is 10 s and the coarsest T14/3; the exposure follows the cadence (at the scenario\'s exposure/cadence ratio when it gives an exposure)');
   if (ctx.q.solve === 'precision') out.push('the white-noise level changes at the scenario\'s stated timescale, between 1/100 and 100 times the scenario\'s level');
-  if (ctx.q.solve === 'transits') out.push(`at least ${ctx.q.values[0]} transits (a TTV excess against a linear ephemeris needs N − 2 ≥ 1 degrees of freedom)`);
+  if (ctx.q.solve === 'transits') {
+    out.push(`from ${ctx.q.values[0]} transit${ctx.q.values[0] === 1 ? '' : 's'}: the TTV channel needs 3 (N − 2 ≥ 1 degrees of freedom against a linear ephemeris), TDV 2, the moon dip 1; below 3 the combined rule uses the channels that exist`);
+  }
   return out;
 }

@@ -11,10 +11,10 @@
  */
 import { MINUTE_S } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
-import { scenarioDurations } from '../photometry/transitWindows.js';
+import { lightCurvePointCount, MAX_LIGHT_CURVE_POINTS, scenarioDurations } from '../photometry/transitWindows.js';
 import { writeAxisValue, type AxisWriteContext } from '../sweep/axisFields.js';
-import type { BudgetQuantityInfo, BudgetSolve } from './budgetTypes.js';
-import { MIN_BUDGET_TRANSITS } from './budgetSpec.js';
+import type { BudgetChannel, BudgetQuantityInfo, BudgetSolve } from './budgetTypes.js';
+import { minTransitsFor } from './budgetSpec.js';
 
 /** Ratio between neighbouring cadence or noise values. */
 export const GEOMETRIC_STEP = 2 ** 0.25;
@@ -49,17 +49,20 @@ function geometricGrid(anchor: number, lo: number, hi: number): number[] {
 }
 
 /** The grid and writing context for `solve` on the parsed scenario `base` (and its document `doc`). */
-export function solvedQuantity(solve: BudgetSolve, doc: unknown, base: Scenario, maxTransits: number): SolvedQuantity {
+export function solvedQuantity(solve: BudgetSolve, doc: unknown, base: Scenario, maxTransits: number, channel: BudgetChannel = 'ttv'): SolvedQuantity {
   const field = FIELDS[solve];
   if (solve === 'transits') {
     const values: number[] = [];
-    for (let n = MIN_BUDGET_TRANSITS; n <= maxTransits; n++) values.push(n);
+    // From the fewest transits at which the channel exists (budgetSpec.ts minTransitsFor).
+    for (let n = minTransitsFor(channel); n <= maxTransits; n++) values.push(n);
     return { solve, field, unit: '', displayUnit: 'transits', displayFactor: 1, values, scenarioValue: base.observation.transits, cheaper: 'fewer transits', write: {}, remove: [] };
   }
   if (solve === 'cadence') {
     const c0 = base.instrument.cadenceS;
     const t14 = scenarioDurations(base).t14S;
-    const values = geometricGrid(c0, MIN_CADENCE_S, MAX_CADENCE_PER_T14 * t14).reverse(); // coarsest (cheapest) first
+    // Coarsest (cheapest) first; cadences whose light curve would exceed the size limit are left out.
+    const values = geometricGrid(c0, MIN_CADENCE_S, MAX_CADENCE_PER_T14 * t14).reverse()
+      .filter((c) => c === c0 || lightCurvePointCount({ ...base, instrument: { ...base.instrument, cadenceS: c } }) <= MAX_LIGHT_CURVE_POINTS);
     const write: AxisWriteContext = {};
     const instrument = (doc as Record<string, unknown>).instrument as Record<string, unknown> | undefined;
     if (instrument && instrument.exposure !== undefined && instrument.exposure !== null) write.exposureRatio = base.instrument.exposureS / c0;
@@ -103,3 +106,10 @@ export function formatQuantity(q: Pick<BudgetQuantityInfo, 'solve' | 'displayUni
   if (q.solve === 'transits') return `${v} transit${v === 1 ? '' : 's'}`;
   return `${v >= 100 ? v.toFixed(0) : v.toPrecision(3)} ${q.displayUnit}`;
 }
+
+/** A probability in per cent, with the digits it needs (0.99 → "99 %", 6e-5 → "0.006 %"). */
+export const pct = (p: number): string => {
+  const x = 100 * p;
+  if (x > 0 && x < 1) return `${x.toPrecision(1)} %`;
+  return `${x.toFixed(p > 0.995 && p < 1 ? 1 : 0)} %`;
+};

@@ -4,7 +4,9 @@
  */
 import { DEFAULT_MOON_DENSITY_KG_M3, type LimitsJson } from '../physics/computeLimits.js';
 import { meanDensity } from '../physics/rocheLimit.js';
-import { InputError } from '../scenario/errors.js';
+import { describeValue, InputError, type FieldProblem } from '../scenario/errors.js';
+import { parseQuantity, splitNumberUnit } from '../scenario/units.js';
+import { M_EARTH_KG } from '../physics/constants.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { writeAxisValue } from '../sweep/axisFields.js';
@@ -50,13 +52,57 @@ export function withTargetMoon(doc: unknown, t: ResolvedBudgetTarget, source = '
     return { doc: out, scenario: parseScenario(out, source), notes };
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
-    const rename = (p: string): string => {
-      if (p.startsWith('moon.mass') && t.moonMassKg !== null) return `${t.moonMassSource} (the target moon's mass)`;
-      if (p.startsWith('moon.separation') && t.moonSeparation !== null) return `${t.moonSeparationSource} (the target moon's separation)`;
+    // Blame what the user changed: a problem in moon.* that only the target's mass can have caused
+    // (the scenario's own separation now too close, since the radius follows the mass at the
+    // scenario's density) names the mass flag, with the value as they wrote it.
+    const massValue = t.moonMassText ?? t.moonMassKg;
+    const renamed = e.problems.map((p): FieldProblem => {
+      if (p.path.startsWith('moon.mass') && t.moonMassKg !== null) return { ...p, path: `${t.moonMassSource} (the target moon's mass)`, value: massValue };
+      if (p.path.startsWith('moon.separation') && t.moonSeparation !== null) return { ...p, path: `${t.moonSeparationSource} (the target moon's separation)` };
+      if (p.path.startsWith('moon.') && t.moonMassKg !== null) {
+        const what = p.path.startsWith('moon.separation') ? `at the scenario's moon.separation ${describeValue(p.value)}` : `with the scenario's ${p.path} ${describeValue(p.value)}`;
+        return { path: `${t.moonMassSource} (the target moon's mass)`, value: massValue, allowed: `${what} (the moon's radius follows from this mass and the scenario's moon density): ${p.allowed}; choose a lighter moon or give --moon-separation` };
+      }
       return p;
-    };
-    throw new InputError(e.problems.map((p) => ({ ...p, path: rename(p.path) })), source);
+    });
+    throw new InputError(renamed, source);
   }
+}
+
+/**
+ * A separation in km, followed by the unit the user wrote when it was another one
+ * ("18 Rp" → "857904 km (18.0 Rp)", "0.2 hill", "0.01 AU").
+ */
+export function separationInUserUnit(m: number, userText: string | null | undefined, planetRadiusM: number, hillRadiusM: number): string {
+  const km = `${(m / 1e3).toFixed(0)} km`;
+  const nu = typeof userText === 'string' ? splitNumberUnit(userText.trim()) : null;
+  if (!nu || !nu.unit || nu.unit === 'km') return km;
+  if (nu.unit === 'Rp') return `${km} (${(m / planetRadiusM).toPrecision(3)} Rp)`;
+  if (nu.unit === 'hill') return `${km} (${(m / hillRadiusM).toPrecision(3)} Hill radii)`;
+  try {
+    const per = parseQuantity(`1 ${nu.unit}`, 'unit', 'length');
+    if (per > 0 && Number.isFinite(per)) return `${km} (${(m / per).toPrecision(3)} ${nu.unit})`;
+  } catch {
+    // not a length unit: km alone
+  }
+  return km;
+}
+
+/**
+ * A mass in the unit the user wrote (`userText`, e.g. "10 Msun" → "10.0 Msun"),
+ * else in Earth masses.
+ */
+export function massInUserUnit(kg: number, userText: string | null | undefined): string {
+  const nu = typeof userText === 'string' ? splitNumberUnit(userText.trim()) : null;
+  if (nu && nu.unit) {
+    try {
+      const per = parseQuantity(`1 ${nu.unit}`, 'unit', 'mass');
+      if (per > 0 && Number.isFinite(per)) return `${(kg / per).toPrecision(3)} ${nu.unit}`;
+    } catch {
+      // not a mass unit: fall through
+    }
+  }
+  return `${(kg / M_EARTH_KG).toPrecision(3)} Mearth`;
 }
 
 /** A moon document for a population grid: mass and separation (SI) at the given density, radius from it. */
@@ -74,10 +120,12 @@ export function scenarioMoonDensity(s: Scenario): number {
   return s.moon ? meanDensity(s.moon.massKg, s.moon.radiusM) : DEFAULT_MOON_DENSITY_KG_M3;
 }
 
-export function targetMoonInfo(s: Scenario, l: LimitsJson): BudgetTargetMoon {
+export function targetMoonInfo(s: Scenario, l: LimitsJson, massText: string | null = null, separationText: string | null = null): BudgetTargetMoon {
   const m = s.moon!;
   return {
     mass_kg: m.massKg,
+    mass_text: massInUserUnit(m.massKg, massText),
+    separation_text: separationInUserUnit(m.separationM, separationText, s.planet.radiusM, l.hill_radius_m),
     separation_m: m.separationM,
     radius_m: m.radiusM,
     placement: l.moon_placement ?? [],

@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
+import { assertObservable } from '../photometry/transitWindows.js';
 import { AU_M, DAY_S, HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
 import type { CliIo } from './main.js';
@@ -14,6 +15,7 @@ export function registerLimits(program: Command, io: CliIo): void {
     .option('--json', 'print JSON with SI keys instead of the table')
     .action((scenarioPath: string, opts: { json?: boolean }) => {
       const scenario = loadScenario(scenarioPath);
+      assertObservable(scenario, scenarioPath);
       const limits = computeLimits(scenario);
       io.out(opts.json ? JSON.stringify(limits, null, 2) + '\n' : formatLimits(scenario, limits));
     });
@@ -34,6 +36,18 @@ export function stableBandBar(l: LimitsJson, planetRadiusM: number, width = 60):
   }
   if (l.moon_separation_m !== null) chars[col(l.moon_separation_m)] = 'M';
   return `[${chars.join('')}]`;
+}
+
+const pct = (p: number | null, none: string) => (p === null ? none : `${(100 * p).toFixed(1)} %`);
+
+/** The forecast row: every channel that the transit count allows, and which ones it does not. */
+function forecastText(l: LimitsJson): string {
+  if (l.forecast_detection_probability === null && l.transits >= 2) return 'no forecast (see below)';
+  if (l.forecast_detection_probability === null) return `no timing channel with ${l.transits} transit${l.transits === 1 ? '' : 's'}; moon dip only (not forecast; see below)`;
+  if (l.forecast_ttv_probability === null) {
+    return `no TTV channel with ${l.transits} transits; TDV ${pct(l.forecast_tdv_probability, '–')} (1 degree of freedom) at false-alarm ${l.false_alarm_probability}; moon dip not forecast`;
+  }
+  return `joint ${pct(l.forecast_detection_probability, '–')} (TTV ${pct(l.forecast_ttv_probability, '–')}, TDV ${pct(l.forecast_tdv_probability, '–')}) at false-alarm ${l.false_alarm_probability}`;
 }
 
 export function formatLimits(s: Scenario, l: LimitsJson): string {
@@ -59,8 +73,8 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
   row('ingress', dur(l.ingress_duration_s));
   row('depth at mid-transit', `${(l.transit_depth * 1e6).toFixed(0)} ppm`);
   row('white noise per exposure', `${(l.noise_per_exposure * 1e6).toFixed(1)} ppm`);
-  row('mid-time precision (model Fisher bound)', `${dur(l.timing_precision_s)} (Carter 2008 trapezoid: ${dur(l.timing_precision_carter_s)})`);
-  row('duration precision (model Fisher bound)', `${dur(l.duration_precision_s)} (Carter 2008 trapezoid: ${dur(l.duration_precision_carter_s)})`);
+  row('mid-time precision (model Fisher bound)', `${dur(l.timing_precision_s)} (Carter 2008 trapezoid: ${l.timing_precision_carter_s === null ? 'n/a, see below' : dur(l.timing_precision_carter_s)})`);
+  row('duration precision (model Fisher bound)', `${dur(l.duration_precision_s)} (Carter 2008 trapezoid: ${l.duration_precision_carter_s === null ? 'n/a, see below' : dur(l.duration_precision_carter_s)})`);
   if (s.moon && l.moon_placement) {
     const m = s.moon;
     lines.push('', `The moon: ${fmt(m.massKg / M_EARTH_KG)} Mearth at ${(m.separationM / rp).toFixed(1)} Rp (${(m.separationM / l.hill_radius_m).toFixed(3)} Hill radii), ${m.retrograde ? 'retrograde' : 'prograde'}`);
@@ -73,7 +87,7 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
     row('moon periods with the same alias', l.ttv_alias_family_periods_s!.map((p) => `${(p / DAY_S).toFixed(3)} d`).join(', '));
     row('moon dip depth', `${l.moon_depth_ppm!.toFixed(2)} ppm`);
     row('photocentric / barycentric TTV weight', `${l.photocentric_ratio!.toPrecision(2)}${l.forecast_regime_ok ? '' : '  (forecast outside its regime: see below)'}`);
-    row(`forecast detection, ${l.transits} transits`, `joint ${(100 * l.forecast_detection_probability!).toFixed(1)} % (TTV ${(100 * l.forecast_ttv_probability!).toFixed(1)} %, TDV ${(100 * l.forecast_tdv_probability!).toFixed(1)} %) at false-alarm ${l.false_alarm_probability}`);
+    row(`forecast detection, ${l.transits} transit${l.transits === 1 ? '' : 's'}`, forecastText(l));
     const e = l.energy_budget!;
     lines.push('', 'Energy budget at the moon (orbit- and globally averaged, absorbed)');
     row('starlight (less eclipses)', `${e.stellar_W_m2.toFixed(2)} W/m²`);

@@ -8,6 +8,7 @@ import type { Scenario } from '../scenario/types.js';
 import { renderTable } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderSimulatePage } from '../report/simulatePage.js';
+import { assertObservable, windowsOverlap } from '../photometry/transitWindows.js';
 import { defaultOutDir } from './outputPaths.js';
 import type { CliIo } from './main.js';
 
@@ -24,11 +25,13 @@ export function registerSimulate(program: Command, io: CliIo): void {
       if (opts.format !== 'ecsv' && opts.format !== 'csv') {
         throw new InputError([{ path: '--format', value: opts.format, allowed: 'expected "ecsv" or "csv"' }]);
       }
-      const realization = Number(opts.realization);
-      if (!Number.isInteger(realization) || realization < 0) {
-        throw new InputError([{ path: '--realization', value: opts.realization, allowed: 'expected an integer ≥ 0' }]);
+      // The random stream index is a safe integer (noise/rng.ts): 0 … 2^53 − 1, written in digits.
+      const realization = /^\s*\d+\s*$/.test(opts.realization) ? Number(opts.realization) : NaN;
+      if (!Number.isSafeInteger(realization) || realization < 0) {
+        throw new InputError([{ path: '--realization', value: opts.realization.length > 40 ? `${opts.realization.slice(0, 40)}…` : opts.realization, allowed: `expected a whole number from 0 to ${Number.MAX_SAFE_INTEGER}, written in digits` }]);
       }
       const scenario = loadScenario(scenarioPath);
+      assertObservable(scenario, scenarioPath);
       const noiseless = opts.noiseless === true;
       const sim = simulateScenario(scenario, { noiseless, realization });
       const outDir = opts.out ?? defaultOutDir(scenario.name);
@@ -44,6 +47,12 @@ export function registerSimulate(program: Command, io: CliIo): void {
       io.out(`${scenario.name}: ${sim.observation.timeS.length} points in ${scenario.observation.transits} transit windows` +
         `${noiseless ? ' (noiseless)' : `, white noise ${(sim.observation.sigma * 1e6).toFixed(1)} ppm per exposure`}\n`);
       for (const line of noiseModelLines(scenario, noiseless)) io.out(`  ${line}\n`);
+      if (windowsOverlap(scenario)) {
+        io.out(`  note: the baseline reaches past half the period, so the windows are cut at the midpoints between conjunctions (each time stamp once, a continuous light curve there)\n`);
+      }
+      if (sim.recovery.noTransitObserved) {
+        io.out(`  no transit observed in this realization: every transit was lost to missed transits or gaps (${sim.observation.timeS.length} points kept); nothing was fitted\n`);
+      }
       io.out('epoch   true TTV (s)  true TDV (s) | fit    fitted TTV (s)       fitted TDV (s)\n');
       const meanDur = sim.truth.reduce((a, t) => a + t.durationS, 0) / sim.truth.length;
       const fits = fitOf(sim);

@@ -61,9 +61,9 @@ export interface LimitsJson {
   /** Cramér–Rao bound from the exact limb-darkened, exposure-averaged model (used by the forecast). */
   timing_precision_s: number;
   duration_precision_s: number;
-  /** Carter et al. (2008) trapezoid with the Price & Rogers (2014) cadence correction, for reference. */
-  timing_precision_carter_s: number;
-  duration_precision_carter_s: number;
+  /** Carter et al. (2008) trapezoid with the Price & Rogers (2014) cadence correction, for reference; null for a grazing transit (no flat bottom) or without noise. */
+  timing_precision_carter_s: number | null;
+  duration_precision_carter_s: number | null;
   habitable_zone_inner_m: number | null;
   habitable_zone_outer_m: number | null;
   moon_separation_m: number | null;
@@ -80,12 +80,15 @@ export interface LimitsJson {
   moon_depth_ppm: number | null;
   /** (R_S/R_P)² / (M_S/M_P): above ~0.2 the moon's own dip shifts the fitted mid-times (photocentric TTV). */
   photocentric_ratio: number | null;
-  /** Whether the forecast's assumptions hold (barycentric TTV dominates; see `assumptions`). */
+  /** Whether the forecast's assumptions hold (barycentric TTV dominates; see `assumptions`). Fewer than 3 transits do not break the regime: the channels that cannot be measured are null and named in `assumptions`. */
   forecast_regime_ok: boolean | null;
   false_alarm_probability: number;
   transits: number;
+  /** Null without a moon or without any timing channel (1 transit). */
   forecast_detection_probability: number | null;
+  /** Null without a moon or with fewer than 3 transits (no TTV channel against a linear ephemeris). */
   forecast_ttv_probability: number | null;
+  /** Null without a moon or with 1 transit. */
   forecast_tdv_probability: number | null;
   energy_budget: EnergyBudgetJson | null;
   assumptions: string[];
@@ -157,17 +160,24 @@ export function computeLimits(s: Scenario): LimitsJson {
   // Depth at mid-transit with limb darkening (Mandel & Agol 2002).
   const depth = 1 - transitFluxScalar(planet.impactParameter, p, star.u1, star.u2);
   const sigma = whiteNoiseSigma(instrument.noiseFraction, instrument.noiseTimescaleS, instrument.exposureS);
-  const prec = timingPrecision({
-    depth,
-    durationS: dur.tMidS,
-    ingressS: dur.ingressS,
-    noisePerSample: sigma,
-    cadenceS: instrument.cadenceS,
-    exposureS: instrument.exposureS,
-  });
+  // Grazing (b > 1 − p): no second and third contacts, so no flat bottom (Seager & Mallén-Ornelas 2003,
+  // ApJ 585, 1038, eqs. 3–4: T14 holds for b < 1 + p, T23 only for b < 1 − p). T14, the depth and the
+  // exact-model Fisher bound below still hold; Carter et al.'s (2008) trapezoid (τ < T) does not.
+  const grazing = !(dur.t23S > 0);
+  const carterApplies = !grazing && sigma > 0 && dur.ingressS < dur.tMidS;
+  const prec = carterApplies
+    ? timingPrecision({
+        depth,
+        durationS: dur.tMidS,
+        ingressS: dur.ingressS,
+        noisePerSample: sigma,
+        cadenceS: instrument.cadenceS,
+        exposureS: instrument.exposureS,
+      })
+    : null;
   // The fits measure the first-to-last-contact duration T14 by stretching a template, so the
   // Carter et al. (2008) error on T (mid-ingress to mid-egress) is scaled by T14/T (approximation).
-  const carterDurationPrecision = prec.sigmaDurS * (dur.t14S / dur.tMidS);
+  const carterDurationPrecision = prec ? prec.sigmaDurS * (dur.t14S / dur.tMidS) : null;
   // The forecast uses the Cramér–Rao bound of the model the recovery actually fits.
   const model = modelTimingPrecision(templateGeometryFromScenario(s), sigma, instrument.cadenceS, windowHalfWidthS(s));
   const modelTcPrecision = model.sigmaTcS;
@@ -187,6 +197,24 @@ export function computeLimits(s: Scenario): LimitsJson {
     `detection forecast: noncentral chi-square of white-noise TTV/TDV excesses at false-alarm probability ${s.detection.falseAlarm}`,
     'Roche limit, stability band and tidal survival are fits and idealisations, not guarantees',
   ];
+  if (grazing) {
+    assumptions.push(`grazing transit (b = ${planet.impactParameter.toFixed(3)} > 1 − Rp/R* = ${(1 - p).toFixed(3)}): no flat bottom (Seager & Mallén-Ornelas 2003), so the "mid-ingress to mid-egress" duration is T14/2 and Carter et al.'s (2008) trapezoid precision is not given; the timing precision is the Fisher bound of the exact grazing model, and a grazing transit's shape is degenerate between b and Rp/R* in a real fit${planet.impactParameter >= 0.999 ? `; the moon's dip is modelled at b = 0.999 (the orbital-sampling profile, Heller 2014, needs b < 1), which overstates it for b = ${planet.impactParameter.toFixed(3)}` : ''}`);
+  }
+  // Say what the forecast leaves out of what the scenario sets (the Monte Carlo of sweep and budget includes it).
+  const red = instrument.redNoise;
+  if (red) {
+    assumptions.push(`the forecast ignores the scenario's red noise (${red.model === 'drw' ? 'damped random walk' : 'power law'}, rms ${(red.rmsFraction * 1e6).toPrecision(3)} ppm): correlated noise makes the per-transit timing errors larger than the white-noise bound (Pont, Zucker & Queloz 2006, MNRAS 373, 231), so the forecast is optimistic; sweep and budget simulate it`);
+  }
+  if (observation.missedFraction > 0 || observation.dutyCycle < 1) {
+    const kept = (1 - observation.missedFraction) * observation.transits;
+    assumptions.push(`the forecast assumes all ${observation.transits} transits fully observed; the scenario misses each transit with probability ${observation.missedFraction} (about ${kept.toPrecision(3)} observed on average) and observes ${(100 * observation.dutyCycle).toPrecision(3)} % of each window: the forecast is optimistic; sweep and budget simulate the gaps`);
+  }
+  if (observation.transits > 1 && 2 * windowHalfWidthS(s) > planet.periodS) {
+    assumptions.push(`the baseline (${(observation.baselineS / 3600).toPrecision(3)} h each side) reaches past half the period: consecutive windows are cut at the midpoints between conjunctions, so the observation is continuous there and each time stamp is simulated once`);
+  }
+  if (moon && moon.massKg > planet.massKg) {
+    assumptions.push(`the moon (${(moon.massKg / planet.massKg).toPrecision(3)} × the planet's mass) is heavier than its planet: the labels "planet" and "moon" are swapped in a binary, and the nested-orbit formulas (Kipping 2009a) assume M_S ≪ M_P`);
+  }
   if (!hzValid) assumptions.push(`Teff ${star.teffK} K is outside the Kopparapu et al. (2013) fit range 2600–7200 K: no habitable-zone limits given`);
 
   const out: LimitsJson = {
@@ -206,7 +234,7 @@ export function computeLimits(s: Scenario): LimitsJson {
     noise_per_exposure: sigma,
     timing_precision_s: modelTcPrecision,
     duration_precision_s: durationPrecision,
-    timing_precision_carter_s: prec.sigmaTcS,
+    timing_precision_carter_s: prec ? prec.sigmaTcS : null,
     duration_precision_carter_s: carterDurationPrecision,
     habitable_zone_inner_m: hzInner,
     habitable_zone_outer_m: hzOuter,
@@ -265,15 +293,20 @@ export function computeLimits(s: Scenario): LimitsJson {
   const alias = ttvAlias(planet.periodS, sig.moonPeriodS);
   const family = aliasFamily(planet.periodS, alias.aliasFrequencyPerEpoch, 4).map((m) => m.moonPeriodS);
   const dip = moonDipDepth({ moonRadiusM: moon.radiusM, starRadiusM: star.radiusM, u1: star.u1, u2: star.u2, impactParameter: Math.min(planet.impactParameter, 0.999) });
-  const forecast = forecastDetection({
-    nTransits: observation.transits,
-    sigmaTcS: modelTcPrecision,
-    sigmaDurS: durationPrecision,
-    ttvRmsS: sig.ttvRmsS,
-    tdvRmsS: sig.tdvRmsS,
-    falseAlarm: s.detection.falseAlarm,
-    aliasFrequencyPerEpoch: alias.aliasFrequencyPerEpoch,
-  });
+  // Without noise the timing precision is not a positive number (no Cramér–Rao bound to compare
+  // against): no forecast, said so, rather than a failure.
+  const precisionOk = modelTcPrecision > 0 && durationPrecision > 0 && Number.isFinite(modelTcPrecision + durationPrecision);
+  const forecast = precisionOk
+    ? forecastDetection({
+        nTransits: observation.transits,
+        sigmaTcS: modelTcPrecision,
+        sigmaDurS: durationPrecision,
+        ttvRmsS: sig.ttvRmsS,
+        tdvRmsS: sig.tdvRmsS,
+        falseAlarm: s.detection.falseAlarm,
+        aliasFrequencyPerEpoch: alias.aliasFrequencyPerEpoch,
+      })
+    : { ttv: null, tdv: null, joint: null, notes: [`no detection forecast: the per-transit timing precision is ${modelTcPrecision} s (noise ${sigma}), not a positive number, so there is no white-noise χ² test to forecast`] };
 
   const tidal = tidalHeatFlux({
     planetMassKg: planet.massKg,
@@ -301,14 +334,13 @@ export function computeLimits(s: Scenario): LimitsJson {
   // planet-only template to a transit blended with the moon's dip follows the light-weighted centre,
   // which moves against the barycentric reflex with weight (R_S/R_P)² versus M_S/M_P.
   const photocentric = (moon.radiusM / planet.radiusM) ** 2 / (moon.massKg / planet.massKg);
-  const regimeOk = photocentric < 0.2 && observation.transits >= 3;
+  // Fewer than 3 transits is an answer, not a failure: the channels that exist are forecast
+  // (detectionForecast.ts, "Few transits") and the missing ones are named here.
+  const regimeOk = photocentric < 0.2;
   if (!regimeOk) {
-    out.assumptions.push(
-      photocentric >= 0.2
-        ? `the moon's own dip is large for its mass ((R_S/R_P)²/(M_S/M_P) = ${photocentric.toPrecision(2)}): its photocentric TTV (Szabó et al. 2006) partly cancels or reverses the barycentric TTV, so the analytic forecast does not hold; trust the Monte Carlo sweep`
-        : 'fewer than 3 transits: no TTV excess against a linear ephemeris can be measured',
-    );
+    out.assumptions.push(`the moon's own dip is large for its mass ((R_S/R_P)²/(M_S/M_P) = ${photocentric.toPrecision(2)}): its photocentric TTV (Szabó et al. 2006) partly cancels or reverses the barycentric TTV, so the analytic forecast does not hold; trust the Monte Carlo sweep`);
   }
+  out.assumptions.push(...forecast.notes);
 
   return {
     ...out,
@@ -326,9 +358,9 @@ export function computeLimits(s: Scenario): LimitsJson {
     moon_depth_ppm: dip.depthChordMean * 1e6,
     photocentric_ratio: photocentric,
     forecast_regime_ok: regimeOk,
-    forecast_detection_probability: forecast.joint.probability,
-    forecast_ttv_probability: forecast.ttv.probability,
-    forecast_tdv_probability: forecast.tdv.probability,
+    forecast_detection_probability: forecast.joint?.probability ?? null,
+    forecast_ttv_probability: forecast.ttv?.probability ?? null,
+    forecast_tdv_probability: forecast.tdv?.probability ?? null,
     energy_budget: {
       stellar_W_m2: budget.stellarWm2,
       reflected_W_m2: budget.reflectedWm2,

@@ -38,12 +38,24 @@
  * In both modes the false-alarm threshold is the central chi-square upper α
  * quantile and the detection probability is the noncentral chi-square
  * survival function at that threshold.
+ *
+ * Few transits. A channel exists only with at least one degree of freedom
+ * left after its fit (a χ² with 0 dof is identically 0 and carries no
+ * information, Seber & Lee 2003 §2.4):
+ *   N = 2: no TTV channel (the line t0 + nP passes exactly through two
+ *          mid-times, N − 2 = 0 dof); the TDV channel has N − 1 = 1 dof (the
+ *          difference of the two durations), and the joint test is that TDV
+ *          test alone (2N − 3 = 1 dof).
+ *   N = 1: no timing channel at all (one mid-time defines the epoch, one
+ *          duration defines the mean); only the moon's own dip, which this
+ *          forecast does not model, could show the moon.
+ * An absent channel is null, with the reason in `notes`.
  */
 
 import { chiSquareUpperQuantile, noncentralChiSquareSurvival } from '../timing/noncentralChiSquare.js';
 
 export interface DetectionForecastInput {
-  /** Number of observed transits N (≥ 3). */
+  /** Number of observed transits N (≥ 1; see "Few transits" in the header for N < 3). */
   nTransits: number;
   /** Per-transit mid-time uncertainty σ_tc, s. */
   sigmaTcS: number;
@@ -71,9 +83,31 @@ export interface ChannelForecast {
 }
 
 export interface DetectionForecast {
-  ttv: ChannelForecast;
-  tdv: ChannelForecast;
-  joint: ChannelForecast;
+  /** Null with fewer than 3 transits (no degree of freedom left after the linear ephemeris). */
+  ttv: ChannelForecast | null;
+  /** Null with fewer than 2 transits. */
+  tdv: ChannelForecast | null;
+  /** χ²_TTV + χ²_TDV over the channels that exist; null when none does. */
+  joint: ChannelForecast | null;
+  /** Why a channel is absent (empty when all three exist). */
+  notes: string[];
+}
+
+/** The one-line form of `missingChannelNotes` (for a table cell); null for N ≥ 3. */
+export function missingChannelSummary(n: number): string | null {
+  if (n >= 3) return null;
+  return n === 2
+    ? 'no TTV channel with 2 transits (a linear ephemeris fits 2 mid-times exactly); TDV (1 degree of freedom) and moon dip only'
+    : `no timing channel with ${n} transit; moon dip only`;
+}
+
+/** Why the timing channels that N transits cannot measure are absent (empty for N ≥ 3). */
+export function missingChannelNotes(n: number): string[] {
+  if (n >= 3) return [];
+  if (n === 2) {
+    return ['no timing channel with 2 transits: a linear ephemeris (2 free parameters) fits 2 mid-times exactly, so there is no TTV test; the TDV test has 1 degree of freedom (the difference of the two durations) and the joint forecast is that TDV test alone; the moon dip is not forecast (Monte Carlo only)'];
+  }
+  return [`no timing channel with ${n} transit: one mid-time and one duration leave no degree of freedom for a TTV or TDV test; only the moon's own dip (not forecast here; Monte Carlo only) could show a moon`];
 }
 
 function channel(dof: number, noncentrality: number, falseAlarm: number): ChannelForecast {
@@ -140,7 +174,7 @@ function phaseAveragedChannel(dof: number, q: PhaseQuadratic, falseAlarm: number
 /** Forecast TTV, TDV and joint detection probabilities (see the file header). */
 export function forecastDetection(input: DetectionForecastInput): DetectionForecast {
   const { nTransits: n, sigmaTcS, sigmaDurS, ttvRmsS, tdvRmsS, falseAlarm } = input;
-  if (!Number.isInteger(n) || n < 3) throw new RangeError(`nTransits must be an integer ≥ 3; got ${n}`);
+  if (!Number.isInteger(n) || n < 1) throw new RangeError(`nTransits must be an integer ≥ 1; got ${n}`);
   for (const [name, v] of [['sigmaTcS', sigmaTcS], ['sigmaDurS', sigmaDurS]] as const) {
     if (!(v > 0) || !Number.isFinite(v)) throw new RangeError(`${name} must be a positive finite number; got ${v}`);
   }
@@ -149,8 +183,9 @@ export function forecastDetection(input: DetectionForecastInput): DetectionForec
   }
   if (!(falseAlarm > 0 && falseAlarm < 1)) throw new RangeError(`falseAlarm must be in (0, 1); got ${falseAlarm}`);
   const nu = input.aliasFrequencyPerEpoch;
+  if (nu !== undefined && !(nu >= 0 && nu <= 0.5)) throw new RangeError(`aliasFrequencyPerEpoch must be in [0, 0.5]; got ${nu}`);
+  if (n < 2) return { ttv: null, tdv: null, joint: null, notes: missingChannelNotes(n) };
   if (nu !== undefined) {
-    if (!(nu >= 0 && nu <= 0.5)) throw new RangeError(`aliasFrequencyPerEpoch must be in [0, 0.5]; got ${nu}`);
     // TTV s = A(cosφ·u + sinφ·v), residual after the line; TDV s = −B(cosφ·v − sinφ·u), residual after the mean.
     const rt = residualProducts(n, nu, true);
     const rd = residualProducts(n, nu, false);
@@ -158,18 +193,21 @@ export function forecastDetection(input: DetectionForecastInput): DetectionForec
     const kd = 2 * (tdvRmsS / sigmaDurS) ** 2; // B²/σ_T²
     const qTtv = { a: kt * rt.uu, b: kt * rt.vv, c: kt * rt.uv };
     const qTdv = { a: kd * rd.vv, b: kd * rd.uu, c: -kd * rd.uv };
-    const qJoint = { a: qTtv.a + qTdv.a, b: qTtv.b + qTdv.b, c: qTtv.c + qTdv.c };
+    const hasTtv = n >= 3;
+    const qJoint = hasTtv ? { a: qTtv.a + qTdv.a, b: qTtv.b + qTdv.b, c: qTtv.c + qTdv.c } : qTdv;
     return {
-      ttv: phaseAveragedChannel(n - 2, qTtv, falseAlarm),
-      tdv: phaseAveragedChannel(n - 1, qTdv, falseAlarm),
-      joint: phaseAveragedChannel(2 * n - 3, qJoint, falseAlarm),
+      ttv: hasTtv ? phaseAveragedChannel(n - 2, qTtv, falseAlarm) : null,
+      tdv: n >= 2 ? phaseAveragedChannel(n - 1, qTdv, falseAlarm) : null,
+      joint: n >= 2 ? phaseAveragedChannel(Math.max(0, n - 2) + (n - 1), qJoint, falseAlarm) : null,
+      notes: missingChannelNotes(n),
     };
   }
-  const lambdaTtv = (n - 2) * (ttvRmsS / sigmaTcS) ** 2;
+  const lambdaTtv = Math.max(0, n - 2) * (ttvRmsS / sigmaTcS) ** 2;
   const lambdaTdv = (n - 1) * (tdvRmsS / sigmaDurS) ** 2;
   return {
-    ttv: channel(n - 2, lambdaTtv, falseAlarm),
-    tdv: channel(n - 1, lambdaTdv, falseAlarm),
-    joint: channel(2 * n - 3, lambdaTtv + lambdaTdv, falseAlarm),
+    ttv: n >= 3 ? channel(n - 2, lambdaTtv, falseAlarm) : null,
+    tdv: n >= 2 ? channel(n - 1, lambdaTdv, falseAlarm) : null,
+    joint: n >= 2 ? channel(Math.max(0, n - 2) + (n - 1), lambdaTtv + lambdaTdv, falseAlarm) : null,
+    notes: missingChannelNotes(n),
   };
 }

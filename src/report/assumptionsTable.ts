@@ -5,6 +5,8 @@
  * Rows are plain text; the caller escapes them.
  */
 import { parseScenario } from '../scenario/parseScenario.js';
+import type { Scenario } from '../scenario/types.js';
+import { scenarioDurations, windowsOverlap } from '../photometry/transitWindows.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { AU_M, DAY_S, HOUR_S, JULIAN_YEAR_S, L_SUN_W, M_EARTH_KG, M_JUP_KG, M_SUN_KG, R_EARTH_M, R_JUP_M, R_SUN_M } from '../physics/constants.js';
 import type { CellResult } from '../sweep/cellTypes.js';
@@ -15,27 +17,63 @@ import type { SweepSummary } from './summary.js';
 import { num } from './reportGrid.js';
 
 const DEG = 180 / Math.PI;
+const ppm = (x: number) => `${f(x * 1e6)} ppm`;
+
+/** The instrument row: cadence, exposure and where the white-noise level came from (stated, or a ground budget). */
+export function instrumentText(s: Scenario, mark: (field: string) => string = () => ''): string {
+  const ins = s.instrument;
+  const head = `cadence ${f(ins.cadenceS / 60)} min${mark('instrument.cadence')}, exposure ${f(ins.exposureS / 60)} min`;
+  const g = ins.ground;
+  if (!g) return `${head}, noise ${f(ins.noiseFraction * 1e6)} ppm per ${f(ins.noiseTimescaleS / 60)} min${mark('instrument.noise')}`;
+  return `${head}; white noise from a ground-based budget${mark('instrument.ground')}: ${f(g.apertureM)} m aperture, magnitude ${f(g.magnitude)}, throughput ${f(g.throughput)}, airmass ${f(g.airmass)}, site altitude ${f(g.altitudeM)} m, scintillation coefficient C_Y = ${f(g.scintillationCoefficient)} (Osborn et al. 2015), floor ${g.floorFraction > 0 ? `${ppm(g.floorFraction)} per ${f(g.floorTimescaleS / 60)} min` : 'none'}; per exposure: photon ${ppm(g.terms.photon)}, scintillation ${ppm(g.terms.scintillation)}, floor ${ppm(g.terms.floor)}, total ${ppm(g.terms.total)} (dominated by ${g.terms.dominant})`;
+}
+
+/** The noise-model row: the white level per exposure and the correlated noise the scenario sets (or that there is none). */
+export function noiseModelText(s: Scenario, mark: (field: string) => string = () => ''): string {
+  const ins = s.instrument;
+  const sigma = whiteNoiseSigma(ins.noiseFraction, ins.noiseTimescaleS, ins.exposureS);
+  const white = `white Gaussian noise, ${ppm(sigma)} per exposure (scaled as 1/√t from the stated timescale)`;
+  const r = ins.redNoise;
+  const red = !r
+    ? 'no correlated (red) noise'
+    : r.model === 'drw'
+      ? `plus correlated noise${mark('instrument.red_noise')}: a damped random walk (Kelly et al. 2009), rms ${ppm(r.rmsFraction)}, timescale ${f(r.tauS / 60)} min`
+      : `plus correlated noise${mark('instrument.red_noise')}: a power law S ∝ f^−${f(r.beta)} (Timmer & König 1995), rms ${ppm(r.rmsFraction)} over ${f(r.timescaleS / 60)} min`;
+  return `${white}; ${red}; no stellar activity, no instrumental systematics`;
+}
+
+/** The gaps row: missed transits and random gaps within the windows, or that every window was fully observed. */
+export function gapsText(s: Scenario, mark: (field: string) => string = () => ''): string {
+  const o = s.observation;
+  const parts: string[] = [];
+  if (o.missedFraction > 0) parts.push(`each transit missed with probability ${f(o.missedFraction)}${mark('observation.missed_fraction')} (weather, scheduling; drawn per realization)`);
+  if (o.dutyCycle < 1) parts.push(`${f(100 * o.dutyCycle)} % of each window observed${mark('observation.duty_cycle')}, in random gaps of mean length ${f(o.gapLengthS / 60)} min${mark('observation.gap_length')}`);
+  return parts.length ? parts.join('; ') : 'none: every transit and every window fully observed (no weather, no gaps)';
+}
 
 export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioDoc: unknown, runInfo: SweepRunInfo | null, cells: readonly CellResult[]): Array<[string, string]> {
   const rows: Array<[string, string]> = [['scenario', meta.scenario]];
   const swept = new Set(meta.axes.map((a) => a.field));
-  const mark = (field: string) => (swept.has(field) ? ' (swept)' : '');
+  // A field is marked when it, or a field under it (instrument.ground.aperture under instrument.ground), is an axis.
+  const mark = (field: string) => ([...swept].some((a) => a === field || a.startsWith(`${field}.`)) ? ' (swept)' : '');
+  let forecastIgnores = '';
   if (scenarioDoc !== null && scenarioDoc !== undefined) {
     const s = parseScenario(scenarioDoc, 'scenario');
+    const ignored = [s.instrument.redNoise ? 'red noise' : '', s.observation.missedFraction > 0 || s.observation.dutyCycle < 1 ? 'gaps and missed transits' : ''].filter(Boolean);
+    if (ignored.length) forecastIgnores = `; it ignores the ${ignored.join(' and the ')} set in the scenario (only simulations include them)`;
     const st = s.star;
     rows.push(['star', `M = ${f(st.massKg / M_SUN_KG)} M☉, R = ${f(st.radiusM / R_SUN_M)} R☉, Teff = ${f(st.teffK)} K, L = ${f(st.luminosityW / L_SUN_W)} L☉, age ${f(st.ageS / (1e9 * JULIAN_YEAR_S))} Gyr; quadratic limb darkening u1 = ${st.u1}, u2 = ${st.u2}`]);
     const p = s.planet;
-    rows.push(['planet', `M = ${f(p.massKg / M_JUP_KG)} M_J${mark('planet.mass')}, R = ${f(p.radiusM / R_JUP_M)} R_J, P = ${f(p.periodS / DAY_S, 5)} d${mark('planet.period')}, a = ${f(p.semiMajorAxisM / AU_M)} au, e = ${p.eccentricity}, impact parameter ${f(p.impactParameter)}, Bond albedo ${p.albedo}, k2 = ${p.k2}, Q = ${f(p.tidalQ)}`]);
+    rows.push(['planet', `M = ${f(p.massKg / M_JUP_KG)} M_J${mark('planet.mass')}, R = ${f(p.radiusM / R_JUP_M)} R_J, P = ${f(p.periodS / DAY_S, 5)} d${mark('planet.period')}, a = ${f(p.semiMajorAxisM / AU_M)} au, e = ${p.eccentricity}, impact parameter ${f(p.impactParameter)}, Bond albedo ${p.albedo}, k2 = ${p.k2}, Q = ${f(p.tidalQ)}${scenarioDurations(s).t23S > 0 ? '' : `; grazing transit (no flat bottom, Seager & Mallén-Ornelas 2003)${p.impactParameter >= 0.999 ? ', moon dip modelled at b = 0.999' : ''}`}`]);
     const m = s.moon;
     rows.push(['moon (base values; swept fields vary by cell)', m
       ? `M = ${f(m.massKg / M_EARTH_KG)} M⊕${mark('moon.mass')}, R = ${f(m.radiusM / R_EARTH_M)} R⊕, separation ${f(m.separationM / p.radiusM)} Rp${mark('moon.separation')}, e = ${m.eccentricity}, inclination ${f(m.inclinationRad * DEG)}°, ${m.retrograde ? 'retrograde' : 'prograde'}; orbital phase (and node, periapsis where they matter) drawn at random in each realization`
       : 'none']);
-    const ins = s.instrument;
-    const sigma = whiteNoiseSigma(ins.noiseFraction, ins.noiseTimescaleS, ins.exposureS);
-    rows.push(['instrument', `cadence ${f(ins.cadenceS / 60)} min${mark('instrument.cadence')}, exposure ${f(ins.exposureS / 60)} min, noise ${f(ins.noiseFraction * 1e6)} ppm per ${f(ins.noiseTimescaleS / 60)} min${mark('instrument.noise')}`]);
-    rows.push(['noise model', `white Gaussian noise, ${f(sigma * 1e6)} ppm per exposure (scaled as 1/√t from the stated timescale); no correlated (red) noise, no stellar activity, no instrumental systematics, no weather or gaps`]);
+    rows.push(['instrument', instrumentText(s, mark)]);
+    rows.push(['noise model', noiseModelText(s, mark)]);
     const o = s.observation;
-    rows.push(['transits', `${o.transits} consecutive transits${mark('observation.transits')}, each observed from ${f(o.baselineS / HOUR_S)} h before first to ${f(o.baselineS / HOUR_S)} h after last contact; epoch 0 at BJD_TDB ${o.t0BjdTdb}`]);
+    rows.push(['transits', `${o.transits} consecutive transits${mark('observation.transits')}, each observed from ${f(o.baselineS / HOUR_S)} h before first to ${f(o.baselineS / HOUR_S)} h after last contact${mark('observation.baseline')}; epoch 0 at BJD_TDB ${o.t0BjdTdb}${windowsOverlap(s) ? '; the baseline reaches past half the period, so consecutive windows are cut at the midpoints between conjunctions (each time stamp once)' : ''}`]);
+    rows.push(['gaps', gapsText(s, mark)]);
   } else {
     rows.push(['scenario document', 'not available: star, planet, instrument and noise are not listed, and physical boundaries and example cells are omitted (run `moonsieve report DIR --scenario FILE` with the scenario file)']);
   }
@@ -44,8 +82,11 @@ export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioD
     rows.push([`sweep axis ${k + 1}`, `${a.field}: ${a.values.length} values, ${a.spacing}, from ${a.from_text} to ${a.to_text} (${formatDisplay(d, Math.min(...a.values))} to ${formatDisplay(d, Math.max(...a.values))})`]);
   }
   rows.push(['detection', meta.forecast_only
-    ? 'analytic forecast only: noncentral χ² of white-noise TTV/TDV excesses (no simulations)'
-    : `${meta.realizations} realizations per cell; a channel detects when its statistic exceeds the threshold calibrated on no-moon realizations; combined = any of TTV, TDV, moon dip`]);
+    ? `analytic forecast only: noncentral χ² of white-noise TTV/TDV excesses (no simulations)${forecastIgnores}`
+    : `${meta.realizations} realizations per cell; a channel detects when its statistic exceeds the threshold calibrated on no-moon realizations; combined = any of the channels that exist (TTV needs 3 transits, TDV 2, moon dip 1)`]);
+  const lost = cells.map((c) => num(c, 'no_transit_observed')).filter((x): x is number => x !== null);
+  const lostTotal = lost.reduce((a, x) => a + x, 0);
+  if (lostTotal > 0) rows.push(['realizations with no transit observed', `${lostTotal} (over ${lost.length} simulated cells): every transit lost to missed transits or gaps; counted as non-detections in every channel`]);
   const nulls = cells.map((c) => num(c, 'null_realizations')).filter((x): x is number => x !== null);
   let fa = `requested ${meta.false_alarm} per channel`;
   const m = summary.false_alarm_measured_combined;

@@ -6,6 +6,8 @@
 import type { Scenario } from '../scenario/types.js';
 import type { Observation } from '../noise/observe.js';
 import type { PlanetTransitTruth } from '../physics/planetTransitTruth.js';
+import { gapsText, noiseModelText } from './assumptionsTable.js';
+import { windowsOverlap } from '../photometry/transitWindows.js';
 import { escapeHtml } from './escape.js';
 import { renderPlotlyPage, type Figure } from './plotlyPage.js';
 import { HOUR_S, M_EARTH_KG, R_EARTH_M, DAY_S } from '../physics/constants.js';
@@ -65,7 +67,9 @@ export function renderSimulatePage(s: Scenario, obs: Observation, truth: PlanetT
     ['planet', `P = ${(s.planet.periodS / DAY_S).toFixed(4)} d, Rp/R* = ${(s.planet.radiusM / s.star.radiusM).toFixed(5)}, b = ${s.planet.impactParameter.toFixed(3)}`],
     ['moon', m ? `M = ${(m.massKg / M_EARTH_KG).toFixed(4)} M⊕, R = ${(m.radiusM / R_EARTH_M).toFixed(3)} R⊕, a = ${(m.separationM / s.planet.radiusM).toFixed(2)} Rp, ${m.retrograde ? 'retrograde' : 'prograde'}` : 'none'],
     ['instrument', `cadence ${(s.instrument.cadenceS / 60).toFixed(2)} min, exposure ${(s.instrument.exposureS / 60).toFixed(2)} min, white noise ${(obs.sigma * 1e6).toFixed(1)} ppm per exposure${noiseless ? ' (not added: noiseless)' : ''}`],
-    ['transits', `${s.observation.transits}, t0 = BJD_TDB ${s.observation.t0BjdTdb}`],
+    ['noise model', noiseless ? 'none (noiseless model, no gaps)' : noiseModelText(s)],
+    ['gaps', noiseless ? 'none (noiseless model)' : gapsText(s)],
+    ['transits', `${s.observation.transits}, t0 = BJD_TDB ${s.observation.t0BjdTdb}${windowsOverlap(s) ? '; windows cut at the midpoints between conjunctions (the baseline reaches past half the period)' : ''}`],
     ['seed', String(s.seed)],
     ['moonsieve', VERSION],
   ];
@@ -76,6 +80,6 @@ export function renderSimulatePage(s: Scenario, obs: Observation, truth: PlanetT
 <div id="ttv" class="plot"></div>
 <p class="caution">A model, not an observation: the planet and moon follow nested Kepler orbits (no mutual
 perturbations beyond the two-body barycentric motion, no stellar activity, spots, other planets or
-instrumental systematics); the noise is white Gaussian at the stated level.</p>`;
+instrumental systematics); the noise and gaps are those listed above.</p>`;
   return renderPlotlyPage({ title: `${s.name}: simulated transits`, bodyHtml: body, figures });
 }

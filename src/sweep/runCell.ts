@@ -22,6 +22,12 @@
  *        for this cell's moon separation, outside the planet's own transit.
  * p-values are used instead of raw χ² so that realizations with a different
  * number of fitted transits (gaps) share one calibrated threshold.
+ * With fewer than 3 planned transits the TTV channel does not exist (0 dof),
+ * with 1 neither does TDV: their p_* are null, the combined rule is the
+ * Bonferroni union of the channels that exist (`channels_used`, and why in
+ * `channels_note`). A realization in which every transit was lost to missed
+ * transits or gaps measured nothing: it is a non-detection in every channel,
+ * and the cell counts such realizations in `no_transit_observed`.
  *
  * Thresholds are the conservative order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉,
  * of the calibration half of the no-moon statistics, whose exceedance
@@ -35,6 +41,7 @@
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { computeLimits, moonPlacement, type LimitsJson } from '../physics/computeLimits.js';
+import { missingChannelSummary } from '../physics/detectionForecast.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
 import { createRng } from '../noise/rng.js';
 import { RealizationWorkspace, runRealization, type RealizationRecord } from '../timing/realization.js';
@@ -42,7 +49,8 @@ import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
-import { scenarioDurations } from '../photometry/transitWindows.js';
+import { assertObservable, observationSizeProblems, scenarioDurations } from '../photometry/transitWindows.js';
+import type { FieldProblem } from '../scenario/errors.js';
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import {
   chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
@@ -53,6 +61,14 @@ export { defaultNullRealizations };
 
 /** Per-worker cache of null sets computed here (worker-local state lives in sweep/, never in the numerical core). */
 const nullCache = new Map<string, NullSet>();
+
+/**
+ * The detection channels N planned transits allow: TTV needs N ≥ 3 (a linear ephemeris has 2 free
+ * parameters), TDV N ≥ 2 (a mean duration has 1); the moon dip needs one transit.
+ */
+export function channelsFor(transits: number): DetectionChannel[] {
+  return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
+}
 
 /** Why a cell is not simulated, or null when it is. */
 function skipReason(s: Scenario, base: CellResult, ctx: CellContext): string | null {
@@ -88,6 +104,15 @@ export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null 
   const placement = moonPlacement(s) ?? ['no moon'];
   const base = { placement: placement.join('; '), stable: placement.length === 1 && placement[0] === 'stable' };
   return skipReason(s, base as unknown as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
+}
+
+/**
+ * What would make `runCell` refuse this cell (a cadence no shorter than the transit, a light curve
+ * above the size limit: transitWindows.ts), for a sweep that validates every cell before any work;
+ * empty when the cell can run. Throws the scenario's own InputError for an invalid document.
+ */
+export function cellComputeProblems(task: CellTask): FieldProblem[] {
+  return observationSizeProblems(parseScenario(task.scenarioDoc, `cell ${task.index}`));
 }
 
 /** Whether `runCell` will simulate this cell (and so needs its null set). */
@@ -157,6 +182,7 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
     forecast_tdv: l.forecast_tdv_probability,
     forecast_joint: l.forecast_detection_probability,
     forecast_regime_ok: l.forecast_regime_ok,
+    channels_note: s.moon ? missingChannelSummary(s.observation.transits) : null,
     photocentric_ratio: l.photocentric_ratio,
     energy_total_W_m2: l.energy_budget?.total_W_m2 ?? null,
   };
@@ -178,6 +204,8 @@ function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, excl
 
 export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared): CellResult => {
   const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
+  // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
+  assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);
   const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits) };
   const skipped = skipReason(s, base, ctx);
@@ -194,20 +222,30 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   const profile = dipProfile(s, nulls.stacks[0]);
   const exclude = 0.5 * scenarioDurations(s).t14S;
   const nullDip = dipScores(nulls.stacks, profile, exclude);
+  // Only the channels the transit count allows are calibrated and combined (detectionForecast.ts,
+  // "Few transits"): with 2 transits the TTV χ² has 0 dof, with 1 the TDV χ² too.
+  const channels = channelsFor(s.observation.transits);
+  const nullStats: Partial<Record<DetectionChannel, Float64Array>> = { dip: nullDip };
+  if (channels.includes('ttv')) nullStats.ttv = nulls.ttv;
+  if (channels.includes('tdv')) nullStats.tdv = nulls.tdv;
   // The distribution-free order statistic needs (n + 1)·α/m ≥ 1 calibration realizations (n the
-  // calibration half, m = 3 channels for the combined rule); with fewer, fall back to the
+  // calibration half, m the channels of the combined rule); with fewer, fall back to the
   // interpolated quantile and say so in the cell.
   const nCalibration = Math.ceil(nulls.ttv.length / 2);
-  const limited = (nCalibration + 1) * (alpha / DETECTION_CHANNELS.length) < 1;
-  const calibration: DetectionCalibration = calibrateDetection({ ttv: nulls.ttv, tdv: nulls.tdv, dip: nullDip }, alpha, { method: limited ? 'type7' : 'orderStatistic' });
+  const limited = (nCalibration + 1) * (alpha / channels.length) < 1;
+  const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha, { method: limited ? 'type7' : 'orderStatistic' });
 
   const counts: Record<DetectionChannel | 'combined', number> = { ttv: 0, tdv: 0, dip: 0, combined: 0 };
   const ttvRms: number[] = [];
   const tdvRms: number[] = [];
   const dipDepth: number[] = [];
   const fitted: number[] = [];
+  let nothingObserved = 0;
   for (let r = 0; r < R; r++) {
     const { record } = runRealization(s, createRng(ctx.seed, task.index, r), { workspace: ws }) as { record: RealizationRecord };
+    // A realization that lost every transit measured nothing: a non-detection in every channel
+    // (its statistics are NaN or 0, never above a threshold), counted in no_transit_observed.
+    if (record.noTransitObserved) nothingObserved++;
     const dip = stackedDipSnr(record.stack, profile, exclude);
     const decision = decideDetection(
       {
@@ -226,19 +264,20 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   }
   const prob: Record<string, unknown> = {};
   for (const ch of [...DETECTION_CHANNELS, 'combined'] as const) {
+    const exists = ch === 'combined' || channels.includes(ch);
     const w = wilsonInterval(counts[ch], R);
-    prob[`p_${ch}`] = w.estimate;
-    prob[`p_${ch}_lo`] = w.lower;
-    prob[`p_${ch}_hi`] = w.upper;
+    prob[`p_${ch}`] = exists ? w.estimate : null;
+    prob[`p_${ch}_lo`] = exists ? w.lower : null;
+    prob[`p_${ch}_hi`] = exists ? w.upper : null;
   }
   // The forecast (noncentral χ², white noise, Carter precision) beside the Monte Carlo TTV channel.
   const fc = limits.forecast_ttv_probability;
   const disagrees = fc !== null && limits.forecast_regime_ok === true && (fc < (prob.p_ttv_lo as number) || fc > (prob.p_ttv_hi as number));
   const fa: Record<string, unknown> = {};
   for (const ch of DETECTION_CHANNELS) {
-    const c = calibration.single[ch]!;
-    fa[`threshold_${ch}`] = c.threshold;
-    fa[`false_alarm_measured_${ch}`] = c.measuredAlpha;
+    const c = calibration.single[ch];
+    fa[`threshold_${ch}`] = c ? c.threshold : null;
+    fa[`false_alarm_measured_${ch}`] = c ? c.measuredAlpha : null;
   }
   return {
     ...base,
@@ -246,6 +285,8 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
     realizations: R,
     null_realizations: nNull,
     ...prob,
+    channels_used: channels.join(' '),
+    no_transit_observed: nothingObserved,
     forecast_ttv_outside_interval: disagrees,
     median_fitted_ttv_rms_s: median(ttvRms),
     median_fitted_tdv_rms_s: median(tdvRms),

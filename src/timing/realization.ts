@@ -22,6 +22,8 @@ import { windowHalfWidthS } from '../photometry/transitWindows.js';
 
 export interface RealizationRecord {
   transitsFitted: number;
+  /** Every transit lost to missed transits or gaps: nothing measured, a non-detection in every channel. */
+  noTransitObserved: boolean;
   ttvChi2: number;
   ttvDof: number;
   tdvChi2: number;
@@ -90,9 +92,10 @@ export function realizationStatistics(s: Scenario, obs: Observation, rec: Timing
   if (n >= 2) {
     tdvChi2 = tdvExcess(epochs, Float64Array.from(ok, (f) => f.durationS), Float64Array.from(ok, (f) => f.durationErrS)).chiSquare;
   }
-  const stack = stackResiduals(obs.timeS, obs.flux, obs.epoch, rec.fits, rec.global.template, obs.sigma, s.instrument.cadenceS, windowHalfWidthS(s));
+  const stack = stackResiduals(obs.timeS, obs.flux, obs.epoch, rec.fits, rec.global?.template ?? null, obs.sigma, s.instrument.cadenceS, windowHalfWidthS(s));
   return {
     transitsFitted: n,
+    noTransitObserved: rec.noTransitObserved,
     ttvChi2,
     ttvDof: Math.max(0, n - 2),
     tdvChi2,

@@ -31,13 +31,14 @@ export interface ResidualStack {
 /**
  * Stack residuals (flux − f0·T((t − t_c)/s), the per-transit planet-only model) of every
  * successfully fitted transit into bins of `binS` over ±halfWidthS around the planet mid-time.
+ * With no template (no transit observed) or no successful fit the bins stay empty.
  */
 export function stackResiduals(
   timeS: Float64Array,
   flux: Float64Array,
   epoch: Int32Array,
   fits: readonly TransitFit[],
-  template: TransitTemplate,
+  template: TransitTemplate | null,
   sigma: number,
   binS: number,
   halfWidthS: number,
@@ -47,7 +48,7 @@ export function stackResiduals(
   const sum = new Float64Array(nb);
   const count = new Float64Array(nb);
   // Each ok fit's mid-time, time scale and baseline, found from a point's epoch by a table.
-  const ok = fits.filter((f) => f.status === 'ok');
+  const ok = template === null ? [] : fits.filter((f) => f.status === 'ok');
   let e0 = 0;
   let e1 = -1;
   if (ok.length > 0) {
@@ -61,10 +62,11 @@ export function stackResiduals(
   ok.forEach((f, j) => {
     slot[f.epoch - e0] = j; // a later fit of the same epoch wins, as before
     tc[j] = f.tcS;
-    scale[j] = f.durationS / template.t14S;
+    scale[j] = f.durationS / template!.t14S;
     base[j] = f.baseline;
   });
-  binResiduals(timeS, flux, epoch, e0, slot, tc, scale, base, template, x0S, binS, sum, count);
+  // No template (no transit observed in the realization): an empty stack, whose dip SNR is NaN.
+  if (template !== null && ok.length > 0) binResiduals(timeS, flux, epoch, e0, slot, tc, scale, base, template, x0S, binS, sum, count);
   return { x0S, binS, sum, count, sigma };
 }
 

@@ -13,6 +13,7 @@
 import type { Scenario } from '../scenario/types.js';
 import type { Observation } from '../noise/observe.js';
 import { globalTransitFit, type GlobalFitWorkspace, type GlobalTransitFit } from './globalTransitFit.js';
+import { scenarioDurations } from '../photometry/transitWindows.js';
 import { fitTransits, type PerTransitFitResult, type TransitFit } from './perTransitFit.js';
 import { ephemerisTime, fitLinearEphemeris, type LinearEphemeris } from './linearEphemeris.js';
 import { templateGeometryFromScenario } from './transitTemplate.js';
@@ -89,7 +90,16 @@ export interface RecoverOptions {
 }
 
 export interface TimingRecovery {
-  global: GlobalTransitFit;
+  /** Null when no transit was observed (see `noTransitObserved`). */
+  global: GlobalTransitFit | null;
+  /**
+   * True when the observation holds no sample inside any transit, or fewer
+   * samples than the global shape fit needs (GLOBAL_FIT_MIN_POINTS): every
+   * transit was lost to missed transits or gaps. Every fit is then
+   * 'skipped-no-data' and the series are empty: an answer (nothing measured),
+   * not an error.
+   */
+  noTransitObserved: boolean;
   fits: TransitFit[];
   beta: BetaFactorResult | null;
   /** Null when fewer than two transits were fitted. */
@@ -98,11 +108,42 @@ export interface TimingRecovery {
   tdv: TdvSeries;
 }
 
+/** Fewest samples globalTransitFit accepts. */
+export const GLOBAL_FIT_MIN_POINTS = 10;
+
+/** Why a realization measured nothing. */
+export const NO_TRANSIT_OBSERVED = 'no transit observed in this realization';
+
+/** Samples inside a predicted planet transit, |t − nP| < T14/2 (the barycentre ephemeris). */
+function inTransitSamples(scenario: Scenario, observation: Observation): number {
+  const half = 0.5 * scenarioDurations(scenario).t14S;
+  const P = scenario.planet.periodS;
+  let n = 0;
+  for (let i = 0; i < observation.timeS.length; i++) if (Math.abs(observation.timeS[i] - observation.epoch[i] * P) < half) n++;
+  return n;
+}
+
+/** The recovery of an observation in which no transit was observed. */
+function nothingObserved(scenario: Scenario, observation: Observation): TimingRecovery {
+  const fits: TransitFit[] = [];
+  for (let e = 0; e < scenario.observation.transits; e++) {
+    let nPoints = 0;
+    for (let i = 0; i < observation.epoch.length; i++) if (observation.epoch[i] === e) nPoints++;
+    fits.push({ epoch: e, tcS: NaN, tcErrS: NaN, durationS: NaN, durationErrS: NaN, baseline: NaN, chi2: NaN, nPoints, status: 'skipped-no-data', reason: NO_TRANSIT_OBSERVED });
+  }
+  return { global: null, noTransitObserved: true, fits, beta: null, ephemeris: null, ttv: [], tdv: tdvSeries([]) };
+}
+
 /**
  * Recover transit times, durations, the linear ephemeris and the TTV/TDV
- * series from one observation of a scenario. Times in s since t0.
+ * series from one observation of a scenario. Times in s since t0. An
+ * observation without any in-transit sample, or with fewer samples than the
+ * global fit needs, gives `noTransitObserved` (nothing fitted), not an error.
  */
 export function recoverTimings(scenario: Scenario, observation: Observation, opts: RecoverOptions = {}): TimingRecovery {
+  if (!opts.global && (observation.timeS.length < GLOBAL_FIT_MIN_POINTS || inTransitSamples(scenario, observation) === 0)) {
+    return nothingObserved(scenario, observation);
+  }
   // A noise-free instrument (σ = 0): weight by a nominal 1 ppm per point, so the
   // fitted values are unchanged and the errors are those of 1 ppm noise.
   const o = observation.sigma > 0 ? observation : { ...observation, sigma: NOMINAL_SIGMA };
@@ -132,6 +173,7 @@ export function recoverTimings(scenario: Scenario, observation: Observation, opt
   }
   return {
     global,
+    noTransitObserved: false,
     fits: per.fits,
     beta: per.beta,
     ephemeris,

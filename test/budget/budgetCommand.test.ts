@@ -53,7 +53,7 @@ describe('moonsieve budget (CLI)', () => {
     expect(j.solve).toBe('transits');
     expect(j.probability_target).toBeCloseTo(0.9, 15);
     expect(j.answer.reached).toBe(true);
-    expect(j.quantity.values[0]).toBe(3);
+    expect(j.quantity.values[0]).toBe(1); // the combined channel exists from 1 transit (the moon dip; budgetSpec.ts minTransitsFor)
     expect(j.forecast.probability).toHaveLength(j.quantity.values.length);
     expect(existsSync(page)).toBe(true);
     expect(readFileSync(page, 'utf8')).toContain('Plotly.newPlot');

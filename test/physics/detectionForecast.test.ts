@@ -59,7 +59,7 @@ describe('forecastDetection', () => {
     const f = forecastDetection({ ...inp, aliasFrequencyPerEpoch: 0.36875 });
     const mc = simulate(15, 0.36875, 60, 70, 60, 90, 0.01, trials, 7);
     for (const key of ['ttv', 'tdv', 'joint'] as const) {
-      const p = f[key].probability;
+      const p = f[key]!.probability;
       const sigma = Math.sqrt((p * (1 - p)) / trials);
       expect(Math.abs(mc[key] - p), `${key}: MC ${mc[key]} vs forecast ${p}`).toBeLessThan(4 * sigma);
     }
@@ -70,10 +70,10 @@ describe('forecastDetection', () => {
     const inp = { nTransits: 10, sigmaTcS: 20, sigmaDurS: 20, ttvRmsS: 60, tdvRmsS: 15, falseAlarm: 0.003 };
     const f = forecastDetection({ ...inp, aliasFrequencyPerEpoch: 0.07 });
     // the (N−2)/N approximation would be far off here
-    expect(f.ttv.probability).toBeLessThan(forecastDetection(inp).ttv.probability - 0.1);
+    expect(f.ttv!.probability).toBeLessThan(forecastDetection(inp).ttv!.probability - 0.1);
     const mc = simulate(10, 0.07, 60, 15, 20, 20, 0.003, trials, 11);
     for (const key of ['ttv', 'tdv', 'joint'] as const) {
-      const p = f[key].probability;
+      const p = f[key]!.probability;
       const sigma = Math.sqrt(Math.max(p * (1 - p), 1e-4) / trials);
       expect(Math.abs(mc[key] - p), `${key}: MC ${mc[key]} vs forecast ${p}`).toBeLessThan(4 * sigma);
     }
@@ -89,7 +89,7 @@ describe('forecastDetection', () => {
     const f = forecastDetection(inp);
     const mc = simulate(15, null, 60, 70, 60, 90, 0.01, trials, 3);
     for (const key of ['ttv', 'tdv', 'joint'] as const) {
-      expect(Math.abs(mc[key] - f[key].probability), `${key}: MC ${mc[key]} vs forecast ${f[key].probability}`).toBeLessThan(0.03);
+      expect(Math.abs(mc[key] - f[key]!.probability), `${key}: MC ${mc[key]} vs forecast ${f[key]!.probability}`).toBeLessThan(0.03);
     }
   });
 
@@ -101,8 +101,8 @@ describe('forecastDetection', () => {
     for (let j = 0; j <= m; j++) {
       const w = j === 0 || j === m ? 0.5 : 1;
       const f = forecastDetection({ ...base, aliasFrequencyPerEpoch: (0.5 * j) / m });
-      sumTtv += w * f.ttv.noncentrality;
-      sumTdv += w * f.tdv.noncentrality;
+      sumTtv += w * f.ttv!.noncentrality;
+      sumTdv += w * f.tdv!.noncentrality;
     }
     expect(sumTtv / m).toBeCloseTo(n - 2, 9); // (N − 2)(δ/σ)², δ = σ
     expect(sumTdv / m).toBeCloseTo(n - 1, 9); // (N − 1)(δ/σ)²
@@ -110,24 +110,24 @@ describe('forecastDetection', () => {
 
   it('with no signal the detection probability equals the false-alarm probability (definition)', () => {
     const f = forecastDetection({ nTransits: 10, sigmaTcS: 30, sigmaDurS: 30, ttvRmsS: 0, tdvRmsS: 0, falseAlarm: 0.003 });
-    for (const c of [f.ttv, f.tdv, f.joint]) expect(c.probability).toBeCloseTo(0.003, 12);
-    expect(f.ttv.dof).toBe(8);
-    expect(f.tdv.dof).toBe(9);
-    expect(f.joint.dof).toBe(17);
+    for (const c of [f.ttv, f.tdv, f.joint]) expect(c!.probability).toBeCloseTo(0.003, 12);
+    expect(f.ttv!.dof).toBe(8);
+    expect(f.tdv!.dof).toBe(9);
+    expect(f.joint!.dof).toBe(17);
   });
 
   it('noncentralities follow λ_TTV = (N−2)(δ/σ)², λ_TDV = (N−1)(δ/σ)², joint = sum (the stated approximation)', () => {
     const f = forecastDetection({ nTransits: 12, sigmaTcS: 20, sigmaDurS: 40, ttvRmsS: 10, tdvRmsS: 30, falseAlarm: 1e-3 });
-    expect(f.ttv.noncentrality).toBeCloseTo(10 * 0.25, 12);
-    expect(f.tdv.noncentrality).toBeCloseTo(11 * 0.5625, 12);
-    expect(f.joint.noncentrality).toBeCloseTo(2.5 + 6.1875, 12);
-    expect(f.joint.threshold).toBeCloseTo(chiSquareUpperQuantile(1e-3, 21), 12);
+    expect(f.ttv!.noncentrality).toBeCloseTo(10 * 0.25, 12);
+    expect(f.tdv!.noncentrality).toBeCloseTo(11 * 0.5625, 12);
+    expect(f.joint!.noncentrality).toBeCloseTo(2.5 + 6.1875, 12);
+    expect(f.joint!.threshold).toBeCloseTo(chiSquareUpperQuantile(1e-3, 21), 12);
   });
 
   it('more transits never lower the probability for a fixed signal (property, common practice)', () => {
     let prev = 0;
     for (let n = 3; n <= 40; n++) {
-      const p = forecastDetection({ nTransits: n, sigmaTcS: 60, sigmaDurS: 60, ttvRmsS: 40, tdvRmsS: 40, falseAlarm: 0.01 }).joint.probability;
+      const p = forecastDetection({ nTransits: n, sigmaTcS: 60, sigmaDurS: 60, ttvRmsS: 40, tdvRmsS: 40, falseAlarm: 0.01 }).joint!.probability;
       expect(p).toBeGreaterThanOrEqual(prev - 1e-12);
       prev = p;
     }
@@ -135,10 +135,42 @@ describe('forecastDetection', () => {
 
   it('rejects bad input with RangeError naming the argument', () => {
     const ok = { nTransits: 10, sigmaTcS: 30, sigmaDurS: 30, ttvRmsS: 5, tdvRmsS: 5, falseAlarm: 0.01 };
-    expect(() => forecastDetection({ ...ok, nTransits: 2 })).toThrow(/nTransits/);
+    expect(() => forecastDetection({ ...ok, nTransits: 0 })).toThrow(/nTransits/);
     expect(() => forecastDetection({ ...ok, nTransits: 4.5 })).toThrow(/nTransits/);
     expect(() => forecastDetection({ ...ok, sigmaTcS: 0 })).toThrow(/sigmaTcS/);
     expect(() => forecastDetection({ ...ok, tdvRmsS: -1 })).toThrow(/tdvRmsS/);
     expect(() => forecastDetection({ ...ok, falseAlarm: 1 })).toThrow(/falseAlarm/);
   });
+
+  it('2 transits: no TTV channel (0 dof after the line), TDV with 1 dof, the joint test is the TDV test; 1 transit: no timing channel', () => {
+    // Degrees of freedom of a χ² of residuals after a least-squares fit of k parameters to N points: N − k
+    // (Seber & Lee 2003, Linear Regression Analysis, §2.4): TTV N − 2, TDV N − 1.
+    const ok = { sigmaTcS: 30, sigmaDurS: 30, ttvRmsS: 60, tdvRmsS: 60, falseAlarm: 0.01 };
+    for (const nu of [undefined, 0.3]) {
+      const two = forecastDetection({ ...ok, nTransits: 2, aliasFrequencyPerEpoch: nu });
+      expect(two.ttv).toBeNull();
+      expect(two.tdv!.dof).toBe(1);
+      expect(two.joint!.dof).toBe(1);
+      expect(two.joint!.probability).toBeCloseTo(two.tdv!.probability, 12);
+      expect(two.notes.join(' ')).toMatch(/no timing channel with 2 transits/);
+      const one = forecastDetection({ ...ok, nTransits: 1, aliasFrequencyPerEpoch: nu });
+      expect(one.ttv).toBeNull();
+      expect(one.tdv).toBeNull();
+      expect(one.joint).toBeNull();
+      expect(one.notes.join(' ')).toMatch(/no timing channel with 1 transit/);
+    }
+    // Unknown ν: λ_TDV = (N − 1)(δ/σ)² = 4 at N = 2 (the stated approximation).
+    expect(forecastDetection({ ...ok, nTransits: 2 }).tdv!.noncentrality).toBeCloseTo(4, 12);
+    // Given ν: the TDV of 2 transits is B(cos φ_1 − cos φ_0)-like; residual about the mean of
+    // v = cos(2πνn), n = 0, 1: Σ (v − v̄)² = (1 − cos 2πν)²/2 (direct computation).
+    const nu = 0.3;
+    const r = forecastDetection({ ...ok, nTransits: 2, aliasFrequencyPerEpoch: nu });
+    const vv = (1 - Math.cos(2 * Math.PI * nu)) ** 2 / 2;
+    const uu = Math.sin(2 * Math.PI * nu) ** 2 / 2;
+    // Phase mean of λ(φ) = kd (vv cos²φ + uu sin²φ + …) is kd (vv + uu)/2, kd = 2(δ/σ)² = 8.
+    expect(r.tdv!.noncentrality).toBeCloseTo((8 * (vv + uu)) / 2, 9);
+    // And 3 or more transits keep all three channels.
+    expect(forecastDetection({ ...ok, nTransits: 3 }).notes).toEqual([]);
+  });
 });
+

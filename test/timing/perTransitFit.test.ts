@@ -124,7 +124,7 @@ describe('per-transit fits', () => {
     const obs = observeScenario(s, null);
     const rec = recoverTimings(s, obs);
     const truth = truthOf(s, obs, 6);
-    expect(rec.global.converged).toBe(true);
+    expect(rec.global!.converged).toBe(true);
     for (const f of rec.fits) {
       expect(f.status).toBe('ok');
       expect(Math.abs(f.tcS - truth[f.epoch].midS)).toBeLessThan(0.01);
@@ -201,7 +201,7 @@ describe('per-transit fits', () => {
     const rec = recoverTimings(s, obs);
     const ok = rec.fits.filter((f) => f.status === 'ok');
     expect(ok.length).toBe(2000);
-    const tpl = rec.global.template;
+    const tpl = rec.global!.template;
     const bound = fisherTcBounds(obs, tpl, (n) => truth.midS + n * s.planet.periodS, truth.durationS / tpl.t14S, 2000);
     let sumErr2 = 0, sumBound2 = 0, sumMiss2 = 0;
     const tcPulls: number[] = [];
@@ -229,8 +229,8 @@ describe('per-transit fits', () => {
     // White noise: β stays at its floor of 1 (the residual rms matches the stated σ).
     expect(rec.beta?.beta).toBe(1);
     // Global shape close to the injected one (p = 0.1, b = 0.3): errors from the global fit, 4σ.
-    expect(Math.abs(rec.global.radiusRatio - 0.1)).toBeLessThan(4 * rec.global.radiusRatioErr);
-    expect(Math.abs(rec.global.impactParameter - 0.3)).toBeLessThan(4 * rec.global.impactParameterErr);
+    expect(Math.abs(rec.global!.radiusRatio - 0.1)).toBeLessThan(4 * rec.global!.radiusRatioErr);
+    expect(Math.abs(rec.global!.impactParameter - 0.3)).toBeLessThan(4 * rec.global!.impactParameterErr);
   });
 
   it('stays robust and unbiased at S/N ≈ 12, where the Fisher bound is optimistic', () => {

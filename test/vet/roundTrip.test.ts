@@ -37,7 +37,7 @@ describe('round trip: simulate, recover, vet', () => {
     // 150 trials: the binomial standard error of a 95 % coverage is then 1.8 %, so a
     // calibrated interval passes with margin (measured: mass 141/150, separation 140/150).
     const trials = 150;
-    const template = recoverTimings(scenario, observeScenario(scenario, null)).global;
+    const template = recoverTimings(scenario, observeScenario(scenario, null)).global!;
     const moon = scenario.moon!;
     const hits = { mass: 0, separation: 0, massIsotropic: 0, separationIsotropic: 0 };
     for (let r = 0; r < trials; r++) {
