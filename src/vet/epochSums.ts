@@ -30,6 +30,46 @@ export interface EpochSums {
   sin: Float64Array[];
 }
 
+interface Plan {
+  length: number;
+  size: number;
+  fft: FFT;
+  chirpRe: Float64Array;
+  chirpIm: Float64Array;
+  bHat: number[];
+}
+
+/** The last plan, reused by the several transforms of one analysis (same L). */
+let lastPlan: Plan | null = null;
+
+function planFor(L: number): Plan {
+  if (lastPlan && lastPlan.length === L) return lastPlan;
+  const size = nextPowerOfTwo(2 * L - 1);
+  const fft = new FFT(size);
+  // Chirp c_k = e^{iπk²/L}; k² mod 2L keeps the phase argument exact for large k.
+  const chirpRe = new Float64Array(L);
+  const chirpIm = new Float64Array(L);
+  for (let k = 0; k < L; k++) {
+    const phase = (Math.PI * ((k * k) % (2 * L))) / L;
+    chirpRe[k] = Math.cos(phase);
+    chirpIm[k] = Math.sin(phase);
+  }
+  // Spectrum of b_k = conj(c_k) for k = −(L−1) … L−1, stored circularly.
+  const b = new Float64Array(2 * size);
+  for (let k = 0; k < L; k++) {
+    b[2 * k] = chirpRe[k];
+    b[2 * k + 1] = -chirpIm[k];
+    if (k > 0) {
+      b[2 * (size - k)] = chirpRe[k];
+      b[2 * (size - k) + 1] = -chirpIm[k];
+    }
+  }
+  const bHat = fft.createComplexArray() as number[];
+  fft.transform(bHat, b as unknown as number[]);
+  lastPlan = { length: L, size, fft, chirpRe, chirpIm, bHat };
+  return lastPlan;
+}
+
 function nextPowerOfTwo(n: number): number {
   let p = 4;
   while (p < n) p *= 2;
@@ -58,45 +98,39 @@ export function epochTrigSums(epochs: Float64Array, weights: readonly Float64Arr
   for (const w of weights) if (w.length !== n) throw new RangeError(`each weight set must have length ${n}, got ${w.length}`);
   if (n > 0 && e1 - e0 >= length) throw new RangeError(`length must exceed the epoch span ${e1 - e0}, got ${length}`);
   const L = length;
-  const size = nextPowerOfTwo(2 * L - 1);
-  const fft = new FFT(size);
-  // Chirp c_k = e^{iπk²/L}; k² mod 2L keeps the phase argument exact for large k.
-  const chirpRe = new Float64Array(L);
-  const chirpIm = new Float64Array(L);
-  for (let k = 0; k < L; k++) {
-    const phase = (Math.PI * ((k * k) % (2 * L))) / L;
-    chirpRe[k] = Math.cos(phase);
-    chirpIm[k] = Math.sin(phase);
-  }
-  // Spectrum of b_k = conj(c_k) for k = −(L−1) … L−1, stored circularly (the kernel of e^{+2πi jm/L}).
-  const b = new Float64Array(2 * size);
-  for (let k = 0; k < L; k++) {
-    b[2 * k] = chirpRe[k];
-    b[2 * k + 1] = -chirpIm[k];
-    if (k > 0) {
-      b[2 * (size - k)] = chirpRe[k];
-      b[2 * (size - k) + 1] = -chirpIm[k];
-    }
-  }
-  const bHat = fft.createComplexArray() as number[];
-  fft.transform(bHat, b as unknown as number[]);
-
+  const plan = planFor(L);
+  const { size, fft, chirpRe, chirpIm, bHat } = plan;
   const a = new Float64Array(2 * size);
   const aHat = fft.createComplexArray() as number[];
   const conv = fft.createComplexArray() as number[];
   const cosOut: Float64Array[] = [];
   const sinOut: Float64Array[] = [];
-  for (const w of weights) {
+  // Shift back to absolute epochs: × e^{2πi j E₀ / L}, with j·E₀ reduced mod L exactly.
+  const e0mod = n > 0 ? ((e0 % L) + L) % L : 0;
+  const shiftRe = new Float64Array(L);
+  const shiftIm = new Float64Array(L);
+  for (let j = 0; j < L; j++) {
+    const sh = (2 * Math.PI * ((j * e0mod) % L)) / L;
+    shiftRe[j] = Math.cos(sh);
+    shiftIm[j] = Math.sin(sh);
+  }
+  // Two real weight sets per transform: x = x₁ + i x₂ gives X₁ = (X_j + conj X_{L−j})/2 and
+  // X₂ = (X_j − conj X_{L−j})/(2i), from the Hermitian symmetry of real data.
+  for (let q = 0; q < weights.length; q += 2) {
+    const w1 = weights[q];
+    const w2 = q + 1 < weights.length ? weights[q + 1] : null;
     a.fill(0);
-    // e^{2πi jm/L} = c_j c_m conj(c_{j−m}): a_m = x_m c_m, convolved with conj(c), times c_j.
     for (let i = 0; i < n; i++) {
       const m = epochs[i] - e0;
-      a[2 * m] += w[i];
+      a[2 * m] += w1[i];
+      if (w2) a[2 * m + 1] += w2[i];
     }
+    // e^{2πi jm/L} = c_j c_m conj(c_{j−m}): a_m = x_m c_m, convolved with conj(c), times c_j.
     for (let m = 0; m < L; m++) {
-      const x = a[2 * m];
-      a[2 * m] = x * chirpRe[m];
-      a[2 * m + 1] = x * chirpIm[m];
+      const xr = a[2 * m];
+      const xi = a[2 * m + 1];
+      a[2 * m] = xr * chirpRe[m] - xi * chirpIm[m];
+      a[2 * m + 1] = xr * chirpIm[m] + xi * chirpRe[m];
     }
     fft.transform(aHat, a as unknown as number[]);
     for (let k = 0; k < size; k++) {
@@ -106,21 +140,43 @@ export function epochTrigSums(epochs: Float64Array, weights: readonly Float64Arr
       aHat[2 * k + 1] = im;
     }
     fft.inverseTransform(conv, aHat); // divides by size
-    const cs = new Float64Array(L);
-    const sn = new Float64Array(L);
+    const xr = new Float64Array(L);
+    const xi = new Float64Array(L);
     for (let j = 0; j < L; j++) {
-      // X_j = c_j · conv_j, then the shift back to absolute epochs: × e^{2πi j E₀ / L}.
-      const xr = chirpRe[j] * conv[2 * j] - chirpIm[j] * conv[2 * j + 1];
-      const xi = chirpRe[j] * conv[2 * j + 1] + chirpIm[j] * conv[2 * j];
-      const r = (((j * (e0 % L)) % L) + L) % L;
-      const sh = (2 * Math.PI * r) / L;
-      const cr = Math.cos(sh);
-      const ci = Math.sin(sh);
-      cs[j] = xr * cr - xi * ci;
-      sn[j] = xr * ci + xi * cr;
+      xr[j] = chirpRe[j] * conv[2 * j] - chirpIm[j] * conv[2 * j + 1];
+      xi[j] = chirpRe[j] * conv[2 * j + 1] + chirpIm[j] * conv[2 * j];
     }
-    cosOut.push(cs);
-    sinOut.push(sn);
+    const sets = w2 ? 2 : 1;
+    for (let t = 0; t < sets; t++) {
+      const cs = new Float64Array(L);
+      const sn = new Float64Array(L);
+      for (let j = 0; j < L; j++) {
+        let re: number;
+        let im: number;
+        if (!w2) {
+          re = xr[j];
+          im = xi[j];
+        } else {
+          const r = j === 0 ? 0 : L - j;
+          // X_j and conj(X_{L−j}).
+          const ar = xr[j];
+          const ai = xi[j];
+          const br = xr[r];
+          const bi = -xi[r];
+          if (t === 0) {
+            re = 0.5 * (ar + br);
+            im = 0.5 * (ai + bi);
+          } else {
+            re = 0.5 * (ai - bi);
+            im = -0.5 * (ar - br);
+          }
+        }
+        cs[j] = re * shiftRe[j] - im * shiftIm[j];
+        sn[j] = re * shiftIm[j] + im * shiftRe[j];
+      }
+      cosOut.push(cs);
+      sinOut.push(sn);
+    }
   }
   return { length: L, cos: cosOut, sin: sinOut };
 }

@@ -24,11 +24,14 @@ export function formatVetReport(r: VetResult): string {
     row('ΔBIC TTV (k 2 → 5)', `${sig3(t.bicTtv.delta)} at ${sig3(t.bicTtv.frequencyPerEpoch)} cycles/epoch`);
     if (t.bicTdv) row('ΔBIC TDV (k 1 → 4)', `${sig3(t.bicTdv.delta)} at ${sig3(t.bicTdv.frequencyPerEpoch)} cycles/epoch`);
     if (t.bicJoint) row('ΔBIC joint (k 3 → 8)', `${sig3(t.bicJoint.delta)} at ${sig3(t.bicJoint.frequencyPerEpoch)} cycles/epoch`);
-    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} (Baluev 2008)`);
+    const noSignal = r.verdict === 'no detectable signal';
+    // The periodogram's power is scale-free (relative to the scatter itself): without excess scatter its FAP means nothing.
+    const scaleFree = noSignal ? '; the scatter is within the errors, so this peak is not a signal' : '';
+    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} (Baluev 2008)${scaleFree}`);
     if (t.periodogramTdv) row('TDV periodogram peak', `${sig3(t.periodogramTdv.peakFrequencyPerEpoch)} cycles/epoch, FAP ${sig3(t.periodogramTdv.falseAlarmProbability)}`);
     row('sinusoid semi-amplitudes', `TTV ${timeText(t.ttvSemiAmplitudeS)} ± ${timeText(t.ttvSemiAmplitudeErrS)}${t.tdvSemiAmplitudeS !== null ? `, TDV ${timeText(t.tdvSemiAmplitudeS)} ± ${timeText(t.tdvSemiAmplitudeErrS!)}` : ''}`);
     const fam = t.aliasFamily;
-    row('moon periods with this alias', `${fam.count} between the stable limit and the Roche limit; first: ${fam.periodsS.slice(0, 5).map(timeText).join(', ')}${fam.nearestToImpliedS !== null ? `; nearest the TDV/TTV period: ${timeText(fam.nearestToImpliedS)}` : ''}`);
+    if (!noSignal) row('moon periods with this alias', `${fam.count} between the stable limit and the Roche limit; first: ${fam.periodsS.slice(0, 5).map(timeText).join(', ')}${fam.nearestToImpliedS !== null ? `; nearest the TDV/TTV period: ${timeText(fam.nearestToImpliedS)}` : ''}`);
   }
   const s = r.amplitudeSignificance;
   if (s) {
@@ -38,18 +41,22 @@ export function formatVetReport(r: VetResult): string {
   }
 
   const imp = r.implied;
-  lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
-  if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
-  if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(imp.separationM.median / r.system.hillRadiusM)} Hill radii`);
-  row(imp.mode === 'ttv+tdv' ? 'mass' : 'lightest mass', iv(imp.massKg, earthMasses));
-  row('mass ratio M_S/M_P', iv(imp.massRatio, sig3));
-  row('coplanar (minimum) mass', earthMasses(imp.coplanarMassKg));
-  if (imp.degeneracy) {
-    const d = imp.degeneracy;
-    const pick = [0, Math.floor(d.separationM.length / 3), Math.floor((2 * d.separationM.length) / 3), d.separationM.length - 1];
-    row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(d.massKg[i])}`).join('; '));
+  if (!imp) {
+    lines.push('', 'Implied moon: none (no detectable signal to explain)');
+  } else {
+    lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
+    if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
+    if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(imp.separationM.median / r.system.hillRadiusM)} Hill radii`);
+    row(imp.mode === 'ttv+tdv' ? 'mass' : 'lightest mass', iv(imp.massKg, earthMasses));
+    row('mass ratio M_S/M_P', iv(imp.massRatio, sig3));
+    row('coplanar (minimum) mass', imp.coplanarMassKg === null ? 'none at the central amplitudes' : earthMasses(imp.coplanarMassKg));
+    if (imp.degeneracy) {
+      const d = imp.degeneracy;
+      const pick = [0, Math.floor(d.separationM.length / 3), Math.floor((2 * d.separationM.length) / 3), d.separationM.length - 1];
+      row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(d.massKg[i])}`).join('; '));
+    }
+    lines.push(`  (${imp.note})`);
   }
-  lines.push(`  (${imp.note})`);
 
   lines.push('', 'Where a moon can orbit');
   row('Hill radius', planetRadii(r.system.hillRadiusM, rp));

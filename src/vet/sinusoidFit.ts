@@ -43,25 +43,40 @@ export interface SinusoidFit {
   linearParameters: number;
 }
 
+/** Scratch arrays of `solveNormal` for models of up to 4 parameters (reused across grid frequencies). */
+interface NormalWorkspace {
+  d: Float64Array;
+  scaled: Float64Array;
+  inv: Float64Array;
+  cov: Float64Array;
+  coef: Float64Array;
+  work: Float64Array;
+}
+
+function newWorkspace(p: number): NormalWorkspace {
+  const q = Math.max(p, 4);
+  return { d: new Float64Array(q), scaled: new Float64Array(q * q), inv: new Float64Array(q * q), cov: new Float64Array(q * q), coef: new Float64Array(q), work: new Float64Array(q * q + q) };
+}
+
 /**
  * Solve the normal equations (AᵀWA) x = AᵀWy of a small linear model (p ≤ 4), given as the
  * lower triangle of AᵀWA filled in full and AᵀWy; coefficients and covariance (AᵀWA)⁻¹, or
  * null if singular (Press et al. 2007, Numerical Recipes 3rd ed., §15.4).
  */
-function solveNormal(ata: Float64Array, atb: Float64Array, p: number): { coef: Float64Array; cov: Float64Array } | null {
+function solveNormal(ata: Float64Array, atb: Float64Array, p: number, ws: NormalWorkspace = newWorkspace(p)): { coef: Float64Array; cov: Float64Array } | null {
   // Scale to unit diagonal before inverting (Jacobi preconditioning), then undo.
-  const d = new Float64Array(p);
+  const d = ws.d.subarray(0, p);
   for (let j = 0; j < p; j++) d[j] = ata[j * p + j] > 0 ? 1 / Math.sqrt(ata[j * p + j]) : 0;
   for (let j = 0; j < p; j++) if (d[j] === 0) return null;
-  const scaled = new Float64Array(p * p);
+  const scaled = ws.scaled.subarray(0, p * p);
   for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) scaled[j * p + k] = ata[j * p + k] * d[j] * d[k];
   // Near-collinear columns (relative pivot below ~1e-10) count as singular.
-  const inv = new Float64Array(p * p);
-  if (!invertSymmetricPositive(scaled, p, inv)) return null;
+  const inv = ws.inv.subarray(0, p * p);
+  if (!invertSymmetricPositive(scaled, p, inv, ws.work)) return null;
   for (let j = 0; j < p; j++) if (!(inv[j * p + j] < 1e10)) return null;
-  const cov = new Float64Array(p * p);
+  const cov = ws.cov.subarray(0, p * p);
   for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) cov[j * p + k] = inv[j * p + k] * d[j] * d[k];
-  const coef = new Float64Array(p);
+  const coef = ws.coef.subarray(0, p);
   for (let j = 0; j < p; j++) {
     let s = 0;
     for (let k = 0; k < p; k++) s += cov[j * p + k] * atb[k];
@@ -211,10 +226,11 @@ function addGridChiSquare(s: TimingSeriesData, L: number, count: number, out: Fl
   // χ² of the model with the first p columns of [1, E − Ē, cos, sin] (or [1, cos, sin]).
   const ata = new Float64Array(16);
   const atb = new Float64Array(4);
+  const ws = newWorkspace(4);
   const chiOf = (p: number): number => {
     if (n < p) return NaN;
     const a = ata.subarray(0, p * p);
-    const sol = solveNormal(a, atb.subarray(0, p), p);
+    const sol = solveNormal(a, atb.subarray(0, p), p, ws);
     if (!sol) return NaN;
     let fit = 0;
     for (let j = 0; j < p; j++) fit += sol.coef[j] * atb[j];

@@ -57,6 +57,8 @@ export const DENSITY_RANGE_KG_M3: readonly [number, number] = [500, 8000];
 export const BIC_STRONG = 6;
 /** p-value below which excess scatter counts as significant (≈ 3.3σ; common practice, no source). */
 export const P_SIGNIFICANT = 1e-3;
+/** z-score a claimed amplitude must reach to count as a detection (common practice, no source). */
+export const AMPLITUDE_SIGMA = 3;
 
 /** Order in which reasons of the same status are listed: the most basic first. */
 const CHECK_ORDER: CheckId[] = ['significance', 'stability', 'roche', 'mass-ratio', 'tidal-survival', 'phase', 'moon-dip', 'residual-noise', 'precision'];
@@ -269,7 +271,7 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
       massKg: quantiles(mass),
       massRatio: quantiles(ratio),
       massAtSeparationM,
-      coplanarMassKg: central,
+      coplanarMassKg: Number.isFinite(central) ? central : null,
       degeneracy,
       note,
     },
@@ -437,9 +439,9 @@ function residualCheck(tab: TableSignificance): VetCheck {
   const base = { id: 'residual-noise' as const, title: 'scatter beyond one moon (red noise, systematics)', source: SOURCES.residual };
   const r = tab.residual;
   const runs = tab.runs;
-  const txt = `χ² about the moon model ${sig3(r.chiSquare)} for ${r.dof} dof (χ²/dof ${sig3(r.chiSquare / r.dof)}, p = ${sig3(r.pValue)}); ${runs.runs} sign runs in the TTV residuals vs ${sig3(runs.expectedRuns)} expected (p = ${sig3(runs.pValueFewRuns)} for so few)`;
+  const txt = `χ² about the moon model ${sig3(r.chiSquare)} for ${r.dof} dof (χ²/dof ${sig3(r.chiSquare / r.dof)}, p = ${sig3(r.pValue)}); ${runs.pValueFewRuns === null ? 'runs test not possible (the TTV residuals are all of one sign or zero)' : `${runs.runs} sign runs in the TTV residuals vs ${sig3(runs.expectedRuns)} expected (p = ${sig3(runs.pValueFewRuns)} for so few)`}`;
   if (r.dof >= 1 && r.pValue < P_SIGNIFICANT) return { ...base, status: 'tension', detail: `one moon does not account for the scatter: red noise, systematics or underestimated errors are needed: ${txt}` };
-  if (runs.pValueFewRuns < 0.01) return { ...base, status: 'tension', detail: `neighbouring transits scatter together, as red noise or slow systematics do: ${txt}` };
+  if (runs.pValueFewRuns !== null && runs.pValueFewRuns < 0.01) return { ...base, status: 'tension', detail: `neighbouring transits scatter together, as red noise or slow systematics do: ${txt}` };
   return { ...base, status: 'pass', detail: txt };
 }
 
@@ -448,7 +450,7 @@ function significanceCheckTable(tab: TableSignificance): VetCheck {
   const chi = tab.joint ?? tab.ttv;
   const b = tab.bicJoint ?? tab.bicTtv;
   const txt = `χ² ${sig3(chi.chiSquare)} for ${chi.dof} dof (p = ${sig3(chi.pValue)}) without a moon; ΔBIC ${sig3(b.delta)} for a sinusoid at ${sig3(b.frequencyPerEpoch)} cycles per epoch; TTV periodogram FAP ${sig3(tab.periodogramTtv.falseAlarmProbability)}`;
-  if (!(chi.pValue < P_SIGNIFICANT)) return { ...base, status: 'tension', detail: `no significant excess scatter: the implied moon is at most an upper limit; ${txt}` };
+  if (!(chi.pValue < P_SIGNIFICANT)) return { ...base, status: 'fail', detail: `no significant excess scatter about a constant period${tab.tdv ? ' and duration' : ''}: χ² ${sig3(chi.chiSquare)} for ${chi.dof} dof (p = ${sig3(chi.pValue)}, a detection needs p < ${P_SIGNIFICANT}); the timing is within its stated errors, so there is nothing for a moon to explain` };
   if (!(b.delta > BIC_STRONG)) return { ...base, status: 'tension', detail: `the scatter is in excess but a sinusoid is not favoured, unlike one moon's signal: ${txt}` };
   return { ...base, status: 'pass', detail: txt };
 }
@@ -459,7 +461,7 @@ function significanceCheckClaim(sig: AmplitudeSignificance): VetCheck {
   if (sig.ttvZ !== null) parts.push(`TTV ${sig3(sig.ttvZ)}σ`);
   if (sig.tdvZ !== null) parts.push(`TDV ${sig3(sig.tdvZ)}σ`);
   const best = Math.max(sig.ttvZ ?? 0, sig.tdvZ ?? 0);
-  if (best < 3) return { ...base, status: 'tension', detail: `no claimed amplitude reaches 3σ (${parts.join(', ')}): the implied moon is at most an upper limit` };
+  if (best < AMPLITUDE_SIGMA) return { ...base, status: 'fail', detail: `no claimed amplitude reaches ${AMPLITUDE_SIGMA}σ (${parts.join(', ')}): not a detection, so no moon is inferred` };
   return { ...base, status: 'pass', detail: parts.join(', ') };
 }
 
@@ -500,13 +502,44 @@ function rankChecks(checks: VetCheck[]): { verdict: Verdict; reasons: string[] }
   return { verdict, reasons };
 }
 
+/** Is there excess timing scatter at all? The same χ² test as the significance check. */
+function hasTableSignal(s: TableAnalysis['significance']): boolean {
+  const chi = s.joint ?? s.ttv;
+  return chi.pValue < P_SIGNIFICANT;
+}
+
+/** Does any claimed amplitude reach 3σ? The same threshold as the significance check. */
+function hasAmplitudeSignal(claim: Claim): boolean {
+  const z = Math.max(claim.ttv ? claim.ttv.valueS / claim.ttv.errorS : 0, claim.tdv ? claim.tdv.valueS / claim.tdv.errorS : 0);
+  return z >= AMPLITUDE_SIGMA;
+}
+
+/** The moon checks skipped without a signal (listed as not tested, so the report shows what was not done). */
+const NO_SIGNAL_CHECKS: Array<Pick<VetCheck, 'id' | 'title' | 'source'>> = [
+  { id: 'stability', title: 'separation vs stable limits', source: SOURCES.stability },
+  { id: 'roche', title: 'separation vs Roche limit', source: SOURCES.roche },
+  { id: 'mass-ratio', title: 'moon-to-planet mass ratio', source: SOURCES.massRatio },
+  { id: 'tidal-survival', title: 'mass vs tidal survival', source: SOURCES.tidal },
+  { id: 'phase', title: 'TTV–TDV phase relation', source: SOURCES.phase },
+  { id: 'moon-dip', title: "the moon's own dip", source: SOURCES.dip },
+];
+
+function noSignalVerdict(checks: VetCheck[]): { verdict: Verdict; reasons: string[] } {
+  const sig = checks.find((c) => c.id === 'significance')!;
+  const reasons = [`NO SIGNAL ${sig.title}: ${sig.detail}`];
+  for (const c of checks) if (c.id !== 'significance' && (c.status === 'tension' || c.status === 'fail')) reasons.push(`${c.status === 'fail' ? 'FAIL' : 'TENSION'} ${c.title}: ${c.detail}`);
+  return { verdict: 'no detectable signal', reasons };
+}
+
 /** Vet a claimed moon signal (see the file header). Pure: the same claim and seed give the same result. */
 export function vetClaim(claim: Claim): VetResult {
   const analysis = claim.table ? analyseTable(claim.table) : null;
   const { sys, limits } = systemSummary(claim, claim.durationS ?? analysis?.meanDurationS ?? null);
   const src = analysis ? amplitudeSourceFromTable(analysis) : amplitudeSourceFromClaim(claim);
-  const mc = runMonteCarlo(claim, src, sys);
-  const imp = mc.implied;
+  // No significant timing variation: nothing to explain, so no implied moon and no physical checks.
+  const signal = analysis ? hasTableSignal(analysis.significance) : hasAmplitudeSignal(claim);
+  const mc = signal ? runMonteCarlo(claim, src, sys) : null;
+  const imp = mc ? mc.implied : null;
 
   let tableSignificance: TableSignificance | null = null;
   let amplitudeSignificance: AmplitudeSignificance | null = null;
@@ -519,7 +552,7 @@ export function vetClaim(claim: Claim): VetResult {
     const maxRatio = claim.planet.periodS / moonPeriodAt(Math.max(sys.rocheRockyM, sys.planetRadiusM), sys.planetMassKg);
     const family = maxRatio > minRatio && maxRatio - minRatio < 40000 ? aliasFamily(Math.min(0.5, s.frequencyPerEpoch), claim.planet.periodS, minRatio, maxRatio) : [];
     let nearest: number | null = null;
-    if (imp.moonPeriodS && family.length > 0) {
+    if (imp?.moonPeriodS && family.length > 0) {
       const target = imp.moonPeriodS.median;
       nearest = family.reduce((best, m) => (Math.abs(Math.log(m.moonPeriod / target)) < Math.abs(Math.log(best / target)) ? m.moonPeriod : best), family[0].moonPeriod);
     }
@@ -564,22 +597,26 @@ export function vetClaim(claim: Claim): VetResult {
 
   // The planet's barycentric offset a_PB = A_TTV v_B (TTV only): a_S must exceed it.
   let offset: QuantileSummary | null = null;
-  if (imp.mode === 'ttv only' && imp.degeneracy) {
+  if (imp && imp.mode === 'ttv only' && imp.degeneracy) {
     const m = imp.massKg;
     const back = (mass: number) => (mass * imp.massAtSeparationM!) / (sys.planetMassKg + mass);
     offset = { median: back(m.median), lo1: back(m.lo1), hi1: back(m.hi1), lo2: back(m.lo2), hi2: back(m.hi2) };
     for (const k of ['median', 'lo1', 'hi1', 'lo2', 'hi2'] as const) if (!Number.isFinite(offset[k])) offset[k] = Infinity;
   }
-  checks.push(stabilityCheck(imp, sys, offset));
-  checks.push(rocheCheck(imp, sys));
-  checks.push(massRatioCheck(imp));
-  checks.push(tidalCheck(imp, sys));
-  checks.push(analysis && tableSignificance ? phaseCheckTable(tableSignificance, analysis, mc.phaseProjectionSd) : phaseCheckClaim(claim));
-  checks.push(dipCheck(claim, imp, sys));
+  if (imp && mc) {
+    checks.push(stabilityCheck(imp, sys, offset));
+    checks.push(rocheCheck(imp, sys));
+    checks.push(massRatioCheck(imp));
+    checks.push(tidalCheck(imp, sys));
+    checks.push(analysis && tableSignificance ? phaseCheckTable(tableSignificance, analysis, mc.phaseProjectionSd) : phaseCheckClaim(claim));
+    checks.push(dipCheck(claim, imp, sys));
+  } else {
+    checks.push(...NO_SIGNAL_CHECKS.map((c) => ({ ...c, status: 'not tested' as const, detail: 'no detectable signal, so no moon to test' })));
+  }
   if (tableSignificance) checks.push(residualCheck(tableSignificance));
   if (amplitudeSignificance) checks.push(precisionCheck(claim, amplitudeSignificance));
 
-  const { verdict, reasons } = rankChecks(checks);
+  const { verdict, reasons } = signal ? rankChecks(checks) : noSignalVerdict(checks);
   const assumptions = [
     'circular moon orbit (tidally damped); the TDV is the velocity part only, without the transit-impact-parameter part of inclined orbits (Kipping 2009b)',
     claim.orientation === 'isotropic'

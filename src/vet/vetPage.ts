@@ -60,7 +60,7 @@ export function renderVetPage(r: VetResult): string {
     sysLines(r.system.stableRetrogradeM, 'stable limit (retrograde)', 'dashdot'),
     { x: [r.system.hillRadiusM / rp * 0.01, r.system.hillRadiusM / rp], y: [(r.system.tidalMaxMassKg) / M_EARTH_KG, r.system.tidalMaxMassKg / M_EARTH_KG], type: 'scatter', mode: 'lines', name: 'tidal-survival mass', line: { dash: 'dot' } },
   ];
-  if (imp.separationM) {
+  if (imp?.separationM) {
     plane.push({
       x: [imp.separationM.median / rp],
       y: [imp.massKg.median / M_EARTH_KG],
@@ -69,7 +69,7 @@ export function renderVetPage(r: VetResult): string {
       type: 'scatter', mode: 'markers', name: 'implied moon (2σ)', marker: { size: 10 },
     });
   }
-  if (imp.degeneracy) {
+  if (imp?.degeneracy) {
     const d = imp.degeneracy;
     const x = d.separationM.map((a) => a / rp);
     plane.push({ x, y: d.massKg.map((m) => m / M_EARTH_KG), type: 'scatter', mode: 'lines', name: 'degeneracy curve (median)' });
@@ -101,6 +101,6 @@ ${figures.map((f) => `<div id="${f.id}" class="plot"></div>`).join('\n')}
 <div class="caution"><ul>${r.cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul></div>
 <h2>Assumptions</h2>
 <ul>${r.assumptions.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
-<p>moonsieve ${escapeHtml(VERSION)}; implied moon from ${imp.draws} seeded Monte Carlo draws (seed ${imp.seed}).</p>`;
+<p>moonsieve ${escapeHtml(VERSION)}; ${imp ? `implied moon from ${imp.draws} seeded Monte Carlo draws (seed ${imp.seed})` : 'no implied moon (no detectable signal)'}.</p>`;
   return renderPlotlyPage({ title: `${r.claim}: vet`, bodyHtml: body, figures });
 }

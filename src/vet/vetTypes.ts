@@ -2,7 +2,11 @@
 import type { RunsTest } from './runsTest.js';
 
 export type CheckStatus = 'pass' | 'tension' | 'fail' | 'not tested';
-export type Verdict = 'consistent with a moon' | 'in tension' | 'implausible';
+/**
+ * 'no detectable signal': the timing shows no significant variation (or no claimed amplitude
+ * reaches 3σ), so there is no moon to infer and the physical checks are not made.
+ */
+export type Verdict = 'consistent with a moon' | 'in tension' | 'implausible' | 'no detectable signal';
 
 export type CheckId =
   | 'significance'
@@ -106,8 +110,8 @@ export interface ImpliedMoonSummary {
   massRatio: QuantileSummary;
   /** Separation at which `massKg` is evaluated in single-amplitude mode, m. */
   massAtSeparationM: number | null;
-  /** Mass for a coplanar orbit at the central amplitudes, kg. */
-  coplanarMassKg: number;
+  /** Mass for a coplanar orbit at the central amplitudes, kg; null where the central amplitudes imply none. */
+  coplanarMassKg: number | null;
   /** Single-amplitude degeneracy curve M_S(a_S) at the 2.3, 50 and 97.7 % amplitude quantiles. */
   degeneracy: { separationM: number[]; massKg: number[]; massLoKg: number[]; massHiKg: number[] } | null;
   note: string;
@@ -151,6 +155,7 @@ export interface VetResult {
   amplitudes: { ttvRmsS: number | null; ttvRmsErrS: number | null; tdvRmsS: number | null; tdvRmsErrS: number | null };
   tableSignificance: TableSignificance | null;
   amplitudeSignificance: AmplitudeSignificance | null;
-  implied: ImpliedMoonSummary;
+  /** The implied moon; null when there is no detectable signal to explain. */
+  implied: ImpliedMoonSummary | null;
   series: TimingSeriesSummary | null;
 }

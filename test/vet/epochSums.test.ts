@@ -23,14 +23,17 @@ describe('epochTrigSums (Bluestein DFT over integer epochs)', () => {
       [[1000003, 1000004, 1000010, 1000012], 97],
     ];
     for (const [epochs, L] of cases) {
-      const w = epochs.map((_, i) => Math.sin(1.7 * i) + 0.3 * i);
-      const got = epochTrigSums(Float64Array.from(epochs), [Float64Array.from(w)], L);
-      const ref = direct(epochs, w, L);
-      const scale = w.reduce((a, x) => a + Math.abs(x), 0);
-      for (let j = 0; j < L; j++) {
-        expect(Math.abs(got.cos[0][j] - ref.c[j])).toBeLessThan(1e-12 * scale);
-        expect(Math.abs(got.sin[0][j] - ref.s[j])).toBeLessThan(1e-12 * scale);
-      }
+      // Three weight sets: two share one complex transform, the third has its own.
+      const sets = [0, 1, 2].map((q) => epochs.map((_, i) => Math.sin(1.7 * i + q) + 0.3 * i * (q - 1)));
+      const got = epochTrigSums(Float64Array.from(epochs), sets.map((w) => Float64Array.from(w)), L);
+      sets.forEach((w, q) => {
+        const ref = direct(epochs, w, L);
+        const scale = w.reduce((a, x) => a + Math.abs(x), 0);
+        for (let j = 0; j < L; j++) {
+          expect(Math.abs(got.cos[q][j] - ref.c[j])).toBeLessThan(1e-12 * scale);
+          expect(Math.abs(got.sin[q][j] - ref.s[j])).toBeLessThan(1e-12 * scale);
+        }
+      });
     }
   });
 
