@@ -19,7 +19,7 @@
  *     orientation: isotropic                                            # or coplanar (Monte Carlo prior)
  *     draws: 4000                                                       # Monte Carlo draws
  */
-import { readFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { DAY_S, MINUTE_S } from '../physics/constants.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
@@ -28,9 +28,20 @@ import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
 import { readPlanet, readStar } from '../scenario/parseScenario.js';
 import { parseQuantity } from '../scenario/units.js';
 import type { Claim, ClaimedAmplitude, PhotometricPrecision, TimingTable } from './claimTypes.js';
-import { TIME_STANDARD_ALLOWED, parseTimeStandard, parseTimingTable } from './timingTable.js';
+import { MAX_TABLE_ROWS, TIME_STANDARD_ALLOWED, parseTimeStandard, parseTimingTable } from './timingTable.js';
 
 const DEG = Math.PI / 180;
+/** Largest table file read, bytes: far above MAX_TABLE_ROWS rows of a few numbers each. */
+export const MAX_TABLE_BYTES = 32 * 1024 * 1024;
+
+/** Read a table file, refusing one too large to be a table of transits before reading it. */
+function readTableFile(path: string): string {
+  const size = statSync(path).size;
+  if (size > MAX_TABLE_BYTES) {
+    throw new InputError([{ path: 'claim.table', value: `${path} (${(size / 1048576).toFixed(1)} MB)`, allowed: `at most ${MAX_TABLE_BYTES / 1048576} MB: a table of at most ${MAX_TABLE_ROWS} transits is far smaller` }]);
+  }
+  return readFileSync(path, 'utf8');
+}
 const DEFAULT_DRAWS = 4000;
 
 export interface ParseClaimOptions {
@@ -121,10 +132,12 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
       const full = resolve(opts.baseDir ?? '.', tablePath);
       let text: string;
       try {
-        text = (opts.readText ?? ((p: string) => readFileSync(p, 'utf8')))(full);
+        text = (opts.readText ?? readTableFile)(full);
       } catch (e) {
+        if (e instanceof InputError) throw e;
         const code = (e as NodeJS.ErrnoException).code;
-        throw new InputError([{ path: 'claim.table', value: tablePath, allowed: code === 'ENOENT' ? `no such file (${full})` : `cannot read it (${code ?? String(e)})` }], source);
+        const why = code === 'ENOENT' ? `no such file (${full})` : code === 'EISDIR' ? `a folder, not a file (${full})` : `cannot read it (${code ?? String(e)})`;
+        throw new InputError([{ path: 'claim.table', value: tablePath, allowed: why }], source);
       }
       table = parseTimingTable(text, tablePath, typeof std === 'string' ? std : null, planet.periodS);
       transits = table.epochs.length;
