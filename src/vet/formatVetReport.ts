@@ -6,7 +6,13 @@ export function formatVetReport(r: VetResult): string {
   const lines: string[] = [];
   const rp = r.system.planetRadiusM;
   const row = (label: string, value: string) => lines.push(`  ${label.padEnd(34)} ${value}`);
-  const iv = (q: { median: number; lo2: number; hi2: number }, f: (x: number) => string) => `${f(q.median)}  (2σ ${f(q.lo2)} – ${f(q.hi2)})`;
+  // null in the result: unbounded (no moon can make the signal there), printed as ∞.
+  const un = (x: number | null) => (x === null ? Infinity : x);
+  let unbounded = false;
+  const iv = (q: { median: number | null; lo2: number | null; hi2: number | null }, f: (x: number) => string) => {
+    if (q.median === null || q.lo2 === null || q.hi2 === null) unbounded = true;
+    return `${f(un(q.median))}  (2σ ${f(un(q.lo2))} – ${f(un(q.hi2))})`;
+  };
   lines.push(`${r.claim}: vetting a claimed moon signal (${r.input === 'table' ? 'table of transit times' : 'claimed amplitudes'})`, '');
   lines.push(`VERDICT: ${r.verdict.toUpperCase()}`);
   r.reasons.forEach((s, i) => lines.push(`  ${i + 1}. ${s}`));
@@ -46,15 +52,17 @@ export function formatVetReport(r: VetResult): string {
   } else {
     lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
     if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
-    if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(imp.separationM.median / r.system.hillRadiusM)} Hill radii`);
+    if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(un(imp.separationM.median) / r.system.hillRadiusM)} Hill radii`);
     row(imp.mode === 'ttv+tdv' ? 'mass' : 'lightest mass', iv(imp.massKg, earthMasses));
     row('mass ratio M_S/M_P', iv(imp.massRatio, sig3));
     row('coplanar (minimum) mass', imp.coplanarMassKg === null ? 'none at the central amplitudes' : earthMasses(imp.coplanarMassKg));
     if (imp.degeneracy) {
       const d = imp.degeneracy;
       const pick = [0, Math.floor(d.separationM.length / 3), Math.floor((2 * d.separationM.length) / 3), d.separationM.length - 1];
-      row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(d.massKg[i])}`).join('; '));
+      row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(un(d.massKg[i]))}`).join('; '));
+      if (d.massKg.some((m) => m === null)) unbounded = true;
     }
+    if (unbounded) lines.push('  (∞: no moon at the separation assumed can make the signal; its offset a_PB would exceed the separation)');
     lines.push(`  (${imp.note})`);
   }
 

@@ -39,7 +39,8 @@ import type {
   AmplitudeSignificance,
   CheckId,
   ImpliedMoonSummary,
-  QuantileSummary,
+  RawImpliedMoonSummary as ImpliedMoonInternal,
+  RawQuantileSummary,
   SystemSummary,
   TableSignificance,
   VetCheck,
@@ -66,14 +67,14 @@ const CHECK_ORDER: CheckId[] = ['significance', 'stability', 'roche', 'mass-rati
 const Q_LO2 = 0.0227501319481792; // Φ(−2), standard normal
 const Q_LO1 = 0.158655253931457; // Φ(−1)
 
-function quantiles(sample: Float64Array): QuantileSummary {
+function quantiles(sample: Float64Array): RawQuantileSummary {
   for (let i = 0; i < sample.length; i++) if (Number.isNaN(sample[i])) sample[i] = Infinity;
   sample.sort();
   const q = (p: number) => quantileSortedType7(sample, p);
   return { median: q(0.5), lo1: q(Q_LO1), hi1: q(1 - Q_LO1), lo2: q(Q_LO2), hi2: q(1 - Q_LO2) };
 }
 
-function intervalText(q: QuantileSummary, f: (x: number) => string): string {
+function intervalText(q: RawQuantileSummary, f: (x: number) => string): string {
   return `${f(q.median)} (2σ ${f(q.lo2)} – ${f(q.hi2)})`;
 }
 
@@ -167,7 +168,9 @@ function amplitudeSourceFromTable(a: TableAnalysis): AmplitudeSource {
 }
 
 interface MonteCarloResult {
-  implied: ImpliedMoonSummary;
+  implied: ImpliedMoonInternal;
+  /** Quantiles of the single channel a_PB (TTV only, m) or v_PB (TDV only, m/s) before the averaging correction. */
+  channel: RawQuantileSummary | null;
   phaseProjectionSd: number;
 }
 
@@ -225,9 +228,11 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
   } else {
     central = at((src.central.tdv * vB) / tau, massAtSeparationM!);
   }
-  let degeneracy: ImpliedMoonSummary['degeneracy'] = null;
+  let degeneracy: ImpliedMoonInternal['degeneracy'] = null;
+  let channelQuantiles: RawQuantileSummary | null = null;
   if (src.mode !== 'ttv+tdv') {
     const cq = quantiles(channel);
+    channelQuantiles = cq;
     const lo = Math.max(sys.rocheRockyM, sys.planetRadiusM);
     const hi = sys.stableRetrogradeM;
     const separationM: number[] = [];
@@ -271,11 +276,12 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
       massKg: quantiles(mass),
       massRatio: quantiles(ratio),
       massAtSeparationM,
-      coplanarMassKg: Number.isFinite(central) ? central : null,
+      coplanarMassKg: central,
       degeneracy,
       note,
     },
     phaseProjectionSd: sd,
+    channel: channelQuantiles,
   };
 }
 
@@ -310,7 +316,7 @@ const SOURCES = {
   precision: 'Carter et al. 2008, ApJ 689, 499 timing precision at the stated photometric noise; expected white-noise χ² of the claimed rms',
 };
 
-function stabilityCheck(imp: ImpliedMoonSummary, sys: SystemSummary, offset: QuantileSummary | null): VetCheck {
+function stabilityCheck(imp: ImpliedMoonInternal, sys: SystemSummary, offset: RawQuantileSummary | null): VetCheck {
   const rp = sys.planetRadiusM;
   const hill = (m: number) => `${sig3(m / sys.hillRadiusM)} R_H`;
   const limits = `prograde limit ${planetRadii(sys.stableProgradeM, rp)} (${hill(sys.stableProgradeM)}), retrograde ${planetRadii(sys.stableRetrogradeM, rp)} (${hill(sys.stableRetrogradeM)})`;
@@ -331,7 +337,7 @@ function stabilityCheck(imp: ImpliedMoonSummary, sys: SystemSummary, offset: Qua
   return { ...base, status: 'not tested', detail: `TDVs alone do not fix the separation; ${limits}` };
 }
 
-function rocheCheck(imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
+function rocheCheck(imp: ImpliedMoonInternal, sys: SystemSummary): VetCheck {
   const rp = sys.planetRadiusM;
   const base = { id: 'roche' as const, title: 'separation vs Roche limit', source: SOURCES.roche };
   const limits = `fluid Roche limit ${planetRadii(sys.rocheRockyM, rp)} (rocky) / ${planetRadii(sys.rocheIcyM, rp)} (icy)`;
@@ -344,7 +350,7 @@ function rocheCheck(imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
   return { ...base, status: 'pass', detail: `outside the Roche limit: ${txt}` };
 }
 
-function massRatioCheck(imp: ImpliedMoonSummary): VetCheck {
+function massRatioCheck(imp: ImpliedMoonInternal): VetCheck {
   const q = imp.massRatio;
   const base = { id: 'mass-ratio' as const, title: 'moon-to-planet mass ratio', source: SOURCES.massRatio };
   const atLeast = imp.mode === 'ttv+tdv' ? '' : 'at least ';
@@ -354,7 +360,7 @@ function massRatioCheck(imp: ImpliedMoonSummary): VetCheck {
   return { ...base, status: 'pass', detail: `${txt}` };
 }
 
-function tidalCheck(imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
+function tidalCheck(imp: ImpliedMoonInternal, sys: SystemSummary): VetCheck {
   const base = { id: 'tidal-survival' as const, title: 'mass vs tidal survival', source: SOURCES.tidal };
   const m = imp.massKg;
   const txt = `implied mass ${imp.mode === 'ttv+tdv' ? '' : 'at least '}${intervalText(m, earthMasses)}; a prograde moon heavier than ${earthMasses(sys.tidalMaxMassKg)} migrates out of the stable zone within the system age`;
@@ -398,7 +404,7 @@ function phaseCheckClaim(claim: Claim): VetCheck {
   return { ...base, status: 'pass', detail: txt };
 }
 
-function dipCheck(claim: Claim, imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
+function dipCheck(claim: Claim, imp: ImpliedMoonInternal, sys: SystemSummary): VetCheck {
   const base = { id: 'moon-dip' as const, title: "the moon's own dip", source: SOURCES.dip };
   const sep = imp.separationM ? imp.separationM.median : (imp.massAtSeparationM ?? sys.stableProgradeM);
   const common = {
@@ -465,9 +471,13 @@ function significanceCheckClaim(sig: AmplitudeSignificance): VetCheck {
   return { ...base, status: 'pass', detail: parts.join(', ') };
 }
 
-function precisionCheck(claim: Claim, sig: AmplitudeSignificance): VetCheck {
+function precisionCheck(claim: Claim, sig: AmplitudeSignificance, sys: SystemSummary): VetCheck {
   const base = { id: 'precision' as const, title: 'claimed amplitudes vs the data precision', source: SOURCES.precision };
-  if (!claim.precision || sig.timingPrecisionS === null) return { ...base, status: 'not tested', detail: 'no photometric precision was stated' };
+  if (!claim.precision) return { ...base, status: 'not tested', detail: 'no photometric precision was stated' };
+  if (sig.timingPrecisionS === null) {
+    const cadence = claim.cadenceS ?? claim.precision.noiseTimescaleS;
+    return { ...base, status: 'not tested', detail: `no per-transit timing precision can be computed at a cadence of ${timeText(cadence)} for a transit of ${timeText(sys.durationS)}` };
+  }
   const parts: string[] = [];
   let bad = false;
   const toRms = (a: { valueS: number; kind: string }) => (a.kind === 'rms' ? a.valueS : a.valueS / Math.SQRT2);
@@ -500,6 +510,23 @@ function rankChecks(checks: VetCheck[]): { verdict: Verdict; reasons: string[] }
   const reasons = [...fails, ...tensions].map((c) => `${c.status === 'fail' ? 'FAIL' : 'TENSION'} ${c.title}: ${c.detail}`);
   if (reasons.length === 0) reasons.push('every physical check that could be made passes');
   return { verdict, reasons };
+}
+
+const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
+const quantilesForOutput = (q: RawQuantileSummary) => ({ median: finiteOrNull(q.median), lo1: finiteOrNull(q.lo1), hi1: finiteOrNull(q.hi1), lo2: finiteOrNull(q.lo2), hi2: finiteOrNull(q.hi2) });
+
+/** The reported implied moon: unbounded (infinite) or undefined values become null, as JSON needs. */
+function impliedForOutput(imp: ImpliedMoonInternal): ImpliedMoonSummary {
+  const d = imp.degeneracy;
+  return {
+    ...imp,
+    moonPeriodS: imp.moonPeriodS && quantilesForOutput(imp.moonPeriodS),
+    separationM: imp.separationM && quantilesForOutput(imp.separationM),
+    massKg: quantilesForOutput(imp.massKg),
+    massRatio: quantilesForOutput(imp.massRatio),
+    coplanarMassKg: imp.coplanarMassKg === null ? null : finiteOrNull(imp.coplanarMassKg),
+    degeneracy: d && { separationM: d.separationM, massKg: d.massKg.map(finiteOrNull), massLoKg: d.massLoKg.map(finiteOrNull), massHiKg: d.massHiKg.map(finiteOrNull) },
+  };
 }
 
 /** Is there excess timing scatter at all? The same χ² test as the significance check. */
@@ -571,8 +598,10 @@ export function vetClaim(claim: Claim): VetResult {
     const toRms = (a: { valueS: number; errorS: number; kind: string } | null) => (a ? (a.kind === 'rms' ? 1 : Math.SQRT1_2) : NaN);
     const n = claim.transits;
     const precise = claim.precision !== null;
-    const sTc = precise ? limits.timing_precision_s : null;
-    const sDur = precise ? limits.duration_precision_s : null;
+    // Undefined (null) when the model cannot time the transit at this cadence (e.g. a cadence longer than T14).
+    const finitePositive = (x: number) => (Number.isFinite(x) && x > 0 ? x : null);
+    const sTc = precise ? finitePositive(limits.timing_precision_s) : null;
+    const sDur = precise ? finitePositive(limits.duration_precision_s) : null;
     const ttvRms = claim.ttv ? claim.ttv.valueS * toRms(claim.ttv) : null;
     const tdvRms = claim.tdv ? claim.tdv.valueS * toRms(claim.tdv) : null;
     // Expected χ² of N white-noise points around a line (N − 2 dof) or a mean (N − 1) plus the signal: (dof + N·rms²/σ²).
@@ -596,12 +625,17 @@ export function vetClaim(claim: Claim): VetResult {
   }
 
   // The planet's barycentric offset a_PB = A_TTV v_B (TTV only): a_S must exceed it.
-  let offset: QuantileSummary | null = null;
+  let offset: RawQuantileSummary | null = null;
   if (imp && imp.mode === 'ttv only' && imp.degeneracy) {
     const m = imp.massKg;
     const back = (mass: number) => (mass * imp.massAtSeparationM!) / (sys.planetMassKg + mass);
     offset = { median: back(m.median), lo1: back(m.lo1), hi1: back(m.hi1), lo2: back(m.lo2), hi2: back(m.hi2) };
-    for (const k of ['median', 'lo1', 'hi1', 'lo2', 'hi2'] as const) if (!Number.isFinite(offset[k])) offset[k] = Infinity;
+    // Where no moon at the assumed separation makes the TTV (unbounded mass), the offset is at least
+    // the frozen-planet a_PB = A_TTV·v_B (transit averaging only lowers the observed TTV).
+    // All five from the channel then, so the quantiles stay ordered.
+    const ch = mc?.channel;
+    const keys = ['median', 'lo1', 'hi1', 'lo2', 'hi2'] as const;
+    if (keys.some((k) => !Number.isFinite(offset![k]))) for (const k of keys) offset[k] = ch && Number.isFinite(ch[k]) ? ch[k] : Infinity;
   }
   if (imp && mc) {
     checks.push(stabilityCheck(imp, sys, offset));
@@ -614,7 +648,7 @@ export function vetClaim(claim: Claim): VetResult {
     checks.push(...NO_SIGNAL_CHECKS.map((c) => ({ ...c, status: 'not tested' as const, detail: 'no detectable signal, so no moon to test' })));
   }
   if (tableSignificance) checks.push(residualCheck(tableSignificance));
-  if (amplitudeSignificance) checks.push(precisionCheck(claim, amplitudeSignificance));
+  if (amplitudeSignificance) checks.push(precisionCheck(claim, amplitudeSignificance, sys));
 
   const { verdict, reasons } = signal ? rankChecks(checks) : noSignalVerdict(checks);
   const assumptions = [
@@ -639,7 +673,7 @@ export function vetClaim(claim: Claim): VetResult {
     amplitudes,
     tableSignificance,
     amplitudeSignificance,
-    implied: imp,
+    implied: imp ? impliedForOutput(imp) : null,
     series: analysis ? analysis.series : null,
   };
 }

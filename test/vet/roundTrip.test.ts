@@ -56,7 +56,7 @@ describe('round trip: simulate, recover, vet', () => {
           durationErrS: Float64Array.from(ok.map((f) => f.durationErrS)),
         },
       });
-      const inside = (q: { lo2: number; hi2: number }, x: number) => q.lo2 <= x && x <= q.hi2;
+      const inside = (q: { lo2: number | null; hi2: number | null }, x: number) => q.lo2 !== null && q.hi2 !== null && q.lo2 <= x && x <= q.hi2;
       // A realization whose signal is not detected implies no moon: it counts as a miss.
       const cop = vetClaim(claimFor('coplanar')).implied;
       if (cop && inside(cop.massKg, moon.massKg)) hits.mass++;

@@ -47,7 +47,7 @@ describe('vetClaim', () => {
     expect(r.checks.find((k) => k.id === 'stability')!.status).toBe('fail');
     expect(r.reasons[0]).toMatch(/^FAIL separation vs stable limits/);
     // The implied separation is the truth (orientation-free for a circular orbit, Kipping 2009a).
-    expect(r.implied!.separationM!.median / (1.3 * rH)).toBeCloseTo(1, 1);
+    expect(r.implied!.separationM!.median! / (1.3 * rH)).toBeCloseTo(1, 1);
   });
 
   it('a claim whose moon dip would be ≥ 10σ at the stated precision but was not seen is "in tension"', () => {
@@ -99,7 +99,7 @@ describe('vetClaim', () => {
     // Interpolate the median curve (log–log) at the true separation: the truth (computed from constants in the test).
     const j = d.separationM.findIndex((a) => a > sep);
     const t = Math.log(sep / d.separationM[j - 1]) / Math.log(d.separationM[j] / d.separationM[j - 1]);
-    const m = Math.exp(Math.log(d.massKg[j - 1]) + t * Math.log(d.massKg[j] / d.massKg[j - 1]));
+    const m = Math.exp(Math.log(d.massKg[j - 1]!) + t * Math.log(d.massKg[j]! / d.massKg[j - 1]!));
     expect(m / mass).toBeCloseTo(1, 1);
     // The lightest moon (at the prograde stable limit) is lighter than the truth, which sits closer in.
     expect(r.implied!.massKg.median).toBeLessThan(mass);

@@ -36,7 +36,9 @@ const systemArb = fc.record({
 }).filter((s) => {
   // A full (non-grazing) transit of a planet smaller than its star: k = R_P/R_* (R_Jup/R_Sun = 0.10045).
   const k = (0.10045 * s.planetRadius) / s.starRadius;
-  return k < 0.3 && s.impact < 1 - k - 0.02;
+  // Orbit well outside the star: a/R_* from Kepler's third law (a = 0.0196 AU for 1 Msun, 1 d; 1 AU = 215 R_Sun).
+  const aOverR = (215.03 * 0.019568 * Math.cbrt(s.starMass * s.period * s.period)) / s.starRadius;
+  return k < 0.3 && s.impact < 1 - k - 0.02 && aOverR > 3;
 });
 
 type SystemDraw = { starMass: number; starRadius: number; teff: number; planetMass: number; planetRadius: number; period: number; impact: number };
@@ -49,9 +51,10 @@ planet: {mass: ${s.planetMass} Mjup, radius: ${s.planetRadius} Rjup, period: ${s
 `;
 }
 
+// Amplitude and uncertainty as fractions of the largest allowed, a quarter of the planet period (loadClaim.ts).
 const amplitudeArb = fc.record({
-  value: logUniform(1e-3, 1e5), // s
-  rel: logUniform(1e-3, 1e3),
+  value: logUniform(1e-12, 0.99),
+  error: logUniform(1e-12, 0.99),
   kind: fc.constantFrom('rms', 'semi-amplitude'),
 });
 
@@ -60,9 +63,12 @@ const amplitudeClaimArb = fc.record({
   ttv: fc.option(amplitudeArb, { nil: undefined }),
   tdv: fc.option(amplitudeArb, { nil: undefined }),
   transits: fc.integer({ min: 3, max: 2000 }),
-  precision: fc.option(logUniform(1e-6, 1e-1), { nil: undefined }),
-  dip: fc.option(logUniform(1e-7, 1e-2), { nil: undefined }),
-  phase: fc.option(fc.tuple(fc.double({ min: -360, max: 360, noNaN: true }), logUniform(0.1, 90)), { nil: undefined }),
+  precision: fc.option(logUniform(1.001e-7, 1), { nil: undefined }),
+  timescale: logUniform(1, 86400), // s
+  cadence: fc.option(logUniform(1, 86400), { nil: undefined }),
+  duration: fc.option(logUniform(60, 86400), { nil: undefined }),
+  dip: fc.option(logUniform(1e-8, 1e-2), { nil: undefined }),
+  phase: fc.option(fc.tuple(fc.double({ min: -360, max: 360, noNaN: true }), logUniform(0.001, 360)), { nil: undefined }),
   orientation: fc.constantFrom('isotropic', 'coplanar'),
 }).filter((c) => c.ttv !== undefined || c.tdv !== undefined);
 
@@ -96,12 +102,15 @@ describe('vet never throws and never reports NaN or Infinity on valid claims (pr
   it('amplitude claims', () => {
     fc.assert(
       fc.property(amplitudeClaimArb, (c) => {
-        const amp = (a: { value: number; rel: number; kind: string }) => `{amplitude: ${a.value} s, uncertainty: ${a.value * a.rel} s, kind: ${a.kind}}`;
+        const q = (c.system.period * 86400) / 4;
+        const amp = (a: { value: number; error: number; kind: string }) => `{amplitude: ${a.value * q} s, uncertainty: ${Math.max(1e-3, a.error * q)} s, kind: ${a.kind}}`;
         let y = systemYaml(c.system) + 'claim:\n';
         if (c.ttv) y += `  ttv: ${amp(c.ttv)}\n`;
         if (c.tdv) y += `  tdv: ${amp(c.tdv)}\n`;
         y += `  transits: ${c.transits}\n  orientation: ${c.orientation}\n`;
-        if (c.precision !== undefined) y += `  precision: "${c.precision * 1e6} ppm per 2 min"\n`;
+        if (c.precision !== undefined) y += `  precision: "${c.precision * 1e6} ppm per ${c.timescale} s"\n`;
+        if (c.cadence !== undefined) y += `  cadence: ${c.cadence} s\n`;
+        if (c.duration !== undefined && c.duration < (c.system.period * 86400) / 2) y += `  duration: ${c.duration} s\n`;
         if (c.dip !== undefined) y += `  moon_dip: "${c.dip * 1e6} ppm"\n`;
         if (c.phase) y += `  phase_offset: {value: ${c.phase[0]} deg, uncertainty: ${c.phase[1]} deg}\n`;
         check(y);
