@@ -9,18 +9,7 @@ import { parseClaimText } from '../../src/vet/loadClaim.js';
 import { vetClaim } from '../../src/vet/vetClaim.js';
 import { formatVetReport } from '../../src/vet/formatVetReport.js';
 import { renderVetPage } from '../../src/vet/vetPage.js';
-
-/** Paths of every number in `x` that is not finite. */
-export function nonFinitePaths(x: unknown, path = '$', out: string[] = []): string[] {
-  if (typeof x === 'number') {
-    if (!Number.isFinite(x)) out.push(`${path} = ${x}`);
-  } else if (Array.isArray(x)) {
-    x.forEach((v, i) => nonFinitePaths(v, `${path}[${i}]`, out));
-  } else if (x && typeof x === 'object') {
-    for (const [k, v] of Object.entries(x)) nonFinitePaths(v, `${path}.${k}`, out);
-  }
-  return out;
-}
+import { nonFinitePaths } from './nonFinite.js';
 
 const logUniform = (lo: number, hi: number) => fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
 
