@@ -18,6 +18,12 @@
  *     duration: "6.2 h"                                                 # optional measured T14 (default: computed)
  *     orientation: isotropic                                            # or coplanar (Monte Carlo prior)
  *     draws: 4000                                                       # Monte Carlo draws
+ *
+ * Ranges (each refused value is reported with its range and the reason): amplitudes and their
+ * uncertainties below a quarter of planet.period (uncertainties ≥ 1 ms); precision 0.1 ppm to
+ * 1e6 ppm over 1 s to 1 d; cadence 1 s to 1 d; duration 1 min to half of planet.period;
+ * moon_dip ≥ 0.01 ppm; phase_offset within ±360°. Tables: 6 to 20 000 rows over at most 50 000
+ * orbits (timingTable.ts), files of at most 32 MB.
  */
 import { readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';

@@ -660,6 +660,7 @@ export function vetClaim(claim: Claim): VetResult {
     `thresholds: a check fails when even the 2σ bound most favourable to the claim violates the limit, and is in tension when the median does`,
   ];
   if (analysis) assumptions.push('amplitudes from a sinusoid fit at the best common frequency; the frequency uncertainty and aliasing are not propagated into the amplitude errors');
+  if (!signal) assumptions.push('no detectable signal does not exclude a moon: one whose TTV/TDV lie below these errors would look the same (`moonsieve limits` and `budget` give the sensitivity for a given moon)');
   if (claim.table?.reordered) assumptions.push(`the rows of ${claim.table.source} were not in time order: they were sorted by time before the analysis`);
   return {
     claim: claim.name,
