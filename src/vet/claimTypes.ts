@@ -25,10 +25,12 @@ export interface TimingTable {
   source: string;
   /** The stated time standard, e.g. "BJD_TDB" or "BJD_TDB-2457000". */
   timeStandard: string;
-  /** Integer transit epochs, strictly increasing. */
+  /** Integer transit epochs, strictly increasing (rows sorted by time). */
   epochs: Float64Array;
   /** True when the epochs were inferred from the planet period. */
   epochsInferred: boolean;
+  /** True when the file's rows were not in time order and were sorted. */
+  reordered?: boolean;
   /** Mid-transit times, s since `referenceBjdTdb`. */
   timeS: Float64Array;
   /** 1σ errors of the mid-times, s (> 0). */

@@ -3,7 +3,9 @@ import { M_EARTH_KG } from '../physics/constants.js';
 
 /** Three significant digits, exponent form outside 1e-3 … 1e5. */
 export function sig3(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
+  // Unbounded values (e.g. the mass of a moon that cannot make the signal) read as ∞, never "Infinity" or "NaN".
+  if (Number.isNaN(x)) return 'n/a';
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
   return Math.abs(x) >= 1e5 || (Math.abs(x) < 1e-3 && x !== 0) ? x.toExponential(2) : x.toPrecision(3);
 }
 

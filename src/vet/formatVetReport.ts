@@ -6,7 +6,13 @@ export function formatVetReport(r: VetResult): string {
   const lines: string[] = [];
   const rp = r.system.planetRadiusM;
   const row = (label: string, value: string) => lines.push(`  ${label.padEnd(34)} ${value}`);
-  const iv = (q: { median: number; lo2: number; hi2: number }, f: (x: number) => string) => `${f(q.median)}  (2σ ${f(q.lo2)} – ${f(q.hi2)})`;
+  // null in the result: unbounded (no moon can make the signal there), printed as ∞.
+  const un = (x: number | null) => (x === null ? Infinity : x);
+  let unbounded = false;
+  const iv = (q: { median: number | null; lo2: number | null; hi2: number | null }, f: (x: number) => string) => {
+    if (q.median === null || q.lo2 === null || q.hi2 === null) unbounded = true;
+    return `${f(un(q.median))}  (2σ ${f(un(q.lo2))} – ${f(un(q.hi2))})`;
+  };
   lines.push(`${r.claim}: vetting a claimed moon signal (${r.input === 'table' ? 'table of transit times' : 'claimed amplitudes'})`, '');
   lines.push(`VERDICT: ${r.verdict.toUpperCase()}`);
   r.reasons.forEach((s, i) => lines.push(`  ${i + 1}. ${s}`));
@@ -24,11 +30,14 @@ export function formatVetReport(r: VetResult): string {
     row('ΔBIC TTV (k 2 → 5)', `${sig3(t.bicTtv.delta)} at ${sig3(t.bicTtv.frequencyPerEpoch)} cycles/epoch`);
     if (t.bicTdv) row('ΔBIC TDV (k 1 → 4)', `${sig3(t.bicTdv.delta)} at ${sig3(t.bicTdv.frequencyPerEpoch)} cycles/epoch`);
     if (t.bicJoint) row('ΔBIC joint (k 3 → 8)', `${sig3(t.bicJoint.delta)} at ${sig3(t.bicJoint.frequencyPerEpoch)} cycles/epoch`);
-    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} (Baluev 2008)`);
+    const noSignal = r.verdict === 'no detectable signal';
+    // The periodogram's power is scale-free (relative to the scatter itself): without excess scatter its FAP means nothing.
+    const scaleFree = noSignal ? '; the scatter is within the errors, so this peak is not a signal' : '';
+    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} (Baluev 2008)${scaleFree}`);
     if (t.periodogramTdv) row('TDV periodogram peak', `${sig3(t.periodogramTdv.peakFrequencyPerEpoch)} cycles/epoch, FAP ${sig3(t.periodogramTdv.falseAlarmProbability)}`);
     row('sinusoid semi-amplitudes', `TTV ${timeText(t.ttvSemiAmplitudeS)} ± ${timeText(t.ttvSemiAmplitudeErrS)}${t.tdvSemiAmplitudeS !== null ? `, TDV ${timeText(t.tdvSemiAmplitudeS)} ± ${timeText(t.tdvSemiAmplitudeErrS!)}` : ''}`);
     const fam = t.aliasFamily;
-    row('moon periods with this alias', `${fam.count} between the stable limit and the Roche limit; first: ${fam.periodsS.slice(0, 5).map(timeText).join(', ')}${fam.nearestToImpliedS !== null ? `; nearest the TDV/TTV period: ${timeText(fam.nearestToImpliedS)}` : ''}`);
+    if (!noSignal) row('moon periods with this alias', `${fam.count} between the stable limit and the Roche limit; first: ${fam.periodsS.slice(0, 5).map(timeText).join(', ')}${fam.nearestToImpliedS !== null ? `; nearest the TDV/TTV period: ${timeText(fam.nearestToImpliedS)}` : ''}`);
   }
   const s = r.amplitudeSignificance;
   if (s) {
@@ -38,18 +47,24 @@ export function formatVetReport(r: VetResult): string {
   }
 
   const imp = r.implied;
-  lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
-  if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
-  if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(imp.separationM.median / r.system.hillRadiusM)} Hill radii`);
-  row(imp.mode === 'ttv+tdv' ? 'mass' : 'lightest mass', iv(imp.massKg, earthMasses));
-  row('mass ratio M_S/M_P', iv(imp.massRatio, sig3));
-  row('coplanar (minimum) mass', earthMasses(imp.coplanarMassKg));
-  if (imp.degeneracy) {
-    const d = imp.degeneracy;
-    const pick = [0, Math.floor(d.separationM.length / 3), Math.floor((2 * d.separationM.length) / 3), d.separationM.length - 1];
-    row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(d.massKg[i])}`).join('; '));
+  if (!imp) {
+    lines.push('', 'Implied moon: none (no detectable signal to explain)');
+  } else {
+    lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
+    if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
+    if (imp.separationM) row('separation', `${iv(imp.separationM, (x) => planetRadii(x, rp))}  = ${sig3(un(imp.separationM.median) / r.system.hillRadiusM)} Hill radii`);
+    row(imp.mode === 'ttv+tdv' ? 'mass' : 'lightest mass', iv(imp.massKg, earthMasses));
+    row('mass ratio M_S/M_P', iv(imp.massRatio, sig3));
+    row('coplanar (minimum) mass', imp.coplanarMassKg === null ? 'none at the central amplitudes' : earthMasses(imp.coplanarMassKg));
+    if (imp.degeneracy) {
+      const d = imp.degeneracy;
+      const pick = [0, Math.floor(d.separationM.length / 3), Math.floor((2 * d.separationM.length) / 3), d.separationM.length - 1];
+      row('degeneracy curve M_S(a_S)', pick.map((i) => `${planetRadii(d.separationM[i], rp)}: ${earthMasses(un(d.massKg[i]))}`).join('; '));
+      if (d.massKg.some((m) => m === null)) unbounded = true;
+    }
+    if (unbounded) lines.push('  (∞: no moon at the separation assumed can make the signal; its offset a_PB would exceed the separation)');
+    lines.push(`  (${imp.note})`);
   }
-  lines.push(`  (${imp.note})`);
 
   lines.push('', 'Where a moon can orbit');
   row('Hill radius', planetRadii(r.system.hillRadiusM, rp));

@@ -18,8 +18,14 @@
  *     duration: "6.2 h"                                                 # optional measured T14 (default: computed)
  *     orientation: isotropic                                            # or coplanar (Monte Carlo prior)
  *     draws: 4000                                                       # Monte Carlo draws
+ *
+ * Ranges (each refused value is reported with its range and the reason): amplitudes and their
+ * uncertainties below a quarter of planet.period (uncertainties ≥ 1 ms); precision 0.1 ppm to
+ * 1e6 ppm over 1 s to 1 d; cadence 1 s to 1 d; duration 1 min to half of planet.period;
+ * moon_dip ≥ 0.01 ppm; phase_offset within ±360°. Tables: 6 to 20 000 rows over at most 50 000
+ * orbits (timingTable.ts), files of at most 32 MB.
  */
-import { readFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { DAY_S, MINUTE_S } from '../physics/constants.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
@@ -28,9 +34,20 @@ import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
 import { readPlanet, readStar } from '../scenario/parseScenario.js';
 import { parseQuantity } from '../scenario/units.js';
 import type { Claim, ClaimedAmplitude, PhotometricPrecision, TimingTable } from './claimTypes.js';
-import { TIME_STANDARD_ALLOWED, parseTimeStandard, parseTimingTable } from './timingTable.js';
+import { MAX_TABLE_ROWS, TIME_STANDARD_ALLOWED, parseTimeStandard, parseTimingTable } from './timingTable.js';
 
 const DEG = Math.PI / 180;
+/** Largest table file read, bytes: far above MAX_TABLE_ROWS rows of a few numbers each. */
+export const MAX_TABLE_BYTES = 32 * 1024 * 1024;
+
+/** Read a table file, refusing one too large to be a table of transits before reading it. */
+function readTableFile(path: string): string {
+  const size = statSync(path).size;
+  if (size > MAX_TABLE_BYTES) {
+    throw new InputError([{ path: 'claim.table', value: `${path} (${(size / 1048576).toFixed(1)} MB)`, allowed: `at most ${MAX_TABLE_BYTES / 1048576} MB: a table of at most ${MAX_TABLE_ROWS} transits is far smaller` }]);
+  }
+  return readFileSync(path, 'utf8');
+}
 const DEFAULT_DRAWS = 4000;
 
 export interface ParseClaimOptions {
@@ -40,21 +57,43 @@ export interface ParseClaimOptions {
   readText?: (path: string) => string;
 }
 
-function readAmplitude(r: FieldReader): ClaimedAmplitude {
-  const valueS = r.quantity('amplitude', 'time', { bare: [1, 'seconds'], min: 0, minExclusive: true, rangeText: 'must be a positive time, e.g. "2.5 min"' });
-  const errorS = r.quantity('uncertainty', 'time', { bare: [1, 'seconds'], min: 0, minExclusive: true, rangeText: 'must be a positive time (1σ), e.g. "0.4 min"' });
+/** Keys of each block of a claim file (every one listed when an unknown key is met). */
+export const CLAIM_KEYS = {
+  top: ['name', 'seed', 'star', 'planet', 'claim'],
+  claim: ['ttv', 'tdv', 'phase_offset', 'transits', 'table', 'time_standard', 'precision', 'cadence', 'moon_dip', 'duration', 'orientation', 'draws'],
+  amplitude: ['amplitude', 'uncertainty', 'kind'],
+  phaseOffset: ['value', 'uncertainty'],
+} as const;
+
+/** Smallest noise level and dip depth accepted (0.1 ppm, and 0.01 ppm for a dip): far below any photometry. */
+const MIN_FRACTION = 1e-7;
+const MIN_DIP = 1e-8;
+/** Smallest stated timing uncertainty, s (as for table rows: timingTable.ts MIN_TIME_ERR_S). */
+const MIN_UNCERTAINTY_S = 1e-3;
+/** Photometric timescales and cadences accepted, s: 1 s to 1 d (the transit model samples the cadence). */
+const TIMESCALE_RANGE_S: readonly [number, number] = [1, DAY_S];
+
+function days(s: number): string {
+  return `${Number((s / DAY_S).toPrecision(3))} d`;
+}
+
+function readAmplitude(r: FieldReader, periodS: number): ClaimedAmplitude {
+  const quarter = Number.isFinite(periodS) ? periodS / 4 : Infinity;
+  const beyond = Number.isFinite(periodS) ? ` shorter than a quarter of planet.period (${days(quarter)}): a larger timing variation cannot be told apart from a different transit` : '';
+  const valueS = r.quantity('amplitude', 'time', { bare: [1, 'seconds'], min: 0, minExclusive: true, max: quarter, maxExclusive: true, rangeText: `must be a positive time${beyond}, e.g. "2.5 min"` });
+  const errorS = r.quantity('uncertainty', 'time', { bare: [1, 'seconds'], min: MIN_UNCERTAINTY_S, max: quarter, maxExclusive: true, rangeText: `must be a time (1σ) of at least 1 ms${beyond ? ` and${beyond}` : ''}, e.g. "0.4 min"` });
   let kind: ClaimedAmplitude['kind'] = 'rms';
   const rawKind = r.raw('kind');
   if (rawKind === undefined || rawKind === null) r.problem('kind', rawKind, 'required: "rms" or "semi-amplitude" (they differ by √2 for a sinusoid)');
   else kind = r.choice('kind', ['rms', 'semi-amplitude'] as const, 'rms');
-  r.rejectUnknown();
+  r.rejectUnknown(CLAIM_KEYS.amplitude);
   return { valueS, errorS, kind };
 }
 
 function readPrecision(r: FieldReader): PhotometricPrecision | null {
   const raw = r.raw('precision');
   if (raw === undefined || raw === null) return null;
-  const allowed = 'expected a white-noise level with its timescale, e.g. "300 ppm per 2 min"';
+  const allowed = 'expected a white-noise level (0.1 ppm to 1e6 ppm) with its timescale (1 s to 1 d), e.g. "300 ppm per 2 min"';
   if (typeof raw !== 'string' || !/\sper\s/.test(raw)) {
     r.problem('precision', raw, allowed);
     return null;
@@ -63,7 +102,7 @@ function readPrecision(r: FieldReader): PhotometricPrecision | null {
   try {
     const noiseFraction = parseQuantity(level, 'claim.precision', 'fraction');
     const noiseTimescaleS = parseQuantity(scale, 'claim.precision', 'time');
-    if (!(noiseFraction > 0) || !(noiseTimescaleS > 0)) throw new Error('range');
+    if (!(noiseFraction >= MIN_FRACTION && noiseFraction <= 1) || !(noiseTimescaleS >= TIMESCALE_RANGE_S[0] && noiseTimescaleS <= TIMESCALE_RANGE_S[1])) throw new Error('range');
     return { noiseFraction, noiseTimescaleS };
   } catch {
     r.problem('precision', raw, allowed);
@@ -83,25 +122,28 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
   const star = readStar(new FieldReader(top.raw('star'), 'star', problems));
   const planet = readPlanet(new FieldReader(top.raw('planet'), 'planet', problems), star, 0);
   const c = new FieldReader(top.raw('claim'), 'claim', problems);
-  top.rejectUnknown();
-  const ttv = c.has('ttv') ? readAmplitude(new FieldReader(c.raw('ttv'), 'claim.ttv', problems)) : null;
-  const tdv = c.has('tdv') ? readAmplitude(new FieldReader(c.raw('tdv'), 'claim.tdv', problems)) : null;
+  top.rejectUnknown(CLAIM_KEYS.top);
+  const ttv = c.has('ttv') ? readAmplitude(new FieldReader(c.raw('ttv'), 'claim.ttv', problems), planet.periodS) : null;
+  const tdv = c.has('tdv') ? readAmplitude(new FieldReader(c.raw('tdv'), 'claim.tdv', problems), planet.periodS) : null;
   let phaseOffset: Claim['phaseOffset'] = null;
   if (c.has('phase_offset')) {
     const p = new FieldReader(c.raw('phase_offset'), 'claim.phase_offset', problems);
-    const valueRad = p.quantity('value', 'angle', { bare: [DEG, 'degrees'] });
-    const errorRad = p.quantity('uncertainty', 'angle', { bare: [DEG, 'degrees'], min: 0, minExclusive: true, rangeText: 'must be a positive angle (1σ)' });
-    p.rejectUnknown();
+    const valueRad = p.quantity('value', 'angle', { bare: [DEG, 'degrees'], min: -2 * Math.PI, max: 2 * Math.PI, rangeText: 'expected an angle from -360 deg to 360 deg' });
+    const errorRad = p.quantity('uncertainty', 'angle', { bare: [DEG, 'degrees'], min: 1e-3 * DEG, max: 2 * Math.PI, rangeText: 'must be an angle (1σ) from 0.001 deg to 360 deg' });
+    p.rejectUnknown(CLAIM_KEYS.phaseOffset);
     phaseOffset = { valueRad, errorRad };
   }
   let moonDipDepth: number | null = null;
   const dipRaw = c.raw('moon_dip');
   if (dipRaw !== undefined && dipRaw !== null && !(typeof dipRaw === 'string' && /^\s*none\s*$/i.test(dipRaw))) {
-    moonDipDepth = c.quantity('moon_dip', 'fraction', { min: 0, minExclusive: true, max: 1, rangeText: 'expected a claimed dip depth such as "40 ppm", or none' });
+    moonDipDepth = c.quantity('moon_dip', 'fraction', { min: MIN_DIP, max: 1, rangeText: 'expected a claimed dip depth from 0.01 ppm to 1e6 ppm such as "40 ppm", or none' });
   }
   const precision = readPrecision(c);
-  const cadenceS = c.has('cadence') ? c.quantity('cadence', 'time', { bare: [MINUTE_S, 'minutes'], min: 0, minExclusive: true, rangeText: 'must be a positive time' }) : null;
-  const durationS = c.has('duration') ? c.quantity('duration', 'time', { bare: [DAY_S / 24, 'hours'], min: 0, minExclusive: true, rangeText: 'must be a positive time' }) : null;
+  const cadenceS = c.has('cadence') ? c.quantity('cadence', 'time', { bare: [MINUTE_S, 'minutes'], min: TIMESCALE_RANGE_S[0], max: TIMESCALE_RANGE_S[1], rangeText: 'must be a time from 1 s to 1 d' }) : null;
+  const halfPeriod = Number.isFinite(planet.periodS) ? planet.periodS / 2 : Infinity;
+  const durationS = c.has('duration')
+    ? c.quantity('duration', 'time', { bare: [DAY_S / 24, 'hours'], min: MINUTE_S, max: halfPeriod, maxExclusive: true, rangeText: `must be a time of at least 1 min${Number.isFinite(halfPeriod) ? ` and shorter than half of planet.period (${days(halfPeriod)}): no transit lasts longer` : ''}` })
+    : null;
   const orientation = c.choice('orientation', ['isotropic', 'coplanar'] as const, 'isotropic');
   const draws = c.number('draws', { default: DEFAULT_DRAWS, integer: true, min: 200, max: 1_000_000, rangeText: 'expected a whole number of Monte Carlo draws from 200 to 1000000' });
 
@@ -121,10 +163,12 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
       const full = resolve(opts.baseDir ?? '.', tablePath);
       let text: string;
       try {
-        text = (opts.readText ?? ((p: string) => readFileSync(p, 'utf8')))(full);
+        text = (opts.readText ?? readTableFile)(full);
       } catch (e) {
+        if (e instanceof InputError) throw e;
         const code = (e as NodeJS.ErrnoException).code;
-        throw new InputError([{ path: 'claim.table', value: tablePath, allowed: code === 'ENOENT' ? `no such file (${full})` : `cannot read it (${code ?? String(e)})` }], source);
+        const why = code === 'ENOENT' ? `no such file (${full})` : code === 'EISDIR' ? `a folder, not a file (${full})` : `cannot read it (${code ?? String(e)})`;
+        throw new InputError([{ path: 'claim.table', value: tablePath, allowed: why }], source);
       }
       table = parseTimingTable(text, tablePath, typeof std === 'string' ? std : null, planet.periodS);
       transits = table.epochs.length;
@@ -137,7 +181,7 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
     if (!ttv && !tdv && top.has('claim')) problems.push({ path: 'claim', value: top.raw('claim'), allowed: 'needs ttv and/or tdv amplitudes ({amplitude, uncertainty, kind}), or a table of transit times' });
     transits = c.number('transits', { integer: true, min: 3, max: 10000, rangeText: 'required with amplitudes: the number of transits behind the claim (3 to 10000)' });
   }
-  c.rejectUnknown();
+  c.rejectUnknown(CLAIM_KEYS.claim);
   if (problems.length > 0) throw new InputError(problems, source);
   return { name, seed, star, planet, ttv, tdv, phaseOffset, moonDipDepth, precision, cadenceS, transits, durationS, table, orientation, draws };
 }

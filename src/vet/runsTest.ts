@@ -7,15 +7,18 @@
  * and z = (R − E[R])/sqrt(Var[R]) is approximately standard normal. Too few
  * runs (z ≪ 0) means neighbouring epochs scatter together, as red noise or
  * slow systematics do. The normal approximation is rough below ~10 points.
- * Zero residuals are skipped.
+ * Zero residuals are skipped. With residuals of one sign only (or none) the
+ * number of runs is fixed given n₊ and n₋, so the test says nothing: z and the
+ * p-value are then null.
  */
 
 export interface RunsTest {
   runs: number;
   expectedRuns: number;
-  z: number;
-  /** One-sided p-value Pr(Z ≤ z): small when there are too few runs. */
-  pValueFewRuns: number;
+  /** null when the test cannot be made (residuals of one sign only, or all zero). */
+  z: number | null;
+  /** One-sided p-value Pr(Z ≤ z): small when there are too few runs; null when untestable. */
+  pValueFewRuns: number | null;
 }
 
 /**
@@ -50,9 +53,10 @@ export function runsTest(residuals: ArrayLike<number>): RunsTest {
     last = s;
   }
   const n = nPos + nNeg;
-  if (nPos === 0 || nNeg === 0) return { runs, expectedRuns: runs, z: NaN, pValueFewRuns: NaN };
+  if (nPos === 0 || nNeg === 0) return { runs, expectedRuns: runs, z: null, pValueFewRuns: null };
   const mean = (2 * nPos * nNeg) / n + 1;
   const variance = ((mean - 1) * (mean - 2)) / (n - 1);
-  const z = variance > 0 ? (runs - mean) / Math.sqrt(variance) : NaN;
-  return { runs, expectedRuns: mean, z, pValueFewRuns: Number.isFinite(z) ? normalCdf(z) : NaN };
+  if (!(variance > 0)) return { runs, expectedRuns: mean, z: null, pValueFewRuns: null };
+  const z = (runs - mean) / Math.sqrt(variance);
+  return { runs, expectedRuns: mean, z, pValueFewRuns: normalCdf(z) };
 }

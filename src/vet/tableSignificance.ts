@@ -7,13 +7,13 @@
  * vs 5 (ephemeris + a, b, ν) for the TTVs, 1 vs 4 for the durations and
  * 3 vs 8 jointly (one ν shared, Kipping 2009a); generalised Lomb–Scargle
  * periodograms with the Baluev (2008) false-alarm probability
- * (lombScargle.ts); the χ² left about the moon model, and a runs test of its
+ * (fastPeriodogram.ts: lombScargle.ts's grid and peak, with FFT sums); the χ² left about the moon model, and a runs test of its
  * TTV residuals (runsTest.ts).
  */
 import { jointTimingExcess, tdvExcess, ttvExcess } from '../timing/chiSquareStatistics.js';
-import { lombScargle } from '../timing/lombScargle.js';
 import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
 import type { TimingTable } from './claimTypes.js';
+import { fastPeriodogram } from './fastPeriodogram.js';
 import { runsTest } from './runsTest.js';
 import { bestCommonFrequency, fitSinusoidAt, type SinusoidFit, type TimingSeriesData } from './sinusoidFit.js';
 import type { BicComparison, ChiSquareSummary, PeriodogramSummary, TableSignificance, TimingSeriesSummary } from './vetTypes.js';
@@ -35,7 +35,7 @@ function bic(chiNoMoon: number, chiMoon: number, points: number, kNoMoon: number
 }
 
 function periodogramSummary(epochs: Float64Array, values: Float64Array, errors: Float64Array): PeriodogramSummary {
-  const p = lombScargle(epochs, values, errors);
+  const p = fastPeriodogram(epochs, values, errors);
   return {
     frequency: Array.from(p.frequency),
     power: Array.from(p.power),

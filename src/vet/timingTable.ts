@@ -24,6 +24,16 @@ import type { TimingTable } from './claimTypes.js';
 
 /** Fewest transits the vetting accepts: the ephemeris-plus-sinusoid model has 5 parameters. */
 export const MIN_TABLE_ROWS = 6;
+/** Most rows accepted: 20 000 transits are 55 years of a 1-day planet (outputs and fits grow with the rows). */
+export const MAX_TABLE_ROWS = 20_000;
+/** Most orbits from first to last transit: the frequency grid has 5 points per orbit of span (≤ 2^22 FFT length). */
+export const MAX_EPOCH_SPAN = 50_000;
+/** Largest |epoch|: keeps 2πνE well inside double precision (1e7 rad has ~2e-9 rad resolution). */
+export const MAX_ABS_EPOCH = 10_000_000;
+/** Latest BJD_TDB accepted, d (JD 10 000 000 is in the year 22 666). */
+export const MAX_BJD = 10_000_000;
+/** Smallest timing uncertainty accepted, s: 1 ms, well below any measured transit time. */
+export const MIN_TIME_ERR_S = 1e-3;
 
 export const TIME_STANDARD_ALLOWED =
   'state the time standard: "BJD_TDB", or BJD_TDB minus an offset in days such as "BJD_TDB-2457000"; ' +
@@ -62,8 +72,25 @@ interface RawTable {
   metaTimeStandard: string | null;
 }
 
-function where(source: string, line: number, col?: number, name?: string): string {
-  return `${source} line ${line}${col !== undefined ? `, column ${col}` : ''}${name ? ` (${name})` : ''}`;
+/** "t.csv row 3 (line 7), column 2 (time_err)": data rows are counted from 1 after the header. */
+function where(source: string, line: number, col?: number, name?: string, row?: number): string {
+  const pos = row !== undefined ? `row ${row} (line ${line})` : `line ${line}`;
+  return `${source} ${pos}${col !== undefined ? `, column ${col}` : ''}${name ? ` (${name})` : ''}`;
+}
+
+/** A cell or row as quoted in a message: at most 40 characters. */
+function clip(text: string): string {
+  return text.length > 40 ? `${text.slice(0, 37)}…` : text;
+}
+
+function sig(x: number): string {
+  return Number(x.toPrecision(3)).toString();
+}
+
+/** The first problems of a long list, and how many more there are. */
+function firstProblems(problems: FieldProblem[], max = 20): FieldProblem[] {
+  if (problems.length <= max) return problems;
+  return [...problems.slice(0, max), { path: '…', value: `${problems.length - max} more problems`, allowed: 'fix the ones above and run again' }];
 }
 
 /** Split "time_err [min]" or "time_err (min)" into name and unit. */
@@ -140,7 +167,7 @@ function readEcsv(lines: string[], source: string, problems: FieldProblem[]): Ra
 function numberCell(cell: string | undefined, at: string, problems: FieldProblem[], integer = false): number {
   const v = cell === undefined || cell.trim() === '' ? NaN : Number(cell);
   if (!Number.isFinite(v) || (integer && !Number.isInteger(v))) {
-    problems.push({ path: at, value: cell ?? '', allowed: integer ? 'expected an integer epoch' : 'expected a finite number' });
+    problems.push({ path: at, value: clip(cell ?? ''), allowed: integer ? 'expected an integer epoch' : 'expected a finite number (not NaN or Infinity)' });
     return NaN;
   }
   return v;
@@ -214,7 +241,10 @@ export function parseTimingTable(text: string, source: string, timeStandard: str
 
   const n = raw.rows.length;
   if (n < MIN_TABLE_ROWS) {
-    throw new InputError([{ path: source, value: `${n} rows`, allowed: `at least ${MIN_TABLE_ROWS} transits (the ephemeris-plus-sinusoid model has 5 parameters)` }], source);
+    throw new InputError([{ path: source, value: `${n} data row${n === 1 ? '' : 's'}`, allowed: `at least ${MIN_TABLE_ROWS} transits: the no-moon ephemeris has 2 parameters and a moon's sinusoid 3 more (amplitude, phase, frequency), and one more row is needed to test the fit; with fewer there is no timing test of a moon` }], source);
+  }
+  if (n > MAX_TABLE_ROWS) {
+    throw new InputError([{ path: source, value: `${n} data rows`, allowed: `at most ${MAX_TABLE_ROWS} transits: the periodograms, fits and outputs grow with the table, and ${MAX_TABLE_ROWS} transits already cover 55 years of a 1-day planet; vet a subset (e.g. every other transit, or one decade)` }], source);
   }
   const tDay = new Float64Array(n);
   const tErr = new Float64Array(n);
@@ -223,68 +253,111 @@ export function parseTimingTable(text: string, source: string, timeStandard: str
   const dur = hasDur ? new Float64Array(n) : null;
   const durErr = hasDur ? new Float64Array(n) : null;
   const ncol = raw.columns.length;
+  const periodDays = planetPeriodS / DAY_S;
+  const errRange = `from ${MIN_TIME_ERR_S * 1000} ms to a quarter of planet.period (${sig(planetPeriodS / 4 / DAY_S)} d): an uncertainty beyond that cannot tie the row to one transit`;
+  const durRange = `shorter than half of planet.period (${sig(periodDays / 2)} d): no transit lasts longer`;
+  const unitText = (u: number) => (u === DAY_S ? 'd' : u === 3600 ? 'h' : u === 60 ? 'min' : u === 1 ? 's' : `× ${u} s`);
+  /** Check an uncertainty cell (value in the column's unit) and return it in seconds, or NaN after recording a problem. */
+  const uncertainty = (v: number, unitS: number, cell: string, at: string, max: number, range: string): number => {
+    if (!Number.isFinite(v)) return NaN;
+    const si = v * unitS;
+    if (v < 0) problems.push({ path: at, value: clip(cell), allowed: `a negative uncertainty; expected ${range}` });
+    else if (v === 0) problems.push({ path: at, value: clip(cell), allowed: `a zero uncertainty; expected ${range}` });
+    else if (!(si >= MIN_TIME_ERR_S && si <= max)) problems.push({ path: at, value: `${clip(cell)} ${unitText(unitS)}`, allowed: `expected ${range}` });
+    else return si;
+    return NaN;
+  };
   for (let i = 0; i < n; i++) {
     const { line, cells } = raw.rows[i];
+    const row = i + 1;
     if (cells.length !== ncol) {
-      problems.push({ path: where(source, line), value: cells.join(','), allowed: `expected ${ncol} fields (${raw.columns.map((c) => c.name).join(', ')}), found ${cells.length}` });
+      problems.push({ path: where(source, line, undefined, undefined, row), value: clip(cells.join(',')), allowed: `expected ${ncol} fields (${raw.columns.map((c) => c.name).join(', ')}), found ${cells.length}` });
       continue;
     }
     const cell = (role: Role) => cells[roleCol[role]!];
-    const at = (role: Role) => where(source, line, roleCol[role]! + 1, raw.columns[roleCol[role]!].name);
+    const at = (role: Role) => where(source, line, roleCol[role]! + 1, raw.columns[roleCol[role]!].name, row);
     tDay[i] = numberCell(cell('time'), at('time'), problems);
-    const e = numberCell(cell('time_err'), at('time_err'), problems);
-    if (Number.isFinite(e) && !(e > 0)) problems.push({ path: at('time_err'), value: cell('time_err'), allowed: e < 0 ? 'a negative uncertainty: uncertainties must be > 0' : 'a zero uncertainty: uncertainties must be > 0' });
-    tErr[i] = e * errUnit;
-    if (epochsGiven) epochs[i] = numberCell(cell('epoch'), at('epoch'), problems, true);
+    if (Number.isFinite(tDay[i])) {
+      const bjd = tDay[i] + (offsetDays ?? 0);
+      if (!(bjd >= 0 && bjd <= MAX_BJD)) {
+        problems.push({ path: at('time'), value: clip(cell('time')), allowed: `expected a BJD_TDB from 0 to ${MAX_BJD} d (the stated standard "${String(standard)}" adds ${offsetDays ?? 0} d)` });
+        tDay[i] = NaN;
+      }
+    }
+    tErr[i] = uncertainty(numberCell(cell('time_err'), at('time_err'), problems), errUnit, cell('time_err'), at('time_err'), planetPeriodS / 4, errRange);
+    if (epochsGiven) {
+      epochs[i] = numberCell(cell('epoch'), at('epoch'), problems, true);
+      if (Number.isFinite(epochs[i]) && Math.abs(epochs[i]) > MAX_ABS_EPOCH) {
+        problems.push({ path: at('epoch'), value: clip(cell('epoch')), allowed: `expected an integer epoch from −${MAX_ABS_EPOCH} to ${MAX_ABS_EPOCH} (count epochs from a transit near the table)` });
+      }
+    }
     if (dur && durErr) {
       const d = numberCell(cell('duration'), at('duration'), problems);
-      if (Number.isFinite(d) && !(d > 0)) problems.push({ path: at('duration'), value: cell('duration'), allowed: 'durations must be > 0' });
-      const de = numberCell(cell('duration_err'), at('duration_err'), problems);
-      if (Number.isFinite(de) && !(de > 0)) problems.push({ path: at('duration_err'), value: cell('duration_err'), allowed: de < 0 ? 'a negative uncertainty: uncertainties must be > 0' : 'a zero uncertainty: uncertainties must be > 0' });
+      if (Number.isFinite(d) && !(d > 0 && d * durUnit < planetPeriodS / 2)) {
+        problems.push({ path: at('duration'), value: `${clip(cell('duration'))} ${unitText(durUnit)}`, allowed: `expected a positive duration ${durRange}` });
+      }
       dur[i] = d * durUnit;
-      durErr[i] = de * durErrUnit;
+      durErr[i] = uncertainty(numberCell(cell('duration_err'), at('duration_err'), problems), durErrUnit, cell('duration_err'), at('duration_err'), planetPeriodS / 4, errRange);
     }
   }
-  if (problems.length > 0) throw new InputError(problems.slice(0, 20), source);
+  if (problems.length > 0) throw new InputError(firstProblems(problems), source);
 
-  // Times must increase from row to row.
+  // Rows in time order: a table need not be sorted (the order of rows carries no meaning); the
+  // sort is stable and reported. Repeated times are errors.
+  const order = Array.from({ length: n }, (_, i) => i);
+  const reordered = order.some((i) => i > 0 && tDay[i] < tDay[i - 1]);
+  if (reordered) order.sort((a, b2) => tDay[a] - tDay[b2] || a - b2);
   const timeCol = roleCol.time! + 1;
-  for (let i = 1; i < n; i++) {
-    if (!(tDay[i] > tDay[i - 1])) {
-      problems.push({ path: where(source, raw.rows[i].line, timeCol, 'time'), value: tDay[i], allowed: `times must increase row by row (previous row, line ${raw.rows[i - 1].line}: ${tDay[i - 1]}); ${tDay[i] === tDay[i - 1] ? 'a repeated time' : 'non-monotonic times'}` });
+  const rowOf = (k: number) => order[k] + 1;
+  const lineOf = (k: number) => raw.rows[order[k]].line;
+  for (let k = 1; k < n; k++) {
+    if (tDay[order[k]] === tDay[order[k - 1]]) {
+      problems.push({ path: where(source, lineOf(k), timeCol, 'time', rowOf(k)), value: tDay[order[k]], allowed: `a repeated time (also row ${rowOf(k - 1)}, line ${lineOf(k - 1)}): each transit once` });
     }
   }
+  if (problems.length > 0) throw new InputError(firstProblems(problems), source);
+  const pick = (a: Float64Array) => Float64Array.from(order, (i) => a[i]);
+  const tSorted = pick(tDay);
+  const errSorted = pick(tErr);
+  const epochsSorted = pick(epochs);
   // Elapsed seconds from the first transit, from the table values (before the offset) for precision.
   const timeS = new Float64Array(n);
-  for (let i = 0; i < n; i++) timeS[i] = (tDay[i] - tDay[0]) * DAY_S;
+  for (let k = 0; k < n; k++) timeS[k] = (tSorted[k] - tSorted[0]) * DAY_S;
   if (!epochsGiven) {
     // Epoch of each transit: nearest whole number of periods after the first (Kepler: one transit per period).
-    for (let i = 0; i < n; i++) {
-      const x = timeS[i] / planetPeriodS;
-      epochs[i] = Math.round(x);
-      if (Math.abs(x - epochs[i]) > 0.25) {
-        problems.push({ path: where(source, raw.rows[i].line, timeCol, 'time'), value: tDay[i], allowed: `lies ${(Math.abs(x - epochs[i]) * planetPeriodS / DAY_S).toFixed(3)} d from the transit predicted by planet.period; give an "epoch" column or check the period` });
+    for (let k = 0; k < n; k++) {
+      const x = timeS[k] / planetPeriodS;
+      epochsSorted[k] = Math.round(x);
+      if (Math.abs(x - epochsSorted[k]) > 0.25) {
+        problems.push({ path: where(source, lineOf(k), timeCol, 'time', rowOf(k)), value: tSorted[k], allowed: `lies ${(Math.abs(x - epochsSorted[k]) * periodDays).toFixed(3)} d from the transit predicted by planet.period; give an "epoch" column or check the period` });
       }
     }
   }
   const epochCol = epochsGiven ? roleCol.epoch! + 1 : timeCol;
-  for (let i = 1; i < n; i++) {
-    if (epochs[i] === epochs[i - 1]) {
-      problems.push({ path: where(source, raw.rows[i].line, epochCol, epochsGiven ? 'epoch' : 'time'), value: epochs[i], allowed: `duplicate epoch ${epochs[i]} (also on line ${raw.rows[i - 1].line})${epochsGiven ? '' : ' after inferring epochs from planet.period'}` });
-    } else if (epochs[i] < epochs[i - 1] && epochsGiven) {
-      problems.push({ path: where(source, raw.rows[i].line, epochCol, 'epoch'), value: epochs[i], allowed: `epochs must increase with time (line ${raw.rows[i - 1].line} has epoch ${epochs[i - 1]})` });
+  for (let k = 1; k < n; k++) {
+    const at = where(source, lineOf(k), epochCol, epochsGiven ? 'epoch' : 'time', rowOf(k));
+    if (epochsSorted[k] === epochsSorted[k - 1]) {
+      problems.push({ path: at, value: epochsSorted[k], allowed: `duplicate epoch ${epochsSorted[k]} (also row ${rowOf(k - 1)}, line ${lineOf(k - 1)})${epochsGiven ? '' : ' after inferring epochs from planet.period'}: each transit once` });
+    } else if (epochsSorted[k] < epochsSorted[k - 1] && epochsGiven) {
+      problems.push({ path: at, value: epochsSorted[k], allowed: `epochs must increase with time (row ${rowOf(k - 1)}, line ${lineOf(k - 1)}, has the earlier time but epoch ${epochsSorted[k - 1]})` });
     }
   }
-  if (problems.length > 0) throw new InputError(problems.slice(0, 20), source);
+  if (problems.length > 0) throw new InputError(firstProblems(problems), source);
+  const span = epochsSorted[n - 1] - epochsSorted[0];
+  if (span > MAX_EPOCH_SPAN) {
+    throw new InputError([{ path: source, value: `epochs ${epochsSorted[0]} to ${epochsSorted[n - 1]} (${span} orbits)`, allowed: `at most ${MAX_EPOCH_SPAN} orbits from first to last transit: the frequency grid must resolve 1/span, and ${MAX_EPOCH_SPAN} orbits already cover 68 years of a half-day planet; vet a shorter stretch` }], source);
+  }
+  const pickOrNull = (a: Float64Array | null) => (a ? pick(a) : null);
   return {
     source,
     timeStandard: String(standard),
-    epochs,
+    epochs: epochsSorted,
     epochsInferred: !epochsGiven,
+    reordered,
     timeS,
-    timeErrS: tErr,
-    referenceBjdTdb: tDay[0] + (offsetDays ?? 0),
-    durationS: dur,
-    durationErrS: durErr,
+    timeErrS: errSorted,
+    referenceBjdTdb: tSorted[0] + (offsetDays ?? 0),
+    durationS: pickOrNull(dur),
+    durationErrS: pickOrNull(durErr),
   };
 }

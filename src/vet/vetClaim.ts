@@ -39,7 +39,8 @@ import type {
   AmplitudeSignificance,
   CheckId,
   ImpliedMoonSummary,
-  QuantileSummary,
+  RawImpliedMoonSummary as ImpliedMoonInternal,
+  RawQuantileSummary,
   SystemSummary,
   TableSignificance,
   VetCheck,
@@ -57,6 +58,8 @@ export const DENSITY_RANGE_KG_M3: readonly [number, number] = [500, 8000];
 export const BIC_STRONG = 6;
 /** p-value below which excess scatter counts as significant (≈ 3.3σ; common practice, no source). */
 export const P_SIGNIFICANT = 1e-3;
+/** z-score a claimed amplitude must reach to count as a detection (common practice, no source). */
+export const AMPLITUDE_SIGMA = 3;
 
 /** Order in which reasons of the same status are listed: the most basic first. */
 const CHECK_ORDER: CheckId[] = ['significance', 'stability', 'roche', 'mass-ratio', 'tidal-survival', 'phase', 'moon-dip', 'residual-noise', 'precision'];
@@ -64,14 +67,14 @@ const CHECK_ORDER: CheckId[] = ['significance', 'stability', 'roche', 'mass-rati
 const Q_LO2 = 0.0227501319481792; // Φ(−2), standard normal
 const Q_LO1 = 0.158655253931457; // Φ(−1)
 
-function quantiles(sample: Float64Array): QuantileSummary {
+function quantiles(sample: Float64Array): RawQuantileSummary {
   for (let i = 0; i < sample.length; i++) if (Number.isNaN(sample[i])) sample[i] = Infinity;
   sample.sort();
   const q = (p: number) => quantileSortedType7(sample, p);
   return { median: q(0.5), lo1: q(Q_LO1), hi1: q(1 - Q_LO1), lo2: q(Q_LO2), hi2: q(1 - Q_LO2) };
 }
 
-function intervalText(q: QuantileSummary, f: (x: number) => string): string {
+function intervalText(q: RawQuantileSummary, f: (x: number) => string): string {
   return `${f(q.median)} (2σ ${f(q.lo2)} – ${f(q.hi2)})`;
 }
 
@@ -165,7 +168,9 @@ function amplitudeSourceFromTable(a: TableAnalysis): AmplitudeSource {
 }
 
 interface MonteCarloResult {
-  implied: ImpliedMoonSummary;
+  implied: ImpliedMoonInternal;
+  /** Quantiles of the single channel a_PB (TTV only, m) or v_PB (TDV only, m/s) before the averaging correction. */
+  channel: RawQuantileSummary | null;
   phaseProjectionSd: number;
 }
 
@@ -223,9 +228,11 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
   } else {
     central = at((src.central.tdv * vB) / tau, massAtSeparationM!);
   }
-  let degeneracy: ImpliedMoonSummary['degeneracy'] = null;
+  let degeneracy: ImpliedMoonInternal['degeneracy'] = null;
+  let channelQuantiles: RawQuantileSummary | null = null;
   if (src.mode !== 'ttv+tdv') {
     const cq = quantiles(channel);
+    channelQuantiles = cq;
     const lo = Math.max(sys.rocheRockyM, sys.planetRadiusM);
     const hi = sys.stableRetrogradeM;
     const separationM: number[] = [];
@@ -274,6 +281,7 @@ function runMonteCarlo(claim: Claim, src: AmplitudeSource, sys: SystemSummary): 
       note,
     },
     phaseProjectionSd: sd,
+    channel: channelQuantiles,
   };
 }
 
@@ -308,7 +316,7 @@ const SOURCES = {
   precision: 'Carter et al. 2008, ApJ 689, 499 timing precision at the stated photometric noise; expected white-noise χ² of the claimed rms',
 };
 
-function stabilityCheck(imp: ImpliedMoonSummary, sys: SystemSummary, offset: QuantileSummary | null): VetCheck {
+function stabilityCheck(imp: ImpliedMoonInternal, sys: SystemSummary, offset: RawQuantileSummary | null): VetCheck {
   const rp = sys.planetRadiusM;
   const hill = (m: number) => `${sig3(m / sys.hillRadiusM)} R_H`;
   const limits = `prograde limit ${planetRadii(sys.stableProgradeM, rp)} (${hill(sys.stableProgradeM)}), retrograde ${planetRadii(sys.stableRetrogradeM, rp)} (${hill(sys.stableRetrogradeM)})`;
@@ -329,7 +337,7 @@ function stabilityCheck(imp: ImpliedMoonSummary, sys: SystemSummary, offset: Qua
   return { ...base, status: 'not tested', detail: `TDVs alone do not fix the separation; ${limits}` };
 }
 
-function rocheCheck(imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
+function rocheCheck(imp: ImpliedMoonInternal, sys: SystemSummary): VetCheck {
   const rp = sys.planetRadiusM;
   const base = { id: 'roche' as const, title: 'separation vs Roche limit', source: SOURCES.roche };
   const limits = `fluid Roche limit ${planetRadii(sys.rocheRockyM, rp)} (rocky) / ${planetRadii(sys.rocheIcyM, rp)} (icy)`;
@@ -342,7 +350,7 @@ function rocheCheck(imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
   return { ...base, status: 'pass', detail: `outside the Roche limit: ${txt}` };
 }
 
-function massRatioCheck(imp: ImpliedMoonSummary): VetCheck {
+function massRatioCheck(imp: ImpliedMoonInternal): VetCheck {
   const q = imp.massRatio;
   const base = { id: 'mass-ratio' as const, title: 'moon-to-planet mass ratio', source: SOURCES.massRatio };
   const atLeast = imp.mode === 'ttv+tdv' ? '' : 'at least ';
@@ -352,7 +360,7 @@ function massRatioCheck(imp: ImpliedMoonSummary): VetCheck {
   return { ...base, status: 'pass', detail: `${txt}` };
 }
 
-function tidalCheck(imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
+function tidalCheck(imp: ImpliedMoonInternal, sys: SystemSummary): VetCheck {
   const base = { id: 'tidal-survival' as const, title: 'mass vs tidal survival', source: SOURCES.tidal };
   const m = imp.massKg;
   const txt = `implied mass ${imp.mode === 'ttv+tdv' ? '' : 'at least '}${intervalText(m, earthMasses)}; a prograde moon heavier than ${earthMasses(sys.tidalMaxMassKg)} migrates out of the stable zone within the system age`;
@@ -396,7 +404,7 @@ function phaseCheckClaim(claim: Claim): VetCheck {
   return { ...base, status: 'pass', detail: txt };
 }
 
-function dipCheck(claim: Claim, imp: ImpliedMoonSummary, sys: SystemSummary): VetCheck {
+function dipCheck(claim: Claim, imp: ImpliedMoonInternal, sys: SystemSummary): VetCheck {
   const base = { id: 'moon-dip' as const, title: "the moon's own dip", source: SOURCES.dip };
   const sep = imp.separationM ? imp.separationM.median : (imp.massAtSeparationM ?? sys.stableProgradeM);
   const common = {
@@ -437,9 +445,9 @@ function residualCheck(tab: TableSignificance): VetCheck {
   const base = { id: 'residual-noise' as const, title: 'scatter beyond one moon (red noise, systematics)', source: SOURCES.residual };
   const r = tab.residual;
   const runs = tab.runs;
-  const txt = `χ² about the moon model ${sig3(r.chiSquare)} for ${r.dof} dof (χ²/dof ${sig3(r.chiSquare / r.dof)}, p = ${sig3(r.pValue)}); ${runs.runs} sign runs in the TTV residuals vs ${sig3(runs.expectedRuns)} expected (p = ${sig3(runs.pValueFewRuns)} for so few)`;
+  const txt = `χ² about the moon model ${sig3(r.chiSquare)} for ${r.dof} dof (χ²/dof ${sig3(r.chiSquare / r.dof)}, p = ${sig3(r.pValue)}); ${runs.pValueFewRuns === null ? 'runs test not possible (the TTV residuals are all of one sign or zero)' : `${runs.runs} sign runs in the TTV residuals vs ${sig3(runs.expectedRuns)} expected (p = ${sig3(runs.pValueFewRuns)} for so few)`}`;
   if (r.dof >= 1 && r.pValue < P_SIGNIFICANT) return { ...base, status: 'tension', detail: `one moon does not account for the scatter: red noise, systematics or underestimated errors are needed: ${txt}` };
-  if (runs.pValueFewRuns < 0.01) return { ...base, status: 'tension', detail: `neighbouring transits scatter together, as red noise or slow systematics do: ${txt}` };
+  if (runs.pValueFewRuns !== null && runs.pValueFewRuns < 0.01) return { ...base, status: 'tension', detail: `neighbouring transits scatter together, as red noise or slow systematics do: ${txt}` };
   return { ...base, status: 'pass', detail: txt };
 }
 
@@ -448,7 +456,7 @@ function significanceCheckTable(tab: TableSignificance): VetCheck {
   const chi = tab.joint ?? tab.ttv;
   const b = tab.bicJoint ?? tab.bicTtv;
   const txt = `χ² ${sig3(chi.chiSquare)} for ${chi.dof} dof (p = ${sig3(chi.pValue)}) without a moon; ΔBIC ${sig3(b.delta)} for a sinusoid at ${sig3(b.frequencyPerEpoch)} cycles per epoch; TTV periodogram FAP ${sig3(tab.periodogramTtv.falseAlarmProbability)}`;
-  if (!(chi.pValue < P_SIGNIFICANT)) return { ...base, status: 'tension', detail: `no significant excess scatter: the implied moon is at most an upper limit; ${txt}` };
+  if (!(chi.pValue < P_SIGNIFICANT)) return { ...base, status: 'fail', detail: `no significant excess scatter about a constant period${tab.tdv ? ' and duration' : ''}: χ² ${sig3(chi.chiSquare)} for ${chi.dof} dof (p = ${sig3(chi.pValue)}, a detection needs p < ${P_SIGNIFICANT}); the timing is within its stated errors, so there is nothing for a moon to explain` };
   if (!(b.delta > BIC_STRONG)) return { ...base, status: 'tension', detail: `the scatter is in excess but a sinusoid is not favoured, unlike one moon's signal: ${txt}` };
   return { ...base, status: 'pass', detail: txt };
 }
@@ -459,13 +467,17 @@ function significanceCheckClaim(sig: AmplitudeSignificance): VetCheck {
   if (sig.ttvZ !== null) parts.push(`TTV ${sig3(sig.ttvZ)}σ`);
   if (sig.tdvZ !== null) parts.push(`TDV ${sig3(sig.tdvZ)}σ`);
   const best = Math.max(sig.ttvZ ?? 0, sig.tdvZ ?? 0);
-  if (best < 3) return { ...base, status: 'tension', detail: `no claimed amplitude reaches 3σ (${parts.join(', ')}): the implied moon is at most an upper limit` };
+  if (best < AMPLITUDE_SIGMA) return { ...base, status: 'fail', detail: `no claimed amplitude reaches ${AMPLITUDE_SIGMA}σ (${parts.join(', ')}): not a detection, so no moon is inferred` };
   return { ...base, status: 'pass', detail: parts.join(', ') };
 }
 
-function precisionCheck(claim: Claim, sig: AmplitudeSignificance): VetCheck {
+function precisionCheck(claim: Claim, sig: AmplitudeSignificance, sys: SystemSummary): VetCheck {
   const base = { id: 'precision' as const, title: 'claimed amplitudes vs the data precision', source: SOURCES.precision };
-  if (!claim.precision || sig.timingPrecisionS === null) return { ...base, status: 'not tested', detail: 'no photometric precision was stated' };
+  if (!claim.precision) return { ...base, status: 'not tested', detail: 'no photometric precision was stated' };
+  if (sig.timingPrecisionS === null) {
+    const cadence = claim.cadenceS ?? claim.precision.noiseTimescaleS;
+    return { ...base, status: 'not tested', detail: `no per-transit timing precision can be computed at a cadence of ${timeText(cadence)} for a transit of ${timeText(sys.durationS)}` };
+  }
   const parts: string[] = [];
   let bad = false;
   const toRms = (a: { valueS: number; kind: string }) => (a.kind === 'rms' ? a.valueS : a.valueS / Math.SQRT2);
@@ -500,13 +512,61 @@ function rankChecks(checks: VetCheck[]): { verdict: Verdict; reasons: string[] }
   return { verdict, reasons };
 }
 
+const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
+const quantilesForOutput = (q: RawQuantileSummary) => ({ median: finiteOrNull(q.median), lo1: finiteOrNull(q.lo1), hi1: finiteOrNull(q.hi1), lo2: finiteOrNull(q.lo2), hi2: finiteOrNull(q.hi2) });
+
+/** The reported implied moon: unbounded (infinite) or undefined values become null, as JSON needs. */
+function impliedForOutput(imp: ImpliedMoonInternal): ImpliedMoonSummary {
+  const d = imp.degeneracy;
+  return {
+    ...imp,
+    moonPeriodS: imp.moonPeriodS && quantilesForOutput(imp.moonPeriodS),
+    separationM: imp.separationM && quantilesForOutput(imp.separationM),
+    massKg: quantilesForOutput(imp.massKg),
+    massRatio: quantilesForOutput(imp.massRatio),
+    coplanarMassKg: imp.coplanarMassKg === null ? null : finiteOrNull(imp.coplanarMassKg),
+    degeneracy: d && { separationM: d.separationM, massKg: d.massKg.map(finiteOrNull), massLoKg: d.massLoKg.map(finiteOrNull), massHiKg: d.massHiKg.map(finiteOrNull) },
+  };
+}
+
+/** Is there excess timing scatter at all? The same χ² test as the significance check. */
+function hasTableSignal(s: TableAnalysis['significance']): boolean {
+  const chi = s.joint ?? s.ttv;
+  return chi.pValue < P_SIGNIFICANT;
+}
+
+/** Does any claimed amplitude reach 3σ? The same threshold as the significance check. */
+function hasAmplitudeSignal(claim: Claim): boolean {
+  const z = Math.max(claim.ttv ? claim.ttv.valueS / claim.ttv.errorS : 0, claim.tdv ? claim.tdv.valueS / claim.tdv.errorS : 0);
+  return z >= AMPLITUDE_SIGMA;
+}
+
+/** The moon checks skipped without a signal (listed as not tested, so the report shows what was not done). */
+const NO_SIGNAL_CHECKS: Array<Pick<VetCheck, 'id' | 'title' | 'source'>> = [
+  { id: 'stability', title: 'separation vs stable limits', source: SOURCES.stability },
+  { id: 'roche', title: 'separation vs Roche limit', source: SOURCES.roche },
+  { id: 'mass-ratio', title: 'moon-to-planet mass ratio', source: SOURCES.massRatio },
+  { id: 'tidal-survival', title: 'mass vs tidal survival', source: SOURCES.tidal },
+  { id: 'phase', title: 'TTV–TDV phase relation', source: SOURCES.phase },
+  { id: 'moon-dip', title: "the moon's own dip", source: SOURCES.dip },
+];
+
+function noSignalVerdict(checks: VetCheck[]): { verdict: Verdict; reasons: string[] } {
+  const sig = checks.find((c) => c.id === 'significance')!;
+  const reasons = [`NO SIGNAL ${sig.title}: ${sig.detail}`];
+  for (const c of checks) if (c.id !== 'significance' && (c.status === 'tension' || c.status === 'fail')) reasons.push(`${c.status === 'fail' ? 'FAIL' : 'TENSION'} ${c.title}: ${c.detail}`);
+  return { verdict: 'no detectable signal', reasons };
+}
+
 /** Vet a claimed moon signal (see the file header). Pure: the same claim and seed give the same result. */
 export function vetClaim(claim: Claim): VetResult {
   const analysis = claim.table ? analyseTable(claim.table) : null;
   const { sys, limits } = systemSummary(claim, claim.durationS ?? analysis?.meanDurationS ?? null);
   const src = analysis ? amplitudeSourceFromTable(analysis) : amplitudeSourceFromClaim(claim);
-  const mc = runMonteCarlo(claim, src, sys);
-  const imp = mc.implied;
+  // No significant timing variation: nothing to explain, so no implied moon and no physical checks.
+  const signal = analysis ? hasTableSignal(analysis.significance) : hasAmplitudeSignal(claim);
+  const mc = signal ? runMonteCarlo(claim, src, sys) : null;
+  const imp = mc ? mc.implied : null;
 
   let tableSignificance: TableSignificance | null = null;
   let amplitudeSignificance: AmplitudeSignificance | null = null;
@@ -519,7 +579,7 @@ export function vetClaim(claim: Claim): VetResult {
     const maxRatio = claim.planet.periodS / moonPeriodAt(Math.max(sys.rocheRockyM, sys.planetRadiusM), sys.planetMassKg);
     const family = maxRatio > minRatio && maxRatio - minRatio < 40000 ? aliasFamily(Math.min(0.5, s.frequencyPerEpoch), claim.planet.periodS, minRatio, maxRatio) : [];
     let nearest: number | null = null;
-    if (imp.moonPeriodS && family.length > 0) {
+    if (imp?.moonPeriodS && family.length > 0) {
       const target = imp.moonPeriodS.median;
       nearest = family.reduce((best, m) => (Math.abs(Math.log(m.moonPeriod / target)) < Math.abs(Math.log(best / target)) ? m.moonPeriod : best), family[0].moonPeriod);
     }
@@ -538,8 +598,10 @@ export function vetClaim(claim: Claim): VetResult {
     const toRms = (a: { valueS: number; errorS: number; kind: string } | null) => (a ? (a.kind === 'rms' ? 1 : Math.SQRT1_2) : NaN);
     const n = claim.transits;
     const precise = claim.precision !== null;
-    const sTc = precise ? limits.timing_precision_s : null;
-    const sDur = precise ? limits.duration_precision_s : null;
+    // Undefined (null) when the model cannot time the transit at this cadence (e.g. a cadence longer than T14).
+    const finitePositive = (x: number) => (Number.isFinite(x) && x > 0 ? x : null);
+    const sTc = precise ? finitePositive(limits.timing_precision_s) : null;
+    const sDur = precise ? finitePositive(limits.duration_precision_s) : null;
     const ttvRms = claim.ttv ? claim.ttv.valueS * toRms(claim.ttv) : null;
     const tdvRms = claim.tdv ? claim.tdv.valueS * toRms(claim.tdv) : null;
     // Expected χ² of N white-noise points around a line (N − 2 dof) or a mean (N − 1) plus the signal: (dof + N·rms²/σ²).
@@ -563,23 +625,32 @@ export function vetClaim(claim: Claim): VetResult {
   }
 
   // The planet's barycentric offset a_PB = A_TTV v_B (TTV only): a_S must exceed it.
-  let offset: QuantileSummary | null = null;
-  if (imp.mode === 'ttv only' && imp.degeneracy) {
+  let offset: RawQuantileSummary | null = null;
+  if (imp && imp.mode === 'ttv only' && imp.degeneracy) {
     const m = imp.massKg;
     const back = (mass: number) => (mass * imp.massAtSeparationM!) / (sys.planetMassKg + mass);
     offset = { median: back(m.median), lo1: back(m.lo1), hi1: back(m.hi1), lo2: back(m.lo2), hi2: back(m.hi2) };
-    for (const k of ['median', 'lo1', 'hi1', 'lo2', 'hi2'] as const) if (!Number.isFinite(offset[k])) offset[k] = Infinity;
+    // Where no moon at the assumed separation makes the TTV (unbounded mass), the offset is at least
+    // the frozen-planet a_PB = A_TTV·v_B (transit averaging only lowers the observed TTV).
+    // All five from the channel then, so the quantiles stay ordered.
+    const ch = mc?.channel;
+    const keys = ['median', 'lo1', 'hi1', 'lo2', 'hi2'] as const;
+    if (keys.some((k) => !Number.isFinite(offset![k]))) for (const k of keys) offset[k] = ch && Number.isFinite(ch[k]) ? ch[k] : Infinity;
   }
-  checks.push(stabilityCheck(imp, sys, offset));
-  checks.push(rocheCheck(imp, sys));
-  checks.push(massRatioCheck(imp));
-  checks.push(tidalCheck(imp, sys));
-  checks.push(analysis && tableSignificance ? phaseCheckTable(tableSignificance, analysis, mc.phaseProjectionSd) : phaseCheckClaim(claim));
-  checks.push(dipCheck(claim, imp, sys));
+  if (imp && mc) {
+    checks.push(stabilityCheck(imp, sys, offset));
+    checks.push(rocheCheck(imp, sys));
+    checks.push(massRatioCheck(imp));
+    checks.push(tidalCheck(imp, sys));
+    checks.push(analysis && tableSignificance ? phaseCheckTable(tableSignificance, analysis, mc.phaseProjectionSd) : phaseCheckClaim(claim));
+    checks.push(dipCheck(claim, imp, sys));
+  } else {
+    checks.push(...NO_SIGNAL_CHECKS.map((c) => ({ ...c, status: 'not tested' as const, detail: 'no detectable signal, so no moon to test' })));
+  }
   if (tableSignificance) checks.push(residualCheck(tableSignificance));
-  if (amplitudeSignificance) checks.push(precisionCheck(claim, amplitudeSignificance));
+  if (amplitudeSignificance) checks.push(precisionCheck(claim, amplitudeSignificance, sys));
 
-  const { verdict, reasons } = rankChecks(checks);
+  const { verdict, reasons } = signal ? rankChecks(checks) : noSignalVerdict(checks);
   const assumptions = [
     'circular moon orbit (tidally damped); the TDV is the velocity part only, without the transit-impact-parameter part of inclined orbits (Kipping 2009b)',
     claim.orientation === 'isotropic'
@@ -589,6 +660,8 @@ export function vetClaim(claim: Claim): VetResult {
     `thresholds: a check fails when even the 2σ bound most favourable to the claim violates the limit, and is in tension when the median does`,
   ];
   if (analysis) assumptions.push('amplitudes from a sinusoid fit at the best common frequency; the frequency uncertainty and aliasing are not propagated into the amplitude errors');
+  if (!signal) assumptions.push('no detectable signal does not exclude a moon: one whose TTV/TDV lie below these errors would look the same (`moonsieve limits` and `budget` give the sensitivity for a given moon)');
+  if (claim.table?.reordered) assumptions.push(`the rows of ${claim.table.source} were not in time order: they were sorted by time before the analysis`);
   return {
     claim: claim.name,
     input: analysis ? 'table' : 'amplitudes',
@@ -601,7 +674,7 @@ export function vetClaim(claim: Claim): VetResult {
     amplitudes,
     tableSignificance,
     amplitudeSignificance,
-    implied: imp,
+    implied: imp ? impliedForOutput(imp) : null,
     series: analysis ? analysis.series : null,
   };
 }

@@ -60,21 +60,27 @@ export function renderVetPage(r: VetResult): string {
     sysLines(r.system.stableRetrogradeM, 'stable limit (retrograde)', 'dashdot'),
     { x: [r.system.hillRadiusM / rp * 0.01, r.system.hillRadiusM / rp], y: [(r.system.tidalMaxMassKg) / M_EARTH_KG, r.system.tidalMaxMassKg / M_EARTH_KG], type: 'scatter', mode: 'lines', name: 'tidal-survival mass', line: { dash: 'dot' } },
   ];
-  if (imp.separationM) {
+  // Unbounded quantiles (null: no moon can make the signal there) are left out of the plot.
+  const sep = imp?.separationM;
+  const mass = imp?.massKg;
+  if (sep && mass && sep.median !== null && mass.median !== null) {
+    const bar = (q: typeof sep, scale: number) =>
+      q.lo2 !== null && q.hi2 !== null && q.median !== null ? { type: 'data', symmetric: false, array: [(q.hi2 - q.median) / scale], arrayminus: [(q.median - q.lo2) / scale] } : undefined;
     plane.push({
-      x: [imp.separationM.median / rp],
-      y: [imp.massKg.median / M_EARTH_KG],
-      error_x: { type: 'data', symmetric: false, array: [(imp.separationM.hi2 - imp.separationM.median) / rp], arrayminus: [(imp.separationM.median - imp.separationM.lo2) / rp] },
-      error_y: { type: 'data', symmetric: false, array: [(imp.massKg.hi2 - imp.massKg.median) / M_EARTH_KG], arrayminus: [(imp.massKg.median - imp.massKg.lo2) / M_EARTH_KG] },
+      x: [sep.median / rp],
+      y: [mass.median / M_EARTH_KG],
+      error_x: bar(sep, rp),
+      error_y: bar(mass, M_EARTH_KG),
       type: 'scatter', mode: 'markers', name: 'implied moon (2σ)', marker: { size: 10 },
     });
   }
-  if (imp.degeneracy) {
+  if (imp?.degeneracy) {
     const d = imp.degeneracy;
     const x = d.separationM.map((a) => a / rp);
-    plane.push({ x, y: d.massKg.map((m) => m / M_EARTH_KG), type: 'scatter', mode: 'lines', name: 'degeneracy curve (median)' });
-    plane.push({ x, y: d.massLoKg.map((m) => m / M_EARTH_KG), type: 'scatter', mode: 'lines', name: '2σ low', line: { dash: 'dot' } });
-    plane.push({ x, y: d.massHiKg.map((m) => m / M_EARTH_KG), type: 'scatter', mode: 'lines', name: '2σ high', line: { dash: 'dot' } });
+    const earth = (m: number | null) => (m === null ? null : m / M_EARTH_KG);
+    plane.push({ x, y: d.massKg.map(earth), type: 'scatter', mode: 'lines', name: 'degeneracy curve (median)' });
+    plane.push({ x, y: d.massLoKg.map(earth), type: 'scatter', mode: 'lines', name: '2σ low', line: { dash: 'dot' } });
+    plane.push({ x, y: d.massHiKg.map(earth), type: 'scatter', mode: 'lines', name: '2σ high', line: { dash: 'dot' } });
   }
   figures.push({
     id: 'plane',
@@ -101,6 +107,6 @@ ${figures.map((f) => `<div id="${f.id}" class="plot"></div>`).join('\n')}
 <div class="caution"><ul>${r.cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul></div>
 <h2>Assumptions</h2>
 <ul>${r.assumptions.map((c) => `<li>${escapeHtml(c)}</li>`).join('')}</ul>
-<p>moonsieve ${escapeHtml(VERSION)}; implied moon from ${imp.draws} seeded Monte Carlo draws (seed ${imp.seed}).</p>`;
+<p>moonsieve ${escapeHtml(VERSION)}; ${imp ? `implied moon from ${imp.draws} seeded Monte Carlo draws (seed ${imp.seed})` : 'no implied moon (no detectable signal)'}.</p>`;
   return renderPlotlyPage({ title: `${r.claim}: vet`, bodyHtml: body, figures });
 }

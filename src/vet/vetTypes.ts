@@ -2,7 +2,11 @@
 import type { RunsTest } from './runsTest.js';
 
 export type CheckStatus = 'pass' | 'tension' | 'fail' | 'not tested';
-export type Verdict = 'consistent with a moon' | 'in tension' | 'implausible';
+/**
+ * 'no detectable signal': the timing shows no significant variation (or no claimed amplitude
+ * reaches 3σ), so there is no moon to infer and the physical checks are not made.
+ */
+export type Verdict = 'consistent with a moon' | 'in tension' | 'implausible' | 'no detectable signal';
 
 export type CheckId =
   | 'significance'
@@ -25,8 +29,21 @@ export interface VetCheck {
   source: string;
 }
 
-/** Median and central 1σ / 2σ intervals (quantiles 15.87/84.13 % and 2.275/97.725 %) of a Monte Carlo sample. */
+/**
+ * Median and central 1σ / 2σ intervals (quantiles 15.87/84.13 % and 2.275/97.725 %) of a Monte
+ * Carlo sample. null: at that quantile no moon can make the signal (e.g. a TTV needing a
+ * barycentric offset beyond the separation assumed), i.e. the value is unbounded.
+ */
 export interface QuantileSummary {
+  median: number | null;
+  lo1: number | null;
+  hi1: number | null;
+  lo2: number | null;
+  hi2: number | null;
+}
+
+/** The same inside the vetting, where an unbounded quantile is +Infinity (so comparisons with limits work). */
+export interface RawQuantileSummary {
   median: number;
   lo1: number;
   hi1: number;
@@ -93,23 +110,28 @@ export interface AmplitudeSignificance {
   expectedTdvPValue: number | null;
 }
 
-export interface ImpliedMoonSummary {
+/** The implied moon as reported: unbounded values are null (JSON has no Infinity). */
+export type ImpliedMoonSummary = ImpliedMoonOf<QuantileSummary, number | null>;
+/** The implied moon inside the vetting: unbounded values are +Infinity. */
+export type RawImpliedMoonSummary = ImpliedMoonOf<RawQuantileSummary, number>;
+
+export interface ImpliedMoonOf<Q, M> {
   mode: 'ttv+tdv' | 'ttv only' | 'tdv only';
   orientation: 'isotropic' | 'coplanar';
   draws: number;
   seed: number;
   /** With both amplitudes; null otherwise. */
-  moonPeriodS: QuantileSummary | null;
-  separationM: QuantileSummary | null;
+  moonPeriodS: Q | null;
+  separationM: Q | null;
   /** Mass (with one amplitude only: the lightest moon the stable band allows). */
-  massKg: QuantileSummary;
-  massRatio: QuantileSummary;
+  massKg: Q;
+  massRatio: Q;
   /** Separation at which `massKg` is evaluated in single-amplitude mode, m. */
   massAtSeparationM: number | null;
-  /** Mass for a coplanar orbit at the central amplitudes, kg. */
-  coplanarMassKg: number;
-  /** Single-amplitude degeneracy curve M_S(a_S) at the 2.3, 50 and 97.7 % amplitude quantiles. */
-  degeneracy: { separationM: number[]; massKg: number[]; massLoKg: number[]; massHiKg: number[] } | null;
+  /** Mass for a coplanar orbit at the central amplitudes, kg; null where the central amplitudes imply none. */
+  coplanarMassKg: number | null;
+  /** Single-amplitude degeneracy curve M_S(a_S) at the 2.3, 50 and 97.7 % amplitude quantiles (unbounded: no moon at that separation). */
+  degeneracy: { separationM: number[]; massKg: M[]; massLoKg: M[]; massHiKg: M[] } | null;
   note: string;
 }
 
@@ -151,6 +173,7 @@ export interface VetResult {
   amplitudes: { ttvRmsS: number | null; ttvRmsErrS: number | null; tdvRmsS: number | null; tdvRmsErrS: number | null };
   tableSignificance: TableSignificance | null;
   amplitudeSignificance: AmplitudeSignificance | null;
-  implied: ImpliedMoonSummary;
+  /** The implied moon; null when there is no detectable signal to explain. */
+  implied: ImpliedMoonSummary | null;
   series: TimingSeriesSummary | null;
 }

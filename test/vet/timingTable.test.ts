@@ -51,33 +51,75 @@ describe('parseTimingTable', () => {
   it('a malformed cell gets a message naming its line and column', () => {
     const text = csv(rows(times)).replace('3020.0999,0.5', '3020.0999,abc');
     const msg = problemsOf(() => parseTimingTable(text, 't.csv', 'BJD_TDB', P));
-    expect(msg).toContain('t.csv line 4, column 2 (time_err)');
+    expect(msg).toContain('t.csv row 3 (line 4), column 2 (time_err)');
     expect(msg).toContain('"abc"');
   });
 
   it('a row with the wrong number of fields names its line', () => {
     const text = csv(rows(times)).replace('3030.1001,0.5', '3030.1001');
-    expect(problemsOf(() => parseTimingTable(text, 't.csv', 'BJD_TDB', P))).toMatch(/t\.csv line 5: .*expected 2 fields/);
+    expect(problemsOf(() => parseTimingTable(text, 't.csv', 'BJD_TDB', P))).toMatch(/t\.csv row 4 \(line 5\): .*expected 2 fields/);
   });
 
   it('duplicate epochs are errors, given or inferred', () => {
     const given = 'epoch,time,time_err [s]\n' + times.map((t, i) => `${i === 3 ? 2 : i},${t},20`).join('\n');
-    expect(problemsOf(() => parseTimingTable(given, 't.csv', 'BJD_TDB', P))).toMatch(/line 5, column 1 \(epoch\).*duplicate epoch 2/);
+    expect(problemsOf(() => parseTimingTable(given, 't.csv', 'BJD_TDB', P))).toMatch(/row 4 \(line 5\), column 1 \(epoch\).*duplicate epoch 2 \(also row 3/);
     const inferred = csv(rows([3000.1, 3010.1, 3010.2, 3030.1, 3040.1, 3050.1]));
-    expect(problemsOf(() => parseTimingTable(inferred, 't.csv', 'BJD_TDB', P))).toMatch(/line 4, column 1 \(time\).*duplicate epoch 1/);
+    expect(problemsOf(() => parseTimingTable(inferred, 't.csv', 'BJD_TDB', P))).toMatch(/row 3 \(line 4\), column 1 \(time\).*duplicate epoch 1/);
   });
 
-  it('non-monotonic times and negative uncertainties are errors', () => {
+  it('unsorted rows are sorted by time (and say so); epochs that disagree with the time order and repeated times are errors', () => {
     const swapped = csv(rows([3000.1, 3020.1, 3010.1, 3030.1, 3040.1, 3050.1]));
-    expect(problemsOf(() => parseTimingTable(swapped, 't.csv', 'BJD_TDB', P))).toMatch(/line 4, column 1 \(time\).*non-monotonic/);
-    const negative = csv(rows(times)).replace('3040.1,0.5', '3040.1,-0.5');
-    expect(problemsOf(() => parseTimingTable(negative, 't.csv', 'BJD_TDB', P))).toMatch(/line 6, column 2 \(time_err\).*negative uncertainty/);
+    const t = parseTimingTable(swapped, 't.csv', 'BJD_TDB', P);
+    expect(t.reordered).toBe(true);
+    expect(Array.from(t.epochs)).toEqual([0, 1, 2, 3, 4, 5]);
+    expect(t.timeS[1]).toBeCloseTo(10 * DAY_S, 4);
+    expect(parseTimingTable(csv(rows(times)), 't.csv', 'BJD_TDB', P).reordered).toBe(false);
+    const crossed = 'epoch,time,time_err [s]\n' + [0, 2, 1, 3, 4, 5].map((e, i) => `${e},${3000.1 + 10 * i},20`).join('\n');
+    expect(problemsOf(() => parseTimingTable(crossed, 't.csv', 'BJD_TDB', P))).toMatch(/row 3 \(line 4\), column 1 \(epoch\): got 1; epochs must increase with time \(row 2/);
+    const repeated = csv(rows([3000.1, 3010.1, 3010.1, 3030.1, 3040.1, 3050.1]));
+    expect(problemsOf(() => parseTimingTable(repeated, 't.csv', 'BJD_TDB', P))).toMatch(/row 3 \(line 4\), column 1 \(time\).*repeated time \(also row 2/);
+  });
+
+  it('uncertainties that are zero, negative, NaN, Infinity or beyond a quarter period are field errors with the row', () => {
+    const withErr = (e: string) => csv(rows(times)).replace('3040.1,0.5', `3040.1,${e}`);
+    expect(problemsOf(() => parseTimingTable(withErr('-0.5'), 't.csv', 'BJD_TDB', P))).toMatch(/row 5 \(line 6\), column 2 \(time_err\): got "-0.5"; a negative uncertainty/);
+    expect(problemsOf(() => parseTimingTable(withErr('0'), 't.csv', 'BJD_TDB', P))).toMatch(/row 5 \(line 6\), column 2 \(time_err\): got "0"; a zero uncertainty/);
+    expect(problemsOf(() => parseTimingTable(withErr('NaN'), 't.csv', 'BJD_TDB', P))).toMatch(/row 5 \(line 6\), column 2 \(time_err\): got "NaN"; expected a finite number/);
+    expect(problemsOf(() => parseTimingTable(withErr('Infinity'), 't.csv', 'BJD_TDB', P))).toMatch(/row 5 .*"Infinity"; expected a finite number/);
+    // 1e308 min overflows a double in seconds; far beyond P/4 = 2.5 d anyway.
+    const huge = problemsOf(() => parseTimingTable(withErr('1e308'), 't.csv', 'BJD_TDB', P));
+    expect(huge).toMatch(/row 5 \(line 6\), column 2 \(time_err\): got "1e308 min"; expected from 1 ms to a quarter of planet\.period \(2\.5 d\)/);
+    expect(problemsOf(() => parseTimingTable(withErr('1e-9'), 't.csv', 'BJD_TDB', P))).toMatch(/row 5 .*from 1 ms/);
+  });
+
+  it('times outside BJD 0 … 1e7, absurd epochs and durations, and long cells are refused with a clipped value', () => {
+    const bad = csv(rows(times)).replace('3040.1,0.5', '1e308,0.5');
+    expect(problemsOf(() => parseTimingTable(bad, 't.csv', 'BJD_TDB', P))).toMatch(/row 5 \(line 6\), column 1 \(time\): got "1e308"; expected a BJD_TDB from 0 to 10000000 d/);
+    const epochs = 'epoch,time,time_err [s]\n' + times.map((t, i) => `${i === 2 ? 1e12 : i},${t},20`).join('\n');
+    expect(problemsOf(() => parseTimingTable(epochs, 't.csv', 'BJD_TDB', P))).toMatch(/row 3 .*\(epoch\).*from −10000000 to 10000000/);
+    const dur = 'time,time_err [s],duration [d],duration_err [min]\n' + times.map((t, i) => `${t},20,${i === 1 ? 6 : 0.2},3`).join('\n');
+    expect(problemsOf(() => parseTimingTable(dur, 't.csv', 'BJD_TDB', P))).toMatch(/row 2 .*\(duration\): got "6 d"; expected a positive duration shorter than half of planet\.period \(5 d\)/);
+    const long = csv(rows(times)).replace('3040.1,0.5', `3040.1,${'9'.repeat(5000)}x`);
+    const msg = problemsOf(() => parseTimingTable(long, 't.csv', 'BJD_TDB', P));
+    expect(msg.length).toBeLessThan(300);
+    expect(msg).toContain('…');
+  });
+
+  it('tables of 0, 1 or 2 rows, and more than the row or span limits, say the limit and why', () => {
+    for (const k of [0, 1, 2]) {
+      const msg = problemsOf(() => parseTimingTable(csv(rows(times.slice(0, k))), 't.csv', 'BJD_TDB', P));
+      expect(msg).toMatch(new RegExp(`got "${k} data rows?"; at least 6 transits: the no-moon ephemeris has 2 parameters`));
+    }
+    const many = csv(Array.from({ length: 20001 }, (_, i) => `${3000.1 + 10 * i},0.5`).join('\n'));
+    expect(problemsOf(() => parseTimingTable(many, 't.csv', 'BJD_TDB', P))).toMatch(/got "20001 data rows"; at most 20000 transits/);
+    const wide = 'epoch,time,time_err [s]\n' + times.map((t, i) => `${i * 20000},${3000.1 + i * 20000 * 10},20`).join('\n');
+    expect(problemsOf(() => parseTimingTable(wide, 't.csv', 'BJD_TDB', P))).toMatch(/epochs 0 to 100000 \(100000 orbits\).*at most 50000 orbits/);
   });
 
   it('an error column without a unit, an unknown column and too few rows are refused', () => {
     expect(problemsOf(() => parseTimingTable(`time,time_err\n${rows(times)}`, 't.csv', 'BJD_TDB', P))).toMatch(/line 1, column 2 \(time_err\).*give the unit/);
     expect(problemsOf(() => parseTimingTable(`time,time_err [s],colour\n${times.map((t) => `${t},5,red`).join('\n')}`, 't.csv', 'BJD_TDB', P))).toMatch(/column 3 \(colour\).*unknown column/);
-    expect(problemsOf(() => parseTimingTable(csv(rows(times.slice(0, 4))), 't.csv', 'BJD_TDB', P))).toMatch(/at least 6 transits/);
+    expect(problemsOf(() => parseTimingTable(csv(rows(times.slice(0, 4))), 't.csv', 'BJD_TDB', P))).toMatch(/got "4 data rows"; at least 6 transits/);
   });
 
   it('reads an ECSV table (space delimiter, units and time standard in the header)', () => {

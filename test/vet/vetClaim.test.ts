@@ -47,7 +47,7 @@ describe('vetClaim', () => {
     expect(r.checks.find((k) => k.id === 'stability')!.status).toBe('fail');
     expect(r.reasons[0]).toMatch(/^FAIL separation vs stable limits/);
     // The implied separation is the truth (orientation-free for a circular orbit, Kipping 2009a).
-    expect(r.implied.separationM!.median / (1.3 * rH)).toBeCloseTo(1, 1);
+    expect(r.implied!.separationM!.median! / (1.3 * rH)).toBeCloseTo(1, 1);
   });
 
   it('a claim whose moon dip would be ≥ 10σ at the stated precision but was not seen is "in tension"', () => {
@@ -92,17 +92,17 @@ describe('vetClaim', () => {
     const sep = 0.1 * rH;
     const both = withMoon(c0, mass, sep, 0.02);
     const r = vetClaim({ ...both, tdv: null, orientation: 'coplanar' });
-    expect(r.implied.mode).toBe('ttv only');
-    expect(r.implied.separationM).toBeNull();
+    expect(r.implied!.mode).toBe('ttv only');
+    expect(r.implied!.separationM).toBeNull();
     expect(r.checks.find((k) => k.id === 'stability')!.status).toBe('not tested');
-    const d = r.implied.degeneracy!;
+    const d = r.implied!.degeneracy!;
     // Interpolate the median curve (log–log) at the true separation: the truth (computed from constants in the test).
     const j = d.separationM.findIndex((a) => a > sep);
     const t = Math.log(sep / d.separationM[j - 1]) / Math.log(d.separationM[j] / d.separationM[j - 1]);
-    const m = Math.exp(Math.log(d.massKg[j - 1]) + t * Math.log(d.massKg[j] / d.massKg[j - 1]));
+    const m = Math.exp(Math.log(d.massKg[j - 1]!) + t * Math.log(d.massKg[j]! / d.massKg[j - 1]!));
     expect(m / mass).toBeCloseTo(1, 1);
     // The lightest moon (at the prograde stable limit) is lighter than the truth, which sits closer in.
-    expect(r.implied.massKg.median).toBeLessThan(mass);
+    expect(r.implied!.massKg.median).toBeLessThan(mass);
   });
 
   it('is deterministic for a seed, and fails are ranked before tensions', () => {
@@ -111,7 +111,7 @@ describe('vetClaim', () => {
     const claim = withMoon(c0, 0.3 * M_EARTH_KG, 1.3 * rH, 0.05);
     const a = vetClaim(claim);
     expect(vetClaim(claim)).toEqual(a);
-    expect(vetClaim({ ...claim, seed: 12 }).implied.massKg.median).not.toBe(a.implied.massKg.median);
+    expect(vetClaim({ ...claim, seed: 12 }).implied!.massKg.median).not.toBe(a.implied!.massKg.median);
     const firstTension = a.reasons.findIndex((s) => s.startsWith('TENSION'));
     const lastFail = a.reasons.map((s) => s.startsWith('FAIL')).lastIndexOf(true);
     // This claim also has a tension (its TDV is below the stated duration precision): listed after the fail.
