@@ -6,6 +6,7 @@ import { readBudgetFlags, type BudgetFlags } from '../budget/budgetSpec.js';
 import { formatBudget } from '../budget/formatBudget.js';
 import { renderBudgetPage } from '../budget/budgetPage.js';
 import type { CliIo } from './main.js';
+import { checkOutputFile } from '../io/outputPaths.js';
 
 export function registerBudget(program: Command, io: CliIo): void {
   program
@@ -31,6 +32,7 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--html <file>', 'also write a small HTML page: probability against the solved quantity, the chosen value marked')
     .option('--quiet', 'no progress lines')
     .action((scenarioPath: string, opts: BudgetFlags & { json?: boolean; html?: string; quiet?: boolean }) => {
+      if (opts.html !== undefined) checkOutputFile('--html', opts.html);
       const target = readBudgetFlags(opts);
       const result = planBudget(scenarioPath, target, { progress: opts.quiet ? undefined : (line) => io.err(line) });
       if (opts.html) writeFileAtomic(opts.html, renderBudgetPage(result));

@@ -10,6 +10,7 @@ import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderSimulatePage } from '../report/simulatePage.js';
 import { defaultOutDir } from './outputPaths.js';
 import type { CliIo } from './main.js';
+import { checkOutputDir } from '../io/outputPaths.js';
 
 export function registerSimulate(program: Command, io: CliIo): void {
   program
@@ -29,6 +30,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
         throw new InputError([{ path: '--realization', value: opts.realization, allowed: 'expected an integer ≥ 0' }]);
       }
       const scenario = loadScenario(scenarioPath);
+      checkOutputDir(opts.out === undefined ? 'output folder (default from the scenario name)' : '--out', opts.out ?? defaultOutDir(scenario.name));
       const noiseless = opts.noiseless === true;
       const sim = simulateScenario(scenario, { noiseless, realization });
       const outDir = opts.out ?? defaultOutDir(scenario.name);

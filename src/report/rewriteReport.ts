@@ -3,15 +3,18 @@
  * its `cells.json` (and `run.json`), without re-running any cell. The
  * scenario document (needed for the physical boundaries, example cells and
  * assumptions) comes from `scenarioPath`, else from `<dir>/scenario.yaml`
- * when present; either must hash to the sweep's scenario hash.
+ * when present; either must hash to the sweep's scenario hash. The cells are
+ * checked first (cellChecks.ts); the two files are written as one set under
+ * the folder's lock (outputFolder.ts).
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomic } from '../io/atomicWrite.js';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines } from '../scenario/loadScenario.js';
 import { scenarioHash } from '../sweep/canonicalJson.js';
 import { parseCellsJson, type SweepRunInfo } from '../sweep/outputs.js';
+import { acquireFolderLock, commitOutputs, settleStaging, STAGING_DIR } from '../sweep/outputFolder.js';
+import { capProblems, cellChecker, coverageProblems } from '../sweep/cellChecks.js';
 import { buildSummary, renderSummaryJson, type SweepSummary } from './summary.js';
 import { renderSweepReport } from './sweepReport.js';
 
@@ -36,6 +39,18 @@ function readScenarioDoc(path: string): unknown {
 }
 
 export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } = {}): RewriteReportResult {
+  if (!existsSync(join(dir, 'cells.json')) && !existsSync(join(dir, STAGING_DIR))) readText(join(dir, 'cells.json'), 'DIR');
+  // The page is rewritten in the folder: one command at a time there, and an interrupted write finished first.
+  const lock = acquireFolderLock(dir, 'moonsieve report');
+  try {
+    settleStaging(dir);
+    return rewriteLocked(dir, opts);
+  } finally {
+    lock.release();
+  }
+}
+
+function rewriteLocked(dir: string, opts: { scenarioPath?: string }): RewriteReportResult {
   const cellsPath = join(dir, 'cells.json');
   let parsed: ReturnType<typeof parseCellsJson>;
   try {
@@ -45,6 +60,13 @@ export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } 
     throw new InputError([{ path: 'DIR', value: cellsPath, allowed: `not a moonsieve cells.json (${e instanceof Error ? e.message : String(e)})` }]);
   }
   const { meta, cells } = parsed;
+  // Every cell a sound result of this grid, each exactly once (cellChecks.ts).
+  const checker = cellChecker(meta);
+  const problems = cells.flatMap((c, k) => checker.check(c, `cells.json cell ${k + 1}`));
+  if (problems.length === 0) {
+    problems.push(...coverageProblems(cells.map((c, k) => ({ index: c.index, where: `cells.json cell ${k + 1}` })), meta.cells, 'cells.json'));
+  }
+  if (problems.length > 0) throw new InputError(capProblems(problems), `${cellsPath} is damaged; re-run the sweep (or merge) that wrote it`);
   const runPath = join(dir, 'run.json');
   let runInfo: SweepRunInfo | null = null;
   if (existsSync(runPath)) {
@@ -75,8 +97,6 @@ export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } 
   }
   const summary = buildSummary(meta, cells);
   const html = renderSweepReport({ meta, cells, runInfo, scenario, summary });
-  const files = [join(dir, 'summary.json'), join(dir, 'report.html')];
-  writeFileAtomic(files[0], renderSummaryJson(summary));
-  writeFileAtomic(files[1], html);
+  const files = commitOutputs(dir, [['summary.json', renderSummaryJson(summary)], ['report.html', html]]);
   return { files, summary, scenarioSource };
 }
