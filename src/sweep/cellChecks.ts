@@ -20,14 +20,17 @@ import type { SweepMeta } from './sweepMeta.js';
 const PROBABILITY = /^(p_.+|forecast_(ttv|tdv|joint)|false_alarm_.+)$/;
 const SIMULATED_REQUIRED = ['p_ttv', 'p_tdv', 'p_dip', 'p_combined'];
 
-function short(v: unknown): string {
+/** The value for a message: numbers, booleans, null and missing as they are; text and objects cut to 40 characters. */
+function short(v: unknown): unknown {
+  if (v === undefined || v === null || typeof v === 'number' || typeof v === 'boolean') return v;
+  if (typeof v === 'string') return v.length > 40 ? v.slice(0, 37) + '...' : v;
   let s: string;
   try {
-    s = typeof v === 'string' ? JSON.stringify(v) : String(JSON.stringify(v));
+    s = JSON.stringify(v);
   } catch {
     s = String(v);
   }
-  return s.length > 40 ? s.slice(0, 37) + '...' : s;
+  return s.length > 40 ? s.slice(0, 37) + '...' : JSON.parse(s);
 }
 
 export interface CellChecker {

@@ -149,7 +149,7 @@ export function acquireFolderLock(dir: string, command: string): FolderLock {
         rmSync(aside, { force: true });
         continue;
       }
-      const where = h.host === info.host ? `pid ${h.pid}` : `pid ${h.pid} on host ${h.host}`;
+      const where = `pid ${h.pid} on host ${h.host}`;
       throw new InputError([{
         path: dir,
         value: `in use by ${where} since ${h.started} (${h.command})`,
