@@ -30,9 +30,13 @@ export const STAGING_DIR = '.moonsieve-staging';
 export const NULLSET_DIR = '.moonsieve-nullsets';
 const MANIFEST = 'manifest.json';
 
-/** Files a sweep folder may hold besides the outputs (checkpoint, lock, staging, no-moon sets). */
+/** What `moonsieve simulate` writes into the same default folder (reports/<scenario slug>/): not foreign to a sweep there. */
+export const SIMULATE_FILES = ['lightcurve.ecsv', 'lightcurve.csv', 'transits.ecsv', 'transits.csv', 'simulate.html'];
+
+/** Files a sweep folder may hold besides the outputs (checkpoint, lock, staging, no-moon sets, simulate's files). */
 export function isOwnFile(name: string, outputs: readonly string[], checkpoint: string): boolean {
   if (outputs.includes(name) || name === checkpoint || name === LOCK_FILE || name === STAGING_DIR || name === NULLSET_DIR) return true;
+  if (SIMULATE_FILES.includes(name)) return true;
   // Temporary files of writeFileAtomic and of the lock, and the probe of the path check, left by a kill.
   return /^\..+\.\d+\.\d+\.tmp$/.test(name) || /^\.moonsieve\.lock\..+$/.test(name) || /^\.moonsieve-probe-/.test(name);
 }
