@@ -244,8 +244,8 @@ export function commitOutputs(dir: string, files: ReadonlyArray<readonly [string
 }
 
 export interface FolderContents {
-  /** Scenario hashes found in the folder's cells.json, run.json and checkpoint header. */
-  hashes: Array<{ file: string; hash: string; scenario: string }>;
+  /** Scenario hashes found in the folder's cells.json, run.json and checkpoint header (with the shard, "K/N" or "all", where recorded). */
+  hashes: Array<{ file: string; hash: string; scenario: string; shard?: string }>;
   /** Files moonsieve did not write (names), including unreadable sweep files. */
   foreign: string[];
   checkpoint: boolean;
@@ -273,12 +273,19 @@ export function inspectFolder(dir: string, outputs: readonly string[], checkpoin
       const v = JSON.parse(name === checkpoint ? text.slice(0, text.indexOf('\n') >>> 0) : text) as Record<string, unknown>;
       const m = (name === 'run.json' ? v : (v.meta as Record<string, unknown> | undefined)) ?? {};
       if (typeof m.scenario_hash !== 'string') throw new Error('no scenario hash');
-      out.hashes.push({ file: name, hash: m.scenario_hash, scenario: String(m.scenario ?? '') });
+      const entry: FolderContents['hashes'][number] = { file: name, hash: m.scenario_hash, scenario: String(m.scenario ?? '') };
+      if (name !== 'cells.json') entry.shard = shardKey(v.shard);
+      out.hashes.push(entry);
     } catch {
       out.foreign.push(name);
     }
   }
   return out;
+}
+
+function shardKey(v: unknown): string {
+  const sh = v as { k?: unknown; n?: unknown } | null | undefined;
+  return sh && typeof sh === 'object' ? `${String(sh.k)}/${String(sh.n)}` : 'all';
 }
 
 function listSome(xs: readonly string[], max = 5): string {
@@ -291,7 +298,10 @@ function listSome(xs: readonly string[], max = 5): string {
  * scenario hash `hash`, or files moonsieve did not write. `option` names the
  * folder in the message (default "--out").
  */
-export function checkFolderOwner(dir: string, hash: string, outputs: readonly string[], checkpoint: string, force: boolean, opts: { option?: string; resume?: boolean } = {}): FolderContents {
+export function checkFolderOwner(
+  dir: string, hash: string, outputs: readonly string[], checkpoint: string, force: boolean,
+  opts: { option?: string; resume?: boolean; shard?: { k: number; n: number } | null } = {},
+): FolderContents {
   const option = opts.option ?? '--out';
   const c = inspectFolder(dir, outputs, checkpoint);
   if (force) return c;
@@ -304,6 +314,20 @@ export function checkFolderOwner(dir: string, hash: string, outputs: readonly st
       allowed: `holds the results of another sweep ("${other.scenario}", scenario hash ${other.hash.slice(0, 12)}…; this one's is ${hash.slice(0, 12)}…, from ${other.file}): ` +
         'choose another --out (the default folder comes from the scenario name, so two scenarios whose names give the same folder need their own --out), or pass --force to replace those results',
     }]);
+  }
+  if (opts.shard !== undefined && opts.shard !== null) {
+    // Another shard of the same sweep (or the whole grid) would be replaced by this run's part.
+    // (A whole-grid run or a merge holds every cell of a shard, so it may replace one.)
+    const mine = shardKey(opts.shard);
+    const part = c.hashes.find((h) => h.shard !== undefined && h.shard !== mine && !(opts.resume === true && h.file === checkpoint));
+    if (part) {
+      const what = (k: string): string => (k === 'all' ? 'the whole grid' : `shard ${k}`);
+      throw new InputError([{
+        path: option,
+        value: dir,
+        allowed: `holds ${what(part.shard as string)} of this sweep (${part.file}) and this run is ${what(mine)}: give each shard its own --out (then merge them), or pass --force to replace it`,
+      }]);
+    }
   }
   if (c.foreign.length > 0) {
     throw new InputError([{

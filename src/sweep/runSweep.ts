@@ -190,7 +190,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   if (!forecastOnly) checkNullRealizations(meta.null_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
   const outDir = options.out ?? defaultOutDir(scenario.name);
   checkOutputDir(options.out === undefined ? 'output folder (default from the scenario name)' : '--out', outDir);
-  checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true });
+  checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard });
   const cpPath = checkpointPath(outDir);
   const header = checkpointHeader(meta, shard);
   const runCells = shardCells(meta.cells, shard);
@@ -238,7 +238,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   const lock = acquireFolderLock(outDir, `moonsieve sweep ${typeof scenarioDocOrPath === 'string' ? scenarioDocOrPath : `"${scenario.name}"`}${shard ? ` --shard ${shard.k}/${shard.n}` : ''}`);
   try {
     settleStaging(outDir);
-    checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true }); // again, now that no other run can write
+    checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard }); // again, now that no other run can write
     const nullDir = join(outDir, NULLSET_DIR);
     if (existsSync(cpPath) && !options.resume) {
       if (!force) {
@@ -284,7 +284,8 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
         onCalibration: (e) => {
           if (e.stage === 'start') {
             calibrationStartMs = performance.now();
-            progress.note(`calibrating false alarms: ${e.plan.realizations} no-moon realizations (${e.plan.classes} scenario${e.plan.classes === 1 ? '' : 's'} without the moon, ${e.plan.chunks} chunks on ${e.threads} worker${e.threads === 1 ? '' : 's'})`);
+            const back = e.resumed > 0 ? `, ${e.resumed} of them read back from the interrupted run` : '';
+            progress.note(`calibrating false alarms: ${e.plan.realizations} no-moon realizations (${e.plan.classes} scenario${e.plan.classes === 1 ? '' : 's'} without the moon, ${e.plan.chunks} chunks on ${e.threads} worker${e.threads === 1 ? '' : 's'}${back})`);
           } else {
             progress.note(`false alarms calibrated: ${e.plan.realizations} no-moon realizations in ${formatDuration((performance.now() - calibrationStartMs) / 1000)}`);
           }
@@ -301,9 +302,6 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
     results.sort((a, b) => a.index - b.index);
     const complete = outcome.completed && results.length === runCells.length;
     progress.finish(results.length);
-    if (outcome.calibration && outcome.calibration.resumedRealizations > 0) {
-      progress.note(`${outcome.calibration.resumedRealizations} no-moon realizations were read back from the interrupted run`);
-    }
 
     const runInfo = runInfoOf(results, resumed.length, outcome.threads);
     let files: string[] = [];

@@ -53,7 +53,7 @@ export interface ExecuteOptions {
   /** Where finished chunks of no-moon realizations are saved and read back on a resume (nullStore.ts). */
   nullStore?: NullStore;
   /** Told when the pre-pass starts and when every null set is complete. */
-  onCalibration?: (e: { stage: 'start' | 'done'; plan: CalibrationPlan; threads: number }) => void;
+  onCalibration?: (e: { stage: 'start' | 'done'; plan: CalibrationPlan; threads: number; resumed: number }) => void;
 }
 
 /** What the calibration pre-pass did. */
@@ -286,7 +286,7 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
         live.set(entry.phase, sets);
         broadcast({ type: 'nullSets', sets });
         ph.ready = true;
-        if (--pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan: plan!, threads });
+        if (--pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan: plan!, threads, resumed: resumedRealizations });
         for (const v of [...idle]) dispatch(v);
       }
       dispatch(w);
@@ -308,8 +308,8 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
     }
     o.signal?.addEventListener('abort', onAbort, { once: true });
     if (plan) {
-      o.onCalibration?.({ stage: 'start', plan, threads });
-      if (pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan, threads });
+      o.onCalibration?.({ stage: 'start', plan, threads, resumed: resumedRealizations });
+      if (pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan, threads, resumed: resumedRealizations });
     }
     for (let t = 0; t < threads; t++) {
       const w = new Worker(script, { workerData: init });

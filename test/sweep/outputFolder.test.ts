@@ -263,3 +263,18 @@ describe('cells are checked in report and merge', () => {
     });
   }
 });
+
+describe('shards and folders', () => {
+  it('a shard is refused in a folder holding another shard of the same sweep; a merge there is fine', async () => {
+    const dir = join(tmp, 'shards-one-folder');
+    await runSweep(BASE, { ...q, out: dir, shard: '1/2' });
+    const before = snapshot(dir);
+    const msg = await refusal(runSweep(BASE, { ...q, out: dir, shard: '2/2' }));
+    expect(msg).toMatch(/holds shard 1\/2 of this sweep \(run\.json\) and this run is shard 2\/2: give each shard its own --out/);
+    expect(snapshot(dir)).toEqual(before);
+    const other = join(tmp, 'shards-two');
+    await runSweep(BASE, { ...q, out: other, shard: '2/2' });
+    const merged = mergeShards([dir, other], dir);
+    expect(merged.results).toHaveLength(6);
+  });
+});
