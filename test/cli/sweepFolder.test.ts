@@ -45,26 +45,26 @@ describe('sweep folder while running', () => {
     let done = false;
     const exited = new Promise<number | null>((r) => child.on('exit', (code) => { done = true; r(code); }));
     try {
-    // Wait until the calibration runs and has saved a chunk.
-    const t0 = Date.now();
-    while (!(existsSync(join(out, NULLSET_DIR)) && readdirSync(join(out, NULLSET_DIR)).some((f) => f.endsWith('.bin')))) {
-      if (Date.now() - t0 > 60_000) throw new Error(`no chunk saved; stderr: ${err}`);
-      await new Promise((r) => setTimeout(r, 100));
-    }
-    for (const extra of [[], ['--resume']]) {
-      const second = spawnSync(process.execPath, [BIN, 'sweep', join(tmp, 'slow.yaml'), '--out', out, '--quiet', ...extra], { encoding: 'utf8' });
-      expect(second.status).toBe(2);
-      expect(second.stderr).toContain(`in use by pid ${child.pid}`);
-      expect(second.stderr.trim().split('\n')).toHaveLength(1);
-    }
-    const tInt = Date.now();
-    child.kill('SIGINT');
-    expect(await exited).toBe(130);
-    expect(Date.now() - tInt).toBeLessThan(5000);
-    expect(err).toMatch(/interrupted: 0 of 2 cells done; resume with --resume/);
-    expect(existsSync(join(out, CHECKPOINT_FILE))).toBe(true);
-    expect(existsSync(join(out, LOCK_FILE))).toBe(false);
-    expect(readdirSync(join(out, NULLSET_DIR)).some((f) => f.endsWith('.bin'))).toBe(true);
+      // Wait until the calibration runs and has saved a chunk.
+      const t0 = Date.now();
+      while (!(existsSync(join(out, NULLSET_DIR)) && readdirSync(join(out, NULLSET_DIR)).some((f) => f.endsWith('.bin')))) {
+        if (Date.now() - t0 > 60_000) throw new Error(`no chunk saved; stderr: ${err}`);
+        await new Promise((r) => setTimeout(r, 100));
+      }
+      for (const extra of [[], ['--resume']]) {
+        const second = spawnSync(process.execPath, [BIN, 'sweep', join(tmp, 'slow.yaml'), '--out', out, '--quiet', ...extra], { encoding: 'utf8' });
+        expect(second.status).toBe(2);
+        expect(second.stderr).toContain(`in use by pid ${child.pid}`);
+        expect(second.stderr.trim().split('\n')).toHaveLength(1);
+      }
+      const tInt = Date.now();
+      child.kill('SIGINT');
+      expect(await exited).toBe(130);
+      expect(Date.now() - tInt).toBeLessThan(5000);
+      expect(err).toMatch(/interrupted: 0 of 2 cells done; resume with --resume/);
+      expect(existsSync(join(out, CHECKPOINT_FILE))).toBe(true);
+      expect(existsSync(join(out, LOCK_FILE))).toBe(false);
+      expect(readdirSync(join(out, NULLSET_DIR)).some((f) => f.endsWith('.bin'))).toBe(true);
     } finally {
       if (!done) child.kill('SIGKILL'); // never leave the child running when an assertion failed
     }
