@@ -15,6 +15,7 @@ import { scenarioHash } from '../sweep/canonicalJson.js';
 import { parseCellsJson, type SweepRunInfo } from '../sweep/outputs.js';
 import { acquireFolderLock, commitOutputs, settleStaging, STAGING_DIR } from '../sweep/outputFolder.js';
 import { capProblems, cellChecker, coverageProblems } from '../sweep/cellChecks.js';
+import { shardCells } from '../sweep/shard.js';
 import { buildSummary, renderSummaryJson, type SweepSummary } from './summary.js';
 import { renderSweepReport } from './sweepReport.js';
 
@@ -60,13 +61,6 @@ function rewriteLocked(dir: string, opts: { scenarioPath?: string }): RewriteRep
     throw new InputError([{ path: 'DIR', value: cellsPath, allowed: `not a moonsieve cells.json (${e instanceof Error ? e.message : String(e)})` }]);
   }
   const { meta, cells } = parsed;
-  // Every cell a sound result of this grid, each exactly once (cellChecks.ts).
-  const checker = cellChecker(meta);
-  const problems = cells.flatMap((c, k) => checker.check(c, `cells.json cell ${k + 1}`));
-  if (problems.length === 0) {
-    problems.push(...coverageProblems(cells.map((c, k) => ({ index: c.index, where: `cells.json cell ${k + 1}` })), meta.cells, 'cells.json'));
-  }
-  if (problems.length > 0) throw new InputError(capProblems(problems), `${cellsPath} is damaged; re-run the sweep (or merge) that wrote it`);
   const runPath = join(dir, 'run.json');
   let runInfo: SweepRunInfo | null = null;
   if (existsSync(runPath)) {
@@ -76,6 +70,15 @@ function rewriteLocked(dir: string, opts: { scenarioPath?: string }): RewriteRep
       runInfo = null;
     }
   }
+  // Every cell a sound result of this grid, each cell of the run (a shard's, when run.json names one) exactly once (cellChecks.ts).
+  const sh = runInfo?.shard;
+  const expected = sh && Number.isSafeInteger(sh.k) && Number.isSafeInteger(sh.n) && sh.k >= 1 && sh.k <= sh.n ? shardCells(meta.cells, sh) : meta.cells;
+  const checker = cellChecker(meta);
+  const problems = cells.flatMap((c, k) => checker.check(c, `cells.json cell ${k + 1}`));
+  if (problems.length === 0) {
+    problems.push(...coverageProblems(cells.map((c, k) => ({ index: c.index, where: `cells.json cell ${k + 1}` })), expected, 'cells.json'));
+  }
+  if (problems.length > 0) throw new InputError(capProblems(problems), `${cellsPath} is damaged; re-run the sweep (or merge) that wrote it`);
   let scenario: unknown = null;
   let scenarioSource: string | null = null;
   if (opts.scenarioPath !== undefined) {

@@ -113,7 +113,7 @@ export function coverageProblems(entries: ReadonlyArray<{ index: number; where: 
       continue;
     }
     if (want !== null && !want.has(e.index)) {
-      problems.push({ path: e.where, value: `cell ${e.index}`, allowed: `not a cell of ${what}` });
+      problems.push({ path: e.where, value: `cell ${e.index}`, allowed: `not a cell of the run that wrote ${what} (another shard's)` });
       continue;
     }
     first.set(e.index, e.where);

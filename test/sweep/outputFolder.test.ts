@@ -272,6 +272,13 @@ describe('shards and folders', () => {
     const msg = await refusal(runSweep(BASE, { ...q, out: dir, shard: '2/2' }));
     expect(msg).toMatch(/holds shard 1\/2 of this sweep \(run\.json\) and this run is shard 2\/2: give each shard its own --out/);
     expect(snapshot(dir)).toEqual(before);
+    // A shard's folder re-renders (its cells are the shard's, exactly once); a cell of another shard is refused.
+    expect(rewriteSweepReport(dir).summary.cells).toBe(3);
+    const two = join(tmp, 'shard-edited');
+    await runSweep(BASE, { ...q, out: two, shard: '1/2' });
+    const cellsPath = join(two, 'cells.json');
+    writeFileSync(cellsPath, readFileSync(cellsPath, 'utf8').replace(/"index":2,"coords":\[[^\]]*\]/, '"index":1,"coords":[5.972167867791379e+23,919772253.6733063]'));
+    expect(() => rewriteSweepReport(two)).toThrow(/got "cell 1"; not a cell of the run that wrote cells\.json/);
     const other = join(tmp, 'shards-two');
     await runSweep(BASE, { ...q, out: other, shard: '2/2' });
     const merged = mergeShards([dir, other], dir);
