@@ -285,3 +285,20 @@ describe('shards and folders', () => {
     expect(merged.results).toHaveLength(6);
   });
 });
+
+describe('report and merge respect a running sweep', () => {
+  it('report refuses a locked folder; merge refuses to read a folder being written', async () => {
+    const dir = join(tmp, 'busy');
+    await runSweep(BASE, { ...q, out: dir });
+    const lock = acquireFolderLock(dir, 'moonsieve sweep busy.yaml');
+    try {
+      const before = snapshot(dir);
+      expect(() => rewriteSweepReport(dir)).toThrow(/in use by pid \d+ on host .* \(moonsieve sweep busy\.yaml\)/);
+      expect(() => mergeShards([dir], join(tmp, 'busy-merged'))).toThrow(/a run is writing this folder now \(pid \d+/);
+      expect(snapshot(dir)).toEqual(before);
+    } finally {
+      lock.release();
+    }
+    expect(rewriteSweepReport(dir).files).toHaveLength(2);
+  });
+});
