@@ -9,8 +9,9 @@
  * same numbers a fresh computation gives (the results stay byte-identical).
  *
  * File: little-endian float64 values [n, bins, ttv(n), tdv(n), x0S(n),
- * binS(n), sigma(n), binOffset(n + 1), sum(bins), count(bins)], written
- * atomically; a file whose length does not match is ignored (recomputed).
+ * binS(n), sigma(n), binOffset(n + 1), sum(bins), count(bins)], then the
+ * SHA-256 of the class key's hash and those bytes; written atomically. A file
+ * whose length or digest does not match is ignored (its range is recomputed).
  */
 import { createHash } from 'node:crypto';
 import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
@@ -30,7 +31,11 @@ function keyHash(key: string): string {
   return createHash('sha256').update(key).digest('hex');
 }
 
-function encode(r: PackedNullRange): Buffer {
+function digest(hash: string, payload: Uint8Array): Buffer {
+  return createHash('sha256').update(hash).update(payload).digest();
+}
+
+function encode(hash: string, r: PackedNullRange): Buffer {
   const n = r.n;
   const bins = r.binOffset[n];
   const out = new Float64Array(2 + 5 * n + (n + 1) + 2 * bins);
@@ -41,11 +46,14 @@ function encode(r: PackedNullRange): Buffer {
     out.set(a, at);
     at += a.length;
   }
-  return Buffer.from(out.buffer, out.byteOffset, out.byteLength);
+  const payload = Buffer.from(out.buffer, out.byteOffset, out.byteLength);
+  return Buffer.concat([payload, digest(hash, payload)]);
 }
 
-function decode(buf: Buffer, start: number): PackedNullRange | null {
-  if (buf.byteLength % 8 !== 0 || buf.byteLength < 16) return null;
+function decode(hash: string, file: Buffer, start: number): PackedNullRange | null {
+  if (file.byteLength < 48) return null;
+  const buf = file.subarray(0, file.byteLength - 32);
+  if (buf.byteLength % 8 !== 0 || !digest(hash, buf).equals(file.subarray(file.byteLength - 32))) return null;
   const all = new Float64Array(buf.byteLength / 8);
   new Uint8Array(all.buffer).set(buf);
   const n = all[0];
@@ -84,7 +92,8 @@ export function openNullStore(dir: string): NullStore {
     load(key, count) {
       const out: PackedNullRange[] = [];
       let end = 0;
-      for (const e of list(keyHash(key))) {
+      const hash = keyHash(key);
+      for (const e of list(hash)) {
         if (e.start < end || e.n < 1 || e.start + e.n > count) continue;
         let buf: Buffer;
         try {
@@ -92,7 +101,7 @@ export function openNullStore(dir: string): NullStore {
         } catch {
           continue;
         }
-        const r = decode(buf, e.start);
+        const r = decode(hash, buf, e.start);
         if (r === null || r.n !== e.n) continue;
         out.push(r);
         end = e.start + e.n;
@@ -101,7 +110,8 @@ export function openNullStore(dir: string): NullStore {
     },
     save(key, range) {
       mkdirSync(dir, { recursive: true });
-      writeFileAtomic(join(dir, `${keyHash(key)}-${range.start}-${range.n}.bin`), encode(range));
+      const hash = keyHash(key);
+      writeFileAtomic(join(dir, `${hash}-${range.start}-${range.n}.bin`), encode(hash, range));
     },
     drop(key) {
       for (const e of list(keyHash(key))) rmSync(join(dir, e.file), { force: true });

@@ -7,7 +7,7 @@
  * or arithmetic in the test ("common practice, no source").
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runSweep } from '../../src/sweep/runSweep.js';
@@ -146,6 +146,13 @@ describe('the no-moon calibration sets are saved for a resume', () => {
     expect(back.start).toBe(5);
     for (const f of ['ttv', 'tdv', 'x0S', 'binS', 'sigma', 'binOffset', 'sum', 'count'] as const) expect(Array.from(back[f])).toEqual(Array.from(r[f]));
     expect(store.load(c.key, 7)).toEqual([]); // a range beyond a smaller class is not used
+    // A damaged file (one byte changed) is not used: its range is computed again.
+    const file = join(tmp, 'store', readdirSync(join(tmp, 'store')).find((f) => f.endsWith('.bin'))!);
+    const bytes = readFileSync(file);
+    bytes[20] ^= 1;
+    writeFileSync(file, bytes);
+    expect(store.load(c.key, 20)).toEqual([]);
+    store.save(c.key, r);
     store.drop(c.key);
     expect(store.load(c.key, 20)).toEqual([]);
   });
