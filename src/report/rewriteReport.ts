@@ -16,6 +16,7 @@ import { parseCellsJson, type SweepRunInfo } from '../sweep/outputs.js';
 import { acquireFolderLock, commitOutputs, settleStaging, STAGING_DIR } from '../sweep/outputFolder.js';
 import { capProblems, cellChecker, coverageProblems } from '../sweep/cellChecks.js';
 import { shardCells } from '../sweep/shard.js';
+import { checkOutputDir } from '../io/outputPaths.js';
 import { buildSummary, renderSummaryJson, type SweepSummary } from './summary.js';
 import { renderSweepReport } from './sweepReport.js';
 
@@ -41,6 +42,7 @@ function readScenarioDoc(path: string): unknown {
 
 export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } = {}): RewriteReportResult {
   if (!existsSync(join(dir, 'cells.json')) && !existsSync(join(dir, STAGING_DIR))) readText(join(dir, 'cells.json'), 'DIR');
+  checkOutputDir('DIR', dir); // the page is written there
   // The page is rewritten in the folder: one command at a time there, and an interrupted write finished first.
   const lock = acquireFolderLock(dir, 'moonsieve report');
   try {
