@@ -45,7 +45,9 @@ export function registerSweep(program: Command, io: CliIo): void {
           progress: { write: (t: string) => io.err(t), isTTY: process.stderr.isTTY === true },
         });
         if (!res.complete) {
-          const message = `interrupted: ${res.cellsDone} of ${res.cellsInRun} cells done; resume with --resume`;
+          const message = res.checkpointKept
+            ? `interrupted: ${res.cellsDone} of ${res.cellsInRun} cells done; resume with --resume`
+            : 'interrupted while checking the grid, before any work: nothing was written';
           io.err(message + '\n');
           throw new SweepInterruptedError(message);
         }

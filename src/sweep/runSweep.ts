@@ -77,6 +77,8 @@ export interface SweepOutcome {
   runInfo: SweepRunInfo;
   /** False when interrupted: the checkpoint is kept and no outputs are written. */
   complete: boolean;
+  /** Whether a checkpoint was left to resume from (false when complete, or stopped before any was written). */
+  checkpointKept: boolean;
   outDir: string;
   /** Output files written (empty when interrupted). */
   files: string[];
@@ -231,7 +233,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
     node_version: process.version,
   });
   if (checked.aborted) {
-    return { results: [], runInfo: runInfoOf([], 0, 0), complete: false, outDir, files: [], meta, cellsInRun: runCells.length, cellsDone: 0, calibration: null };
+    return { results: [], runInfo: runInfoOf([], 0, 0), complete: false, checkpointKept: false, outDir, files: [], meta, cellsInRun: runCells.length, cellsDone: 0, calibration: null };
   }
 
   // One run per folder: held until the outputs are written (or the run stops).
@@ -310,7 +312,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
       removeCheckpoint(cpPath);
       rmSync(nullDir, { recursive: true, force: true });
     }
-    return { results, runInfo, complete, outDir, files, meta, cellsInRun: runCells.length, cellsDone: results.length, calibration: outcome.calibration };
+    return { results, runInfo, complete, checkpointKept: !complete, outDir, files, meta, cellsInRun: runCells.length, cellsDone: results.length, calibration: outcome.calibration };
   } finally {
     lock.release();
   }

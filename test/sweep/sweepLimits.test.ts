@@ -105,6 +105,7 @@ describe('size limits', () => {
     const res = await runSweep({ ...BASE, sweep: { ...BASE.sweep, axes } }, { quiet: true, env: {}, out, runner: fake, signal: controller.signal });
     expect(res.complete).toBe(false);
     expect(res.cellsDone).toBe(0);
+    expect(res.checkpointKept).toBe(false);
     expect(performance.now() - t0).toBeLessThan(2000); // 40 000 cells take ~4 s to validate
     expect(existsSync(out)).toBe(false);
   });
