@@ -78,7 +78,8 @@ function rewriteLocked(dir: string, opts: { scenarioPath?: string }): RewriteRep
   const checker = cellChecker(meta);
   const problems = cells.flatMap((c, k) => checker.check(c, `cells.json cell ${k + 1}`));
   if (problems.length === 0) {
-    problems.push(...coverageProblems(cells.map((c, k) => ({ index: c.index, where: `cells.json cell ${k + 1}` })), expected, 'cells.json'));
+    // A loop, not a spread: a damaged file can give a problem per cell.
+    for (const p of coverageProblems(cells.map((c, k) => ({ index: c.index, where: `cells.json cell ${k + 1}` })), expected, 'cells.json')) problems.push(p);
   }
   if (problems.length > 0) throw new InputError(capProblems(problems), `${cellsPath} is damaged; re-run the sweep (or merge) that wrote it`);
   let scenario: unknown = null;
