@@ -22,7 +22,7 @@ import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
 import { describeValue, InputError, type FieldProblem } from '../scenario/errors.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 import { axisDisplay, formatDisplay } from '../report/axisDisplay.js';
-import { checkGridSize, checkNullRealizations } from './sizeLimits.js';
+import { checkGridSize, checkNullRealizations, MAX_NULL_REALIZATIONS } from './sizeLimits.js';
 import { acquireFolderLock, checkFolderOwner, NULLSET_DIR, settleStaging } from './outputFolder.js';
 import { openNullStore } from './nullStore.js';
 import { parseScenario } from '../scenario/parseScenario.js';
@@ -135,7 +135,6 @@ async function validateCells(
   const classes = new Map<number, { key: string; count: number } | null>();
   const bad: FieldProblem[] = [];
   let badCells = 0;
-  const countsSeen = new Set<number>();
   for (let i = 0; i < total; i++) {
     if (i % 256 === 255) {
       // Let Ctrl-C (and other events) through on large grids.
@@ -149,8 +148,7 @@ async function validateCells(
       if (withClasses && classCells.has(i)) {
         const c = nullClassOf(task, job.ctx);
         classes.set(i, c === null ? null : { key: c.key, count: c.count });
-        if (c !== null && !countsSeen.has(c.count)) {
-          countsSeen.add(c.count);
+        if (c !== null && c.count > MAX_NULL_REALIZATIONS) {
           checkNullRealizations(c.count, parseScenario(task.scenarioDoc).detection.falseAlarm, job.ctx.nullRealizations !== undefined);
         }
       }
@@ -189,7 +187,10 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   // Sizes first: nothing is parsed per cell nor written before a run known to fit.
   checkGridSize(spec.axes.map((a) => a.values.length));
   const meta = buildSweepMeta(scenario, hash, spec, forecastOnly);
-  if (!forecastOnly) checkNullRealizations(meta.null_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
+  // (With a false-alarm axis each cell's own count is checked with the cells below.)
+  if (!forecastOnly && !spec.axes.some((a) => a.field === 'detection.false_alarm')) {
+    checkNullRealizations(meta.null_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
+  }
   const outDir = options.out ?? defaultOutDir(scenario.name);
   checkOutputDir(options.out === undefined ? 'output folder (default from the scenario name)' : '--out', outDir);
   checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard });

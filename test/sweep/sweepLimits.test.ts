@@ -112,6 +112,14 @@ describe('size limits', () => {
 });
 
 describe('every grid cell is validated before any work', () => {
+  it('with a false-alarm axis, each cell whose α needs too many no-moon realizations is named', async () => {
+    const axes = [{ field: 'detection.false_alarm', from: 1e-9, to: 1e-2, count: 3, spacing: 'log' }, BASE.sweep.axes[1]];
+    const msg = await refused({ ...BASE, sweep: { ...BASE.sweep, null_realizations: undefined, axes } }, join(tmp, 'fa-axis'));
+    expect(msg).toMatch(/^4 of 6 grid cells are invalid/);
+    expect(msg).toMatch(/cell 0 \(detection\.false_alarm = 1\.00e-9, .*10\/α = 1\.00e10 no-moon realizations/);
+    expect(msg).toMatch(/cell 3 \(detection\.false_alarm = 3\.16e-6, .*10\/α = 3\.16e6/);
+  });
+
   // Each endpoint is valid with the other field's base value, but a 40 000 km orbit
   // lies inside the 0.65 and 1 R_J planets (planet radius + moon radius > separation).
   const BAD = {
