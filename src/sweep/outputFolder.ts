@@ -37,6 +37,8 @@ export const SIMULATE_FILES = ['lightcurve.ecsv', 'lightcurve.csv', 'transits.ec
 export function isOwnFile(name: string, outputs: readonly string[], checkpoint: string): boolean {
   if (outputs.includes(name) || name === checkpoint || name === LOCK_FILE || name === STAGING_DIR || name === NULLSET_DIR) return true;
   if (SIMULATE_FILES.includes(name)) return true;
+  // What file browsers leave in a folder someone opened: not a user's data.
+  if (name === '.DS_Store' || name === 'Thumbs.db' || name === 'desktop.ini') return true;
   // Temporary files of writeFileAtomic and of the lock, and the probe of the path check, left by a kill.
   return /^\..+\.\d+\.\d+\.tmp$/.test(name) || /^\.moonsieve\.lock\..+$/.test(name) || /^\.moonsieve-probe-/.test(name);
 }
