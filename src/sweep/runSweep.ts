@@ -159,7 +159,7 @@ async function validateCells(
         const first = e.problems[0];
         bad.push({
           path: where(),
-          value: first?.value,
+          value: typeof first?.value === 'string' && first.value.length > 60 ? first.value.slice(0, 57) + '...' : first?.value,
           allowed: e.problems.map((p, k) => (k === 0 ? `${p.path}: ${p.allowed}` : `also ${p.path} = ${describeValue(p.value)}: ${p.allowed}`)).join('; '),
         });
       }
