@@ -6,41 +6,8 @@ import { readBudgetFlags, type BudgetFlags } from '../budget/budgetSpec.js';
 import { formatBudget } from '../budget/formatBudget.js';
 import { renderBudgetPage } from '../budget/budgetPage.js';
 import type { CliIo } from './main.js';
-import { accessSync, constants, statSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
 import { InputError } from '../scenario/errors.js';
-
-/**
- * Refuse, before any work, an --html path that cannot be written as a file: empty, an existing
- * folder, a path under a file, or under a folder this process may not write.
- */
-function statOrNull(p: string): ReturnType<typeof statSync> | null {
-  try {
-    return statSync(p, { throwIfNoEntry: false }) ?? null;
-  } catch {
-    return null; // ENOTDIR and the like: treated as missing, the walk up finds the file in the way
-  }
-}
-
-function checkHtmlPath(path: string): void {
-  const bad = (allowed: string) => new InputError([{ path: '--html', value: path.length > 80 ? `${path.slice(0, 80)}…` : path, allowed }]);
-  if (path.trim() === '') throw bad('expected a file name for the page, e.g. budget.html');
-  const full = resolve(path);
-  const stat = statOrNull(full);
-  if (stat?.isDirectory()) throw bad(`is a folder; give a file name, e.g. ${full.replace(/\/$/, '')}/budget.html`);
-  let dir = dirname(full);
-  let d = statOrNull(dir);
-  while (!d && dirname(dir) !== dir) {
-    dir = dirname(dir);
-    d = statOrNull(dir);
-  }
-  if (d && !d.isDirectory()) throw bad(`${dir} is a file, not a folder: the page cannot be written under it`);
-  try {
-    accessSync(stat ? full : dir, constants.W_OK);
-  } catch {
-    throw bad(`${stat ? full : dir} is not writable by this user`);
-  }
-}
+import { checkOutputFile } from '../io/outputPaths.js';
 
 export function registerBudget(program: Command, io: CliIo): void {
   program
@@ -66,7 +33,7 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--html <file>', 'also write a small HTML page: probability against the solved quantity, the chosen value marked')
     .option('--quiet', 'no progress lines')
     .action((scenarioPath: string, opts: BudgetFlags & { json?: boolean; html?: string; quiet?: boolean }) => {
-      if (opts.html !== undefined) checkHtmlPath(opts.html);
+      if (opts.html !== undefined) checkOutputFile('--html', opts.html);
       const target = readBudgetFlags(opts);
       const result = planBudget(scenarioPath, target, { progress: opts.quiet ? undefined : (line) => io.err(line) });
       if (opts.html) {

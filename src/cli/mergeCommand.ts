@@ -9,8 +9,9 @@ export function registerMerge(program: Command, io: CliIo): void {
     .description('joins shard outputs of one sweep into one result, identical to an unsharded run')
     .argument('<dirs...>', 'output folders of the shards (each with cells.json and run.json)')
     .option('--out <dir>', 'output folder (default reports/<scenario name>/)')
-    .action((dirs: string[], opts: { out?: string }) => {
-      const res = mergeShards(dirs, opts.out);
+    .option('--force', 'write into a folder holding another sweep\'s results or other files')
+    .action((dirs: string[], opts: { out?: string; force?: boolean }) => {
+      const res = mergeShards(dirs, opts.out, { force: opts.force === true });
       io.out(`${res.meta.scenario}: merged ${dirs.length} folders, ${res.results.length} of ${res.meta.cells} cells\n`);
       for (const f of res.files) io.out(`wrote ${f}\n`);
     });

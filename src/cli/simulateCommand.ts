@@ -11,6 +11,7 @@ import { renderSimulatePage } from '../report/simulatePage.js';
 import { assertObservable, windowsOverlap } from '../photometry/transitWindows.js';
 import { defaultOutDir } from './outputPaths.js';
 import type { CliIo } from './main.js';
+import { checkOutputDir } from '../io/outputPaths.js';
 
 export function registerSimulate(program: Command, io: CliIo): void {
   program
@@ -31,6 +32,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
         throw new InputError([{ path: '--realization', value: opts.realization.length > 40 ? `${opts.realization.slice(0, 40)}…` : opts.realization, allowed: `expected a whole number from 0 to ${Number.MAX_SAFE_INTEGER}, written in digits` }]);
       }
       const scenario = loadScenario(scenarioPath);
+      checkOutputDir(opts.out === undefined ? 'output folder (default from the scenario name)' : '--out', opts.out ?? defaultOutDir(scenario.name));
       assertObservable(scenario, scenarioPath);
       const noiseless = opts.noiseless === true;
       const sim = simulateScenario(scenario, { noiseless, realization });

@@ -9,6 +9,7 @@ interface SweepCliOptions {
   workers?: string;
   shard?: string;
   resume?: boolean;
+  force?: boolean;
   forecastOnly?: boolean;
   quiet?: boolean;
 }
@@ -22,25 +23,31 @@ export function registerSweep(program: Command, io: CliIo): void {
     .option('--workers <n>', 'worker threads (default SLURM_CPUS_PER_TASK, else every core)')
     .option('--shard <K/N>', 'run only cells with index mod N = K−1 (default from SLURM_ARRAY_TASK_ID/COUNT)')
     .option('--resume', 'continue an interrupted sweep from the checkpoint in --out')
+    .option('--force', 'write into a folder holding another sweep\'s results or other files, or discard its checkpoint and start afresh')
     .option('--forecast-only', 'fill the grid from the analytic forecast alone (seconds)')
     .option('--quiet', 'no progress output')
     .action(async (scenarioPath: string, opts: SweepCliOptions) => {
       const controller = new AbortController();
+      // Ctrl-C, and the SIGTERM a batch system sends at a time limit: stop, keep the checkpoint, release the folder.
       const onSigint = (): void => controller.abort();
       process.on('SIGINT', onSigint);
+      process.on('SIGTERM', onSigint);
       try {
         const res = await runSweep(scenarioPath, {
           out: opts.out,
           workers: opts.workers,
           shard: opts.shard,
           resume: opts.resume === true,
+          force: opts.force === true,
           forecastOnly: opts.forecastOnly === true,
           quiet: opts.quiet === true,
           signal: controller.signal,
           progress: { write: (t: string) => io.err(t), isTTY: process.stderr.isTTY === true },
         });
         if (!res.complete) {
-          const message = `interrupted: ${res.cellsDone} of ${res.cellsInRun} cells done; resume with --resume`;
+          const message = res.checkpointKept
+            ? `interrupted: ${res.cellsDone} of ${res.cellsInRun} cells done; resume with --resume`
+            : 'interrupted while checking the grid, before any work: nothing was written';
           io.err(message + '\n');
           throw new SweepInterruptedError(message);
         }
@@ -55,6 +62,7 @@ export function registerSweep(program: Command, io: CliIo): void {
         if (info.shard) io.out(`when every shard is done: moonsieve merge <the ${info.shard.n} shard folders> --out <dir>\n`);
       } finally {
         process.off('SIGINT', onSigint);
+        process.off('SIGTERM', onSigint);
       }
     });
 }

@@ -6,6 +6,7 @@ import { vetClaim } from '../vet/vetClaim.js';
 import { formatVetReport } from '../vet/formatVetReport.js';
 import { renderVetPage } from '../vet/vetPage.js';
 import type { CliIo } from './main.js';
+import { checkOutputFile } from '../io/outputPaths.js';
 
 export function registerVet(program: Command, io: CliIo): void {
   program
@@ -15,6 +16,7 @@ export function registerVet(program: Command, io: CliIo): void {
     .option('--json', 'print the result as JSON (SI units) instead of the text report')
     .option('--html <file>', 'also write a self-contained HTML page with plots')
     .action((claimPath: string, opts: { json?: boolean; html?: string }) => {
+      if (opts.html !== undefined) checkOutputFile('--html', opts.html);
       const claim = loadClaim(claimPath);
       const result = vetClaim(claim);
       const page = opts.html ? renderVetPage(result) : null;

@@ -3,15 +3,20 @@
  * its `cells.json` (and `run.json`), without re-running any cell. The
  * scenario document (needed for the physical boundaries, example cells and
  * assumptions) comes from `scenarioPath`, else from `<dir>/scenario.yaml`
- * when present; either must hash to the sweep's scenario hash.
+ * when present; either must hash to the sweep's scenario hash. The cells are
+ * checked first (cellChecks.ts); the two files are written as one set under
+ * the folder's lock (outputFolder.ts).
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomic } from '../io/atomicWrite.js';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines } from '../scenario/loadScenario.js';
 import { scenarioHash } from '../sweep/canonicalJson.js';
 import { parseCellsJson, type SweepRunInfo } from '../sweep/outputs.js';
+import { acquireFolderLock, commitOutputs, settleStaging, STAGING_DIR } from '../sweep/outputFolder.js';
+import { capProblems, cellChecker, coverageProblems } from '../sweep/cellChecks.js';
+import { shardCells } from '../sweep/shard.js';
+import { checkOutputDir } from '../io/outputPaths.js';
 import { buildSummary, renderSummaryJson, type SweepSummary } from './summary.js';
 import { renderSweepReport } from './sweepReport.js';
 
@@ -36,6 +41,19 @@ function readScenarioDoc(path: string): unknown {
 }
 
 export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } = {}): RewriteReportResult {
+  if (!existsSync(join(dir, 'cells.json')) && !existsSync(join(dir, STAGING_DIR))) readText(join(dir, 'cells.json'), 'DIR');
+  checkOutputDir('DIR', dir); // the page is written there
+  // The page is rewritten in the folder: one command at a time there, and an interrupted write finished first.
+  const lock = acquireFolderLock(dir, 'moonsieve report');
+  try {
+    settleStaging(dir);
+    return rewriteLocked(dir, opts);
+  } finally {
+    lock.release();
+  }
+}
+
+function rewriteLocked(dir: string, opts: { scenarioPath?: string }): RewriteReportResult {
   const cellsPath = join(dir, 'cells.json');
   let parsed: ReturnType<typeof parseCellsJson>;
   try {
@@ -54,6 +72,16 @@ export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } 
       runInfo = null;
     }
   }
+  // Every cell a sound result of this grid, each cell of the run (a shard's, when run.json names one) exactly once (cellChecks.ts).
+  const sh = runInfo?.shard;
+  const expected = sh && Number.isSafeInteger(sh.k) && Number.isSafeInteger(sh.n) && sh.k >= 1 && sh.k <= sh.n ? shardCells(meta.cells, sh) : meta.cells;
+  const checker = cellChecker(meta);
+  const problems = cells.flatMap((c, k) => checker.check(c, `cells.json cell ${k + 1}`));
+  if (problems.length === 0) {
+    // A loop, not a spread: a damaged file can give a problem per cell.
+    for (const p of coverageProblems(cells.map((c, k) => ({ index: c.index, where: `cells.json cell ${k + 1}` })), expected, 'cells.json')) problems.push(p);
+  }
+  if (problems.length > 0) throw new InputError(capProblems(problems), `${cellsPath} is damaged; re-run the sweep (or merge) that wrote it`);
   let scenario: unknown = null;
   let scenarioSource: string | null = null;
   if (opts.scenarioPath !== undefined) {
@@ -75,8 +103,6 @@ export function rewriteSweepReport(dir: string, opts: { scenarioPath?: string } 
   }
   const summary = buildSummary(meta, cells);
   const html = renderSweepReport({ meta, cells, runInfo, scenario, summary });
-  const files = [join(dir, 'summary.json'), join(dir, 'report.html')];
-  writeFileAtomic(files[0], renderSummaryJson(summary));
-  writeFileAtomic(files[1], html);
+  const files = commitOutputs(dir, [['summary.json', renderSummaryJson(summary)], ['report.html', html]]);
   return { files, summary, scenarioSource };
 }

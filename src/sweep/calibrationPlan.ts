@@ -97,7 +97,8 @@ export function planCalibration(
       held = 0;
     }
     current.classes.push(plan);
-    current.cells.push(...members);
+    // A loop, not push(...members): a class can hold every cell of a large grid (a spread that long overflows the stack).
+    for (const m of members) current.cells.push(m);
     held += plan.count;
     realizations += plan.count;
     chunks += plan.chunks.length;

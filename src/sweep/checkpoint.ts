@@ -2,14 +2,17 @@
  * The streaming checkpoint `<out>/cells.partial.jsonl`: a header line that
  * identifies the sweep and shard, then one JSON line per finished cell,
  * appended as each cell ends. A kill can leave a truncated last line; a
- * resume ignores it (and any line that does not parse), keeps the first
- * result of each cell, rewrites the file clean and appends from there, so no
- * cell is lost or doubled.
+ * resume ignores it and a line repeated byte for byte, refuses any other
+ * damage (a line that does not parse, a cell outside the grid or the run,
+ * wrong coordinates, a probability outside [0, 1], two different results
+ * for one cell: cellChecks.ts), rewrites the file clean and appends from
+ * there, so no cell is lost or doubled.
  */
 import { closeSync, existsSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { writeFileAtomic } from '../io/atomicWrite.js';
-import { InputError } from '../scenario/errors.js';
+import { InputError, type FieldProblem } from '../scenario/errors.js';
+import { capProblems, cellChecker } from './cellChecks.js';
 import type { CellResult } from './cellTypes.js';
 import { metaDifferences, type SweepMeta } from './sweepMeta.js';
 import { shardText, type Shard } from './shard.js';
@@ -61,20 +64,45 @@ export function readCheckpoint(path: string, expected: CheckpointHeader, cellInR
       allowed: `belongs to a different sweep, so --resume cannot continue it: ${diffs.join('; ')} (checkpoint vs now). Use the same scenario and options, or another --out, or delete the checkpoint to start afresh`,
     }]);
   }
-  const seen = new Set<number>();
+  const checker = cellChecker(expected.meta);
+  const problems: FieldProblem[] = [];
+  const first = new Map<number, { line: number; text: string }>();
   const out: CellResult[] = [];
+  const name = basename(path);
   for (let i = 1; i < lines.length; i++) {
     const line = lines[i];
     if (line.trim() === '') continue;
-    let r: CellResult;
+    const where = `${name} line ${i + 1}`;
+    let r: unknown;
     try {
-      r = JSON.parse(line) as CellResult;
+      r = JSON.parse(line);
     } catch {
-      continue; // a line cut short by a kill
+      // The last line, with no newline after it, is one a kill cut short: dropped, the cell is run again.
+      if (i === lines.length - 1) continue;
+      problems.push({ path: where, value: line.slice(0, 40) + (line.length > 40 ? '...' : ''), allowed: 'not a JSON cell result (a damaged line in the middle of the checkpoint)' });
+      continue;
     }
-    if (!r || typeof r !== 'object' || !Number.isInteger(r.index) || !cellInRun(r.index) || seen.has(r.index)) continue;
-    seen.add(r.index);
-    out.push(r);
+    const p = checker.check(r, where);
+    if (p.length > 0) {
+      problems.push(...p);
+      continue;
+    }
+    const cell = r as CellResult;
+    if (!cellInRun(cell.index)) {
+      problems.push({ path: where, value: `cell ${cell.index}`, allowed: `not a cell of this run (${shardText(expected.shard)})` });
+      continue;
+    }
+    const prev = first.get(cell.index);
+    if (prev !== undefined) {
+      // The same line twice is harmless (the first is kept); two different results for one cell are not.
+      if (prev.text !== line) problems.push({ path: where, value: `cell ${cell.index}`, allowed: `a different result for this cell is already at line ${prev.line}: each cell must appear once` });
+      continue;
+    }
+    first.set(cell.index, { line: i + 1, text: line });
+    out.push(cell);
+  }
+  if (problems.length > 0) {
+    throw new InputError(capProblems(problems), `${path} is damaged, so --resume cannot trust it; remove the lines named (their cells are run again) or delete the file to start afresh`);
   }
   return out;
 }

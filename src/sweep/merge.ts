@@ -13,7 +13,10 @@ import { InputError, type FieldProblem } from '../scenario/errors.js';
 import { VERSION } from '../version.js';
 import type { CellResult } from './cellTypes.js';
 import { CHECKPOINT_FILE } from './checkpoint.js';
-import { parseCellsJson, writeSweepOutputs, type SweepRunInfo } from './outputs.js';
+import { OUTPUT_FILES, parseCellsJson, writeSweepOutputs, type SweepRunInfo } from './outputs.js';
+import { acquireFolderLock, checkFolderOwner, settleForReading, settleStaging } from './outputFolder.js';
+import { capProblems, cellChecker } from './cellChecks.js';
+import { checkOutputDir } from '../io/outputPaths.js';
 import { metaDifferences, type SweepMeta } from './sweepMeta.js';
 import { scenarioHash } from './canonicalJson.js';
 import { parse as parseYaml } from 'yaml';
@@ -55,6 +58,7 @@ function scenarioDocOf(dirs: readonly string[], hash: string): unknown | null {
 }
 
 function readShard(dir: string): ShardOutput {
+  settleForReading(dir, 'DIR');
   const path = join(dir, 'cells.json');
   if (!existsSync(path)) {
     const unfinished = existsSync(join(dir, CHECKPOINT_FILE));
@@ -78,8 +82,9 @@ function readShard(dir: string): ShardOutput {
   return { dir, meta: parsed.meta, cells: parsed.cells, run };
 }
 
-/** Merge shard folders `dirs` into `out` (default reports/<scenario slug>/). */
-export function mergeShards(dirs: readonly string[], out?: string): MergeOutcome {
+/** Merge shard folders `dirs` into `out` (default reports/<scenario slug>/); `force` as for a sweep's --out. */
+export function mergeShards(dirs: readonly string[], out?: string, opts: { force?: boolean } = {}): MergeOutcome {
+  if (out !== undefined) checkOutputDir('--out', out);
   const t0 = performance.now();
   const started = new Date().toISOString();
   if (dirs.length === 0) throw new InputError([{ path: 'DIR', value: undefined, allowed: 'give the output folders of the shards to merge' }]);
@@ -93,6 +98,11 @@ export function mergeShards(dirs: readonly string[], out?: string): MergeOutcome
     }
   }
   if (problems.length > 0) throw new InputError(problems, 'merge refused');
+
+  // Every cell of every shard must be a sound result of this grid (cellChecks.ts).
+  const checker = cellChecker(first.meta);
+  for (const s of shards) s.cells.forEach((c, k) => problems.push(...checker.check(c, `${join(s.dir, 'cells.json')} cell ${k + 1}`)));
+  if (problems.length > 0) throw new InputError(capProblems(problems), 'merge refused: damaged cells');
 
   const total = first.meta.cells;
   const owner = new Map<number, string>();
@@ -133,6 +143,9 @@ export function mergeShards(dirs: readonly string[], out?: string): MergeOutcome
   results.sort((a, b) => a.index - b.index);
   const meta = first.meta;
   const outDir = out ?? defaultOutDir(meta.scenario);
+  if (out === undefined) checkOutputDir('output folder (default from the scenario name)', outDir);
+  const force = opts.force === true;
+  checkFolderOwner(outDir, meta.scenario_hash, OUTPUT_FILES, CHECKPOINT_FILE, force);
   const runs = shards.map((s) => ({ dir: s.dir, run: s.run }));
   const num = (v: unknown): number => (typeof v === 'number' && Number.isFinite(v) ? v : 0);
   const runInfo: SweepRunInfo = {
@@ -156,6 +169,15 @@ export function mergeShards(dirs: readonly string[], out?: string): MergeOutcome
     node_version: process.version,
     merged_from: runs,
   };
-  const files = writeSweepOutputs(outDir, meta, results, runInfo, scenarioDocOf(shards.map((s) => s.dir), meta.scenario_hash));
+  const scenarioDoc = scenarioDocOf(shards.map((s) => s.dir), meta.scenario_hash);
+  const lock = acquireFolderLock(outDir, `moonsieve merge (${shards.length} folders)`);
+  let files: string[];
+  try {
+    settleStaging(outDir);
+    checkFolderOwner(outDir, meta.scenario_hash, OUTPUT_FILES, CHECKPOINT_FILE, force);
+    files = writeSweepOutputs(outDir, meta, results, runInfo, scenarioDoc);
+  } finally {
+    lock.release();
+  }
   return { outDir, files, meta, results, runInfo };
 }

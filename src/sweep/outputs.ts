@@ -11,8 +11,7 @@
  * - `summary.json` and `report.html`: the self-contained report (src/report/).
  * - `run.json`: how this run went (version, hash, seed, workers, shard, times).
  */
-import { join } from 'node:path';
-import { writeFileAtomic } from '../io/atomicWrite.js';
+import { commitOutputs } from './outputFolder.js';
 import { toEcsv, type EcsvDatatype, type TableColumn } from '../io/ecsv.js';
 import { stringify as stringifyYaml } from 'yaml';
 import { buildSummary, renderSummaryJson } from '../report/summary.js';
@@ -63,6 +62,14 @@ export function renderCellsJson(meta: SweepMeta, results: readonly CellResult[])
 export function parseCellsJson(text: string): { meta: SweepMeta; cells: CellResult[] } {
   const v = JSON.parse(text) as { meta?: SweepMeta; cells?: CellResult[] };
   if (!v || typeof v !== 'object' || !v.meta || !Array.isArray(v.cells)) throw new Error('not a moonsieve cells.json (no meta or cells)');
+  const m = v.meta as unknown as Record<string, unknown>;
+  const axes = m.axes as Array<{ values?: unknown }> | undefined;
+  const gridOk = Array.isArray(axes) && axes.length >= 1 &&
+    axes.every((a) => a && Array.isArray(a.values) && a.values.length >= 1 && (a.values as unknown[]).every((x) => typeof x === 'number' && Number.isFinite(x))) &&
+    Number.isSafeInteger(m.cells) && m.cells === axes.reduce((n, a) => n * (a.values as unknown[]).length, 1);
+  if (!gridOk) throw new Error('its meta does not describe a grid (axes with values, and cells = the product of their counts)');
+  if (!(Number.isSafeInteger(m.realizations) && (m.realizations as number) >= 1)) throw new Error(`its meta.realizations is not a whole number ≥ 1 (${String(m.realizations)})`);
+  if (typeof m.scenario_hash !== 'string') throw new Error('its meta has no scenario_hash');
   return { meta: v.meta, cells: v.cells };
 }
 
@@ -175,20 +182,22 @@ export function renderCellsEcsv(meta: SweepMeta, results: readonly CellResult[])
 }
 
 /**
- * Write every output of a sweep into `dir`, each file whole or not at all;
- * run.json last. Returns the paths written.
+ * Write every output of a sweep into `dir` as one set (outputFolder.ts:
+ * staged, then renamed into place), so the folder holds this set or the
+ * previous one, never a mixture. The caller holds the folder's lock.
+ * Returns the paths written.
  */
 export function writeSweepOutputs(dir: string, meta: SweepMeta, results: readonly CellResult[], run: SweepRunInfo, scenarioDoc: unknown | null): string[] {
   const summary = buildSummary(meta, results);
   // Everything is rendered before anything is written: nothing half-written on a failure.
   const files: Array<[string, string]> = [
-    [join(dir, 'cells.json'), renderCellsJson(meta, results)],
-    [join(dir, 'cells.ecsv'), renderCellsEcsv(meta, results)],
-    ...(scenarioDoc !== null ? ([[join(dir, 'scenario.yaml'), stringifyYaml(scenarioDoc)]] as Array<[string, string]>) : []),
-    [join(dir, 'summary.json'), renderSummaryJson(summary)],
-    [join(dir, 'report.html'), renderSweepReport({ meta, cells: results, runInfo: run, scenario: scenarioDoc, summary })],
-    [join(dir, 'run.json'), JSON.stringify(run, null, 2) + '\n'],
+    ['cells.json', renderCellsJson(meta, results)],
+    ['cells.ecsv', renderCellsEcsv(meta, results)],
+    ...(scenarioDoc !== null ? ([['scenario.yaml', stringifyYaml(scenarioDoc)]] as Array<[string, string]>) : []),
+    ['summary.json', renderSummaryJson(summary)],
+    ['report.html', renderSweepReport({ meta, cells: results, runInfo: run, scenario: scenarioDoc, summary })],
+    ['run.json', JSON.stringify(run, null, 2) + '\n'],
   ];
-  for (const [path, text] of files) writeFileAtomic(path, text);
-  return files.map(([p]) => p);
+  // Staged and renamed as one set; a previous set's file this one lacks (scenario.yaml) is removed.
+  return commitOutputs(dir, files, [...OUTPUT_FILES]);
 }

@@ -10,20 +10,28 @@
  * cells of this run need are computed first, once each, in chunks over the
  * workers (calibrationPlan.ts, workerPool.ts); they are seeded independently
  * of the worker, so this changes the speed, not the results.
+ * Before any work: the sizes are checked (sizeLimits.ts), every cell of the
+ * grid is parsed, and the output folder is checked and locked (outputFolder.ts).
  */
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
 import { availableParallelism } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { defaultOutDir } from '../cli/outputPaths.js';
 import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
-import { InputError } from '../scenario/errors.js';
+import { describeValue, InputError, type FieldProblem } from '../scenario/errors.js';
+import { checkOutputDir } from '../io/outputPaths.js';
+import { axisDisplay, formatDisplay } from '../report/axisDisplay.js';
+import { checkGridSize, checkNullRealizations, MAX_NULL_REALIZATIONS } from './sizeLimits.js';
+import { acquireFolderLock, checkFolderOwner, NULLSET_DIR, settleStaging } from './outputFolder.js';
+import { openNullStore } from './nullStore.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { VERSION } from '../version.js';
 import { scenarioHash } from './canonicalJson.js';
 import type { CellResult, CellRunner } from './cellTypes.js';
-import { checkpointHeader, checkpointPath, openCheckpoint, readCheckpoint, removeCheckpoint } from './checkpoint.js';
-import { writeSweepOutputs, type SweepRunInfo } from './outputs.js';
+import { CHECKPOINT_FILE, checkpointHeader, checkpointPath, openCheckpoint, readCheckpoint, removeCheckpoint } from './checkpoint.js';
+import { OUTPUT_FILES, writeSweepOutputs, type SweepRunInfo } from './outputs.js';
 import { createProgress, formatDuration, type ProgressStream } from './progress.js';
 import { inShard, resolveShard, shardCells, type Shard } from './shard.js';
 import { buildSweepMeta, type SweepMeta } from './sweepMeta.js';
@@ -42,6 +50,8 @@ export interface SweepOptions {
   resume?: boolean;
   /** Output folder (default reports/<scenario slug>/). */
   out?: string;
+  /** Write into a folder holding another sweep's results or other files, or discard its checkpoint. */
+  force?: boolean;
   /** No progress output. */
   quiet?: boolean;
   /** Fill cells from the analytic forecast only (passed to the runner). */
@@ -67,6 +77,8 @@ export interface SweepOutcome {
   runInfo: SweepRunInfo;
   /** False when interrupted: the checkpoint is kept and no outputs are written. */
   complete: boolean;
+  /** Whether a checkpoint was left to resume from (false when complete, or stopped before any was written). */
+  checkpointKept: boolean;
   outDir: string;
   /** Output files written (empty when interrupted). */
   files: string[];
@@ -114,6 +126,52 @@ export function loadSweep(scenarioDocOrPath: unknown): LoadedSweep {
   return { doc, scenario, spec: parseSweepSpec(doc, scenario, source), hash: scenarioHash(doc) };
 }
 
+/** One line per grid cell whose scenario is invalid, naming its axis values; plus the null classes of `classCells`. */
+async function validateCells(
+  job: CellJob, meta: SweepMeta, total: number, classCells: ReadonlySet<number>, withClasses: boolean, signal: AbortSignal | undefined,
+): Promise<{ aborted: boolean; classes: Map<number, { key: string; count: number } | null> }> {
+  const prepared = prepareJob(job);
+  const displays = meta.axes.map((a) => axisDisplay(a));
+  const classes = new Map<number, { key: string; count: number } | null>();
+  const bad: FieldProblem[] = [];
+  let badCells = 0;
+  for (let i = 0; i < total; i++) {
+    if (i % 256 === 255) {
+      // Let Ctrl-C (and other events) through on large grids.
+      await new Promise<void>((r) => setImmediate(r));
+      if (signal?.aborted) return { aborted: true, classes };
+    }
+    const task = cellTask(prepared, i);
+    const where = (): string => `cell ${i} (${meta.axes.map((a, k) => `${a.field} = ${formatDisplay(displays[k], task.coords[k])}`).join(', ')})`;
+    try {
+      parseScenario(task.scenarioDoc, `cell ${i}`);
+      if (withClasses && classCells.has(i)) {
+        const c = nullClassOf(task, job.ctx);
+        classes.set(i, c === null ? null : { key: c.key, count: c.count });
+        if (c !== null && c.count > MAX_NULL_REALIZATIONS) {
+          checkNullRealizations(c.count, parseScenario(task.scenarioDoc).detection.falseAlarm, job.ctx.nullRealizations !== undefined);
+        }
+      }
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      badCells++;
+      if (bad.length < 20) {
+        const first = e.problems[0];
+        bad.push({
+          path: where(),
+          value: typeof first?.value === 'string' && first.value.length > 60 ? first.value.slice(0, 57) + '...' : first?.value,
+          allowed: e.problems.map((p, k) => (k === 0 ? `${p.path}: ${p.allowed}` : `also ${p.path} = ${describeValue(p.value)}: ${p.allowed}`)).join('; '),
+        });
+      }
+    }
+  }
+  if (badCells > 0) {
+    if (badCells > bad.length) bad.push({ path: '…', value: `${badCells - bad.length} more cells`, allowed: 'invalid too (not listed)' });
+    throw new InputError(bad, `${badCells} of ${total} grid cells are invalid (change the axis ranges so every cell is a valid scenario); nothing was run`);
+  }
+  return { aborted: false, classes };
+}
+
 export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions = {}): Promise<SweepOutcome> {
   const startedMs = Date.now();
   const t0 = performance.now();
@@ -125,31 +183,21 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
     throw new RangeError(`maxCells must be an integer ≥ 0, got ${options.maxCells}`);
   }
   const forecastOnly = options.forecastOnly === true;
+  const force = options.force === true;
+  // Sizes first: nothing is parsed per cell nor written before a run known to fit.
+  checkGridSize(spec.axes.map((a) => a.values.length));
   const meta = buildSweepMeta(scenario, hash, spec, forecastOnly);
+  // (With a false-alarm axis each cell's own count is checked with the cells below.)
+  if (!forecastOnly && !spec.axes.some((a) => a.field === 'detection.false_alarm')) {
+    checkNullRealizations(meta.null_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
+  }
   const outDir = options.out ?? defaultOutDir(scenario.name);
+  checkOutputDir(options.out === undefined ? 'output folder (default from the scenario name)' : '--out', outDir);
+  checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard });
   const cpPath = checkpointPath(outDir);
   const header = checkpointHeader(meta, shard);
-
-  if (existsSync(cpPath) && !options.resume) {
-    throw new InputError([{
-      path: cpPath,
-      value: 'an unfinished sweep checkpoint',
-      allowed: 'pass --resume to continue that sweep, or delete the file (or choose another --out) to start afresh',
-    }]);
-  }
-  const mine = (i: number): boolean => i >= 0 && i < meta.cells && inShard(i, shard);
-  const resumed = options.resume ? readCheckpoint(cpPath, header, mine) : [];
-  const done = new Set(resumed.map((r) => r.index));
   const runCells = shardCells(meta.cells, shard);
-  const pending = runCells.filter((i) => !done.has(i));
-  const results: CellResult[] = [...resumed];
 
-  const progress = createProgress({
-    total: runCells.length,
-    initial: resumed.length,
-    stream: options.progress ?? process.stderr,
-    quiet: options.quiet,
-  });
   const job: CellJob = {
     baseDoc: doc,
     axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
@@ -158,77 +206,115 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
       ...(spec.nullRealizations !== null ? { nullRealizations: spec.nullRealizations } : {}),
     },
   };
-  // Parse one cell here, so that the unit values its axis fields use are known to this thread and
-  // handed to the workers (units.ts); a cell that does not parse is reported by the runner instead.
-  try {
-    if (meta.cells > 0) parseScenario(cellTask(prepareJob(job), runCells[0] ?? 0).scenarioDoc);
-  } catch {
-    // the runner reports it, with the cell's index
-  }
-  // The default runner on worker threads: compute each no-moon calibration set once, spread over the workers.
-  const calibration = options.runner === undefined && !forecastOnly
-    ? (cells: readonly number[], threads: number) => {
-      const prepared = prepareJob(job);
-      return planCalibration(cells, (i) => nullClassOf(cellTask(prepared, i), job.ctx), { workers: threads });
-    }
-    : undefined;
-  const writer = openCheckpoint(cpPath, header, resumed);
-  let outcome: Awaited<ReturnType<typeof executeCells>>;
-  let calibrationStartMs = 0;
-  try {
-    outcome = await executeCells({
-      pending,
-      job,
-      runner: options.runner,
-      workers,
-      maxCells: options.maxCells,
-      signal: options.signal,
-      calibration,
-      onCalibration: (e) => {
-        if (e.stage === 'start') {
-          calibrationStartMs = performance.now();
-          progress.note(`calibrating false alarms: ${e.plan.realizations} no-moon realizations (${e.plan.classes} scenario${e.plan.classes === 1 ? '' : 's'} without the moon, ${e.plan.chunks} chunks on ${e.threads} worker${e.threads === 1 ? '' : 's'})`);
-        } else {
-          progress.note(`false alarms calibrated: ${e.plan.realizations} no-moon realizations in ${formatDuration((performance.now() - calibrationStartMs) / 1000)}`);
-        }
-      },
-      onResult: (r) => {
-        writer.append(r);
-        results.push(r);
-        progress.update(results.length);
-      },
-    });
-  } finally {
-    writer.close();
-  }
-  results.sort((a, b) => a.index - b.index);
-  const complete = outcome.completed && results.length === runCells.length;
-  progress.finish(results.length);
+  // Every cell of the grid is parsed here, before anything is written: a cell that is invalid only at
+  // some axis values is refused now, not in a worker after minutes (and again on --resume). This also
+  // makes the unit values the axis fields use known to this thread, to hand to the workers (units.ts),
+  // and gives each cell of this run its null class for the calibration plan.
+  const useCalibration = options.runner === undefined && !forecastOnly;
+  const checked = await validateCells(job, meta, meta.cells, new Set(runCells), useCalibration, options.signal);
 
-  const runInfo: SweepRunInfo = {
+  const runInfoOf = (results: readonly CellResult[], resumedCount: number, threads: number): SweepRunInfo => ({
     moonsieve_version: VERSION,
     scenario: scenario.name,
     scenario_hash: hash,
     seed: scenario.seed,
     shard,
-    workers: outcome.threads,
+    workers: threads,
     host_cores: availableParallelism(),
     started: new Date(startedMs).toISOString(),
     finished: new Date().toISOString(),
     wall_time_s: (performance.now() - t0) / 1000,
     cells_total: meta.cells,
     cells: results.length,
-    cells_computed: results.length - resumed.length,
-    cells_resumed: resumed.length,
+    cells_computed: results.length - resumedCount,
+    cells_resumed: resumedCount,
     realizations: spec.realizations,
     forecast_only: forecastOnly,
     false_alarm: scenario.detection.falseAlarm,
     node_version: process.version,
-  };
-  let files: string[] = [];
-  if (complete) {
-    files = writeSweepOutputs(outDir, meta, results, runInfo, doc);
-    removeCheckpoint(cpPath);
+  });
+  if (checked.aborted) {
+    return { results: [], runInfo: runInfoOf([], 0, 0), complete: false, checkpointKept: false, outDir, files: [], meta, cellsInRun: runCells.length, cellsDone: 0, calibration: null };
   }
-  return { results, runInfo, complete, outDir, files, meta, cellsInRun: runCells.length, cellsDone: results.length, calibration: outcome.calibration };
+
+  // One run per folder: held until the outputs are written (or the run stops).
+  const lock = acquireFolderLock(outDir, `moonsieve sweep ${typeof scenarioDocOrPath === 'string' ? scenarioDocOrPath : `"${scenario.name}"`}${shard ? ` --shard ${shard.k}/${shard.n}` : ''}`);
+  try {
+    settleStaging(outDir);
+    checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard }); // again, now that no other run can write
+    const nullDir = join(outDir, NULLSET_DIR);
+    if (existsSync(cpPath) && !options.resume) {
+      if (!force) {
+        throw new InputError([{
+          path: cpPath,
+          value: 'an unfinished sweep checkpoint',
+          allowed: 'pass --resume to continue that sweep, or --force to discard it and start afresh (or choose another --out)',
+        }]);
+      }
+      removeCheckpoint(cpPath);
+    }
+    // Saved no-moon sets belong to the checkpoint: kept for a resume only.
+    if (!options.resume) rmSync(nullDir, { recursive: true, force: true });
+    const mine = (i: number): boolean => i >= 0 && i < meta.cells && inShard(i, shard);
+    const resumed = options.resume ? readCheckpoint(cpPath, header, mine) : [];
+    const done = new Set(resumed.map((r) => r.index));
+    const pending = runCells.filter((i) => !done.has(i));
+    const results: CellResult[] = [...resumed];
+
+    const progress = createProgress({
+      total: runCells.length,
+      initial: resumed.length,
+      stream: options.progress ?? process.stderr,
+      quiet: options.quiet,
+    });
+    // The default runner on worker threads: compute each no-moon calibration set once, spread over the workers.
+    const calibration = useCalibration
+      ? (cells: readonly number[], threads: number) => planCalibration(cells, (i) => checked.classes.get(i) ?? null, { workers: threads })
+      : undefined;
+    const writer = openCheckpoint(cpPath, header, resumed);
+    let outcome: Awaited<ReturnType<typeof executeCells>>;
+    let calibrationStartMs = 0;
+    try {
+      outcome = await executeCells({
+        pending,
+        job,
+        runner: options.runner,
+        workers,
+        maxCells: options.maxCells,
+        signal: options.signal,
+        calibration,
+        nullStore: useCalibration ? openNullStore(nullDir) : undefined,
+        onCalibration: (e) => {
+          if (e.stage === 'start') {
+            calibrationStartMs = performance.now();
+            const back = e.resumed > 0 ? `, ${e.resumed} of them read back from the interrupted run` : '';
+            progress.note(`calibrating false alarms: ${e.plan.realizations} no-moon realizations (${e.plan.classes} scenario${e.plan.classes === 1 ? '' : 's'} without the moon, ${e.plan.chunks} chunks on ${e.threads} worker${e.threads === 1 ? '' : 's'}${back})`);
+          } else {
+            progress.note(`false alarms calibrated: ${e.plan.realizations} no-moon realizations in ${formatDuration((performance.now() - calibrationStartMs) / 1000)}`);
+          }
+        },
+        onResult: (r) => {
+          writer.append(r);
+          results.push(r);
+          progress.update(results.length);
+        },
+      });
+    } finally {
+      writer.close();
+    }
+    results.sort((a, b) => a.index - b.index);
+    const complete = outcome.completed && results.length === runCells.length;
+    progress.finish(results.length);
+
+    const runInfo = runInfoOf(results, resumed.length, outcome.threads);
+    let files: string[] = [];
+    if (complete) {
+      files = writeSweepOutputs(outDir, meta, results, runInfo, doc);
+      removeCheckpoint(cpPath);
+      rmSync(nullDir, { recursive: true, force: true });
+    }
+    return { results, runInfo, complete, checkpointKept: !complete, outDir, files, meta, cellsInRun: runCells.length, cellsDone: results.length, calibration: outcome.calibration };
+  } finally {
+    lock.release();
+  }
 }

@@ -32,7 +32,17 @@ export function parseShard(text: string, path = '--shard'): Shard {
 export function shardFromEnv(env: Record<string, string | undefined>): Shard | null {
   const idText = env.SLURM_ARRAY_TASK_ID;
   const countText = env.SLURM_ARRAY_TASK_COUNT;
-  if (idText === undefined || countText === undefined || idText === '' || countText === '') return null;
+  const idSet = idText !== undefined && idText !== '';
+  const countSet = countText !== undefined && countText !== '';
+  if (!idSet && !countSet) return null;
+  if (!idSet || !countSet) {
+    // One without the other would run the whole grid in every task of the array (or shard nothing).
+    throw new InputError([{
+      path: idSet ? 'SLURM_ARRAY_TASK_COUNT' : 'SLURM_ARRAY_TASK_ID',
+      value: idSet ? `unset (SLURM_ARRAY_TASK_ID=${idText})` : `unset (SLURM_ARRAY_TASK_COUNT=${countText})`,
+      allowed: 'a job-array task needs both variables to know its shard (Slurm sets both for --array jobs); pass --shard K/N explicitly, or --shard 1/1 to run the whole grid',
+    }]);
+  }
   const id = Number(idText);
   const n = Number(countText);
   const min = env.SLURM_ARRAY_TASK_MIN === undefined || env.SLURM_ARRAY_TASK_MIN === '' ? 0 : Number(env.SLURM_ARRAY_TASK_MIN);

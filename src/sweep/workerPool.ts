@@ -25,6 +25,7 @@ import type { FromWorker, ToWorker } from './workerMessages.js';
 import type { CalibrationClassPlan, CalibrationPlan } from './calibrationPlan.js';
 import { unitValueEntries } from '../scenario/units.js';
 import { joinNullRanges, type PackedNullRange } from './nullSet.js';
+import type { NullStore } from './nullStore.js';
 
 /** A runner that worker threads load by module: a path or file: URL, and its export (default `runCell`). */
 export interface RunnerModule {
@@ -49,8 +50,10 @@ export interface ExecuteOptions {
    * main thread computes and caches its own sets).
    */
   calibration?: (cells: readonly number[], threads: number) => CalibrationPlan;
+  /** Where finished chunks of no-moon realizations are saved and read back on a resume (nullStore.ts). */
+  nullStore?: NullStore;
   /** Told when the pre-pass starts and when every null set is complete. */
-  onCalibration?: (e: { stage: 'start' | 'done'; plan: CalibrationPlan; threads: number }) => void;
+  onCalibration?: (e: { stage: 'start' | 'done'; plan: CalibrationPlan; threads: number; resumed: number }) => void;
 }
 
 /** What the calibration pre-pass did. */
@@ -61,6 +64,8 @@ export interface CalibrationStats {
   chunks: number;
   /** Cells whose runner found no provided set and computed its own (0 when the pre-pass covered every cell). */
   fallbackCells: number;
+  /** Realizations read back from the null-set checkpoint instead of computed. */
+  resumedRealizations: number;
 }
 
 export interface ExecuteOutcome {
@@ -84,7 +89,11 @@ export function resolveWorkerCount(option: number | string | undefined, env: Rec
   const slurm = env.SLURM_CPUS_PER_TASK;
   if (slurm !== undefined && slurm !== '') {
     const n = Number(slurm);
-    if (Number.isSafeInteger(n) && n >= 1) return n;
+    if (Number.isSafeInteger(n) && n >= 1 && n <= 1024) return n;
+    throw new InputError([{
+      path: 'SLURM_CPUS_PER_TASK', value: slurm,
+      allowed: 'expected a whole number of CPUs from 1 to 1024 (set by #SBATCH --cpus-per-task=N); fix or unset the variable, or pass --workers N',
+    }]);
   }
   return availableParallelism();
 }
@@ -167,22 +176,46 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
   };
   // Phases: the plan's, or one phase of every cell when there is nothing to calibrate.
   const chunkTable: Array<{ phase: number; cls: number; start: number; n: number }> = [];
+  let resumedRealizations = 0;
   const phases: PhaseState[] = (plan ? plan.phases : [{ classes: [], cells }]).map((ph, p) => {
     const chunks: PhaseState['chunks'] = [];
+    const ranges: PackedNullRange[][] = ph.classes.map(() => []);
     ph.classes.forEach((c, k) => {
-      for (const ch of c.chunks) {
-        chunks.push({ id: chunkTable.length, cell: c.cell, start: ch.start, n: ch.n });
-        chunkTable.push({ phase: p, cls: k, start: ch.start, n: ch.n });
+      // Realizations saved by an earlier, interrupted run are read back; only the gaps are computed.
+      const have = o.nullStore ? o.nullStore.load(c.key, c.count) : [];
+      ranges[k].push(...have);
+      const size = c.chunks[0]?.n ?? c.count;
+      let at = 0;
+      const todo = (from: number, to: number): void => {
+        for (let start = from; start < to; start += size) {
+          const n = Math.min(size, to - start);
+          chunks.push({ id: chunkTable.length, cell: c.cell, start, n });
+          chunkTable.push({ phase: p, cls: k, start, n });
+        }
+      };
+      for (const r of have) {
+        todo(at, r.start);
+        at = r.start + r.n;
+        resumedRealizations += r.n;
       }
+      todo(at, c.count);
     });
     return {
       classes: ph.classes, cells: ph.cells, nextCell: 0, cellsDone: 0, chunks, nextChunk: 0, chunksLeft: chunks.length,
-      ranges: ph.classes.map(() => []), ready: chunks.length === 0,
+      ranges, ready: chunks.length === 0,
     };
   });
   const phaseOfCell = new Map<number, number>();
   phases.forEach((ph, p) => ph.cells.forEach((c) => phaseOfCell.set(c, p)));
-  const stats: CalibrationStats | null = plan ? { classes: plan.classes, realizations: plan.realizations, chunks: plan.chunks, fallbackCells: 0 } : null;
+  const stats: CalibrationStats | null = plan ? { classes: plan.classes, realizations: plan.realizations, chunks: plan.chunks, fallbackCells: 0, resumedRealizations } : null;
+  /** Complete sets the workers hold, by phase (a phase read back whole from the store is complete at once). */
+  const live = new Map<number, Array<{ key: string; set: PackedNullRange }>>();
+  phases.forEach((ph, p) => {
+    if (ph.ready && ph.classes.length > 0) {
+      live.set(p, ph.classes.map((c, k) => ({ key: c.key, set: joinNullRanges(ph.ranges![k], c.count, true) })));
+      ph.ranges = null;
+    }
+  });
   const script = workerScriptUrl();
   return new Promise<ExecuteOutcome>((resolvePromise, rejectPromise) => {
     const workers: Worker[] = [];
@@ -195,8 +228,6 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
     const stopped = new Set<Worker>();
     const idle = new Set<Worker>();
     const busy = new Set<Worker>();
-    /** Complete sets the workers hold, by phase. */
-    const live = new Map<number, Array<{ key: string; set: PackedNullRange }>>();
     const finish = (err: Error | null, completed: boolean): void => {
       if (settled) return;
       settled = true;
@@ -247,6 +278,7 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
       if (msg.key !== cls.key || msg.range.start !== entry.start || msg.range.n !== entry.n) {
         throw new Error(`a worker returned no-moon realizations for another class or range than asked (cell ${cls.cell}, from ${entry.start})`);
       }
+      o.nullStore?.save(cls.key, msg.range);
       ph.ranges![entry.cls].push(msg.range);
       if (--ph.chunksLeft === 0) {
         const sets = ph.classes.map((c, k) => ({ key: c.key, set: joinNullRanges(ph.ranges![k], c.count, true) }));
@@ -254,7 +286,7 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
         live.set(entry.phase, sets);
         broadcast({ type: 'nullSets', sets });
         ph.ready = true;
-        if (--pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan: plan!, threads });
+        if (--pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan: plan!, threads, resumed: resumedRealizations });
         for (const v of [...idle]) dispatch(v);
       }
       dispatch(w);
@@ -266,6 +298,8 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
       if (++ph.cellsDone === ph.cells.length && live.has(p)) {
         broadcast({ type: 'dropNullSets', keys: ph.classes.map((c) => c.key) });
         live.delete(p);
+        // Its cells are in the cell checkpoint now: the saved realizations are no longer needed.
+        for (const c of ph.classes) o.nullStore?.drop(c.key);
       }
     };
     if (o.signal?.aborted) {
@@ -273,7 +307,10 @@ function runInWorkers(o: ExecuteOptions, runner: RunnerModule | undefined, limit
       return;
     }
     o.signal?.addEventListener('abort', onAbort, { once: true });
-    if (plan) o.onCalibration?.({ stage: 'start', plan, threads });
+    if (plan) {
+      o.onCalibration?.({ stage: 'start', plan, threads, resumed: resumedRealizations });
+      if (pendingPhases === 0) o.onCalibration?.({ stage: 'done', plan, threads, resumed: resumedRealizations });
+    }
     for (let t = 0; t < threads; t++) {
       const w = new Worker(script, { workerData: init });
       workers.push(w);
