@@ -4,7 +4,7 @@
  * prints one clear message and exits with code 2, without a stack trace.
  */
 import { Command, CommanderError } from 'commander';
-import { InputError } from '../scenario/errors.js';
+import { escapeControl, InputError } from '../scenario/errors.js';
 import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_INTERRUPTED, EXIT_OK } from './exitCodes.js';
 import { registerSimulate } from './simulateCommand.js';
 import { registerLimits } from './limitsCommand.js';
@@ -33,7 +33,7 @@ export function buildProgram(io: CliIo): Command {
     .description('Exomoon transit-timing detectability planner')
     .version(VERSION)
     .exitOverride()
-    .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(s) })
+    .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(escapeControl(s)) })
     .showHelpAfterError('(run with --help for usage)');
   registerSweep(program, io);
   registerMerge(program, io);
@@ -58,10 +58,11 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     }
     if (e instanceof SweepInterruptedError) return EXIT_INTERRUPTED; // the command already said how to resume
     if (e instanceof InputError) {
-      io.err(`moonsieve: ${e.message}\n`);
+      // Text from the user's files and arguments: control characters are escaped, never sent raw.
+      io.err(`moonsieve: ${escapeControl(e.message)}\n`);
       return EXIT_BAD_INPUT;
     }
-    io.err(`moonsieve: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+    io.err(`moonsieve: internal error: ${escapeControl(e instanceof Error ? (e.stack ?? e.message) : String(e))}\n`);
     return EXIT_FAILURE;
   }
 }

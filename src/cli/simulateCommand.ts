@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import { join } from 'node:path';
 import { loadScenario } from '../scenario/loadScenario.js';
+import { formatCautions } from '../scenario/parseScenario.js';
 import { InputError } from '../scenario/errors.js';
 import { fitOf, simulateScenario, simulationTables, tdvOf, ttvOf } from '../photometry/simulateScenario.js';
 import type { Scenario } from '../scenario/types.js';
@@ -29,6 +30,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
         throw new InputError([{ path: '--realization', value: opts.realization, allowed: 'expected an integer ≥ 0' }]);
       }
       const scenario = loadScenario(scenarioPath);
+      io.err(formatCautions(scenario)); // odd but legal inputs, as note: lines
       const noiseless = opts.noiseless === true;
       const sim = simulateScenario(scenario, { noiseless, realization });
       const outDir = opts.out ?? defaultOutDir(scenario.name);
