@@ -67,6 +67,7 @@ const Msun = [M_SUN_KG, 'Msun'] as const;
 const Rsun = [R_SUN_M, 'Rsun'] as const;
 const days = [DAY_S, 'days'] as const;
 const minutes = [MINUTE_S, 'minutes'] as const;
+const seconds = [1, 's'] as const;
 const hours = [HOUR_S, 'hours'] as const;
 const degrees = [DEG, 'degrees'] as const;
 const kelvin = [1, 'K'] as const;
@@ -117,7 +118,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'planet.love_number', type: 'number', default: 0.5, min: 0, minExclusive: true, max: 1.5, meaning: 'tidal Love number k2' },
   { path: 'planet.tidal_q', type: 'number', default: 1e5, min: 1, meaning: 'tidal quality factor Q' },
 
-  { path: 'moon', type: 'mapping', required: 'no (no moon: the null hypothesis)', meaning: 'the moon' },
+  { path: 'moon', type: 'mapping', defaultText: 'none: the no-moon case', meaning: 'the moon' },
   { path: 'moon.mass', type: 'quantity', kind: 'mass', show: [5.972168e24, 'Mearth'], required: 'yes', min: 0, minExclusive: true, meaning: 'moon mass' },
   { path: 'moon.radius', type: 'quantity', kind: 'length', show: [6.3781e6, 'Rearth'], required: 'unless density', min: 0, minExclusive: true, meaning: 'moon radius' },
   { path: 'moon.density', type: 'quantity', kind: 'density', show: [1e3, 'g/cm^3'], required: 'instead of radius', min: 0, minExclusive: true, meaning: 'mean density; the radius follows from the mass' },
@@ -134,12 +135,12 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'moon.tidal_q', type: 'number', default: 100, min: 1, meaning: 'tidal quality factor Q (tidal heating)' },
 
   { path: 'instrument', type: 'mapping', required: 'yes', meaning: 'sampling and noise' },
-  { path: 'instrument.cadence', type: 'quantity', kind: 'time', bare: minutes, show: minutes, required: 'yes', min: 0.1, max: DAY_S,
+  { path: 'instrument.cadence', type: 'quantity', kind: 'time', bare: minutes, show: seconds, required: 'yes', min: 0.1, max: DAY_S,
     rangeNote: 'common practice, no source', meaning: 'time between samples' },
-  { path: 'instrument.exposure', type: 'quantity', kind: 'time', bare: minutes, show: minutes, defaultText: '= cadence', min: 0.1,
+  { path: 'instrument.exposure', type: 'quantity', kind: 'time', bare: minutes, show: seconds, defaultText: '= cadence', min: 0.1,
     rangeNote: 'at most the cadence', meaning: 'integration time per sample (the light curve is averaged over it)' },
   { path: 'instrument.noise', type: 'level', kind: 'fraction', bare: fraction, show: [1e-6, 'ppm'], required: 'unless ground', min: 0, minExclusive: true,
-    rangeNote: 'above 0 (a noiseless curve: `simulate --noiseless`); not with ground', meaning: 'white noise at a stated timescale, "200 ppm per 1 h", scaled by √t; a bare level is per exposure' },
+    rangeNote: '0 only beside red_noise (a noiseless curve: `simulate --noiseless`); not with ground', meaning: 'white noise at a stated timescale, "200 ppm per 1 h", scaled by √t; a bare level is per exposure' },
   { path: 'instrument.red_noise', type: 'mapping', defaultText: 'none', meaning: 'correlated noise added to the white noise' },
   { path: 'instrument.red_noise.model', type: 'choice', choices: ['power_law', 'drw'], required: 'with red_noise',
     meaning: 'power_law: S ∝ f^−β (Timmer & König 1995); drw: damped random walk (Kelly et al. 2009)' },

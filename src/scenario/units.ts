@@ -265,6 +265,7 @@ export function writtenUnit(value: unknown, kind: QuantityKind, bare?: readonly 
 export function formatNumber(x: number): string {
   if (x === 0 || !Number.isFinite(x)) return String(x);
   const a = Math.abs(x);
+  if (Number.isInteger(x) && a < 1e15) return String(x);
   if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(4)));
   return x.toExponential(3).replace(/\.?0+e/, 'e').replace('e+', 'e');
 }
