@@ -218,7 +218,7 @@ function rangeText(o: { min?: number; minExclusive?: boolean; max?: number; maxE
  * written in (`written`), and also in the table's unit when that differs.
  */
 export function tableRangeText(f: ScenarioField, written: { name: string; si: number } | null): string {
-  const what = f.type === 'integer' ? 'a whole number' : f.type === 'quantity' || f.type === 'level' ? `a ${f.kind ?? 'value'}` : 'a number';
+  const what = f.noun ?? (f.type === 'integer' ? 'a whole number' : f.type === 'quantity' || f.type === 'level' ? `a ${f.kind ?? 'value'}` : 'a number');
   const show = f.show ? { name: f.show[1], si: f.show[0] } : null;
   const unit = written ?? show;
   let text = `expected ${what}${boundsText(f, unit)}`;
@@ -231,6 +231,7 @@ export function tableRangeText(f: ScenarioField, written: { name: string; si: nu
 export function boundsText(f: Pick<ScenarioField, 'min' | 'minExclusive' | 'max' | 'maxExclusive'>, unit: { name: string; si: number } | null): string {
   const u = unit && unit.name !== 'a fraction' ? ` ${unit.name}` : '';
   const k = unit ? unit.si : 1;
+  if (f.min !== undefined && f.max !== undefined && !f.minExclusive && !f.maxExclusive) return ` from ${formatNumber(f.min / k)} to ${formatNumber(f.max / k)}${u}`;
   const parts: string[] = [];
   if (f.min !== undefined) parts.push(`${f.minExclusive ? '>' : '≥'} ${formatNumber(f.min / k)}${u}`);
   if (f.max !== undefined) parts.push(`${f.maxExclusive ? '<' : '≤'} ${formatNumber(f.max / k)}${u}`);

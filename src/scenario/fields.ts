@@ -59,6 +59,8 @@ export interface ScenarioField {
   /** The allowed range in words when the bounds alone do not say it, or its source. */
   rangeNote?: string;
   choices?: readonly string[];
+  /** What a message calls the value ("an eccentricity"); default from the type. */
+  noun?: string;
   /** One line of meaning. */
   meaning: string;
 }
@@ -88,7 +90,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
     rangeNote: 'brown dwarfs to the most massive stars (Spiegel et al. 2011; Figer 2005)', meaning: 'stellar mass' },
   { path: 'star.radius', type: 'quantity', kind: 'length', show: Rsun, required: 'yes', min: 0.005 * R_SUN_M, max: 2000 * R_SUN_M,
     rangeNote: 'white dwarfs to the largest supergiants (Levesque et al. 2005)', meaning: 'stellar radius' },
-  { path: 'star.teff', type: 'quantity', kind: 'temperature', bare: kelvin, show: kelvin, required: 'yes', min: 1000, max: 60000, meaning: 'effective temperature' },
+  { path: 'star.teff', type: 'quantity', noun: 'an effective temperature', kind: 'temperature', bare: kelvin, show: kelvin, required: 'yes', min: 1000, max: 60000, meaning: 'effective temperature' },
   { path: 'star.age', type: 'quantity', kind: 'time', show: [1e9 * JULIAN_YEAR_S, 'Gyr'], default: 5e9 * JULIAN_YEAR_S, min: 0, minExclusive: true,
     meaning: 'stellar age (tidal-migration and energy-budget screens)' },
   { path: 'star.luminosity', type: 'quantity', kind: 'power', show: [3.828e26, 'Lsun'], defaultText: 'σ_SB 4πR²T⁴ (Stefan–Boltzmann)', min: 0, minExclusive: true,
@@ -108,11 +110,11 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
     meaning: 'radius from the mass when `radius` is omitted: Chen & Kipping (2017) mean relation; in a sweep over planet.mass the radius then follows the mass' },
   { path: 'planet.period', type: 'quantity', kind: 'time', bare: days, show: days, required: 'yes', min: 0, minExclusive: true,
     meaning: 'orbital period of the planet–moon barycentre' },
-  { path: 'planet.eccentricity', type: 'number', default: 0, min: 0, max: 0.9, meaning: 'orbital eccentricity' },
+  { path: 'planet.eccentricity', type: 'number', noun: 'an eccentricity', default: 0, min: 0, max: 0.9, meaning: 'orbital eccentricity' },
   { path: 'planet.periastron', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: Math.PI / 2, meaning: 'argument of periastron ω (Winn 2010 convention)' },
   { path: 'planet.impact_parameter', type: 'number', default: 0, min: 0, rangeNote: 'below 1 + Rp/R* (the planet must transit); not with inclination',
     meaning: 'impact parameter at conjunction, stellar radii' },
-  { path: 'planet.inclination', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, defaultText: 'from impact_parameter', min: 0, max: Math.PI,
+  { path: 'planet.inclination', type: 'quantity', noun: 'an inclination', kind: 'angle', bare: degrees, show: degrees, defaultText: 'from impact_parameter', min: 0, max: Math.PI,
     meaning: 'orbital inclination to the sky plane (90 deg = edge-on); not with impact_parameter' },
   { path: 'planet.albedo', type: 'number', default: 0.3, min: 0, max: 1, meaning: 'Bond albedo (energy budget)' },
   { path: 'planet.love_number', type: 'number', default: 0.5, min: 0, minExclusive: true, max: 1.5, meaning: 'tidal Love number k2' },
@@ -124,7 +126,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'moon.density', type: 'quantity', kind: 'density', show: [1e3, 'g/cm^3'], required: 'instead of radius', min: 0, minExclusive: true, meaning: 'mean density; the radius follows from the mass' },
   { path: 'moon.separation', type: 'separation', kind: 'length', required: 'yes', min: 0, minExclusive: true,
     rangeNote: 'a length, "N Rp" planet radii or "f hill" Hill radii; beyond planet radius + moon radius', meaning: 'semi-major axis of the planet–moon orbit' },
-  { path: 'moon.eccentricity', type: 'number', default: 0, min: 0, max: 0.9, meaning: 'eccentricity of the moon orbit' },
+  { path: 'moon.eccentricity', type: 'number', noun: 'an eccentricity', default: 0, min: 0, max: 0.9, meaning: 'eccentricity of the moon orbit' },
   { path: 'moon.inclination', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: 0, min: 0, max: Math.PI, meaning: 'inclination to the planet orbit plane' },
   { path: 'moon.node', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: 0, meaning: 'longitude of the ascending node on the planet orbit plane' },
   { path: 'moon.periapsis', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: 0, meaning: 'argument of periapsis of the moon orbit' },
@@ -161,7 +163,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'instrument.ground.floor', type: 'level', kind: 'fraction', show: [1e-6, 'ppm'], defaultText: 'none', min: 0, meaning: 'systematic floor at a timescale, "100 ppm per 10 min", scaled by √t' },
 
   { path: 'observation', type: 'mapping', required: 'yes', meaning: 'what is observed' },
-  { path: 'observation.transits', type: 'integer', required: 'unless duration', min: 1, max: 10000, meaning: 'number of consecutive transits observed' },
+  { path: 'observation.transits', type: 'integer', noun: 'a whole number of transits', required: 'unless duration', min: 1, max: 10000, meaning: 'number of consecutive transits observed' },
   { path: 'observation.duration', type: 'quantity', kind: 'time', bare: days, show: [JULIAN_YEAR_S, 'yr'], required: 'instead of transits', min: 0,
     rangeNote: 'at most 10000 conjunctions', meaning: 'span observed from t0 ("3 yr"); the transits are the barycentre conjunctions t0 + nP inside it, the one at t0 included' },
   { path: 'observation.t0', type: 'number', default: 2461000.0, min: 0, meaning: 'barycentre mid-transit time of epoch 0, BJD_TDB (days)' },

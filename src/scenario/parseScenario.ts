@@ -67,7 +67,11 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   top.rejectUnknown(EXTRA_TOP_LEVEL_KEYS);
 
   if (problems.length > 0) throw new InputError(dedupe(problems), source);
-  return { cautions, name, seed, star, planet, moon, instrument, observation, detection };
+  const scenario: Scenario = { name, seed, star, planet, moon, instrument, observation, detection };
+  // Not enumerable: the cautions are messages, not part of the model, so they stay out of the
+  // canonical JSON that seeds and identifies the no-moon sets (sweep/nullSet.ts) and out of copies.
+  Object.defineProperty(scenario, 'cautions', { value: cautions, enumerable: false, writable: true, configurable: true });
+  return scenario;
 }
 
 /** The scenario's cautions as "note:" lines for stderr ('' when none). */
@@ -188,7 +192,10 @@ export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): 
       `the planet would not transit: impact parameter ${impact.toFixed(3)} must be below 1 + Rp/R* = ${(1 + p).toFixed(3)}`);
   }
   r.rejectUnknown();
-  return { massKg, radiusM, periodS, eccentricity, omegaRad, inclinationRad: incl, impactParameter: impact, semiMajorAxisM, albedo, k2, tidalQ, massRadiusRelation };
+  const planet: PlanetSpec = { massKg, radiusM, periodS, eccentricity, omegaRad, inclinationRad: incl, impactParameter: impact, semiMajorAxisM, albedo, k2, tidalQ };
+  // Present only when used, so scenarios without it keep their canonical JSON (and no-moon set seeds).
+  if (massRadiusRelation) planet.massRadiusRelation = massRadiusRelation;
+  return planet;
 }
 
 function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: ScenarioCaution[]): MoonSpec {
@@ -390,7 +397,10 @@ function readObservation(r: FieldReader, periodS: number, cautions: ScenarioCaut
     });
   }
   r.rejectUnknown();
-  return { transits, durationS, t0BjdTdb, baselineS, dutyCycle, gapLengthS, missedFraction };
+  const observation: ObservationSpec = { transits, t0BjdTdb, baselineS, dutyCycle, gapLengthS, missedFraction };
+  // Present only when given, so scenarios without it keep their canonical JSON (and no-moon set seeds).
+  if (durationS !== null) observation.durationS = durationS;
+  return observation;
 }
 
 function readDetection(r: FieldReader): DetectionSpec {

@@ -38,7 +38,7 @@ export interface PlanetSpec {
   tidalQ: number;
   /**
    * The mass–radius relation the radius came from (`planet.mass_radius`), or
-   * null/absent when the radius was given. With a relation the radius follows
+   * absent when the radius was given. With a relation the radius follows
    * the mass, also along a planet-mass sweep axis.
    */
   massRadiusRelation?: 'chen_kipping_2017' | null;
@@ -124,7 +124,7 @@ export interface ObservationSpec {
   /**
    * The span observed from t0, s, when `observation.duration` was given
    * (then `transits` = the barycentre conjunctions t0 + nP, n ≥ 0, with
-   * nP ≤ duration); null/absent when the transits were given.
+   * nP ≤ duration); absent when the transits were given.
    */
   durationS?: number | null;
   /** Barycentre mid-transit time of epoch 0, BJD_TDB (days). */
@@ -156,7 +156,11 @@ export interface ScenarioCaution {
 }
 
 export interface Scenario {
-  /** Cautions about odd but legal inputs (empty or absent when none); see `formatCautions`. */
+  /**
+   * Cautions about odd but legal inputs (empty when none; absent on a Scenario not made by
+   * parseScenario); see `formatCautions`. A non-enumerable property: not in JSON, spreads,
+   * structured clones or the canonical JSON that seeds the no-moon sets.
+   */
   cautions?: ScenarioCaution[];
   name: string;
   seed: number;
