@@ -39,8 +39,9 @@ export function parseYamlWithLines(
     const pos = at(e.pos[0]);
     const lineText = text.split(/\r?\n/)[pos.line - 1] ?? '';
     const more = doc.errors.length > 1 ? ' (later syntax errors, often caused by this one, are not listed)' : '';
+    const message = /call stack/i.test(e.message) ? 'the document is nested too deeply to read' : e.message.split('\n')[0];
     throw new InputError(
-      [{ path: '(YAML syntax)', line: pos.line, column: pos.column, value: lineText.trim(), allowed: e.message.split('\n')[0] + more }],
+      [{ path: '(YAML syntax)', line: pos.line, column: pos.column, value: lineText.trim(), allowed: message + more }],
       `${source}: not valid YAML`,
     );
   }
@@ -91,6 +92,8 @@ function nodeOffset(doc: Document, path: string): number | null {
     chain.push(next ?? { range: keyOffset === null ? undefined : [keyOffset, keyOffset, keyOffset] });
     if (next === undefined || next === null) break;
   }
+  // Nothing of the path is in the file (a missing top-level block): no position rather than line 1.
+  if (chain.length === 1 && keys.length > 0 && path !== '(top level)') return null;
   for (let i = chain.length - 1; i >= 0; i--) {
     const r = (chain[i] as { range?: [number, number, number] } | null | undefined)?.range;
     if (r) return r[0];

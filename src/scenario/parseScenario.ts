@@ -49,6 +49,8 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const problems: FieldProblem[] = [];
   const cautions: ScenarioCaution[] = [];
   const top = new FieldReader(doc, '', problems);
+  // A document that is not a mapping: that one problem, not one per missing field.
+  if (problems.length > 0) throw new InputError(problems, source);
   const name = top.string('name', 'unnamed');
   const seed = top.field('seed');
 
@@ -66,7 +68,10 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const detection = readDetection(new FieldReader(top.raw('detection'), 'detection', problems));
   top.rejectUnknown(EXTRA_TOP_LEVEL_KEYS);
 
-  if (problems.length > 0) throw new InputError(dedupe(problems), source);
+  // A missing block is one problem, not one more per field it would hold.
+  const missing = ['star', 'planet', 'instrument', 'observation'].filter((k) => !top.has(k));
+  const kept = problems.filter((p) => !missing.some((k) => p.path.startsWith(k + '.')));
+  if (kept.length > 0) throw new InputError(dedupe(kept), source);
   const scenario: Scenario = { name, seed, star, planet, moon, instrument, observation, detection };
   // Not enumerable: the cautions are messages, not part of the model, so they stay out of the
   // canonical JSON that seeds and identifies the no-moon sets (sweep/nullSet.ts) and out of copies.

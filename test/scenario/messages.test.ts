@@ -84,6 +84,26 @@ describe('scenario problem messages', () => {
     expect(problems[0].allowed).toMatch(/at most 100 times/);
   });
 
+  it('give a missing block as one problem, and a document that is not a mapping as one', () => {
+    const { problems } = problemsOf(base.replace('observation: {transits: 4}\n', ''));
+    expect(problems.map((p) => p.path)).toEqual(['observation']);
+    expect(problems[0].line).toBeUndefined();
+    expect(problemsOf('- 1\n- 2\n').problems.map((p) => p.path)).toEqual(['(top level)']);
+  });
+
+  it('give a missing field the position of its block', () => {
+    const { problems } = problemsOf(base.replace('  period: 365.25 d\n', ''));
+    expect(problems).toMatchObject([{ path: 'planet.period', line: 8 }]);
+  });
+
+  it('refuse a document nested too deeply, and a repeated key, as one problem each', () => {
+    const deep = problemsOf('a: ' + '['.repeat(20000) + ']'.repeat(20000));
+    expect(deep.problems).toHaveLength(1);
+    expect(deep.problems[0].allowed).toMatch(/nested too deeply/);
+    const twice = problemsOf(base + 'observation: {transits: 5}\n');
+    expect(twice.problems).toMatchObject([{ path: '(YAML syntax)', line: 13, column: 1 }]);
+  });
+
   it('escape control characters in keys, names and values', () => {
     const evil = base.replace('name: Test system', 'name: Test system\n"\\e[31mred\\u0007": 1').replace('teff: 5772 K', 'teff: "\\e[2J"');
     const { message } = problemsOf(evil);
