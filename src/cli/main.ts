@@ -33,7 +33,7 @@ export function buildProgram(io: CliIo): Command {
     .description('Exomoon transit-timing detectability planner')
     .version(VERSION)
     .exitOverride()
-    .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(escapeControl(s)) })
+    .configureOutput({ writeOut: io.out, writeErr: io.err, outputError: (s, write) => write(s) })
     .showHelpAfterError('(run with --help for usage)');
   registerSweep(program, io);
   registerMerge(program, io);
@@ -46,7 +46,10 @@ export function buildProgram(io: CliIo): Command {
 }
 
 /** Run the CLI; resolves to the process exit code. */
-export async function main(argv: string[], io: CliIo = defaultIo): Promise<number> {
+export async function main(argv: string[], rawIo: CliIo = defaultIo): Promise<number> {
+  // Everything printed may carry text from the user's files and arguments (names, keys, values):
+  // control characters are written as \uXXXX, never sent raw to the terminal (newlines kept).
+  const io: CliIo = { out: (t) => rawIo.out(escapeControl(t)), err: (t) => rawIo.err(escapeControl(t)) };
   const program = buildProgram(io);
   try {
     await program.parseAsync(argv);
@@ -58,11 +61,10 @@ export async function main(argv: string[], io: CliIo = defaultIo): Promise<numbe
     }
     if (e instanceof SweepInterruptedError) return EXIT_INTERRUPTED; // the command already said how to resume
     if (e instanceof InputError) {
-      // Text from the user's files and arguments: control characters are escaped, never sent raw.
-      io.err(`moonsieve: ${escapeControl(e.message)}\n`);
+      io.err(`moonsieve: ${e.message}\n`);
       return EXIT_BAD_INPUT;
     }
-    io.err(`moonsieve: internal error: ${escapeControl(e instanceof Error ? (e.stack ?? e.message) : String(e))}\n`);
+    io.err(`moonsieve: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
     return EXIT_FAILURE;
   }
 }

@@ -124,7 +124,8 @@ export class FieldReader {
       return Number.NaN;
     }
     if (!inRange(si, opts)) {
-      this.problem(key, value, opts.rangeText ?? (opts.table ? tableRangeText(opts.table, writtenUnit(value, kind, opts.bare)) : rangeText(opts)));
+      const written = writtenUnit(value, kind, opts.bare);
+      this.problem(key, value, opts.rangeText ?? (opts.table ? tableRangeText(opts.table, written) : rangeText(opts, written)));
       return Number.NaN;
     }
     return si;
@@ -209,8 +210,9 @@ function rangeSuffix(o: { min?: number; minExclusive?: boolean; max?: number; ma
   return parts.length ? ` ${parts.join(' and ')}` : '';
 }
 
-function rangeText(o: { min?: number; minExclusive?: boolean; max?: number; maxExclusive?: boolean }): string {
-  return `out of range: must be${rangeSuffix(o)} (SI)`;
+/** Out of range, stated in the unit the value was written in when it had one, else in SI. */
+function rangeText(o: { min?: number; minExclusive?: boolean; max?: number; maxExclusive?: boolean }, written: { name: string; si: number } | null): string {
+  return written ? `out of range: must be${boundsText(o, written)}` : `out of range: must be${rangeSuffix(o)} (SI)`;
 }
 
 /**

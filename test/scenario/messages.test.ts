@@ -124,6 +124,19 @@ describe('scenario problem messages', () => {
   });
 });
 
+describe('terminal safety of everything the CLI prints', () => {
+  it('escapes control characters of a scenario name in the normal output too', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'moonsieve-name-'));
+    const file = join(dir, 'name.yaml');
+    writeFileSync(file, base.replace('name: Test system', 'name: "Evil\\e[2J\\u202e b"'));
+    let out = '';
+    const code = await main(['node', 'moonsieve', 'limits', file], { out: (t) => (out += t), err: () => {} });
+    expect(code).toBe(0);
+    expect(out).toContain('Evil\\u001b[2J\\u202e b');
+    expect(out).not.toMatch(/[\u0000-\u0009\u000b-\u001f\u007f\u202e]/);
+  });
+});
+
 describe('physically impossible inputs', () => {
   it('refuse a planet as large as its star', () => {
     const { problems } = problemsOf(base.replace('radius: 1 Rjup', 'radius: 2 Rsun'));
