@@ -5,6 +5,11 @@
  * two cannot drift. Every range is SI here; `show` is the unit the reference
  * states it in, and a message states it in the unit the user wrote.
  *
+ * To add a field: an entry here, read it in parseScenario with `r.field(key)`
+ * (or `r.raw(key)` for a special form), then `npm run docs:scenario`; the
+ * tests in test/scenario/fieldTable.test.ts and scenarioReference.test.ts
+ * fail until all three agree.
+ *
  * Ranges that are not plain definitions:
  * - star.mass, 0.01–150 M☉: from below the deuterium-burning limit of ~13 M_J
  *   (Spiegel, Burrows & Milsom 2011, ApJ 727, 57), so brown-dwarf hosts are
@@ -138,7 +143,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
 
   { path: 'instrument', type: 'mapping', required: 'yes', meaning: 'sampling and noise' },
   { path: 'instrument.cadence', type: 'quantity', kind: 'time', bare: minutes, show: seconds, required: 'yes', min: 0.1, max: DAY_S,
-    rangeNote: 'common practice, no source', meaning: 'time between samples' },
+    rangeNote: 'shorter samples add points, not timing information (common practice, no source)', meaning: 'time between samples' },
   { path: 'instrument.exposure', type: 'quantity', kind: 'time', bare: minutes, show: seconds, defaultText: '= cadence', min: 0.1,
     rangeNote: 'at most the cadence', meaning: 'integration time per sample (the light curve is averaged over it)' },
   { path: 'instrument.noise', type: 'level', kind: 'fraction', bare: fraction, show: [1e-6, 'ppm'], required: 'unless ground', min: 0, minExclusive: true,

@@ -3,28 +3,12 @@
  * into a validated, SI-unit `Scenario`. Every problem is reported at once,
  * each naming its path, the value and what is allowed.
  *
- * Every field, its default, range and bare-number unit: the field table in
- * fields.ts (and docs/scenario-reference.md, generated from it). In short:
- *   name, seed (integer ≥ 0)
- *   star:   mass, radius, teff [K], age (default 5 Gyr), luminosity (optional,
- *           default σ_SB 4πR²T⁴), limb_darkening: {u1, u2} or {q1, q2}
- *   planet: mass, radius, period [d], eccentricity (0), periastron [deg] (90),
- *           impact_parameter or inclination [deg] (default b = 0), albedo (0.3),
- *           love_number (0.5), tidal_q (1e5)
- *   moon:   mass, radius or density, separation (length, or "N Rp" planet
- *           radii, or "f hill" fraction of the Hill radius a(M_P/3M*)^{1/3}),
- *           eccentricity (0), inclination [deg] (0), node [deg] (0),
- *           periapsis [deg] (0), phase [deg] (0), direction prograde|retrograde,
- *           albedo (0.3), love_number (0.3), tidal_q (100)
- *   instrument: cadence [min], exposure [min] (default = cadence),
- *           noise ("200 ppm per 1 h"), or ground: {aperture, magnitude, throughput,
- *           airmass, altitude, scintillation_coefficient, floor} (Osborn et al. 2015
- *           scintillation, photon noise, floor), red_noise: {model: power_law,
- *           amplitude: "150 ppm per 30 min", slope} or {model: drw, amplitude, timescale}
- *   observation: transits (integer ≥ 1), t0 [BJD_TDB days] (2461000.0),
- *           baseline [h] (3 h out of transit on each side), duty_cycle (1),
- *           gap_length [min] (20 min), missed_fraction (0)
- *   detection: false_alarm (fraction, default 1 %): false-alarm probability per channel
+ * Every field, its default, range and bare-number unit is in the field table
+ * (fields.ts), which this file reads through `FieldReader.field`, and in
+ * docs/scenario-reference.md, generated from it. Here: the rules between
+ * fields (radius or density, transits or duration, noise or ground, the
+ * planet smaller than its star, the planet transiting, the moon clear of the
+ * planet) and the cautions on odd but legal inputs.
  */
 import { DAY_S, HOUR_S, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
 import { chenKippingRadius } from '../physics/massRadius.js';
