@@ -10,7 +10,7 @@
  * planet smaller than its star, the planet transiting, the moon clear of the
  * planet) and the cautions on odd but legal inputs.
  */
-import { DAY_S, HOUR_S, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
+import { DAY_S, HOUR_S, M_SUN_KG, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
 import { chenKippingRadius } from '../physics/massRadius.js';
 import { hillRadius } from '../physics/hillRadius.js';
 import { semiMajorAxis } from '../physics/keplerThirdLaw.js';
@@ -123,6 +123,14 @@ function peekMoonMass(moonRaw: unknown): number {
   }
 }
 
+/** A separation in the form the user wrote (planet radii, Hill radii are shown in km), or in km. */
+function separationAsWritten(m: number, raw: unknown, planet: PlanetSpec): string {
+  const nu = typeof raw === 'string' ? splitNumberUnit(raw) : null;
+  if (nu && nu.unit === 'Rp') return `${formatNumber(m / planet.radiusM)} Rp`;
+  if (nu && nu.unit === 'hill') return `${formatNumber(m / 1e3)} km`;
+  return lengthAsWritten(m, raw);
+}
+
 /** A length in the unit the user wrote `raw` in (or in km when it had none), for messages. */
 function lengthAsWritten(m: number, raw: unknown, bare?: readonly [number, string]): string {
   const u = writtenUnit(raw, 'length', bare);
@@ -151,6 +159,9 @@ export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): 
   if (Number.isFinite(radiusM) && Number.isFinite(star.radiusM) && radiusM >= star.radiusM) {
     const key = r.has('radius') ? 'radius' : 'mass_radius';
     r.problem(key, r.raw(key), `the planet must be smaller than its star: radius ${lengthAsWritten(radiusM, r.raw('radius'))} ≥ star radius ${lengthAsWritten(star.radiusM, r.raw('radius'))}`);
+  }
+  if (Number.isFinite(massKg) && Number.isFinite(star.massKg) && massKg >= star.massKg) {
+    r.problem('mass', r.raw('mass'), `a planet must be lighter than its star (${formatNumber(star.massKg / M_SUN_KG)} Msun)`);
   }
   const periodS = r.field('period');
   const eccentricity = r.field('eccentricity');
@@ -212,7 +223,12 @@ function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: 
   const k2 = r.field('love_number');
   const tidalQ = r.field('tidal_q');
   if (Number.isFinite(separationM) && Number.isFinite(radiusM) && separationM <= planet.radiusM + radiusM) {
-    r.problem('separation', r.raw('separation'), `the moon would touch the planet: separation must exceed planet radius + moon radius = ${((planet.radiusM + radiusM) / 1e3).toFixed(0)} km`);
+    const from = r.has('density') ? ' (the moon radius follows from its mass and density)' : '';
+    r.problem('separation', r.raw('separation'),
+      `the moon would touch the planet: separation must exceed planet radius + moon radius = ${separationAsWritten(planet.radiusM + radiusM, r.raw('separation'), planet)}${from}`);
+  }
+  if (Number.isFinite(massKg) && Number.isFinite(star.massKg) && massKg >= star.massKg) {
+    r.problem('mass', r.raw('mass'), `a moon must be lighter than the star (${formatNumber(star.massKg / M_SUN_KG)} Msun)`);
   }
   if (Number.isFinite(massKg) && Number.isFinite(planet.massKg) && massKg > planet.massKg) {
     cautions.push({

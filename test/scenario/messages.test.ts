@@ -157,6 +157,14 @@ describe('physically impossible inputs', () => {
     expect(problemsOf(base.replace('100 ppm per 1 h', '-5 ppm')).problems[0].path).toBe('instrument.noise');
   });
 
+  it('refuse a planet or a moon as heavy as the star', () => {
+    expect(problemsOf(base.replace('mass: 1 Mjup', 'mass: 2 Msun')).problems[0]).toMatchObject({ path: 'planet.mass', allowed: 'a planet must be lighter than its star (1 Msun)' });
+    const moon = problemsOf(base + 'moon: {mass: 10 Msun, density: 4 g/cm^3, separation: 12 Rp}\n').problems;
+    expect(moon.map((p) => p.path)).toEqual(['moon.separation', 'moon.mass']);
+    // The separation is told in planet radii, as written, and why the moon is so large.
+    expect(moon[0].allowed).toMatch(/planet radius \+ moon radius = [0-9.]+ Rp \(the moon radius follows from its mass and density\)/);
+  });
+
   it('refuse an exposure longer than the cadence, in the unit written', () => {
     const { problems } = problemsOf(base.replace('cadence: 2 min', 'cadence: 2 min, exposure: 300 s'));
     expect(problems[0].path).toBe('instrument.exposure');
