@@ -10,7 +10,7 @@
  * planet smaller than its star, the planet transiting, the moon clear of the
  * planet) and the cautions on odd but legal inputs.
  */
-import { DAY_S, HOUR_S, M_SUN_KG, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
+import { DAY_S, G, HOUR_S, M_SUN_KG, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
 import { chenKippingRadius } from '../physics/massRadius.js';
 import { hillRadius } from '../physics/hillRadius.js';
 import { semiMajorAxis } from '../physics/keplerThirdLaw.js';
@@ -172,9 +172,17 @@ export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): 
   // Semi-major axis of the barycentre orbit from Kepler's third law, with the moon's mass.
   const total = star.massKg + massKg + moonMassKg;
   const semiMajorAxisM = Number.isFinite(periodS + total) ? semiMajorAxis(periodS, total) : Number.NaN;
-  const aOverR = semiMajorAxisM / star.radiusM;
+  let aOverR = semiMajorAxisM / star.radiusM;
   let impact = Number.NaN;
   let incl = Number.NaN;
+  const touching = star.radiusM + (Number.isFinite(radiusM) ? radiusM : 0);
+  if (Number.isFinite(aOverR) && semiMajorAxisM <= touching) {
+    // Kepler's third law: the period of an orbit that grazes the star's surface, P = 2π √(a³ / G M).
+    const pMin = 2 * Math.PI * Math.sqrt(touching ** 3 / (G * total));
+    const u = writtenUnit(r.raw('period'), 'time', [DAY_S, 'days']) ?? { name: 'd', si: DAY_S };
+    r.problem('period', r.raw('period'), `the orbit would lie inside the star: the period must exceed ${formatNumber(pMin / u.si)} ${u.name} (semi-major axis above star radius + planet radius)`);
+    aOverR = Number.NaN;
+  }
   if (r.has('impact_parameter') && r.has('inclination')) {
     r.problem('inclination', r.raw('inclination'), 'give either impact_parameter or inclination, not both');
     r.raw('impact_parameter');
@@ -255,6 +263,8 @@ function readSeparation(r: FieldReader, star: StarSpec, planet: PlanetSpec, moon
         return Number.NaN;
       }
       if (nu.unit === 'Rp') return nu.num * planet.radiusM;
+      // A planet or star already reported as invalid: nothing to scale by.
+      if (!(planet.semiMajorAxisM > 0 && planet.massKg > 0 && star.massKg > 0 && moonMassKg >= 0) || !allFinite(planet.semiMajorAxisM, planet.massKg + star.massKg + moonMassKg)) return Number.NaN;
       // Hill radius of the circular orbit, R_H = a (M_P / 3 M*)^{1/3} (Hamilton & Burns 1992).
       return nu.num * hillRadius(planet.semiMajorAxisM, planet.massKg + moonMassKg, star.massKg);
     }
@@ -271,10 +281,13 @@ function readSeparation(r: FieldReader, star: StarSpec, planet: PlanetSpec, moon
 
 function readInstrument(r: FieldReader): InstrumentSpec {
   const cadenceS = r.field('cadence');
-  const exposureS = r.has('exposure') ? r.field('exposure') : (r.raw('exposure'), cadenceS);
+  let exposureS = r.has('exposure') ? r.field('exposure') : (r.raw('exposure'), cadenceS);
+  // Above the cadence by rounding only ("2 min" and "120.0000000001 s"): the cadence.
+  if (exposureS > cadenceS && exposureS <= cadenceS * (1 + 1e-12)) exposureS = cadenceS;
   if (Number.isFinite(exposureS) && Number.isFinite(cadenceS) && exposureS > cadenceS * (1 + 1e-12)) {
     const u = writtenUnit(r.raw('exposure'), 'time', [MINUTE_S, 'minutes']) ?? { name: 'min', si: MINUTE_S };
     r.problem('exposure', r.raw('exposure'), `the exposure cannot be longer than the cadence: at most ${formatNumber(cadenceS / u.si)} ${u.name}`);
+    exposureS = Number.NaN; // reported: nothing downstream (the ground budget) reads it
   }
   let noiseFraction = Number.NaN;
   let noiseTimescaleS = Number.NaN;
@@ -359,6 +372,10 @@ function readGround(r: FieldReader, exposureS: number, cadenceS: number): Ground
     floor: floorFraction > 0 ? { fraction: floorFraction, timescaleS: floorTimescaleS } : undefined,
   });
   const e = b.perExposure;
+  if (!(Number.isFinite(e.total) && e.total > 0)) {
+    r.problems.push({ path: 'instrument.ground', value: r.raw('magnitude'), allowed: 'these values give no finite noise level per exposure; check aperture, magnitude and throughput' });
+    return null;
+  }
   return {
     apertureM, band, magnitude, throughput, airmass, altitudeM, scintillationCoefficient, floorFraction, floorTimescaleS,
     terms: { photon: e.photon, scintillation: e.scintillation, floor: e.floor, total: e.total, dominant: b.dominantTerm },

@@ -180,6 +180,7 @@ export function parseQuantity(
   if (typeof value === 'number') {
     if (!Number.isFinite(value)) throw fieldError(path, value, allowed + ' (a finite number)');
     if (bareUnitSi === undefined) throw fieldError(path, value, allowed + ' (a unit is required)');
+    if (!Number.isFinite(value * bareUnitSi)) throw fieldError(path, value, allowed + ' (a finite number)');
     return value * bareUnitSi;
   }
   if (typeof value !== 'string') throw fieldError(path, value, allowed);
@@ -190,6 +191,7 @@ export function parseQuantity(
   if (!Number.isFinite(num)) throw fieldError(path, value, allowed);
   if (unitText === '') {
     if (bareUnitSi === undefined) throw fieldError(path, value, allowed + ' (a unit is required)');
+    if (!Number.isFinite(num * bareUnitSi)) throw fieldError(path, value, allowed + ' (a finite number)');
     return num * bareUnitSi;
   }
   const perUnit = unitValue(unitText, kind);

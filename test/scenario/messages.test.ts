@@ -157,6 +157,13 @@ describe('physically impossible inputs', () => {
     expect(problemsOf(base.replace('100 ppm per 1 h', '-5 ppm')).problems[0].path).toBe('instrument.noise');
   });
 
+  it('refuse an orbit inside the star, with the shortest period allowed', () => {
+    const { problems } = problemsOf(base.replace('period: 365.25 d', 'period: 1 h'));
+    expect(problems[0].path).toBe('planet.period');
+    // P = 2π √((R☉ + R_J)³ / G(M☉ + M_J)) = 11 585 s = 3.218 h (Kepler's third law, IAU 2015 nominal values; computed).
+    expect(problems[0].allowed).toMatch(/inside the star: the period must exceed 3\.218 h/);
+  });
+
   it('refuse a planet or a moon as heavy as the star', () => {
     expect(problemsOf(base.replace('mass: 1 Mjup', 'mass: 2 Msun')).problems[0]).toMatchObject({ path: 'planet.mass', allowed: 'a planet must be lighter than its star (1 Msun)' });
     const moon = problemsOf(base + 'moon: {mass: 10 Msun, density: 4 g/cm^3, separation: 12 Rp}\n').problems;
