@@ -12,8 +12,8 @@
  * Stellar                   S4 = 0.881
  *
  * C2…C4 follow from continuity at the transitions (as in the paper's model).
- * The paper's intrinsic scatter (Table 1: σ_R ≈ 4 %, 15 %, 7 %, 4 % in log R)
- * is not drawn: this gives the mean radius. Only the planetary regimes are
+ * The paper's intrinsic scatter (fractional σ_R = 4.03 %, 14.6 %, 7.37 %,
+ * 4.3 % by regime) is not drawn: this gives the mean radius. Only the planetary regimes are
  * offered; a mass at or above the Jovian–stellar transition is out of domain.
  */
 import { M_EARTH_KG, M_JUP_KG, M_SUN_KG, R_EARTH_M } from './constants.js';
