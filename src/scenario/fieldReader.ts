@@ -4,7 +4,7 @@
  * typo such as `perod:` is caught rather than silently ignored).
  */
 import { describeValue, type FieldProblem } from './errors.js';
-import { scenarioField, type ScenarioField } from './fields.js';
+import { SCENARIO_FIELDS, scenarioField, type ScenarioField } from './fields.js';
 import { formatNumber, parseQuantity, writtenUnit, type QuantityKind } from './units.js';
 
 /** Called with the dotted path of every field a reader looks at (tests check the field table with it). */
@@ -182,7 +182,7 @@ export class FieldReader {
   rejectUnknown(known: readonly string[] = []): void {
     for (const k of Object.keys(this.obj)) {
       if (!this.seen.has(k) && !known.includes(k)) {
-        const allowedKeys = [...new Set([...this.seen, ...known])].sort();
+        const allowedKeys = [...new Set([...this.seen, ...known, ...tableChildren(this.prefix)])].sort();
         this.problems.push({
           path: this.path(k),
           value: this.obj[k],
@@ -191,6 +191,12 @@ export class FieldReader {
       }
     }
   }
+}
+
+/** Keys the field table lists directly under a scenario block (none for the top level or other files). */
+function tableChildren(prefix: string): string[] {
+  if (!prefix) return [];
+  return SCENARIO_FIELDS.filter((f) => f.path.startsWith(prefix + '.') && !f.path.slice(prefix.length + 1).includes('.')).map((f) => f.path.slice(prefix.length + 1));
 }
 
 function kindNeed(kind: QuantityKind, bare?: [number, string]): string {

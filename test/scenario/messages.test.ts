@@ -104,6 +104,12 @@ describe('scenario problem messages', () => {
     expect(twice.problems).toMatchObject([{ path: '(YAML syntax)', line: 13, column: 1 }]);
   });
 
+  it('suggest a field of the block for a misspelt key, also one the file does not use', () => {
+    const { problems } = problemsOf(base.replace('transits: 4', 'durration: 3 yr'));
+    const typo = problems.find((p) => p.path === 'observation.durration');
+    expect(typo?.allowed).toMatch(/allowed keys here: .*duration.*transits.*\(did you mean "duration"\?\)/);
+  });
+
   it('escape control characters in keys, names and values', () => {
     const evil = base.replace('name: Test system', 'name: Test system\n"\\e[31mred\\u0007": 1').replace('teff: 5772 K', 'teff: "\\e[2J"');
     const { message } = problemsOf(evil);
