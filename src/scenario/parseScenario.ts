@@ -63,9 +63,14 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   return scenario;
 }
 
+/** The scenario's cautions as "path: message" texts, for a command's list of notes. */
+export function cautionNotes(s: Scenario): string[] {
+  return (s.cautions ?? []).map((c) => `${c.path}: ${c.message}`);
+}
+
 /** The scenario's cautions as "note:" lines for stderr ('' when none). */
 export function formatCautions(s: Scenario): string {
-  return (s.cautions ?? []).map((c) => `note: ${c.path}: ${c.message}\n`).join('');
+  return cautionNotes(s).map((n) => `note: ${n}\n`).join('');
 }
 
 function allFinite(...xs: number[]): boolean {
