@@ -25,7 +25,7 @@ import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
 import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../photometry/transitWindows.js';
 import { InputError } from '../scenario/errors.js';
-import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
+import { parseYamlWithLines, withLines, type SourcePosition } from '../scenario/loadScenario.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import type {
@@ -51,7 +51,7 @@ export function evaluationText(e: BudgetEvaluation): string {
   return `${p3(e.probability)} [${p3(e.lower)}, ${p3(e.upper)}]`;
 }
 
-function loadDoc(scenario: unknown): { doc: unknown; source: string; lineOf: ((path: string) => number | null) | null } {
+function loadDoc(scenario: unknown): { doc: unknown; source: string; lineOf: ((path: string) => SourcePosition | null) | null } {
   if (typeof scenario !== 'string') return { doc: scenario, source: 'scenario', lineOf: null };
   let text: string;
   try {
@@ -60,8 +60,8 @@ function loadDoc(scenario: unknown): { doc: unknown; source: string; lineOf: ((p
     const code = (e as NodeJS.ErrnoException).code;
     throw new InputError([{ path: 'SCENARIO', value: scenario, allowed: code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? String(e)})` }]);
   }
-  const { value, lineOf } = parseYamlWithLines(text, scenario);
-  return { doc: value, source: scenario, lineOf };
+  const { value, positionOf } = parseYamlWithLines(text, scenario);
+  return { doc: value, source: scenario, lineOf: positionOf };
 }
 
 function withoutBlocks(doc: unknown): Record<string, unknown> {

@@ -1,6 +1,7 @@
 /** `moonsieve limits SCENARIO [--json]`: analytic answers for one planet and moon. */
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/loadScenario.js';
+import { formatCautions } from '../scenario/parseScenario.js';
 import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
 import { assertObservable } from '../photometry/transitWindows.js';
 import { AU_M, DAY_S, HOUR_S, M_EARTH_KG } from '../physics/constants.js';
@@ -16,6 +17,7 @@ export function registerLimits(program: Command, io: CliIo): void {
     .action((scenarioPath: string, opts: { json?: boolean }) => {
       const scenario = loadScenario(scenarioPath);
       assertObservable(scenario, scenarioPath);
+      io.err(formatCautions(scenario)); // odd but legal inputs, as note: lines
       const limits = computeLimits(scenario);
       io.out(opts.json ? JSON.stringify(limits, null, 2) + '\n' : formatLimits(scenario, limits));
     });

@@ -4,7 +4,7 @@
  * prints one clear message and exits with code 2, without a stack trace.
  */
 import { Command, CommanderError } from 'commander';
-import { InputError } from '../scenario/errors.js';
+import { escapeControl, InputError } from '../scenario/errors.js';
 import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_INTERRUPTED, EXIT_OK } from './exitCodes.js';
 import { registerSimulate } from './simulateCommand.js';
 import { registerLimits } from './limitsCommand.js';
@@ -46,7 +46,10 @@ export function buildProgram(io: CliIo): Command {
 }
 
 /** Run the CLI; resolves to the process exit code. */
-export async function main(argv: string[], io: CliIo = defaultIo): Promise<number> {
+export async function main(argv: string[], rawIo: CliIo = defaultIo): Promise<number> {
+  // Everything printed may carry text from the user's files and arguments (names, keys, values):
+  // control characters are written as \uXXXX, never sent raw to the terminal (newlines kept).
+  const io: CliIo = { out: (t) => rawIo.out(escapeControl(t)), err: (t) => rawIo.err(escapeControl(t)) };
   const program = buildProgram(io);
   try {
     await program.parseAsync(argv);

@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import { join } from 'node:path';
 import { loadScenario } from '../scenario/loadScenario.js';
+import { formatCautions } from '../scenario/parseScenario.js';
 import { InputError } from '../scenario/errors.js';
 import { fitOf, simulateScenario, simulationTables, tdvOf, ttvOf } from '../photometry/simulateScenario.js';
 import type { Scenario } from '../scenario/types.js';
@@ -34,6 +35,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
       const scenario = loadScenario(scenarioPath);
       checkOutputDir(opts.out === undefined ? 'output folder (default from the scenario name)' : '--out', opts.out ?? defaultOutDir(scenario.name));
       assertObservable(scenario, scenarioPath);
+      io.err(formatCautions(scenario)); // odd but legal inputs, as note: lines
       const noiseless = opts.noiseless === true;
       const sim = simulateScenario(scenario, { noiseless, realization });
       const outDir = opts.out ?? defaultOutDir(scenario.name);

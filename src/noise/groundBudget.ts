@@ -24,14 +24,38 @@
  */
 
 /**
- * V-band photon flux of a V = 0 star above the atmosphere, photons s⁻¹ m⁻²:
- * f_λ Δλ λ_eff/(hc) with f_λ = 363.1e-11 erg cm⁻² s⁻¹ Å⁻¹ and λ_eff = 0.545 µm
- * (Bessell, Castelli & Plez 1998, A&A 333, 231, Table A2) and Δλ = 0.085 µm
- * (Bessell 1990, PASP 102, 1181, FWHM) — table values from memory, to be
- * verified; 3.631e-2 W m⁻² µm⁻¹·0.085 µm / 3.645e-19 J = 8.47e9.
- * Pass your own zero point for other bands or a measured system.
+ * Johnson–Cousins UBVRI zero points: flux density of a magnitude-0 star, Jy,
+ * effective wavelength, µm, and fractional bandwidth Δλ/λ (Bessell 1979,
+ * PASP 91, 589, as tabulated in J. Huchra's notes on magnitudes,
+ * https://lweb.cfa.harvard.edu/~dfabricant/huchra/ay145/mags.html).
  */
-export const V_BAND_ZERO_POINT_PHOTONS_PER_S_M2 = 8.47e9;
+export const BAND_ZERO_POINTS = {
+  U: { fluxJy: 1810, lambdaUm: 0.36, dLambdaOverLambda: 0.15 },
+  B: { fluxJy: 4260, lambdaUm: 0.44, dLambdaOverLambda: 0.22 },
+  V: { fluxJy: 3640, lambdaUm: 0.55, dLambdaOverLambda: 0.16 },
+  R: { fluxJy: 3080, lambdaUm: 0.64, dLambdaOverLambda: 0.23 },
+  I: { fluxJy: 2550, lambdaUm: 0.79, dLambdaOverLambda: 0.19 },
+} as const;
+
+export type MagnitudeBand = keyof typeof BAND_ZERO_POINTS;
+
+/** Planck constant, J s (exact, SI 2019). */
+const PLANCK_J_S = 6.62607015e-34;
+
+/**
+ * Photon flux of a magnitude-0 star in a band above the atmosphere, photons
+ * s⁻¹ m⁻²: N = f_ν Δν / (hν) = f_ν (Δλ/λ) / h, since Δν/ν = Δλ/λ for a narrow
+ * band (1 Jy = 10⁻²⁶ W m⁻² Hz⁻¹; 1 Jy·(Δλ/λ)/h = 1.51e7 photons s⁻¹ m⁻² per
+ * unit Δλ/λ, as in Huchra's notes).
+ */
+export function bandZeroPointPhotons(band: MagnitudeBand): number {
+  const z = BAND_ZERO_POINTS[band];
+  if (!z) throw new RangeError(`band must be one of ${Object.keys(BAND_ZERO_POINTS).join(', ')}, got ${String(band)}`);
+  return (z.fluxJy * 1e-26 * z.dLambdaOverLambda) / PLANCK_J_S;
+}
+
+/** V-band photon flux of a V = 0 star, photons s⁻¹ m⁻² (Bessell 1979 zero point): 8.79e9. */
+export const V_BAND_ZERO_POINT_PHOTONS_PER_S_M2 = bandZeroPointPhotons('V');
 
 /** Scale height of the turbulence, m (Young 1967; Osborn et al. 2015, eq. 7). */
 const TURBULENCE_SCALE_HEIGHT_M = 8000;

@@ -4,7 +4,19 @@
  * typo such as `perod:` is caught rather than silently ignored).
  */
 import { describeValue, type FieldProblem } from './errors.js';
-import { parseQuantity, type QuantityKind } from './units.js';
+import { SCENARIO_FIELDS, scenarioField, type ScenarioField } from './fields.js';
+import { formatNumber, parseQuantity, writtenUnit, type QuantityKind } from './units.js';
+
+/** Called with the dotted path of every field a reader looks at (tests check the field table with it). */
+let fieldReadHook: ((path: string) => void) | null = null;
+export function setFieldReadHook(hook: ((path: string) => void) | null): void {
+  fieldReadHook = hook;
+}
+
+/** Options of `quantity`/`number` taken from a field-table entry. */
+export interface TableOptions {
+  required?: boolean;
+}
 
 export class FieldReader {
   readonly problems: FieldProblem[];
@@ -35,11 +47,46 @@ export class FieldReader {
 
   raw(key: string): unknown {
     this.seen.add(key);
+    if (fieldReadHook) fieldReadHook(this.path(key));
     return this.obj[key];
   }
 
   problem(key: string, value: unknown, allowed: string): void {
     this.problems.push({ path: this.path(key), value, allowed });
+  }
+
+  /** The table entry of a key of this mapping (src/scenario/fields.ts); a missing entry is a programming error. */
+  entry(key: string): ScenarioField {
+    const f = scenarioField(this.path(key));
+    if (!f) throw new Error(`scenario field ${this.path(key)} is missing from the field table (src/scenario/fields.ts)`);
+    return f;
+  }
+
+  /**
+   * A quantity, plain number or integer read with the default and allowed
+   * range of its field-table entry; an out-of-range value is told the range
+   * in the unit it was written in.
+   */
+  field(key: string, opts: TableOptions = {}): number {
+    const f = this.entry(key);
+    const common = {
+      required: opts.required,
+      default: typeof f.default === 'number' ? f.default : undefined,
+      min: f.min,
+      minExclusive: f.minExclusive,
+      max: f.max,
+      maxExclusive: f.maxExclusive,
+      table: f,
+    };
+    if (f.type === 'quantity') return this.quantity(key, f.kind as QuantityKind, { ...common, bare: f.bare as [number, string] | undefined });
+    if (f.type === 'number' || f.type === 'integer') return this.number(key, { ...common, integer: f.type === 'integer' });
+    throw new Error(`scenario field ${f.path} is a ${f.type}, not a number`);
+  }
+
+  /** One of the words of a choice field of the table, or its default. */
+  fieldChoice<T extends string>(key: string): T {
+    const f = this.entry(key);
+    return this.choice(key, (f.choices ?? []) as readonly T[], (f.default ?? '') as T);
   }
 
   /**
@@ -58,6 +105,7 @@ export class FieldReader {
       max?: number;
       maxExclusive?: boolean;
       rangeText?: string;
+      table?: ScenarioField;
     } = {},
   ): number {
     const value = this.raw(key);
@@ -76,7 +124,8 @@ export class FieldReader {
       return Number.NaN;
     }
     if (!inRange(si, opts)) {
-      this.problem(key, value, opts.rangeText ?? rangeText(opts));
+      const written = writtenUnit(value, kind, opts.bare);
+      this.problem(key, value, opts.rangeText ?? (opts.table ? tableRangeText(opts.table, written) : rangeText(opts, written)));
       return Number.NaN;
     }
     return si;
@@ -94,6 +143,7 @@ export class FieldReader {
       maxExclusive?: boolean;
       integer?: boolean;
       rangeText?: string;
+      table?: ScenarioField;
     } = {},
   ): number {
     const value = this.raw(key);
@@ -104,7 +154,7 @@ export class FieldReader {
     }
     const n = typeof value === 'number' ? value : typeof value === 'string' && value.trim() !== '' ? Number(value) : NaN;
     if (!Number.isFinite(n) || (opts.integer && !Number.isInteger(n)) || !inRange(n, opts)) {
-      this.problem(key, value, opts.rangeText ?? `expected ${opts.integer ? 'an integer' : 'a number'}${rangeSuffix(opts)}`);
+      this.problem(key, value, opts.rangeText ?? (opts.table ? tableRangeText(opts.table, null) : `expected ${opts.integer ? 'an integer' : 'a number'}${rangeSuffix(opts)}`));
       return Number.NaN;
     }
     return n;
@@ -132,7 +182,7 @@ export class FieldReader {
   rejectUnknown(known: readonly string[] = []): void {
     for (const k of Object.keys(this.obj)) {
       if (!this.seen.has(k) && !known.includes(k)) {
-        const allowedKeys = [...new Set([...this.seen, ...known])].sort();
+        const allowedKeys = [...new Set([...this.seen, ...known, ...tableChildren(this.prefix)])].sort();
         this.problems.push({
           path: this.path(k),
           value: this.obj[k],
@@ -141,6 +191,12 @@ export class FieldReader {
       }
     }
   }
+}
+
+/** Keys the field table lists directly under a scenario block (none for the top level or other files). */
+function tableChildren(prefix: string): string[] {
+  if (!prefix) return [];
+  return SCENARIO_FIELDS.filter((f) => f.path.startsWith(prefix + '.') && !f.path.slice(prefix.length + 1).includes('.')).map((f) => f.path.slice(prefix.length + 1));
 }
 
 function kindNeed(kind: QuantityKind, bare?: [number, string]): string {
@@ -160,8 +216,34 @@ function rangeSuffix(o: { min?: number; minExclusive?: boolean; max?: number; ma
   return parts.length ? ` ${parts.join(' and ')}` : '';
 }
 
-function rangeText(o: { min?: number; minExclusive?: boolean; max?: number; maxExclusive?: boolean }): string {
-  return `out of range: must be${rangeSuffix(o)} (SI)`;
+/** Out of range, stated in the unit the value was written in when it had one, else in SI. */
+function rangeText(o: { min?: number; minExclusive?: boolean; max?: number; maxExclusive?: boolean }, written: { name: string; si: number } | null): string {
+  return written ? `out of range: must be${boundsText(o, written)}` : `out of range: must be${rangeSuffix(o)} (SI)`;
+}
+
+/**
+ * The allowed range of a table field in words: in the unit the value was
+ * written in (`written`), and also in the table's unit when that differs.
+ */
+export function tableRangeText(f: ScenarioField, written: { name: string; si: number } | null): string {
+  const what = f.noun ?? (f.type === 'integer' ? 'a whole number' : f.type === 'quantity' || f.type === 'level' ? `a ${f.kind ?? 'value'}` : 'a number');
+  const show = f.show ? { name: f.show[1], si: f.show[0] } : null;
+  const unit = written ?? show;
+  let text = `expected ${what}${boundsText(f, unit)}`;
+  if (written && show && written.name !== show.name && (f.min !== undefined || f.max !== undefined)) text += ` (${boundsText(f, show).trim()})`;
+  if (f.rangeNote) text += `; ${f.rangeNote}`;
+  return text;
+}
+
+/** " ≥ a U and ≤ b U" for a table field, its bounds divided by the unit's SI size. */
+export function boundsText(f: Pick<ScenarioField, 'min' | 'minExclusive' | 'max' | 'maxExclusive'>, unit: { name: string; si: number } | null): string {
+  const u = unit && unit.name !== 'a fraction' ? ` ${unit.name}` : '';
+  const k = unit ? unit.si : 1;
+  if (f.min !== undefined && f.max !== undefined && !f.minExclusive && !f.maxExclusive) return ` from ${formatNumber(f.min / k)} to ${formatNumber(f.max / k)}${u}`;
+  const parts: string[] = [];
+  if (f.min !== undefined) parts.push(`${f.minExclusive ? '>' : '≥'} ${formatNumber(f.min / k)}${u}`);
+  if (f.max !== undefined) parts.push(`${f.maxExclusive ? '<' : '≤'} ${formatNumber(f.max / k)}${u}`);
+  return parts.length ? ` ${parts.join(' and ')}` : '';
 }
 
 /** A near spelling, for typos (edit distance ≤ 2). */

@@ -3,38 +3,26 @@
  * into a validated, SI-unit `Scenario`. Every problem is reported at once,
  * each naming its path, the value and what is allowed.
  *
- * Schema (bare numbers are read in the unit given in brackets):
- *   name, seed (integer ≥ 0)
- *   star:   mass, radius, teff [K], age (default 5 Gyr), luminosity (optional,
- *           default σ_SB 4πR²T⁴), limb_darkening: {u1, u2} or {q1, q2}
- *   planet: mass, radius, period [d], eccentricity (0), periastron [deg] (90),
- *           impact_parameter or inclination [deg] (default b = 0), albedo (0.3),
- *           love_number (0.5), tidal_q (1e5)
- *   moon:   mass, radius or density, separation (length, or "N Rp" planet
- *           radii, or "f hill" fraction of the Hill radius a(M_P/3M*)^{1/3}),
- *           eccentricity (0), inclination [deg] (0), node [deg] (0),
- *           periapsis [deg] (0), phase [deg] (0), direction prograde|retrograde,
- *           albedo (0.3), love_number (0.3), tidal_q (100)
- *   instrument: cadence [min], exposure [min] (default = cadence),
- *           noise ("200 ppm per 1 h"), or ground: {aperture, magnitude, throughput,
- *           airmass, altitude, scintillation_coefficient, floor} (Osborn et al. 2015
- *           scintillation, photon noise, floor), red_noise: {model: power_law,
- *           amplitude: "150 ppm per 30 min", slope} or {model: drw, amplitude, timescale}
- *   observation: transits (integer ≥ 1), t0 [BJD_TDB days] (2461000.0),
- *           baseline [h] (3 h out of transit on each side), duty_cycle (1),
- *           gap_length [min] (20 min), missed_fraction (0)
- *   detection: false_alarm (fraction, default 1 %): false-alarm probability per channel
+ * Every field, its default, range and bare-number unit is in the field table
+ * (fields.ts), which this file reads through `FieldReader.field`, and in
+ * docs/scenario-reference.md, generated from it. Here: the rules between
+ * fields (radius or density, transits or duration, noise or ground, the
+ * planet smaller than its star, the planet transiting, the moon clear of the
+ * planet) and the cautions on odd but legal inputs.
  */
-import { DAY_S, HOUR_S, JULIAN_YEAR_S, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
+import { DAY_S, G, HOUR_S, M_SUN_KG, MINUTE_S, SIGMA_SB } from '../physics/constants.js';
+import { chenKippingRadius } from '../physics/massRadius.js';
 import { hillRadius } from '../physics/hillRadius.js';
 import { semiMajorAxis } from '../physics/keplerThirdLaw.js';
 import { impactParameter, inclinationFromImpact } from '../physics/transitDuration.js';
 import { isPhysicalQuadratic, uFromQ } from '../photometry/kippingLimbDarkening.js';
 import { InputError, type FieldProblem } from './errors.js';
 import { FieldReader } from './fieldReader.js';
-import { parseQuantity, splitNumberUnit } from './units.js';
-import { groundNoiseBudget } from '../noise/groundBudget.js';
-import type { DetectionSpec, GroundSpec, InstrumentSpec, RedNoiseSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, StarSpec } from './types.js';
+import { formatNumber, parseQuantity, splitNumberUnit, writtenUnit } from './units.js';
+import { bandZeroPointPhotons, groundNoiseBudget } from '../noise/groundBudget.js';
+import type {
+  DetectionSpec, GroundSpec, InstrumentSpec, RedNoiseSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, ScenarioCaution, StarSpec,
+} from './types.js';
 
 const DEG = Math.PI / 180;
 
@@ -43,9 +31,12 @@ export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = ['sweep', 'budget'];
 
 export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const problems: FieldProblem[] = [];
+  const cautions: ScenarioCaution[] = [];
   const top = new FieldReader(doc, '', problems);
+  // A document that is not a mapping: that one problem, not one per missing field.
+  if (problems.length > 0) throw new InputError(problems, source);
   const name = top.string('name', 'unnamed');
-  const seed = top.number('seed', { default: 1, min: 0, max: 2 ** 32 - 1, integer: true, rangeText: 'expected an integer from 0 to 4294967295' });
+  const seed = top.field('seed');
 
   const star = readStar(new FieldReader(top.raw('star'), 'star', problems));
   if (!top.has('star')) problems.push({ path: 'star', value: undefined, allowed: 'required: the host star (mass, radius, teff, limb_darkening)' });
@@ -53,16 +44,33 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   if (!top.has('planet')) problems.push({ path: 'planet', value: undefined, allowed: 'required: the transiting planet (mass, radius, period)' });
   const moonRaw = top.raw('moon');
   const planet = readPlanet(planetReader, star, peekMoonMass(moonRaw));
-  const moon = moonRaw === undefined || moonRaw === null ? null : readMoon(new FieldReader(moonRaw, 'moon', problems), star, planet);
+  const moon = moonRaw === undefined || moonRaw === null ? null : readMoon(new FieldReader(moonRaw, 'moon', problems), star, planet, cautions);
   const instrument = readInstrument(new FieldReader(top.raw('instrument'), 'instrument', problems));
   if (!top.has('instrument')) problems.push({ path: 'instrument', value: undefined, allowed: 'required: cadence and noise' });
-  const observation = readObservation(new FieldReader(top.raw('observation'), 'observation', problems));
-  if (!top.has('observation')) problems.push({ path: 'observation', value: undefined, allowed: 'required: transits' });
+  const observation = readObservation(new FieldReader(top.raw('observation'), 'observation', problems), planet.periodS, cautions);
+  if (!top.has('observation')) problems.push({ path: 'observation', value: undefined, allowed: 'required: transits or duration' });
   const detection = readDetection(new FieldReader(top.raw('detection'), 'detection', problems));
   top.rejectUnknown(EXTRA_TOP_LEVEL_KEYS);
 
-  if (problems.length > 0) throw new InputError(dedupe(problems), source);
-  return { name, seed, star, planet, moon, instrument, observation, detection };
+  // A missing block is one problem, not one more per field it would hold.
+  const missing = ['star', 'planet', 'instrument', 'observation'].filter((k) => !top.has(k));
+  const kept = problems.filter((p) => !missing.some((k) => p.path.startsWith(k + '.')));
+  if (kept.length > 0) throw new InputError(dedupe(kept), source);
+  const scenario: Scenario = { name, seed, star, planet, moon, instrument, observation, detection };
+  // Not enumerable: the cautions are messages, not part of the model, so they stay out of the
+  // canonical JSON that seeds and identifies the no-moon sets (sweep/nullSet.ts) and out of copies.
+  Object.defineProperty(scenario, 'cautions', { value: cautions, enumerable: false, writable: true, configurable: true });
+  return scenario;
+}
+
+/** The scenario's cautions as "path: message" texts, for a command's list of notes. */
+export function cautionNotes(s: Scenario): string[] {
+  return (s.cautions ?? []).map((c) => `${c.path}: ${c.message}`);
+}
+
+/** The scenario's cautions as "note:" lines for stderr ('' when none). */
+export function formatCautions(s: Scenario): string {
+  return cautionNotes(s).map((n) => `note: ${n}\n`).join('');
 }
 
 function allFinite(...xs: number[]): boolean {
@@ -80,11 +88,11 @@ function dedupe(problems: FieldProblem[]): FieldProblem[] {
 }
 
 export function readStar(r: FieldReader): StarSpec {
-  const massKg = r.quantity('mass', 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass' });
-  const radiusM = r.quantity('radius', 'length', { min: 0, minExclusive: true, rangeText: 'must be a positive length' });
-  const teffK = r.quantity('teff', 'temperature', { bare: [1, 'K'], min: 1000, max: 60000, rangeText: 'expected an effective temperature from 1000 K to 60000 K' });
-  const ageS = r.quantity('age', 'time', { default: 5e9 * JULIAN_YEAR_S, min: 0, minExclusive: true, rangeText: 'must be a positive time' });
-  const given = r.quantity('luminosity', 'power', { required: false, min: 0, minExclusive: true, rangeText: 'must be a positive power' });
+  const massKg = r.field('mass');
+  const radiusM = r.field('radius');
+  const teffK = r.field('teff');
+  const ageS = r.field('age');
+  const given = r.field('luminosity', { required: false });
   // Stefan–Boltzmann law: L = 4πR²σT⁴.
   const luminosityW = Number.isFinite(given) ? given : 4 * Math.PI * radiusM * radiusM * SIGMA_SB * teffK ** 4;
   const ld = new FieldReader(r.raw('limb_darkening'), 'star.limb_darkening', r.problems);
@@ -93,13 +101,13 @@ export function readStar(r: FieldReader): StarSpec {
   if (!r.has('limb_darkening')) {
     r.problem('limb_darkening', undefined, 'required: quadratic coefficients {u1, u2} or Kipping (2013) {q1, q2}');
   } else if (ld.has('q1') || ld.has('q2')) {
-    const q1 = ld.number('q1', { min: 0, max: 1 });
-    const q2 = ld.number('q2', { min: 0, max: 1 });
+    const q1 = ld.field('q1');
+    const q2 = ld.field('q2');
     ({ u1, u2 } = uFromQ(q1, q2));
     if (ld.has('u1') || ld.has('u2')) ld.problem('u1', ld.raw('u1') ?? ld.raw('u2'), 'give either u1, u2 or q1, q2, not both');
   } else {
-    u1 = ld.number('u1');
-    u2 = ld.number('u2');
+    u1 = ld.field('u1');
+    u2 = ld.field('u2');
     if (Number.isFinite(u1) && Number.isFinite(u2) && !isPhysicalQuadratic(u1, u2)) {
       r.problem('limb_darkening', { u1, u2 }, 'unphysical quadratic limb darkening: need u1 + u2 ≤ 1, u1 ≥ 0, u1 + 2·u2 ≥ 0 (Kipping 2013)');
     }
@@ -120,29 +128,74 @@ function peekMoonMass(moonRaw: unknown): number {
   }
 }
 
+/** A separation in the form the user wrote (planet radii, Hill radii are shown in km), or in km. */
+function separationAsWritten(m: number, raw: unknown, planet: PlanetSpec): string {
+  const nu = typeof raw === 'string' ? splitNumberUnit(raw) : null;
+  if (nu && nu.unit === 'Rp') return `${formatNumber(m / planet.radiusM)} Rp`;
+  if (nu && nu.unit === 'hill') return `${formatNumber(m / 1e3)} km`;
+  return lengthAsWritten(m, raw);
+}
+
+/** A length in the unit the user wrote `raw` in (or in km when it had none), for messages. */
+function lengthAsWritten(m: number, raw: unknown, bare?: readonly [number, string]): string {
+  const u = writtenUnit(raw, 'length', bare);
+  return u ? `${formatNumber(m / u.si)} ${u.name}` : `${formatNumber(m / 1e3)} km`;
+}
+
 export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): PlanetSpec {
-  const massKg = r.quantity('mass', 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass' });
-  const radiusM = r.quantity('radius', 'length', { min: 0, minExclusive: true, rangeText: 'must be a positive length' });
-  const periodS = r.quantity('period', 'time', { bare: [DAY_S, 'days'], min: 0, minExclusive: true, rangeText: 'must be a positive time' });
-  const eccentricity = r.number('eccentricity', { default: 0, min: 0, max: 0.9, rangeText: 'expected an eccentricity from 0 to 0.9' });
-  const omegaRad = r.quantity('periastron', 'angle', { bare: [DEG, 'degrees'], default: Math.PI / 2 });
-  const albedo = r.number('albedo', { default: 0.3, min: 0, max: 1 });
-  const k2 = r.number('love_number', { default: 0.5, min: 0, minExclusive: true, max: 1.5 });
-  const tidalQ = r.number('tidal_q', { default: 1e5, min: 1 });
+  const massKg = r.field('mass');
+  let radiusM = Number.NaN;
+  let massRadiusRelation: PlanetSpec['massRadiusRelation'] = null;
+  if (r.has('mass_radius')) {
+    massRadiusRelation = r.fieldChoice<'chen_kipping_2017'>('mass_radius');
+    if (r.has('radius')) {
+      r.problem('mass_radius', r.raw('mass_radius'), 'give either radius or a mass–radius relation, not both');
+      r.raw('radius');
+    } else if (Number.isFinite(massKg)) {
+      radiusM = chenKippingRadius(massKg);
+      if (!Number.isFinite(radiusM)) {
+        r.problem('mass', r.raw('mass'), 'mass_radius chen_kipping_2017 covers planets below the Jovian–stellar transition, 0.08 Msun (Chen & Kipping 2017, Table 1)');
+      }
+    }
+  } else {
+    if (!r.has('radius')) r.problem('radius', undefined, 'required: a length ("1 Rjup", "2.5 Rearth"), or name a mass–radius relation: mass_radius: chen_kipping_2017');
+    else radiusM = r.field('radius');
+  }
+  if (Number.isFinite(radiusM) && Number.isFinite(star.radiusM) && radiusM >= star.radiusM) {
+    const key = r.has('radius') ? 'radius' : 'mass_radius';
+    r.problem(key, r.raw(key), `the planet must be smaller than its star: radius ${lengthAsWritten(radiusM, r.raw('radius'))} ≥ star radius ${lengthAsWritten(star.radiusM, r.raw('radius'))}`);
+  }
+  if (Number.isFinite(massKg) && Number.isFinite(star.massKg) && massKg >= star.massKg) {
+    r.problem('mass', r.raw('mass'), `a planet must be lighter than its star (${formatNumber(star.massKg / M_SUN_KG)} Msun)`);
+  }
+  const periodS = r.field('period');
+  const eccentricity = r.field('eccentricity');
+  const omegaRad = r.field('periastron');
+  const albedo = r.field('albedo');
+  const k2 = r.field('love_number');
+  const tidalQ = r.field('tidal_q');
   // Semi-major axis of the barycentre orbit from Kepler's third law, with the moon's mass.
   const total = star.massKg + massKg + moonMassKg;
   const semiMajorAxisM = Number.isFinite(periodS + total) ? semiMajorAxis(periodS, total) : Number.NaN;
-  const aOverR = semiMajorAxisM / star.radiusM;
+  let aOverR = semiMajorAxisM / star.radiusM;
   let impact = Number.NaN;
   let incl = Number.NaN;
+  const touching = star.radiusM + (Number.isFinite(radiusM) ? radiusM : 0);
+  if (Number.isFinite(aOverR) && semiMajorAxisM <= touching) {
+    // Kepler's third law: the period of an orbit that grazes the star's surface, P = 2π √(a³ / G M).
+    const pMin = 2 * Math.PI * Math.sqrt(touching ** 3 / (G * total));
+    const u = writtenUnit(r.raw('period'), 'time', [DAY_S, 'days']) ?? { name: 'd', si: DAY_S };
+    r.problem('period', r.raw('period'), `the orbit would lie inside the star: the period must exceed ${formatNumber(pMin / u.si)} ${u.name} (semi-major axis above star radius + planet radius)`);
+    aOverR = Number.NaN;
+  }
   if (r.has('impact_parameter') && r.has('inclination')) {
     r.problem('inclination', r.raw('inclination'), 'give either impact_parameter or inclination, not both');
     r.raw('impact_parameter');
   } else if (r.has('inclination')) {
-    incl = r.quantity('inclination', 'angle', { bare: [DEG, 'degrees'], min: 0, max: Math.PI, rangeText: 'expected an inclination from 0 to 180 deg' });
+    incl = r.field('inclination');
     if (allFinite(aOverR, incl, eccentricity, omegaRad)) impact = Math.abs(impactParameter(aOverR, incl, eccentricity, omegaRad));
   } else {
-    impact = r.number('impact_parameter', { default: 0, min: 0, rangeText: 'expected an impact parameter ≥ 0 (stellar radii)' });
+    impact = r.field('impact_parameter');
     const bMax = (aOverR * (1 - eccentricity * eccentricity)) / (1 + eccentricity * Math.sin(omegaRad));
     if (allFinite(aOverR, impact, eccentricity, omegaRad) && impact < bMax) incl = inclinationFromImpact(impact, aOverR, eccentricity, omegaRad);
   }
@@ -152,33 +205,49 @@ export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): 
       `the planet would not transit: impact parameter ${impact.toFixed(3)} must be below 1 + Rp/R* = ${(1 + p).toFixed(3)}`);
   }
   r.rejectUnknown();
-  return { massKg, radiusM, periodS, eccentricity, omegaRad, inclinationRad: incl, impactParameter: impact, semiMajorAxisM, albedo, k2, tidalQ };
+  const planet: PlanetSpec = { massKg, radiusM, periodS, eccentricity, omegaRad, inclinationRad: incl, impactParameter: impact, semiMajorAxisM, albedo, k2, tidalQ };
+  // Present only when used, so scenarios without it keep their canonical JSON (and no-moon set seeds).
+  if (massRadiusRelation) planet.massRadiusRelation = massRadiusRelation;
+  return planet;
 }
 
-function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec): MoonSpec {
-  const massKg = r.quantity('mass', 'mass', { min: 0, minExclusive: true, rangeText: 'must be a positive mass' });
+function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: ScenarioCaution[]): MoonSpec {
+  const massKg = r.field('mass');
   let radiusM = Number.NaN;
   if (r.has('radius') && r.has('density')) {
     r.problem('density', r.raw('density'), 'give either radius or density, not both');
     r.raw('radius');
   } else if (r.has('density')) {
-    const rho = r.quantity('density', 'density', { min: 0, minExclusive: true, rangeText: 'must be a positive density' });
+    const rho = r.field('density');
     radiusM = Math.cbrt((3 * massKg) / (4 * Math.PI * rho));
+  } else if (!r.has('radius')) {
+    r.problem('radius', r.raw('radius'), 'required: radius (a length) or density (e.g. "3 g/cm^3")');
   } else {
-    radiusM = r.quantity('radius', 'length', { min: 0, minExclusive: true, rangeText: 'required: radius (a length) or density (e.g. "3 g/cm^3")' });
+    radiusM = r.field('radius');
   }
   const separationM = readSeparation(r, star, planet, massKg);
-  const eccentricity = r.number('eccentricity', { default: 0, min: 0, max: 0.9, rangeText: 'expected an eccentricity from 0 to 0.9' });
-  const inclinationRad = r.quantity('inclination', 'angle', { bare: [DEG, 'degrees'], default: 0, min: 0, max: Math.PI, rangeText: 'expected an inclination to the planet orbit from 0 to 180 deg' });
-  const nodeRad = r.quantity('node', 'angle', { bare: [DEG, 'degrees'], default: 0 });
-  const periapsisRad = r.quantity('periapsis', 'angle', { bare: [DEG, 'degrees'], default: 0 });
-  const phaseRad = r.quantity('phase', 'angle', { bare: [DEG, 'degrees'], default: 0 });
-  const retrograde = r.choice('direction', ['prograde', 'retrograde'] as const, 'prograde') === 'retrograde';
-  const albedo = r.number('albedo', { default: 0.3, min: 0, max: 1 });
-  const k2 = r.number('love_number', { default: 0.3, min: 0, minExclusive: true, max: 1.5 });
-  const tidalQ = r.number('tidal_q', { default: 100, min: 1 });
+  const eccentricity = r.field('eccentricity');
+  const inclinationRad = r.field('inclination');
+  const nodeRad = r.field('node');
+  const periapsisRad = r.field('periapsis');
+  const phaseRad = r.field('phase');
+  const retrograde = r.fieldChoice('direction') === 'retrograde';
+  const albedo = r.field('albedo');
+  const k2 = r.field('love_number');
+  const tidalQ = r.field('tidal_q');
   if (Number.isFinite(separationM) && Number.isFinite(radiusM) && separationM <= planet.radiusM + radiusM) {
-    r.problem('separation', r.raw('separation'), `the moon would touch the planet: separation must exceed planet radius + moon radius = ${((planet.radiusM + radiusM) / 1e3).toFixed(0)} km`);
+    const from = r.has('density') ? ' (the moon radius follows from its mass and density)' : '';
+    r.problem('separation', r.raw('separation'),
+      `the moon would touch the planet: separation must exceed planet radius + moon radius = ${separationAsWritten(planet.radiusM + radiusM, r.raw('separation'), planet)}${from}`);
+  }
+  if (Number.isFinite(massKg) && Number.isFinite(star.massKg) && massKg >= star.massKg) {
+    r.problem('mass', r.raw('mass'), `a moon must be lighter than the star (${formatNumber(star.massKg / M_SUN_KG)} Msun)`);
+  }
+  if (Number.isFinite(massKg) && Number.isFinite(planet.massKg) && massKg > planet.massKg) {
+    cautions.push({
+      path: 'moon.mass',
+      message: `the moon (${formatNumber(massKg / planet.massKg)} × the planet's mass) is heavier than its planet; the model still treats the first body as the planet that transits on the stated ephemeris and the second as the moon`,
+    });
   }
   r.rejectUnknown();
   return { massKg, radiusM, separationM, eccentricity, inclinationRad, nodeRad, periapsisRad, phaseRad, retrograde, albedo, k2, tidalQ };
@@ -199,6 +268,8 @@ function readSeparation(r: FieldReader, star: StarSpec, planet: PlanetSpec, moon
         return Number.NaN;
       }
       if (nu.unit === 'Rp') return nu.num * planet.radiusM;
+      // A planet or star already reported as invalid: nothing to scale by.
+      if (!(planet.semiMajorAxisM > 0 && planet.massKg > 0 && star.massKg > 0 && moonMassKg >= 0) || !allFinite(planet.semiMajorAxisM, planet.massKg + star.massKg + moonMassKg)) return Number.NaN;
       // Hill radius of the circular orbit, R_H = a (M_P / 3 M*)^{1/3} (Hamilton & Burns 1992).
       return nu.num * hillRadius(planet.semiMajorAxisM, planet.massKg + moonMassKg, star.massKg);
     }
@@ -214,15 +285,20 @@ function readSeparation(r: FieldReader, star: StarSpec, planet: PlanetSpec, moon
 }
 
 function readInstrument(r: FieldReader): InstrumentSpec {
-  const cadenceS = r.quantity('cadence', 'time', { bare: [MINUTE_S, 'minutes'], min: 0, minExclusive: true, rangeText: 'must be a positive time' });
-  const exposureS = r.quantity('exposure', 'time', { bare: [MINUTE_S, 'minutes'], default: cadenceS, min: 0, minExclusive: true, rangeText: 'must be a positive time' });
+  const cadenceS = r.field('cadence');
+  let exposureS = r.has('exposure') ? r.field('exposure') : (r.raw('exposure'), cadenceS);
+  // Above the cadence by rounding only ("2 min" and "120.0000000001 s"): the cadence.
+  if (exposureS > cadenceS && exposureS <= cadenceS * (1 + 1e-12)) exposureS = cadenceS;
   if (Number.isFinite(exposureS) && Number.isFinite(cadenceS) && exposureS > cadenceS * (1 + 1e-12)) {
-    r.problem('exposure', r.raw('exposure'), `the exposure cannot be longer than the cadence (${cadenceS / MINUTE_S} min)`);
+    const u = writtenUnit(r.raw('exposure'), 'time', [MINUTE_S, 'minutes']) ?? { name: 'min', si: MINUTE_S };
+    r.problem('exposure', r.raw('exposure'), `the exposure cannot be longer than the cadence: at most ${formatNumber(cadenceS / u.si)} ${u.name}`);
+    exposureS = Number.NaN; // reported: nothing downstream (the ground budget) reads it
   }
   let noiseFraction = Number.NaN;
   let noiseTimescaleS = Number.NaN;
   let ground: GroundSpec | null = null;
-  const noiseAllowed = 'expected a white-noise level with its timescale, e.g. "200 ppm per 1 h" or "800 ppm per 2 min"';
+  // A white level of 0 is allowed only beside red noise (some noise must remain).
+  const noiseAllowed = 'expected a white-noise level above 0 (0 only with red_noise) with its timescale, e.g. "200 ppm per 1 h" or "800 ppm per 2 min"; for a noiseless light curve use `moonsieve simulate --noiseless`';
   if (r.has('ground')) {
     if (r.has('noise')) r.problem('noise', r.raw('noise'), 'give either noise or a ground budget (instrument.ground), not both');
     ground = readGround(new FieldReader(r.raw('ground'), 'instrument.ground', r.problems), exposureS, cadenceS);
@@ -231,63 +307,69 @@ function readInstrument(r: FieldReader): InstrumentSpec {
   } else if (!r.has('noise')) {
     r.problem('noise', r.raw('noise'), `required: ${noiseAllowed}, or a ground budget (instrument.ground)`);
   } else {
-    ({ fraction: noiseFraction, timescaleS: noiseTimescaleS } = readLevelPer(r, 'noise', noiseAllowed, exposureS));
+    ({ fraction: noiseFraction, timescaleS: noiseTimescaleS } = readLevelPer(r, 'noise', noiseAllowed, exposureS, !r.has('red_noise')));
   }
   const redNoise = r.has('red_noise') ? readRedNoise(new FieldReader(r.raw('red_noise'), 'instrument.red_noise', r.problems)) : (r.raw('red_noise'), null);
   r.rejectUnknown();
   return { cadenceS, exposureS, noiseFraction, noiseTimescaleS, redNoise, ground };
 }
 
-/** A level stated at a timescale: "200 ppm per 1 h", or a bare fraction (then `fallbackTimescaleS`). */
-function readLevelPer(r: FieldReader, key: string, allowed: string, fallbackTimescaleS: number): { fraction: number; timescaleS: number } {
+/**
+ * A level stated at a timescale: "200 ppm per 1 h", or a bare fraction (then
+ * `fallbackTimescaleS`). `positive`: the level must be above 0, else ≥ 0.
+ */
+function readLevelPer(r: FieldReader, key: string, allowed: string, fallbackTimescaleS: number, positive = false): { fraction: number; timescaleS: number } {
   const raw = r.raw(key);
+  const levelOk = (f: number): boolean => (positive ? f > 0 : f >= 0);
   if (typeof raw === 'string' && /\sper\s/.test(raw)) {
     const [level, scale] = raw.split(/\s+per\s+/);
     try {
       const fraction = parseQuantity(level, r.path(key), 'fraction');
       const timescaleS = parseQuantity(scale, r.path(key), 'time');
-      if (!(fraction >= 0) || !(timescaleS > 0)) throw new Error('range');
+      if (!levelOk(fraction) || !(timescaleS > 0) || !Number.isFinite(fraction * timescaleS)) throw new Error('range');
       return { fraction, timescaleS };
     } catch {
       r.problem(key, raw, allowed);
       return { fraction: Number.NaN, timescaleS: Number.NaN };
     }
   }
-  const fraction = r.quantity(key, 'fraction', { min: 0, rangeText: allowed });
+  const fraction = r.quantity(key, 'fraction', { min: 0, minExclusive: positive, rangeText: allowed });
   return { fraction, timescaleS: fallbackTimescaleS };
 }
 
 function readRedNoise(r: FieldReader): RedNoiseSpec | null {
-  const model = r.choice('model', ['power_law', 'drw'] as const, 'power_law');
+  const model = r.fieldChoice<'power_law' | 'drw'>('model') || 'power_law';
   if (!r.has('model')) r.problem('model', undefined, 'required: "power_law" (Timmer & König 1995) or "drw" (damped random walk)');
   if (model === 'power_law') {
     const { fraction, timescaleS } = readLevelPer(r, 'amplitude', 'expected the rms of the red noise averaged over a timescale, e.g. "150 ppm per 30 min"', Number.NaN);
     if (!Number.isFinite(timescaleS) && Number.isFinite(fraction)) r.problem('amplitude', r.raw('amplitude'), 'state the averaging timescale, e.g. "150 ppm per 30 min"');
-    const beta = r.number('slope', { default: 1, min: 0, max: 4, rangeText: 'expected a spectral slope β from 0 to 4 (S ∝ f^−β)' });
+    const beta = r.field('slope');
     r.rejectUnknown();
     return { model, rmsFraction: fraction, timescaleS, beta };
   }
   const rmsFraction = r.quantity('amplitude', 'fraction', { min: 0, rangeText: 'expected the stationary rms, e.g. "200 ppm"' });
-  const tauS = r.quantity('timescale', 'time', { bare: [MINUTE_S, 'minutes'], min: 0, minExclusive: true, rangeText: 'expected the damping timescale τ, e.g. "45 min"' });
+  const tauS = r.field('timescale');
   r.rejectUnknown();
   return { model, rmsFraction, tauS };
 }
 
 function readGround(r: FieldReader, exposureS: number, cadenceS: number): GroundSpec | null {
-  const apertureM = r.quantity('aperture', 'length', { min: 0, minExclusive: true, rangeText: 'expected the telescope aperture diameter, e.g. "1.5 m"' });
-  const magnitude = r.number('magnitude', { min: -2, max: 25, rangeText: 'expected the star\'s V magnitude, e.g. 11.2' });
-  const throughput = r.number('throughput', { default: 0.4, min: 0, minExclusive: true, max: 1, rangeText: 'expected the total throughput (atmosphere, optics, detector) in (0, 1]' });
-  const airmass = r.number('airmass', { default: 1.3, min: 1, max: 5, rangeText: 'expected an airmass from 1 to 5' });
-  const altitudeM = r.quantity('altitude', 'length', { bare: [1, 'metres'], default: 2000, min: 0, max: 6000, rangeText: 'expected the site altitude, e.g. "2400 m"' });
-  const scintillationCoefficient = r.number('scintillation_coefficient', { default: 1.5, min: 0, max: 5, rangeText: 'expected the Osborn et al. (2015) site coefficient C_Y, typically 1.3–1.7' });
+  const apertureM = r.field('aperture');
+  const band = r.fieldChoice<GroundSpec['band']>('band');
+  const magnitude = r.field('magnitude');
+  const throughput = r.field('throughput');
+  const airmass = r.field('airmass');
+  const altitudeM = r.field('altitude');
+  const scintillationCoefficient = r.field('scintillation_coefficient');
   let floorFraction = 0;
   let floorTimescaleS = HOUR_S;
-  if (r.has('floor')) ({ fraction: floorFraction, timescaleS: floorTimescaleS } = readLevelPer(r, 'floor', 'expected a systematic floor with its timescale, e.g. "300 ppm per 1 min"', exposureS));
+  if (r.has('floor')) ({ fraction: floorFraction, timescaleS: floorTimescaleS } = readLevelPer(r, 'floor', 'expected a systematic floor ≥ 0 with its timescale, e.g. "300 ppm per 1 min"', exposureS));
   r.rejectUnknown();
   if (![apertureM, magnitude, throughput, airmass, altitudeM, scintillationCoefficient, floorFraction, floorTimescaleS, exposureS, cadenceS].every(Number.isFinite)) return null;
   const b = groundNoiseBudget({
     apertureDiameterM: apertureM,
     magnitude,
+    zeroPointPhotonsPerSM2: bandZeroPointPhotons(band),
     throughput,
     exposureS,
     cadenceS,
@@ -295,25 +377,61 @@ function readGround(r: FieldReader, exposureS: number, cadenceS: number): Ground
     floor: floorFraction > 0 ? { fraction: floorFraction, timescaleS: floorTimescaleS } : undefined,
   });
   const e = b.perExposure;
+  if (!(Number.isFinite(e.total) && e.total > 0)) {
+    r.problems.push({ path: 'instrument.ground', value: r.raw('magnitude'), allowed: 'these values give no finite noise level per exposure; check aperture, magnitude and throughput' });
+    return null;
+  }
   return {
-    apertureM, magnitude, throughput, airmass, altitudeM, scintillationCoefficient, floorFraction, floorTimescaleS,
+    apertureM, band, magnitude, throughput, airmass, altitudeM, scintillationCoefficient, floorFraction, floorTimescaleS,
     terms: { photon: e.photon, scintillation: e.scintillation, floor: e.floor, total: e.total, dominant: b.dominantTerm },
   };
 }
 
-function readObservation(r: FieldReader): ObservationSpec {
-  const transits = r.number('transits', { integer: true, min: 1, max: 10000, rangeText: 'expected a whole number of transits from 1 to 10000' });
-  const t0BjdTdb = r.number('t0', { default: 2461000.0, min: 0, rangeText: 'expected a BJD_TDB in days, e.g. 2461000.25' });
-  const baselineS = r.quantity('baseline', 'time', { bare: [HOUR_S, 'hours'], default: 3 * HOUR_S, min: 0, rangeText: 'must be a time ≥ 0' });
-  const dutyCycle = r.number('duty_cycle', { default: 1, min: 0, minExclusive: true, max: 1, rangeText: 'expected the observed fraction of each window, above 0 and at most 1' });
-  const gapLengthS = r.quantity('gap_length', 'time', { bare: [MINUTE_S, 'minutes'], default: 20 * MINUTE_S, min: 0, minExclusive: true, rangeText: 'expected the mean length of a gap, e.g. "20 min"' });
-  const missedFraction = r.number('missed_fraction', { default: 0, min: 0, max: 0.95, rangeText: 'expected the fraction of transits lost (weather, scheduling), from 0 to 0.95' });
+/** Most transits an observation may have (`observation.transits`, or counted from `duration`). */
+const MAX_TRANSITS = 10000;
+
+function readObservation(r: FieldReader, periodS: number, cautions: ScenarioCaution[]): ObservationSpec {
+  let transits = Number.NaN;
+  let durationS: number | null = null;
+  if (r.has('transits') && r.has('duration')) {
+    r.problem('duration', r.raw('duration'), 'give either transits or duration, not both');
+    r.raw('transits');
+  } else if (r.has('duration')) {
+    durationS = r.field('duration');
+    if (Number.isFinite(durationS) && Number.isFinite(periodS)) {
+      // Barycentre conjunctions t0 + nP, n = 0, 1, …, with nP ≤ duration (a relative 1e-9 forgives rounding of "3 yr" = 3P).
+      transits = Math.floor((durationS / periodS) * (1 + 1e-9)) + 1;
+      if (transits > MAX_TRANSITS) {
+        const u = writtenUnit(r.raw('duration'), 'time', [DAY_S, 'days']) ?? { name: 'd', si: DAY_S };
+        r.problem('duration', r.raw('duration'), `spans ${transits} conjunctions; at most ${MAX_TRANSITS}, i.e. a duration below ${formatNumber((MAX_TRANSITS * periodS) / u.si)} ${u.name}`);
+        transits = Number.NaN;
+      }
+    }
+  } else if (!r.has('transits')) {
+    r.problem('transits', undefined, `required: a whole number of transits from 1 to ${MAX_TRANSITS}, or a duration ("3 yr")`);
+  } else {
+    transits = r.field('transits');
+  }
+  const t0BjdTdb = r.field('t0');
+  const baselineS = r.field('baseline');
+  const dutyCycle = r.field('duty_cycle');
+  const gapLengthS = r.field('gap_length');
+  const missedFraction = r.field('missed_fraction');
+  if (Number.isFinite(baselineS) && Number.isFinite(periodS) && baselineS > periodS / 2) {
+    cautions.push({
+      path: 'observation.baseline',
+      message: `the baseline on each side of a transit (${formatNumber(baselineS / DAY_S)} d) is longer than half the planet's period (${formatNumber(periodS / (2 * DAY_S))} d): neighbouring windows overlap and the same times are observed twice, each with its own noise`,
+    });
+  }
   r.rejectUnknown();
-  return { transits, t0BjdTdb, baselineS, dutyCycle, gapLengthS, missedFraction };
+  const observation: ObservationSpec = { transits, t0BjdTdb, baselineS, dutyCycle, gapLengthS, missedFraction };
+  // Present only when given, so scenarios without it keep their canonical JSON (and no-moon set seeds).
+  if (durationS !== null) observation.durationS = durationS;
+  return observation;
 }
 
 function readDetection(r: FieldReader): DetectionSpec {
-  const falseAlarm = r.quantity('false_alarm', 'fraction', { bare: [1, 'a fraction'], default: 0.01, min: 0, minExclusive: true, max: 0.5, rangeText: 'expected a false-alarm probability above 0 and at most 0.5, e.g. "1 %" or 0.01' });
+  const falseAlarm = r.field('false_alarm');
   r.rejectUnknown();
   return { falseAlarm };
 }
@@ -322,4 +440,3 @@ function readDetection(r: FieldReader): DetectionSpec {
 export function barycentreMass(s: Scenario): number {
   return s.planet.massKg + (s.moon ? s.moon.massKg : 0);
 }
-

@@ -36,6 +36,12 @@ export interface PlanetSpec {
   k2: number;
   /** Tidal quality factor Q. */
   tidalQ: number;
+  /**
+   * The mass–radius relation the radius came from (`planet.mass_radius`), or
+   * absent when the radius was given. With a relation the radius follows
+   * the mass, also along a planet-mass sweep axis.
+   */
+  massRadiusRelation?: 'chen_kipping_2017' | null;
 }
 
 export interface MoonSpec {
@@ -81,6 +87,9 @@ export type RedNoiseSpec =
 /** A ground-based noise budget: the white-noise level is computed from the telescope and site. */
 export interface GroundSpec {
   apertureM: number;
+  /** Johnson–Cousins band of `magnitude` (`instrument.ground.band`, default V). */
+  band: 'U' | 'B' | 'V' | 'R' | 'I';
+  /** The star's magnitude in `band`. */
   magnitude: number;
   throughput: number;
   airmass: number;
@@ -110,8 +119,14 @@ export interface InstrumentSpec {
 }
 
 export interface ObservationSpec {
-  /** Number of consecutive transits observed. */
+  /** Number of consecutive transits observed (given, or counted from `durationS`). */
   transits: number;
+  /**
+   * The span observed from t0, s, when `observation.duration` was given
+   * (then `transits` = the barycentre conjunctions t0 + nP, n ≥ 0, with
+   * nP ≤ duration); absent when the transits were given.
+   */
+  durationS?: number | null;
   /** Barycentre mid-transit time of epoch 0, BJD_TDB (days). */
   t0BjdTdb: number;
   /** Out-of-transit baseline observed on each side of the transit, s. */
@@ -129,7 +144,24 @@ export interface DetectionSpec {
   falseAlarm: number;
 }
 
+/**
+ * A physically odd but legal input (a moon heavier than its planet, a
+ * baseline longer than half the period): the scenario runs, and commands
+ * print each as a "note:" line.
+ */
+export interface ScenarioCaution {
+  /** Dotted path of the field the caution is about. */
+  path: string;
+  message: string;
+}
+
 export interface Scenario {
+  /**
+   * Cautions about odd but legal inputs (empty when none; absent on a Scenario not made by
+   * parseScenario); see `formatCautions`. A non-enumerable property: not in JSON, spreads,
+   * structured clones or the canonical JSON that seeds the no-moon sets.
+   */
+  cautions?: ScenarioCaution[];
   name: string;
   seed: number;
   star: StarSpec;

@@ -180,6 +180,7 @@ export function parseQuantity(
   if (typeof value === 'number') {
     if (!Number.isFinite(value)) throw fieldError(path, value, allowed + ' (a finite number)');
     if (bareUnitSi === undefined) throw fieldError(path, value, allowed + ' (a unit is required)');
+    if (!Number.isFinite(value * bareUnitSi)) throw fieldError(path, value, allowed + ' (a finite number)');
     return value * bareUnitSi;
   }
   if (typeof value !== 'string') throw fieldError(path, value, allowed);
@@ -190,6 +191,7 @@ export function parseQuantity(
   if (!Number.isFinite(num)) throw fieldError(path, value, allowed);
   if (unitText === '') {
     if (bareUnitSi === undefined) throw fieldError(path, value, allowed + ' (a unit is required)');
+    if (!Number.isFinite(num * bareUnitSi)) throw fieldError(path, value, allowed + ' (a finite number)');
     return num * bareUnitSi;
   }
   const perUnit = unitValue(unitText, kind);
@@ -244,4 +246,28 @@ export function splitNumberUnit(value: string): { num: number; unit: string } | 
   const m = NUMBER_UNIT.exec(value);
   if (!m) return null;
   return { num: Number(m[1]), unit: m[2] };
+}
+
+/**
+ * The unit a value was written in and the SI size of one of it: the unit text
+ * of "0.5 Mearth", or the bare-number unit for a bare number. Null when the
+ * value has no usable unit. Used to state an allowed range in the user's unit.
+ */
+export function writtenUnit(value: unknown, kind: QuantityKind, bare?: readonly [number, string]): { name: string; si: number } | null {
+  if (typeof value === 'number') return bare ? { name: bare[1], si: bare[0] } : null;
+  if (typeof value !== 'string') return null;
+  const nu = splitNumberUnit(value);
+  if (!nu) return null;
+  if (nu.unit === '') return bare ? { name: bare[1], si: bare[0] } : null;
+  const si = unitValue(nu.unit, kind);
+  return typeof si === 'number' && si > 0 ? { name: nu.unit, si } : null;
+}
+
+/** A number for messages: up to 4 significant digits, no trailing zeros. */
+export function formatNumber(x: number): string {
+  if (x === 0 || !Number.isFinite(x)) return String(x);
+  const a = Math.abs(x);
+  if (Number.isInteger(x) && a < 1e15) return String(x);
+  if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(4)));
+  return x.toExponential(3).replace(/\.?0+e/, 'e').replace('e+', 'e');
 }

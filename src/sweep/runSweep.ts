@@ -117,7 +117,7 @@ export function loadSweep(scenarioDocOrPath: unknown): LoadedSweep {
       scenario = parseScenario(doc, source);
       return { doc, scenario, spec: parseSweepSpec(doc, scenario, source), hash: scenarioHash(doc) };
     } catch (e) {
-      if (e instanceof InputError) throw withLines(e, (p) => parsed.lineOf(p.replace(/\[(\d+)\]/g, '.$1').replace(/ \(default\)/, '')), source);
+      if (e instanceof InputError) throw withLines(e, (p) => parsed.positionOf(p.replace(/\[(\d+)\]/g, '.$1').replace(/ \(default\)/, '')), source);
       throw e;
     }
   }

@@ -151,7 +151,7 @@ describe('sweep block validation', () => {
         'instrument: {cadence: 2 min, noise: 300 ppm per 2 min}', 'observation: {transits: 6}', 'sweep:', '  axes:',
         '    - field: moon.mass', '      from: 0.1 Mearth', '      to: 1 Mearth', '      count: 0', '',
       ].join('\n'));
-      expect(() => loadSweep(path)).toThrow(/sweep\.axes\[0\]\.count \(line 12\)/);
+      expect(() => loadSweep(path)).toThrow(/sweep\.axes\[0\]\.count \(line 12, column \d+\)/);
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
