@@ -26,7 +26,7 @@ import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../photometry/transitWindows.js';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines, withLines, type SourcePosition } from '../scenario/loadScenario.js';
-import { parseScenario } from '../scenario/parseScenario.js';
+import { cautionNotes, parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
@@ -360,7 +360,7 @@ function observationCaveats(ctx: Context): string[] {
 
 /** What the scenario's observation model means for the budget. */
 function scenarioNotes(ctx: Context): string[] {
-  const out: string[] = [];
+  const out: string[] = [...cautionNotes(ctx.base)];
   const i = ctx.base.instrument;
   const o = ctx.base.observation;
   if (ctx.q.solve === 'precision' && i.ground) {

@@ -63,7 +63,7 @@ export const AXIS_FIELDS: ReadonlyMap<string, AxisFieldDef> = new Map([
   def('star.age', q('time', 's')),
   def('star.luminosity', q('power', 'W')),
   def('planet.mass', q('mass', 'kg')),
-  def('planet.radius', q('length', 'm')),
+  def('planet.radius', q('length', 'm'), { replaces: ['mass_radius'] }),
   def('planet.period', q('time', 's', [DAY_S, 'days'])),
   def('planet.eccentricity', num),
   def('planet.periastron', q('angle', 'rad', [DEG, 'degrees'])),
@@ -100,7 +100,9 @@ export const AXIS_FIELDS: ReadonlyMap<string, AxisFieldDef> = new Map([
   def('instrument.ground.altitude', q('length', 'm', [1, 'metres'])),
   def('instrument.ground.scintillation_coefficient', num),
   def('instrument.ground.floor', level),
-  def('observation.transits', { type: 'integer' }),
+  def('observation.transits', { type: 'integer' }, { replaces: ['duration'] }),
+  // A campaign length instead of a count: the transits are the conjunctions inside it.
+  def('observation.duration', q('time', 's', [DAY_S, 'days']), { replaces: ['transits'] }),
   def('observation.baseline', q('time', 's', [HOUR_S, 'hours'])),
   // Gaps: fraction of each window observed, mean gap length, fraction of transits lost.
   def('observation.duty_cycle', num),

@@ -157,9 +157,9 @@ export function acquireFolderLock(dir: string, command: string): FolderLock {
       }
       const where = `pid ${h.pid} on host ${h.host}`;
       throw new InputError([{
-        path: dir,
-        value: `in use by ${where} since ${h.started} (${h.command})`,
-        allowed: 'one run at a time per output folder: wait for that run to finish' +
+        path: 'output folder',
+        value: dir,
+        allowed: `in use by ${where} since ${h.started} (${h.command}); one run at a time per output folder: wait for that run to finish` +
           (h.command.startsWith('moonsieve sweep') ? ', or stop it (Ctrl-C keeps its checkpoint) and then run "moonsieve sweep SCENARIO --resume" with this --out' : '') +
           '; or choose another --out' +
           (h.host !== info.host ? `. If that run is gone (e.g. its node was lost), delete ${path} and run again` : ''),

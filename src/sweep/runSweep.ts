@@ -39,7 +39,7 @@ import { parseSweepSpec, type SweepSpec } from './sweepSpec.js';
 import { executeCells, resolveWorkerCount, type CalibrationStats, type RunnerModule } from './workerPool.js';
 import { planCalibration } from './calibrationPlan.js';
 import { cellTask, prepareJob, type CellJob } from './cellJob.js';
-import { nullClassOf } from './runCell.js';
+import { cellComputeProblems, nullClassOf } from './runCell.js';
 
 export interface SweepOptions {
   /** Worker threads (default: SLURM_CPUS_PER_TASK when set, else every core). */
@@ -144,7 +144,10 @@ async function validateCells(
     const task = cellTask(prepared, i);
     const where = (): string => `cell ${i} (${meta.axes.map((a, k) => `${a.field} = ${formatDisplay(displays[k], task.coords[k])}`).join(', ')})`;
     try {
-      parseScenario(task.scenarioDoc, `cell ${i}`);
+      // The scenario's own checks, then what the simulation itself would refuse (a cadence no shorter
+      // than the transit, a light curve above the size limit), so no cell fails after work has begun.
+      const computeProblems = cellComputeProblems(task);
+      if (computeProblems.length > 0) throw new InputError(computeProblems);
       if (withClasses && classCells.has(i)) {
         const c = nullClassOf(task, job.ctx);
         classes.set(i, c === null ? null : { key: c.key, count: c.count });

@@ -6,6 +6,7 @@
  */
 import { VERSION } from '../version.js';
 import type { Scenario } from '../scenario/types.js';
+import { cautionNotes } from '../scenario/parseScenario.js';
 import { canonicalJson } from './canonicalJson.js';
 import type { SweepSpec } from './sweepSpec.js';
 import { defaultNullRealizations } from './nullSet.js';
@@ -61,7 +62,8 @@ export function buildSweepMeta(scenario: Scenario, hash: string, spec: SweepSpec
       ...(a.timescaleS !== undefined ? { timescale_s: a.timescaleS } : {}),
     })),
     cells: spec.axes.reduce((n, a) => n * a.values.length, 1),
-    notes: spec.notes,
+    // Odd but legal inputs of the base scenario (scenario/cautions), then the axes' own notes.
+    notes: [...cautionNotes(scenario), ...spec.notes],
   };
 }
 

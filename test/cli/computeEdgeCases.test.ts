@@ -97,11 +97,11 @@ describe('geometry, cadence and size', () => {
     expect(existsSync(join(dir, 'sim-slow'))).toBe(false);
   });
 
-  it('a 1 ms cadence over long windows: refused up front with the samples needed and the limit', async () => {
-    const path = scenario('fast', { cadence: '1 ms', transits: 20, baseline: '20 h' });
+  it('a 0.2 s cadence over 400 long windows: refused up front with the samples needed and the limit', async () => {
+    const path = scenario('fast', { cadence: '0.2 s', transits: 400, baseline: '20 h' });
     const r = await run(['simulate', path, '--out', join(dir, 'sim-fast')]);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/would need 3\.\d+e\+9 samples .* above the limit of 2e\+6/);
+    expect(r.err).toMatch(/would need 3\.\d+e\+8 samples .* above the limit of 2e\+6/);
     expect(r.err).toMatch(/coarser cadence/);
     expect(existsSync(join(dir, 'sim-fast'))).toBe(false);
     const l = await run(['limits', path]);
@@ -164,13 +164,13 @@ describe('budget messages', () => {
     const folder = mkdtempSync(join(tmpdir(), 'ms-html-'));
     const r = await run(['budget', six(), '--forecast-only', '--html', folder]);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/--html: got .*is a folder; give a file name/);
+    expect(r.err).toMatch(/--html: got .*this is a folder: name a file/);
     expect(r.out).toBe('');
     const file = join(folder, 'plain.txt');
     writeFileSync(file, 'x');
     const u = await run(['budget', six(), '--forecast-only', '--html', join(file, 'page.html')]);
     expect(u.code).toBe(2);
-    expect(u.err).toMatch(/is a file, not a folder/);
+    expect(u.err).toMatch(/is a file, so no folder can be made under it/);
     noStack(u.err);
   });
 

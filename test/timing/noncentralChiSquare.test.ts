@@ -109,3 +109,21 @@ describe('central chi-square', () => {
     expect(chiSquareUpperQuantile(1, 3)).toBe(0);
   });
 });
+
+describe('noncentral chi-square far below its mean', () => {
+  it('is 1 to double precision, on both sides of the shortcut, and still < 1 nearer the mean', () => {
+    // Pr(X ≤ x) ≤ Φ(√x − √λ) (X ≥ (Z₁ + √λ)², derived here): at √λ − √x = 30, Φ(−30) ≈ 5e-198 (NIST
+    // DLMF 7.12.1 asymptotics), so the full mixture sum must give 1 there within its own summation
+    // tolerance (terms dropped below ~1e-10 of the sum): the shortcut at 38 joins it without a visible step.
+    const lambda = 1e6;
+    const x30 = (Math.sqrt(lambda) - 30) ** 2;
+    const x39 = (Math.sqrt(lambda) - 39) ** 2;
+    expect(noncentralChiSquareSurvival(x30, 4, lambda)).toBeGreaterThan(1 - 1e-9);
+    expect(noncentralChiSquareSurvival(x39, 4, lambda)).toBe(1);
+    expect(noncentralChiSquareSurvival(1e6, 5, 1e8)).toBe(1);
+    // At the mean the survival is near 1/2 (normal limit of the noncentral χ², JKB 1995 ch. 29).
+    const atMean = noncentralChiSquareSurvival(lambda + 4, 4, lambda);
+    expect(atMean).toBeGreaterThan(0.45);
+    expect(atMean).toBeLessThan(0.55);
+  });
+});
