@@ -94,7 +94,9 @@ export function axisDisplay(axis: AxisLike): AxisDisplay {
 /** A value formatted with its display unit, 3 significant digits ("0.52 M⊕"). */
 export function formatDisplay(d: AxisDisplay, si: number): string {
   const v = si / d.divisor;
-  return `${formatNumber(v)}${d.unitLabel ? ` ${d.unitLabel}` : ''}`;
+  // A unit that starts with a power of ten ("10³ km") reads as a product: "79 × 10³ km", not "79 10³ km".
+  const sep = /^10[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]/.test(d.unitLabel) ? ' × ' : ' ';
+  return `${formatNumber(v)}${d.unitLabel ? `${sep}${d.unitLabel}` : ''}`;
 }
 
 /** 3 significant digits, exponent form outside 1e-3…1e5. */

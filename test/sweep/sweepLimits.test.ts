@@ -138,8 +138,8 @@ describe('every grid cell is validated before any work', () => {
     for (const resume of [false, true]) {
       const msg = await refused(BAD, join(tmp, 'bad-cells'), { resume });
       expect(msg).toMatch(/^2 of 9 grid cells are invalid/);
-      expect(msg).toMatch(/cell 3 \(planet\.radius = 0\.65 R_J, moon\.separation = 40 10³ km\): got "40000000 m"; moon\.separation: the moon would touch the planet/);
-      expect(msg).toMatch(/cell 6 \(planet\.radius = 1 R_J, moon\.separation = 40 10³ km\)/);
+      expect(msg).toMatch(/cell 3 \(planet\.radius = 0\.65 R_J, moon\.separation = 40 × 10³ km\): got "40000000 m"; moon\.separation: the moon would touch the planet/);
+      expect(msg).toMatch(/cell 6 \(planet\.radius = 1 R_J, moon\.separation = 40 × 10³ km\)/);
       expect(msg.split('\n')).toHaveLength(3);
     }
   });
