@@ -18,6 +18,10 @@ const SECTIONS: Array<{ key: string; title: string; intro: string }> = [
   { key: 'instrument', title: '`instrument`', intro: 'Sampling and noise. Give the white noise as `noise` or as a ground-based budget `ground`, not both; `red_noise` adds correlated noise to either.' },
   { key: 'observation', title: '`observation`', intro: 'What is observed. Give `transits` or `duration`, not both.' },
   { key: 'detection', title: '`detection`', intro: 'When a moon counts as detected.' },
+  { key: 'site', title: '`site` (optional)', intro: 'Where the telescope is, for `moonsieve calendar`. A list of sites, each with a `name`, makes a network: a transit counts as seen where any site sees it.' },
+  { key: 'target', title: '`target` (optional)', intro: 'The star\'s ICRS (J2000) position: degrees, or sexagesimal text (RA in hours, Dec in degrees). Proper motion is not modelled.' },
+  { key: 'campaign', title: '`campaign` (optional)', intro: 'When the target is watched, in UTC. `moonsieve calendar` needs `site`, `target` and `campaign`.' },
+  { key: 'constraints', title: '`constraints` (optional)', intro: 'When the target counts as observable: the Sun below `sun_altitude` and the target\'s air mass at most `airmass` (so above the horizon).' },
 ];
 
 const KIND_WORDS: Record<QuantityKind, string> = {

@@ -182,6 +182,33 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'detection', type: 'mapping', defaultText: 'defaults', meaning: 'detection threshold' },
   { path: 'detection.false_alarm', type: 'quantity', kind: 'fraction', bare: fraction, show: [1e-2, '%'], default: 0.01, min: 0, minExclusive: true, max: 0.5,
     meaning: 'false-alarm probability per channel at which a moon counts as detected' },
+
+  // Where and when (issue 18): read by src/scenario/readSky.ts. Latitude and altitude bounds are
+  // definitions and common practice (no source); the campaign's years are those of the leap-second table.
+  { path: 'planet.period_error', type: 'quantity', kind: 'time', bare: days, show: days, default: 0, min: 0, max: 10 * DAY_S,
+    meaning: '1σ uncertainty of the period (widens the predicted mid-times of `moonsieve calendar`)' },
+  { path: 'observation.t0_error', type: 'quantity', kind: 'time', bare: days, show: minutes, default: 0, min: 0, max: 10 * DAY_S,
+    meaning: '1σ uncertainty of t0 (widens the predicted mid-times of `moonsieve calendar`)' },
+  { path: 'site', type: 'mapping', defaultText: 'none', meaning: 'the observing site; a list of sites (each with a name) makes a network' },
+  { path: 'site.name', type: 'text', default: 'site', meaning: 'name of the site in tables (required to tell the sites of a list apart)' },
+  { path: 'site.latitude', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, required: 'with site', min: -Math.PI / 2, max: Math.PI / 2, meaning: 'geodetic latitude, north positive' },
+  { path: 'site.longitude', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, required: 'with site', min: -Math.PI, max: 2 * Math.PI, meaning: 'longitude, east positive (west negative)' },
+  { path: 'site.altitude', type: 'quantity', kind: 'length', bare: metres, show: metres, default: 0, min: -500, max: 6000, meaning: 'height above the WGS 84 ellipsoid' },
+  { path: 'target', type: 'mapping', defaultText: 'none', meaning: 'the star\'s position, ICRS (J2000)' },
+  { path: 'target.ra', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, required: 'with target', min: 0, max: 2 * Math.PI, maxExclusive: true,
+    rangeNote: 'or sexagesimal hours "08:41:12.5" / "08 41 12.5" / "8h41m12.5s"', meaning: 'right ascension' },
+  { path: 'target.dec', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, required: 'with target', min: -Math.PI / 2, max: Math.PI / 2,
+    rangeNote: 'or sexagesimal degrees "-12:33:10" / "-12 33 10" / "-12d33m10s"', meaning: 'declination' },
+  { path: 'campaign', type: 'mapping', defaultText: 'none', meaning: 'when the target is watched (`moonsieve calendar`)' },
+  { path: 'campaign.start', type: 'text', required: 'with campaign', rangeNote: 'a UTC date "2027-01-01" (its 00:00) or ISO date-time "2027-01-01T18:00:00Z", 1972–2099',
+    meaning: 'first instant of the campaign' },
+  { path: 'campaign.end', type: 'text', required: 'with campaign', rangeNote: 'a UTC date "2028-12-31" (through its 24:00) or ISO date-time, after start, at most 100 years later',
+    meaning: 'last instant of the campaign' },
+  { path: 'constraints', type: 'mapping', defaultText: 'defaults', meaning: 'when the target counts as observable' },
+  { path: 'constraints.sun_altitude', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: -12 * DEG, min: -Math.PI / 2, max: 0,
+    meaning: 'the Sun\'s centre must be below this geometric altitude (−12: nautical twilight, −18: astronomical)' },
+  { path: 'constraints.airmass', type: 'number', default: 2, min: 1, max: 10, rangeNote: 'air mass by Kasten & Young (1989), valid to the horizon', meaning: 'largest air mass of the target' },
+  { path: 'constraints.clear_fraction', type: 'number', default: 1, min: 0, minExclusive: true, max: 1, meaning: 'chance that a night at a site is usable (weather)' },
 ];
 
 const BY_PATH: ReadonlyMap<string, ScenarioField> = new Map(SCENARIO_FIELDS.map((f) => [f.path, f]));

@@ -18,6 +18,7 @@ import { impactParameter, inclinationFromImpact } from '../physics/transitDurati
 import { isPhysicalQuadratic, uFromQ } from '../photometry/kippingLimbDarkening.js';
 import { InputError, type FieldProblem } from './errors.js';
 import { FieldReader } from './fieldReader.js';
+import { readSky } from './readSky.js';
 import { formatNumber, parseQuantity, splitNumberUnit, writtenUnit } from './units.js';
 import { bandZeroPointPhotons, groundNoiseBudget } from '../noise/groundBudget.js';
 import type {
@@ -41,15 +42,19 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const star = readStar(new FieldReader(top.raw('star'), 'star', problems));
   if (!top.has('star')) problems.push({ path: 'star', value: undefined, allowed: 'required: the host star (mass, radius, teff, limb_darkening)' });
   const planetReader = new FieldReader(top.raw('planet'), 'planet', problems);
+  const periodErrorS = planetReader.field('period_error'); // ephemeris uncertainty, for the calendar (readSky.ts)
   if (!top.has('planet')) problems.push({ path: 'planet', value: undefined, allowed: 'required: the transiting planet (mass, radius, period)' });
   const moonRaw = top.raw('moon');
   const planet = readPlanet(planetReader, star, peekMoonMass(moonRaw));
   const moon = moonRaw === undefined || moonRaw === null ? null : readMoon(new FieldReader(moonRaw, 'moon', problems), star, planet, cautions);
   const instrument = readInstrument(new FieldReader(top.raw('instrument'), 'instrument', problems));
   if (!top.has('instrument')) problems.push({ path: 'instrument', value: undefined, allowed: 'required: cadence and noise' });
-  const observation = readObservation(new FieldReader(top.raw('observation'), 'observation', problems), planet.periodS, cautions);
+  const observationReader = new FieldReader(top.raw('observation'), 'observation', problems);
+  const t0ErrorS = observationReader.field('t0_error'); // ephemeris uncertainty, for the calendar (readSky.ts)
+  const observation = readObservation(observationReader, planet.periodS, cautions);
   if (!top.has('observation')) problems.push({ path: 'observation', value: undefined, allowed: 'required: transits or duration' });
   const detection = readDetection(new FieldReader(top.raw('detection'), 'detection', problems));
+  const sky = readSky(top, periodErrorS, t0ErrorS);
   top.rejectUnknown(EXTRA_TOP_LEVEL_KEYS);
 
   // A missing block is one problem, not one more per field it would hold.
@@ -57,6 +62,7 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const kept = problems.filter((p) => !missing.some((k) => p.path.startsWith(k + '.')));
   if (kept.length > 0) throw new InputError(dedupe(kept), source);
   const scenario: Scenario = { name, seed, star, planet, moon, instrument, observation, detection };
+  if (sky) scenario.sky = sky;
   // Not enumerable: the cautions are messages, not part of the model, so they stay out of the
   // canonical JSON that seeds and identifies the no-moon sets (sweep/nullSet.ts) and out of copies.
   Object.defineProperty(scenario, 'cautions', { value: cautions, enumerable: false, writable: true, configurable: true });

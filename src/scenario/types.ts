@@ -171,3 +171,58 @@ export interface Scenario {
   observation: ObservationSpec;
   detection: DetectionSpec;
 }
+
+/** One observing site (`site`, or one entry of a `site` list). */
+export interface SiteSpec {
+  name: string;
+  /** Geodetic latitude, rad (north positive). */
+  latitudeRad: number;
+  /** East longitude, rad (west negative). */
+  longitudeRad: number;
+  /** Height above the WGS 84 ellipsoid, m. */
+  altitudeM: number;
+}
+
+/** The target's ICRS (J2000) position. */
+export interface TargetSpec {
+  raRad: number;
+  decRad: number;
+}
+
+/** The observing campaign, UTC seconds since J2000.0 (2000-01-01T12:00:00 UTC), civil-calendar count. */
+export interface CampaignSpec {
+  startUtcS: number;
+  endUtcS: number;
+}
+
+/** When a target counts as observable. */
+export interface ConstraintsSpec {
+  /** The Sun must be below this altitude, rad (geometric, centre of the disc). */
+  sunAltitudeRad: number;
+  /** Largest air mass (Kasten & Young 1989). */
+  airmass: number;
+  /** Chance that a night at a site is usable (weather). */
+  clearFraction: number;
+}
+
+/**
+ * Where and when (the optional `site`, `target`, `campaign`, `constraints`
+ * blocks) and the ephemeris uncertainties (`observation.t0_error`,
+ * `planet.period_error`). Present on a Scenario only when one of them was given.
+ */
+export interface SkySpec {
+  /** The sites (a network when more than one); empty when no `site` block. */
+  sites: SiteSpec[];
+  target: TargetSpec | null;
+  campaign: CampaignSpec | null;
+  constraints: ConstraintsSpec;
+  /** 1σ uncertainty of t0, s (0 when not given). */
+  t0ErrorS: number;
+  /** 1σ uncertainty of the period, s (0 when not given). */
+  periodErrorS: number;
+}
+
+export interface Scenario {
+  /** Where and when; absent unless a scenario gives site, target, campaign, constraints or ephemeris errors. */
+  sky?: SkySpec;
+}
