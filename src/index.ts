@@ -64,3 +64,11 @@ export { buildSummary } from './report/summary.js';
 export { loadClaim, parseClaimText, vetClaim, formatVetReport } from './vet/index.js';
 export type { Claim, VetResult } from './vet/index.js';
 export { planBudget } from './budget/index.js';
+
+// Sky: where and when (issue 18)
+export type { SkySpec, SiteSpec, TargetSpec, CampaignSpec, ConstraintsSpec } from './scenario/types.js';
+export { transitCalendar, type CalendarResult, type CalendarTransit, type NetworkTransit, type TransitClass } from './sky/calendar.js';
+export { sunAltitudeDeg, targetAltitudeDeg } from './sky/skyPosition.js';
+export { airmassKastenYoung } from './sky/airmass.js';
+export { utcToBjdTdb, bjdTdbToUtc } from './sky/barycentric.js';
+export { sunCrossings } from './sky/twilight.js';

@@ -13,6 +13,7 @@ import { registerSweep } from './sweepCommand.js';
 import { registerMerge } from './mergeCommand.js';
 import { registerReport } from './reportCommand.js';
 import { registerBudget } from './budgetCommand.js';
+import { registerCalendar } from './calendarCommand.js';
 import { SweepInterruptedError } from '../sweep/interrupted.js';
 import { VERSION } from '../version.js';
 
@@ -42,6 +43,7 @@ export function buildProgram(io: CliIo): Command {
   registerLimits(program, io);
   registerVet(program, io);
   registerBudget(program, io);
+  registerCalendar(program, io);
   return program;
 }
 
