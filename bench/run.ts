@@ -9,6 +9,7 @@ import { benchPhotometry } from './photometry.js';
 import { benchGaussian, benchFft } from './noise.js';
 import { benchLightCurveWindow, benchRecovery } from './lightCurve.js';
 import { benchBudget } from './budget.js';
+import { benchCalendar } from './calendar.js';
 import { benchSweep, referenceSweepDoc } from './sweep.js';
 import { threadScaling } from './threadScaling.js';
 
@@ -74,6 +75,7 @@ async function main(): Promise<void> {
     ['noise', () => [...benchGaussian(), ...benchFft()]],
     ['recovery', () => benchRecovery()],
     ['budget', () => benchBudget()],
+    ['calendar', () => benchCalendar()],
     ['sweep', () => sweepSection(process.argv.includes('--full'))],
   ];
   for (const [name, run] of sections) {
