@@ -4,6 +4,7 @@ import { extname } from 'node:path';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
 import { InputError } from '../scenario/errors.js';
+import { SITE_CALENDAR_ONLY } from '../scenario/readSky.js';
 import { transitCalendar, type CalendarCounts, type CalendarResult } from '../sky/calendar.js';
 import { renderTable, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
@@ -24,7 +25,9 @@ export function registerCalendar(program: Command, io: CliIo): void {
         checkOutputFile('--out', opts.out);
       }
       const scenario = loadScenario(scenarioPath);
-      io.err(formatCautions(scenario));
+      // Odd but legal inputs as note: lines, except the one saying that only this command reads the site.
+      const own = scenario.cautions?.filter((c) => c.message !== SITE_CALENDAR_ONLY);
+      io.err(formatCautions(own ? Object.defineProperty({ ...scenario }, 'cautions', { value: own }) : scenario));
       const cal = transitCalendar(scenario, scenarioPath);
       if (opts.out !== undefined) writeFileAtomic(opts.out, renderTable(opts.out, calendarColumns(cal), calendarMeta(cal)));
       io.out(opts.json ? JSON.stringify(cal, null, 2) + '\n' : formatCalendar(cal));

@@ -34,6 +34,12 @@ class ListItemReader extends FieldReader {
 }
 
 /**
+ * The caution a scenario with a site carries until the simulation observes
+ * only what the calendar says is observable (issue 18, items 4–6).
+ */
+export const SITE_CALENDAR_ONLY = 'used by `moonsieve calendar` only so far: sweep, simulate, limits and budget still assume every transit is observed whole, at the fixed air mass of the noise budget';
+
+/**
  * Read the sky blocks from the top-level reader. `periodErrorS` and
  * `t0ErrorS` are read by the caller from the planet and observation readers.
  * Returns undefined when none of the blocks nor errors were given.

@@ -31,6 +31,10 @@ const FULL = 1 - 1e-6;
 const R_EARTH_MEAN_M = 6_371_000;
 /** Half-width of the booking window beyond the nominal one, in σ of the predicted mid-time (common practice, no source). */
 export const BOOKING_SIGMAS = 3;
+/** Most transits one calendar lists (about 500 years of a 10-day planet; bounds the work). */
+export const MAX_CALENDAR_TRANSITS = 20_000;
+
+const formatDays = (d: number) => (d >= 100 ? d.toFixed(0) : d.toPrecision(3));
 
 export type TransitClass = 'full' | 'ingress_only' | 'egress_only' | 'ingress_and_egress' | 'middle_only' | 'none';
 
@@ -213,7 +217,10 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
   if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): a calendar needs a transit' }], source);
   const half = t14 / 2;
   const ingressS = Math.min(dur.ingressS, half);
-  const baseline = s.observation.baselineS;
+  // Baselines beyond the half period would overlap the next transit's window; beyond 10 days
+  // they are no longer a night's baseline: the calendar cuts them there and says so.
+  const givenBaseline = s.observation.baselineS;
+  const baseline = Math.max(0, Math.min(givenBaseline, s.planet.periodS / 2 - half, 10 * DAY_S));
   const periodD = s.planet.periodS / DAY_S;
   const t0 = s.observation.t0BjdTdb;
   const sunLimit = constraints.sunAltitudeRad;
@@ -225,6 +232,9 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
   const approxBjd = (utcS: number) => JD_J2000 + (utcS + ttMinusUtcS(utcS)) / DAY_S;
   const nLo = Math.ceil((approxBjd(campaign.startUtcS) - 0.01 - t0) / periodD);
   const nHi = Math.floor((approxBjd(campaign.endUtcS) + 0.01 - t0) / periodD);
+  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
+    throw new InputError([{ path: 'campaign', value: `${isoUtc(campaign.startUtcS)} to ${isoUtc(campaign.endUtcS)}`, allowed: `holds about ${nHi - nLo + 1} transits of the ${formatDays(periodD)}-day period; a calendar lists at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
+  }
 
   const rows: CalendarTransit[] = [];
   const network: NetworkTransit[] = [];
@@ -309,6 +319,7 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
     }
   });
   if (rows.length === 0) notes.push('no transit mid-time falls inside the campaign');
+  if (baseline < givenBaseline) notes.push(`the baseline of ${formatDays(givenBaseline / DAY_S)} d is cut to ${formatDays(baseline / DAY_S)} d on each side (at most half the period less half the transit, and 10 days)`);
   const siteCounts = sites.map((_, k) => counts(perSite[k], expectedPerSite[k]));
   return {
     schema: 'moonsieve/calendar/1',

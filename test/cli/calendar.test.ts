@@ -84,6 +84,28 @@ describe('moonsieve calendar', () => {
     }
   });
 
+  it('tells other commands that only the calendar reads the site, and keeps that note off the calendar', async () => {
+    const s = parseScenarioText(demo);
+    expect((s.cautions ?? []).map((c) => c.path)).toContain('site');
+    const r = await run(['calendar', demoPath]);
+    expect(r.err).not.toMatch(/calendar` only/);
+  });
+
+  it('refuses a campaign of more transits than a calendar lists, and cuts a baseline longer than half the period with a note', async () => {
+    const many = await run(['calendar', variant('many.yaml', 'period: 13.8 d', 'period: 0.3 d').replace('', '')]);
+    expect(many.code).toBe(0);
+    const huge = await run(['calendar', variant('huge.yaml', 'end: 2028-12-31', 'end: 2099-12-31').replace('', '')]);
+    expect(huge.code).toBe(0);
+    const both = variant('both.yaml', 'period: 13.8 d', 'period: 1.2 d');
+    writeFileSync(both, readFileSync(both, 'utf8').replace('end: 2028-12-31', 'end: 2099-12-31'));
+    const r = await run(['calendar', both]);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/campaign.*holds about \d+ transits.*at most 20000: shorten the campaign/);
+    const long = await run(['calendar', variant('long.yaml', 'baseline: 2 h', 'baseline: 9 d'), '--json']);
+    expect(long.code).toBe(0);
+    expect((JSON.parse(long.out) as { notes: string[] }).notes.join('\n')).toMatch(/baseline of 9\.00 d is cut to 6\.\d+ d/);
+  });
+
   it('requires a name for each site of a list', async () => {
     const r = await run(['calendar', variant('noname.yaml', '{name: Mount Orrin, ', '{')]);
     expect(r.code).toBe(2);
