@@ -92,9 +92,9 @@ describe('moonsieve calendar', () => {
   });
 
   it('refuses a campaign of more transits than a calendar lists, and cuts a baseline longer than half the period with a note', async () => {
-    const many = await run(['calendar', variant('many.yaml', 'period: 13.8 d', 'period: 0.3 d').replace('', '')]);
+    const many = await run(['calendar', variant('many.yaml', 'period: 13.8 d', 'period: 0.3 d')]);
     expect(many.code).toBe(0);
-    const huge = await run(['calendar', variant('huge.yaml', 'end: 2028-12-31', 'end: 2099-12-31').replace('', '')]);
+    const huge = await run(['calendar', variant('huge.yaml', 'end: 2028-12-31', 'end: 2099-12-31')]);
     expect(huge.code).toBe(0);
     const both = variant('both.yaml', 'period: 13.8 d', 'period: 1.2 d');
     writeFileSync(both, readFileSync(both, 'utf8').replace('end: 2028-12-31', 'end: 2099-12-31'));
