@@ -74,6 +74,8 @@ export interface ResolvedBudgetTarget {
   maxTransits: number;
   forecastOnly: boolean;
   habitable: HabitableTarget | null;
+  /** Old spellings met in the budget block, one line each (the answer's notes repeat them). */
+  deprecations?: string[];
 }
 
 /** One Monte Carlo evaluation at one value of the solved quantity. */
@@ -167,7 +169,7 @@ export interface BudgetResult {
   probability_target: number;
   false_alarm: number;
   realizations: number;
-  null_realizations: number;
+  no_moon_realizations: number;
   monte_carlo: boolean;
   quantity: BudgetQuantityInfo;
   /** Single-moon mode: the target moon; habitable mode: null. */

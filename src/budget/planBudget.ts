@@ -121,7 +121,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
     notes: [],
     progress: options.progress ?? (() => undefined),
   };
-  ctx.notes.push(...scenarioNotes(ctx));
+  ctx.notes.push(...(t.deprecations ?? []), ...scenarioNotes(ctx));
   const part = t.habitable ? planPopulation(ctx, clean) : planSingle(ctx, clean, source);
   if (part.evaluations.length > 0) ctx.notes.push(...nullCountNotes(ctx, part.evaluations));
   return {
@@ -131,7 +131,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
     probability_target: t.probability,
     false_alarm: base.detection.falseAlarm,
     realizations: t.realizations,
-    null_realizations: t.nullRealizations,
+    no_moon_realizations: t.nullRealizations,
     monte_carlo: !t.forecastOnly,
     quantity: { solve: q.solve, field: q.field, unit: q.unit, displayUnit: q.displayUnit, displayFactor: q.displayFactor, values: q.values, scenarioValue: q.scenarioValue, cheaper: q.cheaper },
     target_moon: part.targetMoon,
@@ -233,7 +233,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   ctx.progress(`${tm.scenario.name}: Monte Carlo search for ${pct(t.probability)} ${t.channel} detection, ${t.realizations} moon + ${t.nullRealizations} no-moon realizations per value, starting at ${formatQuantity(q, q.values[start])}${fcIndex !== null ? ' (the forecast)' : ''}\n`);
   const evaluate = (i: number): BudgetEvaluation => {
     const e = evaluateMoon(applyQuantity(tm.doc, q, q.values[i]), i, q.values[i], ctx.mc);
-    progressLine(ctx, e, `p_${t.channel} =`);
+    progressLine(ctx, e, `pdet_${t.channel} =`);
     return e;
   };
   const search = monteCarloSearch(ctx, start, evaluate);
@@ -399,7 +399,7 @@ function diagnose(ctx: Context, l: LimitsJson, precisions: ValuePrecision[], bes
     reasons.push(`the scenario's correlated (red) noise (${red.model === 'power_law' ? `power law, ${(red.rmsFraction * 1e6).toPrecision(3)} ppm per ${(red.timescaleS / 60).toPrecision(3)} min` : `damped random walk, ${(red.rmsFraction * 1e6).toPrecision(3)} ppm rms, τ = ${(red.tauS / 60).toPrecision(3)} min`}) is held fixed${q.solve === 'precision' ? ' while the white noise is lowered, so it sets a floor that no white-noise level removes' : ''}: it adds timing scatter that averages down slowly`);
   }
   if (t.channel === 'dip' || t.channel === 'combined') {
-    reasons.push(`the moon's own dip is ${(l.moon_depth_ppm ?? 0).toPrecision(3)} ppm against ${(l.noise_per_exposure * 1e6).toPrecision(3)} ppm white noise per exposure (scenario)`);
+    reasons.push(`the moon's own dip is ${((l.moon_depth ?? 0) * 1e6).toPrecision(3)} ppm against ${(l.noise_per_exposure * 1e6).toPrecision(3)} ppm white noise per exposure (scenario)`);
   }
   return reasons;
 }
@@ -484,7 +484,7 @@ function nullCountNotes(ctx: Context, evaluations: BudgetEvaluation[]): string[]
   const text = `false-alarm thresholds come from ${ctx.t.nullRealizations} no-moon realizations per value (${nCal} calibrate, the rest check), at ${perChannel.toPrecision(2)} per ${combined ? 'channel (α/3, Bonferroni)' : 'test'}: ${(perChannel * nCal).toPrecision(2)} expected exceedances. ` +
     `Order statistics put the expected false-alarm rate at about ${effective.toPrecision(2)} per ${combined ? 'channel' : 'test'}${combined ? ` (≤ ${effectiveTest.toPrecision(2)} combined)` : ''} rather than the requested ${perChannel.toPrecision(2)}${combined ? ` (${alpha} combined)` : ''}`;
   if (effective > 1.25 * perChannel) {
-    return [`${text}, so the detection probabilities, and the budget, are optimistic; --null-realizations ${suggest} brings it within ~10 % of the request, at a proportional cost${mText}`];
+    return [`${text}, so the detection probabilities, and the budget, are optimistic; --no-moon-realizations ${suggest} brings it within ~10 % of the request, at a proportional cost${mText}`];
   }
   return [`${text}${mText}`];
 }

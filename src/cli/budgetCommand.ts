@@ -20,7 +20,8 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--solve <what>', 'transits | cadence | precision (default transits)')
     .option('--channel <ch>', 'combined | ttv | tdv | dip (default combined)')
     .option('--realizations <n>', 'moon realizations per Monte Carlo evaluation (default 100; 40 per moon with --habitable)')
-    .option('--null-realizations <n>', 'no-moon realizations calibrating the false-alarm thresholds per evaluation (default 400)')
+    .option('--no-moon-realizations <n>', 'no-moon realizations calibrating the false-alarm thresholds per evaluation (default 400)')
+    .option('--null-realizations <n>', 'deprecated spelling of --no-moon-realizations (accepted in this release only)')
     .option('--max-transits <n>', 'most transits considered (default 50)')
     .option('--forecast-only', 'answer from the analytic forecast alone (milliseconds; no Monte Carlo)')
     .option('--habitable', 'target the temperate, stable moons of a mass range instead of one moon')
@@ -34,7 +35,7 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--quiet', 'no progress lines')
     .action((scenarioPath: string, opts: BudgetFlags & { json?: boolean; html?: string; quiet?: boolean }) => {
       if (opts.html !== undefined) checkOutputFile('--html', opts.html);
-      const target = readBudgetFlags(opts);
+      const target = readBudgetFlags(budgetFlags(opts, io));
       const result = planBudget(scenarioPath, target, { progress: opts.quiet ? undefined : (line) => io.err(line) });
       if (opts.html) {
         try {
@@ -47,4 +48,19 @@ export function registerBudget(program: Command, io: CliIo): void {
       io.out(opts.json ? JSON.stringify(result, null, 2) + '\n' : formatBudget(result));
       if (opts.html && !opts.json) io.out(`wrote ${opts.html}\n`);
     });
+}
+
+/**
+ * Commander reads a `--no-…` option as the negation of `moonRealizations` (true when absent, the
+ * string when given): put it back under its own name, and take the deprecated `--null-realizations`
+ * with a note on stderr when the new spelling is absent.
+ */
+function budgetFlags(opts: BudgetFlags, io: CliIo): BudgetFlags {
+  const { moonRealizations, nullRealizations, ...rest } = opts;
+  let given = typeof moonRealizations === 'string' ? moonRealizations : undefined;
+  if (nullRealizations !== undefined) {
+    io.err('note: --null-realizations is deprecated: write --no-moon-realizations (the old spelling is accepted in this release only)\n');
+    given ??= nullRealizations as string;
+  }
+  return { ...rest, noMoonRealizations: given };
 }

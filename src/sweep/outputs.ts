@@ -75,15 +75,18 @@ export function parseCellsJson(text: string): { meta: SweepMeta; cells: CellResu
 
 /** Units guessed from SI suffixes of result keys (`ttv_rms_s` → s). */
 const SUFFIX_UNITS: Array<[RegExp, string]> = [
-  [/_W_m2$/i, 'W / m2'],
+  [/_w_m2$/i, 'W / m2'],
   [/_kg_m3$/i, 'kg / m3'],
-  [/_ppm$/, '1e-06'],
   [/_kg$/, 'kg'],
   [/_rad$/, 'rad'],
-  [/_K$/, 'K'],
+  [/_k$/, 'K'],
+  [/_w$/, 'W'],
   [/_s$/, 's'],
   [/_m$/, 'm'],
 ];
+
+/** Name suffix of an axis column for its SI unit (axisFields.ts units); '' for plain numbers and fractions. */
+const AXIS_UNIT_SUFFIX: Record<string, string> = { kg: '_kg', m: '_m', s: '_s', rad: '_rad', 'kg/m^3': '_kg_m3', W: '_w', K: '_k' };
 
 function unitOf(name: string): string | undefined {
   for (const [re, u] of SUFFIX_UNITS) if (re.test(name)) return u;
@@ -112,7 +115,9 @@ export function cellsTable(meta: SweepMeta, results: readonly CellResult[]): Tab
   ];
   const taken = new Set(['index']);
   meta.axes.forEach((a, k) => {
-    const name = a.field.replace(/\./g, '_');
+    // The axis column bears the vocabulary's name for its quantity (moon.mass → moon_mass_kg), and the
+    // cell result of the same name is not repeated beside it (one column per concept).
+    const name = a.field.replace(/\./g, '_') + (AXIS_UNIT_SUFFIX[a.unit] ?? '');
     taken.add(name);
     columns.push({
       name, datatype: 'float64', unit: a.unit || undefined,
@@ -153,7 +158,8 @@ export function cellsTable(meta: SweepMeta, results: readonly CellResult[]): Tab
       if (datatype === 'bool') return v as boolean;
       return v === null || v === undefined ? '' : String(v);
     });
-    const name = taken.has(key) ? `${key}_result` : key;
+    if (taken.has(key)) continue; // an axis column already holds it
+    const name = key;
     taken.add(name);
     columns.push({ name, datatype, unit: datatype === 'float64' ? unitOf(key) : undefined, values: values as number[] | string[] | boolean[] });
   }

@@ -38,6 +38,21 @@ describe('moonsieve budget (CLI)', () => {
     expect(r.out).toBe('');
   });
 
+  it('--no-moon-realizations sets the calibration count; the old --null-realizations still works, with a note on stderr', async () => {
+    const now = await run([demo, '--forecast-only', '--json', '--quiet', '--no-moon-realizations', '60']);
+    expect(now.error).toBeNull();
+    expect(JSON.parse(now.out).no_moon_realizations).toBe(60);
+    expect(now.err).not.toMatch(/deprecated/);
+    const absent = await run([demo, '--forecast-only', '--json', '--quiet']);
+    expect(JSON.parse(absent.out).no_moon_realizations).toBe(400); // the default (budgetSpec.ts)
+    const old = await run([demo, '--forecast-only', '--json', '--quiet', '--null-realizations', '60']);
+    expect(old.error).toBeNull();
+    expect(JSON.parse(old.out).no_moon_realizations).toBe(60);
+    expect(old.err).toMatch(/note: --null-realizations is deprecated: write --no-moon-realizations/);
+    const bad = await run([demo, '--forecast-only', '--no-moon-realizations', '2']);
+    expect((bad.error as InputError).message).toContain('--no-moon-realizations: got "2"');
+  });
+
   it('a target moon the scenario refuses names the flag', async () => {
     const r = await run([demo, '--forecast-only', '--moon-separation', '1 Rp']);
     expect(r.error).toBeInstanceOf(InputError);

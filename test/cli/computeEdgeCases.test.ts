@@ -46,8 +46,8 @@ describe('fewer than 3 transits is an answer', () => {
     expect(r.out).toMatch(/no TTV channel with 2 transits; TDV [\d.]+ % \(1 degree of freedom\)/);
     const j = await run(['limits', scenario('two'), '--json']);
     const obj = JSON.parse(j.out);
-    expect(obj.forecast_ttv_probability).toBeNull();
-    expect(typeof obj.forecast_tdv_probability).toBe('number');
+    expect(obj.pdet_forecast_ttv).toBeNull();
+    expect(typeof obj.pdet_forecast_tdv).toBe('number');
   });
 
   it('limits with 1 transit: exit 0, no timing channel, moon dip only', async () => {
@@ -72,7 +72,7 @@ describe('fewer than 3 transits is an answer', () => {
     expect(r.code).toBe(0);
     const cells = JSON.parse(readFileSync(join(out, 'cells.json'), 'utf8'));
     const list = Array.isArray(cells) ? cells : cells.cells;
-    expect(list[0].forecast_ttv).toBeNull();
+    expect(list[0].pdet_forecast_ttv).toBeNull();
   });
 });
 

@@ -127,6 +127,18 @@ describe('sweep block validation', () => {
     expect(problems(() => spec(withSweep({ simulate_unstable: 'yes' })))[0].path).toBe('sweep.simulate_unstable');
   });
 
+  it('reads no_moon_realizations, and the old spelling null_realizations with a deprecation note', () => {
+    const now = spec(withSweep({ no_moon_realizations: 300 }));
+    expect(now.nullRealizations).toBe(300);
+    expect(now.deprecations).toEqual([]);
+    const old = spec(withSweep({ null_realizations: 300 }));
+    expect(old.nullRealizations).toBe(300);
+    expect(old.deprecations).toEqual([expect.stringMatching(/sweep\.null_realizations is deprecated: write sweep\.no_moon_realizations/)]);
+    expect(old.notes).toEqual(now.notes); // not part of the sweep's identity
+    expect(problems(() => spec(withSweep({ null_realizations: 3 })))[0].path).toBe('sweep.null_realizations');
+    expect(problems(() => spec(withSweep({ no_moon_realizations: 3 })))[0].path).toBe('sweep.no_moon_realizations');
+  });
+
   it('refuses a moon axis when the scenario has no moon', () => {
     const { moon: _moon, ...noMoon } = BASE;
     void _moon;
