@@ -33,8 +33,10 @@ describe('moonsieve vet', () => {
     const out = await run([demo, '--json', '--html', html]);
     const r = JSON.parse(out);
     expect(['consistent with a moon', 'in tension', 'implausible']).toContain(r.verdict);
-    expect(r.implied.separationM.median).toBeGreaterThan(0);
-    expect(r.tableSignificance.transits).toBe(13);
+    expect(r.schema).toBe('moonsieve/vet/1');
+    expect(r.implied.moon_separation_m.median).toBeGreaterThan(0);
+    expect(r.table_significance.transits).toBe(13);
+    expect(r.system.hill_radius_m).toBeGreaterThan(0);
     const page = readFileSync(html, 'utf8');
     expect(page).toContain('Plotly.newPlot');
     expect(page).not.toMatch(/<script[^>]+src=/);
