@@ -5,6 +5,7 @@ import { planBudget } from '../budget/planBudget.js';
 import { readBudgetFlags, type BudgetFlags } from '../budget/budgetSpec.js';
 import { formatBudget } from '../budget/formatBudget.js';
 import { renderBudgetPage } from '../budget/budgetPage.js';
+import { budgetToJson } from '../budget/budgetJson.js';
 import type { CliIo } from './main.js';
 import { InputError } from '../scenario/errors.js';
 import { checkOutputFile } from '../io/outputPaths.js';
@@ -45,7 +46,7 @@ export function registerBudget(program: Command, io: CliIo): void {
           throw new InputError([{ path: '--html', value: opts.html, allowed: `cannot be written (${(e as NodeJS.ErrnoException).code ?? String(e)}); give a file in a writable folder` }]);
         }
       }
-      io.out(opts.json ? JSON.stringify(result, null, 2) + '\n' : formatBudget(result));
+      io.out(opts.json ? JSON.stringify(budgetToJson(result), null, 2) + '\n' : formatBudget(result));
       if (opts.html && !opts.json) io.out(`wrote ${opts.html}\n`);
     });
 }

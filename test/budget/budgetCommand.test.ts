@@ -65,7 +65,10 @@ describe('moonsieve budget (CLI)', () => {
     const r = await run([demo, '--forecast-only', '--json', '--moon-mass', '0.6 Mearth', '--moon-separation', '18 Rp', '--probability', '90 %', '--html', page]);
     expect(r.error).toBeNull();
     const j = JSON.parse(r.out);
+    expect(j.schema).toBe('moonsieve/budget/1');
     expect(j.solve).toBe('transits');
+    expect(j.quantity.display_unit).toBeTypeOf('string');
+    expect(j.answer.telescope_time_s).toBeGreaterThan(0);
     expect(j.probability_target).toBeCloseTo(0.9, 15);
     expect(j.answer.reached).toBe(true);
     expect(j.quantity.values[0]).toBe(1); // the combined channel exists from 1 transit (the moon dip; budgetSpec.ts minTransitsFor)
