@@ -2,7 +2,7 @@
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
-import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
+import { computeLimits, limitsToJson, type LimitsJson } from '../physics/computeLimits.js';
 import { assertObservable } from '../photometry/transitWindows.js';
 import { AU_M, DAY_S, HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
@@ -19,7 +19,7 @@ export function registerLimits(program: Command, io: CliIo): void {
       assertObservable(scenario, scenarioPath);
       io.err(formatCautions(scenario)); // odd but legal inputs, as note: lines
       const limits = computeLimits(scenario);
-      io.out(opts.json ? JSON.stringify(limits, null, 2) + '\n' : formatLimits(scenario, limits));
+      io.out(opts.json ? JSON.stringify(limitsToJson(limits), null, 2) + '\n' : formatLimits(scenario, limits));
     });
 }
 
@@ -60,8 +60,8 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
   lines.push('Where a moon can orbit');
   row('Hill radius a(M/3M*)^1/3', `${(l.hill_radius_m / AU_M).toFixed(5)} au = ${km(l.hill_radius_m)} = ${(l.hill_radius_m / rp).toFixed(1)} Rp`);
   row('Hill radius at pericentre', `${km(l.hill_radius_pericentre_m)}`);
-  row('stable limit, prograde (DWY06)', `${km(l.stable_max_separation_m)} = ${(l.stable_max_separation_m / rp).toFixed(1)} Rp`);
-  row('stable limit, retrograde (DWY06)', `${km(l.stable_max_separation_retrograde_m)} = ${(l.stable_max_separation_retrograde_m / rp).toFixed(1)} Rp`);
+  row('stable limit, prograde', `${km(l.stable_max_separation_m)} = ${(l.stable_max_separation_m / rp).toFixed(1)} Rp (Domingos, Winter & Yokoyama 2006)`);
+  row('stable limit, retrograde', `${km(l.stable_max_separation_retrograde_m)} = ${(l.stable_max_separation_retrograde_m / rp).toFixed(1)} Rp (Domingos, Winter & Yokoyama 2006)`);
   row(`Roche limit, fluid (moon ${fmt(l.roche_moon_density_kg_m3)} kg/m³)`, `${km(l.roche_limit_m)} = ${(l.roche_limit_m / rp).toFixed(2)} Rp`);
   row('Roche limit, rigid', `${km(l.roche_limit_rigid_m)} = ${(l.roche_limit_rigid_m / rp).toFixed(2)} Rp`);
   row('largest moon surviving tidal migration', `${fmt(l.tidal_max_moon_mass_kg / M_EARTH_KG)} Mearth (planet k2 ${s.planet.k2}, Q ${fmt(s.planet.tidalQ)}, age ${fmt(s.star.ageS / (DAY_S * 365.25e9))} Gyr)`);

@@ -94,6 +94,13 @@ export interface LimitsJson {
   assumptions: string[];
 }
 
+export const LIMITS_SCHEMA = 'moonsieve/limits/1';
+
+/** The `limits --json` document: the limits (already in the vocabulary's names) under their schema id. */
+export function limitsToJson(l: LimitsJson): { schema: typeof LIMITS_SCHEMA } & LimitsJson {
+  return { schema: LIMITS_SCHEMA, ...l };
+}
+
 /** Roche limits are quoted for the scenario's moon, or for a rock moon of this density without one. */
 export const DEFAULT_MOON_DENSITY_KG_M3 = 3000;
 

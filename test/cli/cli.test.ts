@@ -63,6 +63,13 @@ describe('moonsieve CLI', () => {
       expect(obj, k).toHaveProperty(k);
       expect(obj[k], k).not.toBeNull();
     }
+    expect(obj.schema).toBe('moonsieve/limits/1');
+    // Dimensionless values are plain fractions in JSON (ppm is for screens): the demo moon's dip is tens of ppm.
+    expect(obj.moon_depth).toBeGreaterThan(0);
+    expect(obj.moon_depth).toBeLessThan(1e-3);
+    expect(t.out).toMatch(/moon dip depth\s+\d+\.\d\d ppm/);
+    expect(t.out).toContain('Domingos, Winter & Yokoyama 2006');
+    expect(t.out).not.toContain('DWY06');
     for (const k of ['stellar_w_m2', 'reflected_w_m2', 'thermal_w_m2', 'tidal_w_m2', 'total_w_m2', 'runaway_limit_w_m2', 'verdict']) {
       expect(obj.energy_budget, k).toHaveProperty(k);
     }

@@ -108,11 +108,30 @@ describe('geometry, cadence and size', () => {
     expect(l.code).toBe(2);
   });
 
-  it('simulate --realization 1e20: an option error with the allowed range', async () => {
-    const r = await run(['simulate', scenario('two'), '--realization', '1e20', '--out', join(dir, 'sim-r')]);
+  it('simulate --draw 1e20: an option error with the allowed range; the old --realization names itself and is noted as deprecated', async () => {
+    const r = await run(['simulate', scenario('two'), '--draw', '1e20', '--out', join(dir, 'sim-r')]);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/--realization: got "1e20"; expected a whole number from 0 to 9007199254740991/);
+    expect(r.err).toMatch(/--draw: got "1e20"; expected a whole number from 0 to 9007199254740991/);
     expect(existsSync(join(dir, 'sim-r'))).toBe(false);
+    const old = await run(['simulate', scenario('two'), '--realization', '1e20', '--out', join(dir, 'sim-r')]);
+    expect(old.code).toBe(2);
+    expect(old.err).toMatch(/note: --realization is deprecated: write --draw/);
+    expect(old.err).toMatch(/--realization: got "1e20"; expected a whole number from 0 to 9007199254740991/);
+    expect(existsSync(join(dir, 'sim-r'))).toBe(false);
+  });
+
+  it('simulate --draw N and the deprecated --realization N draw the same noise', async () => {
+    const a = await run(['simulate', scenario('two'), '--draw', '3', '--out', join(dir, 'sim-d3')]);
+    const b = await run(['simulate', scenario('two'), '--realization', '3', '--out', join(dir, 'sim-r3')]);
+    const c = await run(['simulate', scenario('two'), '--out', join(dir, 'sim-d0')]);
+    expect([a.code, b.code, c.code]).toEqual([0, 0, 0]);
+    const lc = (d: string) => readFileSync(join(dir, d, 'lightcurve.ecsv'), 'utf8');
+    expect(lc('sim-d3')).toBe(lc('sim-r3'));
+    expect(lc('sim-d3')).not.toBe(lc('sim-d0'));
+    const transits = readFileSync(join(dir, 'sim-d3', 'transits.ecsv'), 'utf8');
+    // Durations in SI like their errors (one unit per table).
+    expect(transits).toContain('{name: "fit_duration", unit: "s",');
+    expect(transits).toContain('{name: "fit_duration_err", unit: "s",');
   });
 
   it('a 4-day baseline around a 5-day period: each time stamp written once', async () => {
