@@ -45,6 +45,15 @@ export interface SweepRunInfo {
   merged_from?: Array<{ dir: string; run: unknown }>;
 }
 
+/** Schema ids of the JSON files of an output folder (schemas/*.schema.json; summary.json's is SUMMARY_SCHEMA). */
+export const CELLS_SCHEMA = 'moonsieve/cells/1';
+export const RUN_SCHEMA = 'moonsieve/run/1';
+
+/** run.json text: the run info under its schema id. */
+export function renderRunJson(run: SweepRunInfo): string {
+  return JSON.stringify({ schema: RUN_SCHEMA, ...run }, null, 2) + '\n';
+}
+
 export const OUTPUT_FILES = ['cells.json', 'cells.ecsv', 'scenario.yaml', 'summary.json', 'report.html', 'run.json'] as const;
 
 function byIndex(results: readonly CellResult[]): CellResult[] {
@@ -55,7 +64,7 @@ function byIndex(results: readonly CellResult[]): CellResult[] {
 export function renderCellsJson(meta: SweepMeta, results: readonly CellResult[]): string {
   const cells = byIndex(results);
   const body = cells.map((c) => '    ' + JSON.stringify(c)).join(',\n');
-  return `{\n  "meta": ${JSON.stringify(meta)},\n  "cells": [\n${body}${cells.length ? '\n' : ''}  ]\n}\n`;
+  return `{\n  "schema": ${JSON.stringify(CELLS_SCHEMA)},\n  "meta": ${JSON.stringify(meta)},\n  "cells": [\n${body}${cells.length ? '\n' : ''}  ]\n}\n`;
 }
 
 /** Read back what `renderCellsJson` wrote. */
@@ -202,7 +211,7 @@ export function writeSweepOutputs(dir: string, meta: SweepMeta, results: readonl
     ...(scenarioDoc !== null ? ([['scenario.yaml', stringifyYaml(scenarioDoc)]] as Array<[string, string]>) : []),
     ['summary.json', renderSummaryJson(summary)],
     ['report.html', renderSweepReport({ meta, cells: results, runInfo: run, scenario: scenarioDoc, summary })],
-    ['run.json', JSON.stringify(run, null, 2) + '\n'],
+    ['run.json', renderRunJson(run)],
   ];
   // Staged and renamed as one set; a previous set's file this one lacks (scenario.yaml) is removed.
   return commitOutputs(dir, files, [...OUTPUT_FILES]);
