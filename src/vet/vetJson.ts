@@ -41,7 +41,7 @@ export interface PeriodogramJson {
   power: number[];
   peak_frequency_per_epoch: number;
   peak_power: number;
-  false_alarm: number;
+  peak_false_alarm: number;
 }
 
 export interface RunsTestJson {
@@ -141,7 +141,7 @@ const bic = (b: BicComparison): BicJson => ({
   points: b.points, parameters_no_moon: b.kNoMoon, parameters_moon: b.kMoon, bic_no_moon: b.bicNoMoon, bic_moon: b.bicMoon, bic_delta: b.delta, frequency_per_epoch: b.frequencyPerEpoch,
 });
 const periodogram = (p: PeriodogramSummary): PeriodogramJson => ({
-  frequency_per_epoch: p.frequency, power: p.power, peak_frequency_per_epoch: p.peakFrequencyPerEpoch, peak_power: p.peakPower, false_alarm: p.falseAlarmProbability,
+  frequency_per_epoch: p.frequency, power: p.power, peak_frequency_per_epoch: p.peakFrequencyPerEpoch, peak_power: p.peakPower, peak_false_alarm: p.falseAlarmProbability,
 });
 const runs = (r: RunsTest): RunsTestJson => ({ runs: r.runs, expected_runs: r.expectedRuns, z: r.z, p_value_few_runs: r.pValueFewRuns });
 

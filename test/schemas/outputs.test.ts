@@ -30,6 +30,8 @@ const SCHEMAS = ['limits', 'vet', 'budget', 'cells', 'summary', 'run'] as const;
 type Name = (typeof SCHEMAS)[number];
 /** Outputs produced once for all tests: schema name → the parsed documents. */
 const outputs = new Map<Name, Array<{ what: string; doc: unknown }>>();
+/** cells.ecsv texts of the sweeps above. */
+const ecsvs: string[] = [];
 const add = (name: Name, what: string, text: string) => {
   const list = outputs.get(name) ?? [];
   list.push({ what, doc: JSON.parse(text) });
@@ -64,6 +66,7 @@ beforeAll(async () => {
     add('cells', `${name}/cells.json`, readFileSync(join(folder, 'cells.json'), 'utf8'));
     add('summary', `${name}/summary.json`, readFileSync(join(folder, 'summary.json'), 'utf8'));
     add('run', `${name}/run.json`, readFileSync(join(folder, 'run.json'), 'utf8'));
+    ecsvs.push(readFileSync(join(folder, 'cells.ecsv'), 'utf8'));
   }
 }, 240_000);
 
@@ -111,6 +114,16 @@ describe('docs/vocabulary.md: one table of names', () => {
     const missing = new Set<string>();
     for (const [name, docs] of outputs) for (const { doc } of docs) for (const k of keysOf(doc)) if (!NAMES.has(k)) missing.add(`${name}: ${k}`);
     expect([...missing]).toEqual([]);
+  });
+
+  it('lists every column of cells.ecsv (the cell fields flattened, and the axis columns with their unit suffix)', () => {
+    expect(ecsvs.length).toBeGreaterThan(0);
+    for (const text of ecsvs) {
+      const columns = [...text.matchAll(/^# - \{name: "?([A-Za-z0-9_]+)"?,/gm)].map((m) => m[1]);
+      expect(columns).toContain('moon_mass_kg'); // the moon.mass axis, once
+      expect(columns.filter((c) => c === 'moon_mass_kg')).toHaveLength(1);
+      expect(columns.filter((c) => !NAMES.has(c))).toEqual([]);
+    }
   });
 
   it('holds no name the outputs and schemas have given up (old spellings)', () => {
