@@ -6,7 +6,7 @@
  * (Monte Carlo and forecast-only, a shard and the merge of the shards).
  */
 import { describe, it, expect, beforeAll } from 'vitest';
-import { mkdtempSync, readFileSync, readdirSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../src/cli/main.js';
@@ -49,6 +49,22 @@ beforeAll(async () => {
   add('limits', 'limits demo', await json(['limits', demo, '--json']));
   add('limits', 'limits tiny', await json(['limits', tiny, '--json']));
   add('vet', 'vet demo claim', await json(['vet', claim, '--json']));
+  // Claimed amplitudes (an invented system), both and TTV alone: the other branches of the vet document.
+  const amplitudes = (block: string) => `name: invented amplitudes
+seed: 11
+star: {mass: 1 Msun, radius: 1 Rsun, teff: 5800 K, limb_darkening: {u1: 0.4, u2: 0.25}}
+planet: {mass: 2 Mjup, radius: 1.1 Rjup, period: 300 d, impact_parameter: 0.1}
+claim:
+${block}
+  transits: 36
+  precision: 100 ppm per 2 min
+  moon_dip: none
+`;
+  writeFileSync(join(dir, 'both.yaml'), amplitudes('  ttv: {amplitude: 90 s, uncertainty: 10 s, kind: rms}\n  tdv: {amplitude: 20 s, uncertainty: 4 s, kind: rms}'));
+  writeFileSync(join(dir, 'ttv.yaml'), amplitudes('  ttv: {amplitude: 90 s, uncertainty: 10 s, kind: rms}'));
+  add('vet', 'vet amplitudes', await json(['vet', join(dir, 'both.yaml'), '--json']));
+  add('vet', 'vet TTV amplitude', await json(['vet', join(dir, 'ttv.yaml'), '--json']));
+  add('budget', 'budget habitable forecast-only', await json(['budget', demo, '--habitable', '--forecast-only', '--json', '--quiet']));
   add('budget', 'budget forecast-only', await json(['budget', demo, '--forecast-only', '--json', '--quiet']));
   add('budget', 'budget Monte Carlo', await json(['budget', tiny, '--json', '--quiet', '--realizations', '4', '--no-moon-realizations', '40', '--max-transits', '6']));
   const sweeps: Array<[string, string[]]> = [
@@ -86,6 +102,10 @@ describe('JSON outputs and their schemas', () => {
     expect(cells.some((c) => c.simulated)).toBe(true);
     expect(cells.some((c) => !c.simulated)).toBe(true);
     expect((outputs.get('run') ?? []).some(({ doc }) => Array.isArray((doc as { merged_from?: unknown[] }).merged_from))).toBe(true);
+    const vets = (outputs.get('vet') ?? []).map(({ doc }) => doc as { input: string; implied: { mode: string } | null });
+    expect(vets.map((v) => v.input).sort()).toEqual(['amplitudes', 'amplitudes', 'table']);
+    expect(vets.filter((v) => v.implied).map((v) => v.implied!.mode).sort()).toEqual(expect.arrayContaining(['ttv only', 'ttv+tdv']));
+    expect((outputs.get('budget') ?? []).some(({ doc }) => (doc as { habitable: unknown }).habitable !== null)).toBe(true);
     const mc = (outputs.get('budget') ?? []).find(({ what }) => what === 'budget Monte Carlo')?.doc as { evaluations: unknown[] };
     expect(mc.evaluations.length).toBeGreaterThan(0);
     expect(NAMES.size).toBeGreaterThan(200);
