@@ -147,7 +147,7 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
   const notes: string[] = [];
   const axes: SweepAxis[] = [];
   axisDocs.forEach((a, i) => {
-    const axis = readAxis(a, `${prefix}[${i}]`, doc, base, problems, notes);
+    const axis = readAxis(a, `${prefix}[${i}]`, doc, base, problems, notes, deprecations);
     if (axis) {
       if (axes.some((b) => b.field === axis.field)) {
         problems.push({ path: `${prefix}[${i}].field`, value: axis.field, allowed: 'each axis must vary a different field' });
@@ -160,10 +160,15 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
   return { realizations, nullRealizations, simulateUnstable, axes, defaultAxes, notes, deprecations };
 }
 
-function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, problems: FieldProblem[], notes: string[]): SweepAxis | null {
+/** Axis fields renamed in this release: old → new (the old name is read, with a note, for one release). */
+const RENAMED_AXIS_FIELDS: ReadonlyMap<string, string> = new Map([['planet.periastron', 'planet.periapsis']]);
+
+function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, problems: FieldProblem[], notes: string[], deprecations: string[]): SweepAxis | null {
   const before = problems.length;
   const r = new FieldReader(raw, path, problems);
-  const field = r.string('field', '');
+  const written = r.string('field', '');
+  const field = RENAMED_AXIS_FIELDS.get(written) ?? written;
+  if (field !== written) deprecations.push(`${path}.field: ${written} is deprecated: write ${field} (the old name is accepted in this release only)`);
   const valuesRaw = r.raw('values');
   const listed = valuesRaw !== undefined && valuesRaw !== null;
   const fromRaw = r.raw('from');
