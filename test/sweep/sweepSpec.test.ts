@@ -128,7 +128,7 @@ describe('sweep block validation', () => {
   });
 
   it('reads the old axis field planet.periastron as planet.periapsis, with a deprecation note; its values replace the old key', () => {
-    const base = { ...BASE, planet: { ...BASE.planet, eccentricity: 0.2, periastron: '40 deg' } };
+    const base = { ...BASE, planet: { ...(BASE.planet as Record<string, unknown>), eccentricity: 0.2, periastron: '40 deg' } };
     const sw = spec({ ...base, sweep: { axes: [{ field: 'planet.periastron', from: '10 deg', to: '80 deg', count: 2 }] } });
     expect(sw.axes[0].field).toBe('planet.periapsis');
     expect(sw.deprecations).toEqual([expect.stringMatching(/sweep\.axes\[0\]\.field: planet\.periastron is deprecated: write planet\.periapsis/)]);
