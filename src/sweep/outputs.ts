@@ -69,8 +69,9 @@ export function renderCellsJson(meta: SweepMeta, results: readonly CellResult[])
 
 /** Read back what `renderCellsJson` wrote. */
 export function parseCellsJson(text: string): { meta: SweepMeta; cells: CellResult[] } {
-  const v = JSON.parse(text) as { meta?: SweepMeta; cells?: CellResult[] };
+  const v = JSON.parse(text) as { schema?: unknown; meta?: SweepMeta; cells?: CellResult[] };
   if (!v || typeof v !== 'object' || !v.meta || !Array.isArray(v.cells)) throw new Error('not a moonsieve cells.json (no meta or cells)');
+  if (v.schema !== CELLS_SCHEMA) throw new Error(`its schema is ${v.schema === undefined ? 'not stated (an older moonsieve wrote it)' : JSON.stringify(v.schema)}, this moonsieve reads ${CELLS_SCHEMA}: re-run the sweep with this version`);
   const m = v.meta as unknown as Record<string, unknown>;
   const axes = m.axes as Array<{ values?: unknown }> | undefined;
   const gridOk = Array.isArray(axes) && axes.length >= 1 &&
