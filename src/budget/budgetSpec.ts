@@ -7,7 +7,7 @@
  *
  *   budget:
  *     probability: 0.9            # or "90 %"
- *     solve: transits             # transits | cadence | precision
+ *     solve: transits             # transits | cadence | noise
  *     channel: combined           # combined | ttv | tdv | dip
  *     moon_mass: 0.6 Mearth       # target moon (default: the scenario's moon)
  *     moon_separation: 18 Rp      # length, "N Rp" or "f hill"
@@ -183,7 +183,7 @@ export function readBudgetFlags(flags: BudgetFlags): BudgetTarget {
     if (typeof byFlag['--moon-separation'] === 'string') t.moonSeparationText = byFlag['--moon-separation'];
   }
   if ((s = src('--probability'))) t.probability = readProbability(s);
-  if ((s = src('--solve'))) t.solve = r.choice(s.key, BUDGET_SOLVES, 'transits');
+  if ((s = src('--solve'))) t.solve = readSolve(s, []);
   if ((s = src('--channel'))) t.channel = r.choice(s.key, BUDGET_CHANNELS, 'combined');
   if ((s = src('--realizations'))) t.realizations = readInt(s, 1, 100000, REALIZATIONS_TEXT);
   if ((s = src('--no-moon-realizations'))) t.nullRealizations = readInt(s, 4, 1_000_000, NULL_TEXT);
@@ -224,6 +224,15 @@ function readHabitable(get: (key: string) => Source | null, base: HabitableTarge
   return h;
 }
 
+/** `solve`, with its old value `precision` read as `noise` (a note in `deprecations`) for one release. */
+function readSolve(s: Source, deprecations: string[]): BudgetSolve {
+  if (s.r.raw(s.key) === 'precision') {
+    deprecations.push(`${s.r.path(s.key)}: precision is deprecated: write noise (the old value is accepted in this release only)`);
+    return 'noise';
+  }
+  return s.r.choice(s.key, BUDGET_SOLVES, 'transits');
+}
+
 /** Check one typed value of a library caller's target; records a problem under `target.<name>`. */
 function checkTyped(problems: FieldProblem[], name: string, value: unknown, ok: boolean, allowed: string): void {
   if (!ok) problems.push({ path: `target.${name}`, value, allowed });
@@ -253,7 +262,8 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   };
 
   const probability = pick('probability', 'probability', (v) => typeof v === 'number' && v > 0 && v < 1, PROBABILITY_TEXT, readProbability, DEFAULT_BUDGET_PROBABILITY);
-  const solve = pick<BudgetSolve>('solve', 'solve', (v) => (BUDGET_SOLVES as readonly unknown[]).includes(v), `expected one of ${BUDGET_SOLVES.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_SOLVES, 'transits'), 'transits');
+  const solveDeprecations: string[] = [];
+  const solve = pick<BudgetSolve>('solve', 'solve', (v) => (BUDGET_SOLVES as readonly unknown[]).includes(v), `expected one of ${BUDGET_SOLVES.join(', ')}`, (s) => readSolve(s, solveDeprecations), 'transits');
   const channel = pick<BudgetChannel>('channel', 'channel', (v) => (BUDGET_CHANNELS as readonly unknown[]).includes(v), `expected one of ${BUDGET_CHANNELS.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_CHANNELS, 'combined'), 'combined');
   // `null_realizations` is the old name of `no_moon_realizations`, accepted for one release (planBudget notes it).
   b.raw('null_realizations');
@@ -316,5 +326,5 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   const realizations = pick('realizations', 'realizations', (v) => isInt(v, 1, 100000), REALIZATIONS_TEXT, (s) => readInt(s, 1, 100000, REALIZATIONS_TEXT), habitable ? DEFAULT_HABITABLE_REALIZATIONS : DEFAULT_BUDGET_REALIZATIONS);
   b.rejectUnknown();
   if (problems.length > 0) throw new InputError(problems, source);
-  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, moonSeparationText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable, deprecations: nullKey === 'null_realizations' ? ['budget.null_realizations is deprecated: write budget.no_moon_realizations (the old name is accepted in this release only)'] : [] };
+  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, moonSeparationText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable, deprecations: [...(nullKey === 'null_realizations' ? ['budget.null_realizations is deprecated: write budget.no_moon_realizations (the old name is accepted in this release only)'] : []), ...solveDeprecations] };
 }

@@ -5,8 +5,9 @@
  */
 
 /** What the budget solves for, the rest of the scenario held fixed. */
-export type BudgetSolve = 'transits' | 'cadence' | 'precision';
-export const BUDGET_SOLVES: readonly BudgetSolve[] = ['transits', 'cadence', 'precision'];
+/** What a budget solves for; `noise` is the white-noise level (`instrument.noise`; its old name `precision` is read for one release). */
+export type BudgetSolve = 'transits' | 'cadence' | 'noise';
+export const BUDGET_SOLVES: readonly BudgetSolve[] = ['transits', 'cadence', 'noise'];
 
 /** Which detection decision must reach the probability (as in the sweep's cells). */
 export type BudgetChannel = 'combined' | 'ttv' | 'tdv' | 'dip';

@@ -18,7 +18,7 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--moon-mass <mass>', 'target moon mass, e.g. "0.6 Mearth" (default: the scenario\'s moon)')
     .option('--moon-separation <sep>', 'target moon separation: a length, "18 Rp" or "0.2 hill" (default: the scenario\'s moon)')
     .option('--probability <p>', 'detection probability to reach, e.g. 0.9 or "90 %" (default 0.9)')
-    .option('--solve <what>', 'transits | cadence | precision (default transits)')
+    .option('--solve <what>', 'transits | cadence | noise (default transits; the old value precision is accepted in this release)')
     .option('--channel <ch>', 'combined | ttv | tdv | dip (default combined)')
     .option('--realizations <n>', 'moon realizations per Monte Carlo evaluation (default 100; 40 per moon with --habitable)')
     .option('--no-moon-realizations <n>', 'no-moon realizations calibrating the false-alarm thresholds per evaluation (default 400)')
@@ -58,6 +58,7 @@ export function registerBudget(program: Command, io: CliIo): void {
  */
 function budgetFlags(opts: BudgetFlags, io: CliIo): BudgetFlags {
   const { moonRealizations, nullRealizations, ...rest } = opts;
+  if (rest.solve === 'precision') io.err('note: --solve precision is deprecated: write --solve noise (the old value is accepted in this release only)\n');
   let given = typeof moonRealizations === 'string' ? moonRealizations : undefined;
   if (nullRealizations !== undefined) {
     io.err('note: --null-realizations is deprecated: write --no-moon-realizations (the old spelling is accepted in this release only)\n');

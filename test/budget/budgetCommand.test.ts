@@ -78,9 +78,14 @@ describe('moonsieve budget (CLI)', () => {
   });
 
   it('the table names the answer, the forecast caveat for this moon and the assumptions', async () => {
-    const r = await run([demo, '--forecast-only', '--solve', 'precision']);
+    const r = await run([demo, '--forecast-only', '--solve', 'noise']);
     expect(r.error).toBeNull();
     expect(r.out).toMatch(/worst white-noise level/);
+    expect(r.err).not.toMatch(/deprecated/);
+    const old = await run([demo, '--forecast-only', '--solve', 'precision']);
+    expect(old.error).toBeNull();
+    expect(old.out).toBe(r.out); // the same answer
+    expect(old.err).toMatch(/note: --solve precision is deprecated: write --solve noise/);
     expect(r.out).toMatch(/photocentric/); // the demo moon's dip is large for its mass
     expect(r.out).toMatch(/Assumptions/);
   });

@@ -134,7 +134,7 @@ describe('budget forecast', () => {
     for (let i = 1; i < c.values.length; i++) expect(c.values[i - 1] / c.values[i]).toBeCloseTo(GEOMETRIC_STEP, 12);
     expect(c.values[c.values.length - 1]).toBeGreaterThanOrEqual(MIN_CADENCE_S);
     expect(c.values[0]).toBeLessThanOrEqual(scenarioDurations(s).t14S / 3);
-    const n = solvedQuantity('precision', d, s, 50);
+    const n = solvedQuantity('noise', d, s, 50);
     expect(n.values).toContain(s.instrument.noiseFraction);
     expect(n.values[0]).toBeGreaterThan(n.values[n.values.length - 1]);
   });
