@@ -19,6 +19,7 @@ export function registerVet(program: Command, io: CliIo): void {
     .action((claimPath: string, opts: { json?: boolean; html?: string }) => {
       if (opts.html !== undefined) checkOutputFile('--html', opts.html);
       const claim = loadClaim(claimPath);
+      for (const d of claim.deprecations ?? []) io.err(`note: ${d}\n`);
       const result = vetClaim(claim);
       const page = opts.html ? renderVetPage(result) : null;
       if (opts.html && page !== null) writeFileAtomic(opts.html, page);

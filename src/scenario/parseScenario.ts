@@ -30,13 +30,13 @@ const DEG = Math.PI / 180;
 export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = ['sweep', 'budget'];
 
 /** Keys renamed in this release: old → new (the old one is read, with a caution, for one release). */
-const PLANET_RENAMES: ReadonlyArray<[string, string]> = [['periastron', 'periapsis']];
+export const PLANET_RENAMES: ReadonlyArray<[string, string]> = [['periastron', 'periapsis']];
 
 /**
  * A block with its old key names moved to the new ones, one caution per old key met; both
  * spellings at once is a problem. Anything not a mapping is returned as is (the reader reports it).
  */
-function renamedKeys(raw: unknown, block: string, renames: ReadonlyArray<[string, string]>, problems: FieldProblem[], cautions: ScenarioCaution[]): unknown {
+export function renamedKeys(raw: unknown, block: string, renames: ReadonlyArray<[string, string]>, problems: FieldProblem[], cautions: ScenarioCaution[]): unknown {
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) return raw;
   let out = raw as Record<string, unknown>;
   for (const [old, now] of renames) {

@@ -57,7 +57,7 @@ planet: {mass: 2 Mjup, radius: 1.1 Rjup, period: 300 d, impact_parameter: 0.1}
 claim:
 ${block}
   transits: 36
-  precision: 100 ppm per 2 min
+  noise: 100 ppm per 2 min
   moon_dip: none
 `;
   writeFileSync(join(dir, 'both.yaml'), amplitudes('  ttv: {amplitude: 90 s, uncertainty: 10 s, kind: rms}\n  tdv: {amplitude: 20 s, uncertainty: 4 s, kind: rms}'));
