@@ -30,7 +30,7 @@ export { timingSignals } from './physics/timingSignals.js';
 export { ttvAlias, aliasFamily } from './physics/ttvAlias.js';
 export { timingPrecision } from './physics/timingPrecision.js';
 export { forecastDetection } from './physics/detectionForecast.js';
-export { computeLimits, type LimitsJson } from './physics/computeLimits.js';
+export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson } from './physics/computeLimits.js';
 
 // Photometry
 export { transitFlux } from './photometry/transitFlux.js';
@@ -57,13 +57,14 @@ export { modelTimingPrecision } from './timing/modelTimingPrecision.js';
 export { runSweep, loadSweep, type SweepOptions, type SweepOutcome } from './sweep/runSweep.js';
 export { mergeShards } from './sweep/merge.js';
 export { runCell } from './sweep/runCell.js';
-export { writeSweepOutputs } from './sweep/outputs.js';
+export { writeSweepOutputs, CELLS_SCHEMA, RUN_SCHEMA } from './sweep/outputs.js';
 export type { CellTask, CellResult, CellContext, CellRunner } from './sweep/cellTypes.js';
 export { renderSweepReport } from './report/sweepReport.js';
-export { buildSummary } from './report/summary.js';
-export { loadClaim, parseClaimText, vetClaim, formatVetReport } from './vet/index.js';
-export type { Claim, VetResult } from './vet/index.js';
-export { planBudget } from './budget/index.js';
+export { buildSummary, SUMMARY_SCHEMA } from './report/summary.js';
+export { loadClaim, parseClaimText, vetClaim, formatVetReport, vetToJson, VET_SCHEMA } from './vet/index.js';
+export type { Claim, VetResult, VetJson } from './vet/index.js';
+export { planBudget, budgetToJson, BUDGET_SCHEMA } from './budget/index.js';
+export type { BudgetJson } from './budget/index.js';
 
 // Sky: where and when (issue 18)
 export type { SkySpec, SiteSpec, TargetSpec, CampaignSpec, ConstraintsSpec } from './scenario/types.js';

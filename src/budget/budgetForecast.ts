@@ -36,7 +36,7 @@ export function moonSignal(l: LimitsJson): MoonSignal {
 }
 
 export function valuePrecision(l: LimitsJson): ValuePrecision {
-  return { transits: l.transits, sigmaTcS: l.timing_precision_s, sigmaDurS: l.duration_precision_s, falseAlarm: l.false_alarm_probability };
+  return { transits: l.transits, sigmaTcS: l.timing_precision_s, sigmaDurS: l.duration_precision_s, falseAlarm: l.false_alarm };
 }
 
 /**

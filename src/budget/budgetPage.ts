@@ -67,7 +67,7 @@ ${rows ? `<h2>Monte Carlo evaluations</h2>
 <table><thead><tr><th>value</th><th>forecast</th><th>${r.habitable ? 'fraction of moons' : 'probability'}</th><th>Wilson 95 %</th><th></th><th>time</th></tr></thead><tbody>
 ${rows}
 </tbody></table>
-<p>${r.realizations} moon realizations${r.habitable ? ` for each of ${r.habitable.simulated} moons` : ''} and ${r.null_realizations} no-moon realizations per value; false-alarm probability ${r.false_alarm} per channel.</p>` : ''}
+<p>${r.realizations} moon realizations${r.habitable ? ` for each of ${r.habitable.simulated} moons` : ''} and ${r.no_moon_realizations} no-moon realizations per value; false-alarm probability ${r.false_alarm} per channel.</p>` : ''}
 ${r.answer.reasons.length ? `<h2>Why not</h2>${list(r.answer.reasons)}` : ''}
 ${r.forecast.why.length ? `<h2>Forecast</h2>${list(r.forecast.why)}` : ''}
 ${r.notes.length ? `<h2>Notes</h2>${list(r.notes)}` : ''}

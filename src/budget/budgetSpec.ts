@@ -7,12 +7,12 @@
  *
  *   budget:
  *     probability: 0.9            # or "90 %"
- *     solve: transits             # transits | cadence | precision
+ *     solve: transits             # transits | cadence | noise
  *     channel: combined           # combined | ttv | tdv | dip
  *     moon_mass: 0.6 Mearth       # target moon (default: the scenario's moon)
  *     moon_separation: 18 Rp      # length, "N Rp" or "f hill"
  *     realizations: 100
- *     null_realizations: 400
+ *     no_moon_realizations: 400
  *     max_transits: 50
  *     forecast_only: false
  *     habitable: {mass_from: 0.1 Mearth, mass_to: 2 Mearth, grid: 8, fraction: 0.5, confirm_moons: 8}
@@ -35,7 +35,7 @@ export const DEFAULT_HABITABLE_REALIZATIONS = 40;
  * calibration values the expected false-alarm rate exceeds the requested one
  * by about 1/201 per channel (order statistics; see nullCountNotes in
  * planBudget.ts); the answer states the expected and the measured rate, and
- * --null-realizations buys a sharper one at a proportional cost.
+ * --no-moon-realizations buys a sharper one at a proportional cost.
  */
 export const DEFAULT_BUDGET_NULL_REALIZATIONS = 400;
 export const DEFAULT_MAX_TRANSITS = 50;
@@ -83,7 +83,7 @@ const KEYS: ReadonlyArray<[string, string]> = [
   ['solve', '--solve'],
   ['channel', '--channel'],
   ['realizations', '--realizations'],
-  ['null_realizations', '--null-realizations'],
+  ['no_moon_realizations', '--no-moon-realizations'],
   ['max_transits', '--max-transits'],
   ['forecast_only', '--forecast-only'],
 ];
@@ -183,10 +183,10 @@ export function readBudgetFlags(flags: BudgetFlags): BudgetTarget {
     if (typeof byFlag['--moon-separation'] === 'string') t.moonSeparationText = byFlag['--moon-separation'];
   }
   if ((s = src('--probability'))) t.probability = readProbability(s);
-  if ((s = src('--solve'))) t.solve = r.choice(s.key, BUDGET_SOLVES, 'transits');
+  if ((s = src('--solve'))) t.solve = readSolve(s, []);
   if ((s = src('--channel'))) t.channel = r.choice(s.key, BUDGET_CHANNELS, 'combined');
   if ((s = src('--realizations'))) t.realizations = readInt(s, 1, 100000, REALIZATIONS_TEXT);
-  if ((s = src('--null-realizations'))) t.nullRealizations = readInt(s, 4, 1_000_000, NULL_TEXT);
+  if ((s = src('--no-moon-realizations'))) t.nullRealizations = readInt(s, 4, 1_000_000, NULL_TEXT);
   if ((s = src('--max-transits'))) t.maxTransits = readInt(s, 1, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT);
   if (flags.forecastOnly === true) t.forecastOnly = true;
   const habitableFlags = HABITABLE_KEYS.filter(([, f]) => byFlag[f] !== undefined).map(([, f]) => f);
@@ -224,6 +224,15 @@ function readHabitable(get: (key: string) => Source | null, base: HabitableTarge
   return h;
 }
 
+/** `solve`, with its old value `precision` read as `noise` (a note in `deprecations`) for one release. */
+function readSolve(s: Source, deprecations: string[]): BudgetSolve {
+  if (s.r.raw(s.key) === 'precision') {
+    deprecations.push(`${s.r.path(s.key)}: precision is deprecated: write noise (the old value is accepted in this release only)`);
+    return 'noise';
+  }
+  return s.r.choice(s.key, BUDGET_SOLVES, 'transits');
+}
+
 /** Check one typed value of a library caller's target; records a problem under `target.<name>`. */
 function checkTyped(problems: FieldProblem[], name: string, value: unknown, ok: boolean, allowed: string): void {
   if (!ok) problems.push({ path: `target.${name}`, value, allowed });
@@ -253,9 +262,13 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   };
 
   const probability = pick('probability', 'probability', (v) => typeof v === 'number' && v > 0 && v < 1, PROBABILITY_TEXT, readProbability, DEFAULT_BUDGET_PROBABILITY);
-  const solve = pick<BudgetSolve>('solve', 'solve', (v) => (BUDGET_SOLVES as readonly unknown[]).includes(v), `expected one of ${BUDGET_SOLVES.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_SOLVES, 'transits'), 'transits');
+  const solveDeprecations: string[] = [];
+  const solve = pick<BudgetSolve>('solve', 'solve', (v) => (BUDGET_SOLVES as readonly unknown[]).includes(v), `expected one of ${BUDGET_SOLVES.join(', ')}`, (s) => readSolve(s, solveDeprecations), 'transits');
   const channel = pick<BudgetChannel>('channel', 'channel', (v) => (BUDGET_CHANNELS as readonly unknown[]).includes(v), `expected one of ${BUDGET_CHANNELS.join(', ')}`, (s) => s.r.choice(s.key, BUDGET_CHANNELS, 'combined'), 'combined');
-  const nullRealizations = pick('nullRealizations', 'null_realizations', (v) => isInt(v, 4, 1_000_000), NULL_TEXT, (s) => readInt(s, 4, 1_000_000, NULL_TEXT), DEFAULT_BUDGET_NULL_REALIZATIONS);
+  // `null_realizations` is the old name of `no_moon_realizations`, accepted for one release (planBudget notes it).
+  b.raw('null_realizations');
+  const nullKey = !b.has('no_moon_realizations') && b.has('null_realizations') ? 'null_realizations' : 'no_moon_realizations';
+  const nullRealizations = pick('nullRealizations', nullKey, (v) => isInt(v, 4, 1_000_000), NULL_TEXT, (s) => readInt(s, 4, 1_000_000, NULL_TEXT), DEFAULT_BUDGET_NULL_REALIZATIONS);
   const maxTransits = pick('maxTransits', 'max_transits', (v) => isInt(v, 1, MAX_BUDGET_TRANSITS), MAX_TRANSITS_TEXT, (s) => readInt(s, 1, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT), DEFAULT_MAX_TRANSITS);
   const forecastOnly = pick('forecastOnly', 'forecast_only', (v) => typeof v === 'boolean', 'expected true or false', (s) => readBool(s) ?? false, false);
 
@@ -313,5 +326,5 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   const realizations = pick('realizations', 'realizations', (v) => isInt(v, 1, 100000), REALIZATIONS_TEXT, (s) => readInt(s, 1, 100000, REALIZATIONS_TEXT), habitable ? DEFAULT_HABITABLE_REALIZATIONS : DEFAULT_BUDGET_REALIZATIONS);
   b.rejectUnknown();
   if (problems.length > 0) throw new InputError(problems, source);
-  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, moonSeparationText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable };
+  return { moonMassKg, moonSeparation, moonMassSource, moonSeparationSource, moonMassText, moonSeparationText, probability, solve, channel, realizations, nullRealizations, maxTransits, forecastOnly, habitable, deprecations: [...(nullKey === 'null_realizations' ? ['budget.null_realizations is deprecated: write budget.no_moon_realizations (the old name is accepted in this release only)'] : []), ...solveDeprecations] };
 }

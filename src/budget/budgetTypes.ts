@@ -5,8 +5,9 @@
  */
 
 /** What the budget solves for, the rest of the scenario held fixed. */
-export type BudgetSolve = 'transits' | 'cadence' | 'precision';
-export const BUDGET_SOLVES: readonly BudgetSolve[] = ['transits', 'cadence', 'precision'];
+/** What a budget solves for; `noise` is the white-noise level (`instrument.noise`; its old name `precision` is read for one release). */
+export type BudgetSolve = 'transits' | 'cadence' | 'noise';
+export const BUDGET_SOLVES: readonly BudgetSolve[] = ['transits', 'cadence', 'noise'];
 
 /** Which detection decision must reach the probability (as in the sweep's cells). */
 export type BudgetChannel = 'combined' | 'ttv' | 'tdv' | 'dip';
@@ -74,6 +75,8 @@ export interface ResolvedBudgetTarget {
   maxTransits: number;
   forecastOnly: boolean;
   habitable: HabitableTarget | null;
+  /** Old spellings met in the budget block, one line each (the answer's notes repeat them). */
+  deprecations?: string[];
 }
 
 /** One Monte Carlo evaluation at one value of the solved quantity. */
@@ -167,7 +170,7 @@ export interface BudgetResult {
   probability_target: number;
   false_alarm: number;
   realizations: number;
-  null_realizations: number;
+  no_moon_realizations: number;
   monte_carlo: boolean;
   quantity: BudgetQuantityInfo;
   /** Single-moon mode: the target moon; habitable mode: null. */

@@ -26,7 +26,7 @@ export function formatBudget(r: BudgetResult): string {
     lines.push(`  target     ${(100 * h.fraction).toFixed(0)} % of the temperate, stable moons of ${(h.mass_from_kg / M_EARTH_KG).toPrecision(2)}–${(h.mass_to_kg / M_EARTH_KG).toPrecision(2)} Mearth (${h.targets.length} of ${h.candidates} on the grid) at ${pct(r.probability_target)} ${r.channel} detection each`);
   }
   lines.push(`  solve for  ${solveText(r)}, the rest of the scenario fixed`);
-  lines.push(`  method     ${r.monte_carlo ? `analytic forecast as the first guess, then a Monte Carlo search: ${r.realizations} moon realizations${r.habitable ? ` for each of ${r.habitable.simulated} moons` : ''} and ${r.null_realizations} no-moon realizations per value, false-alarm ${r.false_alarm} per channel` : 'analytic forecast only (no Monte Carlo)'}`);
+  lines.push(`  method     ${r.monte_carlo ? `analytic forecast as the first guess, then a Monte Carlo search: ${r.realizations} moon realizations${r.habitable ? ` for each of ${r.habitable.simulated} moons` : ''} and ${r.no_moon_realizations} no-moon realizations per value, false-alarm ${r.false_alarm} per channel` : 'analytic forecast only (no Monte Carlo)'}`);
   lines.push(`  window     ${(r.window_per_transit_s / 3600).toFixed(2)} h per transit (T14 + 2 × baseline)`);
   lines.push('', 'Answer', `  ${r.answer.statement}`);
 

@@ -7,3 +7,4 @@ export { searchCheapestPassing, type MonotoneSearchOutcome } from './monotoneSea
 export type {
   BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,
 } from './budgetTypes.js';
+export { budgetToJson, BUDGET_SCHEMA, type BudgetJson } from './budgetJson.js';

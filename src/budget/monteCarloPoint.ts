@@ -40,15 +40,15 @@ export function runBudgetCell(doc: unknown, cellIndex: number, value: number, m:
 export function evaluateMoon(doc: unknown, index: number, value: number, m: MonteCarloSettings): BudgetEvaluation {
   const t0 = performance.now();
   const r = runBudgetCell(doc, 0, value, m);
-  const p = num(r[`p_${m.channel}`]);
+  const p = num(r[`pdet_${m.channel}`]);
   const channels: Record<string, number> = {};
-  for (const ch of ['combined', 'ttv', 'tdv', 'dip']) channels[ch] = num(r[`p_${ch}`]);
+  for (const ch of ['combined', 'ttv', 'tdv', 'dip']) channels[ch] = num(r[`pdet_${ch}`]);
   return {
     index,
     value,
     probability: p,
-    lower: num(r[`p_${m.channel}_lo`]),
-    upper: num(r[`p_${m.channel}_hi`]),
+    lower: num(r[`pdet_${m.channel}_lo`]),
+    upper: num(r[`pdet_${m.channel}_hi`]),
     passed: p >= m.probability,
     channels,
     falseAlarmMeasured: num(r.false_alarm_measured_combined),
@@ -70,7 +70,7 @@ export function evaluatePopulation(docs: readonly unknown[], cellIndices: readon
   let falseAlarm = 0;
   for (let k = 0; k < docs.length; k++) {
     const r = runBudgetCell(docs[k], cellIndices[k], value, m);
-    if (num(r[`p_${m.channel}`]) >= m.probability) reached++;
+    if (num(r[`pdet_${m.channel}`]) >= m.probability) reached++;
     falseAlarm += num(r.false_alarm_measured_combined);
   }
   const w = wilsonInterval(reached, docs.length);

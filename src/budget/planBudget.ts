@@ -121,7 +121,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
     notes: [],
     progress: options.progress ?? (() => undefined),
   };
-  ctx.notes.push(...scenarioNotes(ctx));
+  ctx.notes.push(...(t.deprecations ?? []), ...scenarioNotes(ctx));
   const part = t.habitable ? planPopulation(ctx, clean) : planSingle(ctx, clean, source);
   if (part.evaluations.length > 0) ctx.notes.push(...nullCountNotes(ctx, part.evaluations));
   return {
@@ -131,7 +131,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
     probability_target: t.probability,
     false_alarm: base.detection.falseAlarm,
     realizations: t.realizations,
-    null_realizations: t.nullRealizations,
+    no_moon_realizations: t.nullRealizations,
     monte_carlo: !t.forecastOnly,
     quantity: { solve: q.solve, field: q.field, unit: q.unit, displayUnit: q.displayUnit, displayFactor: q.displayFactor, values: q.values, scenarioValue: q.scenarioValue, cheaper: q.cheaper },
     target_moon: part.targetMoon,
@@ -233,7 +233,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   ctx.progress(`${tm.scenario.name}: Monte Carlo search for ${pct(t.probability)} ${t.channel} detection, ${t.realizations} moon + ${t.nullRealizations} no-moon realizations per value, starting at ${formatQuantity(q, q.values[start])}${fcIndex !== null ? ' (the forecast)' : ''}\n`);
   const evaluate = (i: number): BudgetEvaluation => {
     const e = evaluateMoon(applyQuantity(tm.doc, q, q.values[i]), i, q.values[i], ctx.mc);
-    progressLine(ctx, e, `p_${t.channel} =`);
+    progressLine(ctx, e, `pdet_${t.channel} =`);
     return e;
   };
   const search = monteCarloSearch(ctx, start, evaluate);
@@ -363,10 +363,10 @@ function scenarioNotes(ctx: Context): string[] {
   const out: string[] = [...cautionNotes(ctx.base)];
   const i = ctx.base.instrument;
   const o = ctx.base.observation;
-  if (ctx.q.solve === 'precision' && i.ground) {
+  if (ctx.q.solve === 'noise' && i.ground) {
     out.push(`the scenario's ground-based noise budget (photon, scintillation, floor) is replaced by its total, ${(i.noiseFraction * 1e6).toPrecision(4)} ppm per ${i.noiseTimescaleS} s exposure, as the white-noise level the search scales`);
   }
-  if (ctx.q.solve === 'precision' && i.redNoise) out.push('only the white-noise level varies; the scenario\'s red noise is held fixed');
+  if (ctx.q.solve === 'noise' && i.redNoise) out.push('only the white-noise level varies; the scenario\'s red noise is held fixed');
   if (o.missedFraction > 0) out.push(`the number of transits counts scheduled transits; the scenario loses a fraction ${o.missedFraction} of them (weather, scheduling), and the hours count every scheduled window`);
   return out;
 }
@@ -396,10 +396,10 @@ function diagnose(ctx: Context, l: LimitsJson, precisions: ValuePrecision[], bes
   }
   const red = ctx.base.instrument.redNoise;
   if (red) {
-    reasons.push(`the scenario's correlated (red) noise (${red.model === 'power_law' ? `power law, ${(red.rmsFraction * 1e6).toPrecision(3)} ppm per ${(red.timescaleS / 60).toPrecision(3)} min` : `damped random walk, ${(red.rmsFraction * 1e6).toPrecision(3)} ppm rms, τ = ${(red.tauS / 60).toPrecision(3)} min`}) is held fixed${q.solve === 'precision' ? ' while the white noise is lowered, so it sets a floor that no white-noise level removes' : ''}: it adds timing scatter that averages down slowly`);
+    reasons.push(`the scenario's correlated (red) noise (${red.model === 'power_law' ? `power law, ${(red.rmsFraction * 1e6).toPrecision(3)} ppm per ${(red.timescaleS / 60).toPrecision(3)} min` : `damped random walk, ${(red.rmsFraction * 1e6).toPrecision(3)} ppm rms, τ = ${(red.tauS / 60).toPrecision(3)} min`}) is held fixed${q.solve === 'noise' ? ' while the white noise is lowered, so it sets a floor that no white-noise level removes' : ''}: it adds timing scatter that averages down slowly`);
   }
   if (t.channel === 'dip' || t.channel === 'combined') {
-    reasons.push(`the moon's own dip is ${(l.moon_depth_ppm ?? 0).toPrecision(3)} ppm against ${(l.noise_per_exposure * 1e6).toPrecision(3)} ppm white noise per exposure (scenario)`);
+    reasons.push(`the moon's own dip is ${((l.moon_depth ?? 0) * 1e6).toPrecision(3)} ppm against ${(l.noise_per_exposure * 1e6).toPrecision(3)} ppm white noise per exposure (scenario)`);
   }
   return reasons;
 }
@@ -484,7 +484,7 @@ function nullCountNotes(ctx: Context, evaluations: BudgetEvaluation[]): string[]
   const text = `false-alarm thresholds come from ${ctx.t.nullRealizations} no-moon realizations per value (${nCal} calibrate, the rest check), at ${perChannel.toPrecision(2)} per ${combined ? 'channel (α/3, Bonferroni)' : 'test'}: ${(perChannel * nCal).toPrecision(2)} expected exceedances. ` +
     `Order statistics put the expected false-alarm rate at about ${effective.toPrecision(2)} per ${combined ? 'channel' : 'test'}${combined ? ` (≤ ${effectiveTest.toPrecision(2)} combined)` : ''} rather than the requested ${perChannel.toPrecision(2)}${combined ? ` (${alpha} combined)` : ''}`;
   if (effective > 1.25 * perChannel) {
-    return [`${text}, so the detection probabilities, and the budget, are optimistic; --null-realizations ${suggest} brings it within ~10 % of the request, at a proportional cost${mText}`];
+    return [`${text}, so the detection probabilities, and the budget, are optimistic; --no-moon-realizations ${suggest} brings it within ~10 % of the request, at a proportional cost${mText}`];
   }
   return [`${text}${mText}`];
 }
@@ -499,7 +499,7 @@ function assumptions(ctx: Context): string[] {
     'the moon\'s orbital phase (and node, periapsis where they matter) is drawn uniformly in each realization, as in the sweep',
   ];
   if (ctx.q.solve === 'cadence') out.push('the finest cadence considered is 10 s and the coarsest T14/3; the exposure follows the cadence (at the scenario\'s exposure/cadence ratio when it gives an exposure)');
-  if (ctx.q.solve === 'precision') out.push('the white-noise level changes at the scenario\'s stated timescale, between 1/100 and 100 times the scenario\'s level');
+  if (ctx.q.solve === 'noise') out.push('the white-noise level changes at the scenario\'s stated timescale, between 1/100 and 100 times the scenario\'s level');
   if (ctx.q.solve === 'transits') {
     out.push(`from ${ctx.q.values[0]} transit${ctx.q.values[0] === 1 ? '' : 's'}: the TTV channel needs 3 (N − 2 ≥ 1 degrees of freedom against a linear ephemeris), TDV 2, the moon dip 1; below 3 the combined rule uses the channels that exist`);
   }

@@ -30,7 +30,7 @@ const NOISE_CEILING = 0.5;
 const FIELDS: Record<BudgetSolve, string> = {
   transits: 'observation.transits',
   cadence: 'instrument.cadence',
-  precision: 'instrument.noise',
+  noise: 'instrument.noise',
 };
 
 export interface SolvedQuantity extends BudgetQuantityInfo {

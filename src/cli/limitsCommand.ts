@@ -2,7 +2,7 @@
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
-import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
+import { computeLimits, limitsToJson, type LimitsJson } from '../physics/computeLimits.js';
 import { assertObservable } from '../photometry/transitWindows.js';
 import { AU_M, DAY_S, HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
@@ -19,7 +19,7 @@ export function registerLimits(program: Command, io: CliIo): void {
       assertObservable(scenario, scenarioPath);
       io.err(formatCautions(scenario)); // odd but legal inputs, as note: lines
       const limits = computeLimits(scenario);
-      io.out(opts.json ? JSON.stringify(limits, null, 2) + '\n' : formatLimits(scenario, limits));
+      io.out(opts.json ? JSON.stringify(limitsToJson(limits), null, 2) + '\n' : formatLimits(scenario, limits));
     });
 }
 
@@ -44,12 +44,12 @@ const pct = (p: number | null, none: string) => (p === null ? none : `${(100 * p
 
 /** The forecast row: every channel that the transit count allows, and which ones it does not. */
 function forecastText(l: LimitsJson): string {
-  if (l.forecast_detection_probability === null && l.transits >= 2) return 'no forecast (see below)';
-  if (l.forecast_detection_probability === null) return `no timing channel with ${l.transits} transit${l.transits === 1 ? '' : 's'}; moon dip only (not forecast; see below)`;
-  if (l.forecast_ttv_probability === null) {
-    return `no TTV channel with ${l.transits} transits; TDV ${pct(l.forecast_tdv_probability, '–')} (1 degree of freedom) at false-alarm ${l.false_alarm_probability}; moon dip not forecast`;
+  if (l.pdet_forecast_joint === null && l.transits >= 2) return 'no forecast (see below)';
+  if (l.pdet_forecast_joint === null) return `no timing channel with ${l.transits} transit${l.transits === 1 ? '' : 's'}; moon dip only (not forecast; see below)`;
+  if (l.pdet_forecast_ttv === null) {
+    return `no TTV channel with ${l.transits} transits; TDV ${pct(l.pdet_forecast_tdv, '–')} (1 degree of freedom) at false-alarm ${l.false_alarm}; moon dip not forecast`;
   }
-  return `joint ${pct(l.forecast_detection_probability, '–')} (TTV ${pct(l.forecast_ttv_probability, '–')}, TDV ${pct(l.forecast_tdv_probability, '–')}) at false-alarm ${l.false_alarm_probability}`;
+  return `joint ${pct(l.pdet_forecast_joint, '–')} (TTV ${pct(l.pdet_forecast_ttv, '–')}, TDV ${pct(l.pdet_forecast_tdv, '–')}) at false-alarm ${l.false_alarm}`;
 }
 
 export function formatLimits(s: Scenario, l: LimitsJson): string {
@@ -60,8 +60,8 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
   lines.push('Where a moon can orbit');
   row('Hill radius a(M/3M*)^1/3', `${(l.hill_radius_m / AU_M).toFixed(5)} au = ${km(l.hill_radius_m)} = ${(l.hill_radius_m / rp).toFixed(1)} Rp`);
   row('Hill radius at pericentre', `${km(l.hill_radius_pericentre_m)}`);
-  row('stable limit, prograde (DWY06)', `${km(l.stable_max_separation_m)} = ${(l.stable_max_separation_m / rp).toFixed(1)} Rp`);
-  row('stable limit, retrograde (DWY06)', `${km(l.stable_max_separation_retrograde_m)} = ${(l.stable_max_separation_retrograde_m / rp).toFixed(1)} Rp`);
+  row('stable limit, prograde', `${km(l.stable_max_separation_m)} = ${(l.stable_max_separation_m / rp).toFixed(1)} Rp (Domingos, Winter & Yokoyama 2006)`);
+  row('stable limit, retrograde', `${km(l.stable_max_separation_retrograde_m)} = ${(l.stable_max_separation_retrograde_m / rp).toFixed(1)} Rp (Domingos, Winter & Yokoyama 2006)`);
   row(`Roche limit, fluid (moon ${fmt(l.roche_moon_density_kg_m3)} kg/m³)`, `${km(l.roche_limit_m)} = ${(l.roche_limit_m / rp).toFixed(2)} Rp`);
   row('Roche limit, rigid', `${km(l.roche_limit_rigid_m)} = ${(l.roche_limit_rigid_m / rp).toFixed(2)} Rp`);
   row('largest moon surviving tidal migration', `${fmt(l.tidal_max_moon_mass_kg / M_EARTH_KG)} Mearth (planet k2 ${s.planet.k2}, Q ${fmt(s.planet.tidalQ)}, age ${fmt(s.star.ageS / (DAY_S * 365.25e9))} Gyr)`);
@@ -87,16 +87,16 @@ export function formatLimits(s: Scenario, l: LimitsJson): string {
     row('TDV phase offset from TTV', `${((l.ttv_tdv_phase_offset_rad! * 180) / Math.PI).toFixed(0)} deg`);
     row('TTV alias (sampled once per transit)', `${l.ttv_alias_frequency_per_epoch!.toFixed(4)} cycles/epoch, period ${l.ttv_alias_period_epochs!.toFixed(2)} epochs`);
     row('moon periods with the same alias', l.ttv_alias_family_periods_s!.map((p) => `${(p / DAY_S).toFixed(3)} d`).join(', '));
-    row('moon dip depth', `${l.moon_depth_ppm!.toFixed(2)} ppm`);
+    row('moon dip depth', `${(l.moon_depth! * 1e6).toFixed(2)} ppm`);
     row('photocentric / barycentric TTV weight', `${l.photocentric_ratio!.toPrecision(2)}${l.forecast_regime_ok ? '' : '  (forecast outside its regime: see below)'}`);
     row(`forecast detection, ${l.transits} transit${l.transits === 1 ? '' : 's'}`, forecastText(l));
     const e = l.energy_budget!;
     lines.push('', 'Energy budget at the moon (orbit- and globally averaged, absorbed)');
-    row('starlight (less eclipses)', `${e.stellar_W_m2.toFixed(2)} W/m²`);
-    row('reflected by the planet', `${e.reflected_W_m2.toFixed(3)} W/m²`);
-    row('planet thermal emission', `${e.thermal_W_m2.toFixed(3)} W/m²`);
-    row('tidal heating', `${fmt(e.tidal_W_m2)} W/m²`);
-    row('total / runaway-greenhouse limit', `${e.total_W_m2.toFixed(2)} / ${e.runaway_limit_W_m2.toFixed(1)} W/m²`);
+    row('starlight (less eclipses)', `${e.stellar_w_m2.toFixed(2)} W/m²`);
+    row('reflected by the planet', `${e.reflected_w_m2.toFixed(3)} W/m²`);
+    row('planet thermal emission', `${e.thermal_w_m2.toFixed(3)} W/m²`);
+    row('tidal heating', `${fmt(e.tidal_w_m2)} W/m²`);
+    row('total / runaway-greenhouse limit', `${e.total_w_m2.toFixed(2)} / ${e.runaway_limit_w_m2.toFixed(1)} W/m²`);
     row('verdict', `${e.verdict} (dominant term: ${e.dominant})`);
     lines.push(`  Caution: ${e.caution}.`);
   } else {

@@ -22,15 +22,19 @@ export function registerSimulate(program: Command, io: CliIo): void {
     .option('--noiseless', 'write the model without noise')
     .option('--out <dir>', 'output folder (default reports/<scenario name>/)')
     .option('--format <format>', 'table format: ecsv or csv', 'ecsv')
-    .option('--realization <n>', 'which noise realization to draw (seeded by scenario seed and this number)', '0')
-    .action((scenarioPath: string, opts: { noiseless?: boolean; out?: string; format: string; realization: string }) => {
+    .option('--draw <n>', 'index of the noise draw (seeded by the scenario seed and this number; default 0)')
+    .option('--realization <n>', 'deprecated spelling of --draw (accepted in this release only)')
+    .action((scenarioPath: string, opts: { noiseless?: boolean; out?: string; format: string; draw?: string; realization?: string }) => {
       if (opts.format !== 'ecsv' && opts.format !== 'csv') {
         throw new InputError([{ path: '--format', value: opts.format, allowed: 'expected "ecsv" or "csv"' }]);
       }
+      if (opts.realization !== undefined) io.err('note: --realization is deprecated: write --draw (the old spelling is accepted in this release only)\n');
+      const flag = opts.draw === undefined && opts.realization !== undefined ? '--realization' : '--draw';
+      const drawText = opts.draw ?? opts.realization ?? '0';
       // The random stream index is a safe integer (noise/rng.ts): 0 … 2^53 − 1, written in digits.
-      const realization = /^\s*\d+\s*$/.test(opts.realization) ? Number(opts.realization) : NaN;
+      const realization = /^\s*\d+\s*$/.test(drawText) ? Number(drawText) : NaN;
       if (!Number.isSafeInteger(realization) || realization < 0) {
-        throw new InputError([{ path: '--realization', value: opts.realization.length > 40 ? `${opts.realization.slice(0, 40)}…` : opts.realization, allowed: `expected a whole number from 0 to ${Number.MAX_SAFE_INTEGER}, written in digits` }]);
+        throw new InputError([{ path: flag, value: drawText.length > 40 ? `${drawText.slice(0, 40)}…` : drawText, allowed: `expected a whole number from 0 to ${Number.MAX_SAFE_INTEGER}, written in digits` }]);
       }
       const scenario = loadScenario(scenarioPath);
       checkOutputDir(opts.out === undefined ? 'output folder (default from the scenario name)' : '--out', opts.out ?? defaultOutDir(scenario.name));

@@ -5,6 +5,7 @@ import { loadClaim } from '../vet/loadClaim.js';
 import { vetClaim } from '../vet/vetClaim.js';
 import { formatVetReport } from '../vet/formatVetReport.js';
 import { renderVetPage } from '../vet/vetPage.js';
+import { vetToJson } from '../vet/vetJson.js';
 import type { CliIo } from './main.js';
 import { checkOutputFile } from '../io/outputPaths.js';
 
@@ -18,10 +19,11 @@ export function registerVet(program: Command, io: CliIo): void {
     .action((claimPath: string, opts: { json?: boolean; html?: string }) => {
       if (opts.html !== undefined) checkOutputFile('--html', opts.html);
       const claim = loadClaim(claimPath);
+      for (const d of claim.deprecations ?? []) io.err(`note: ${d}\n`);
       const result = vetClaim(claim);
       const page = opts.html ? renderVetPage(result) : null;
       if (opts.html && page !== null) writeFileAtomic(opts.html, page);
-      io.out(opts.json ? JSON.stringify(result, null, 2) + '\n' : formatVetReport(result));
+      io.out(opts.json ? JSON.stringify(vetToJson(result), null, 2) + '\n' : formatVetReport(result));
       if (opts.html && !opts.json) io.out(`wrote ${opts.html}\n`);
     });
 }

@@ -29,14 +29,14 @@ import { windowHalfWidthS } from '../photometry/transitWindows.js';
 export type PlacementLabel = 'stable' | 'beyond stable limit' | 'inside Roche limit' | 'would not survive tidal migration';
 
 export interface EnergyBudgetJson {
-  stellar_W_m2: number;
-  reflected_W_m2: number;
-  thermal_W_m2: number;
-  tidal_W_m2: number;
-  total_W_m2: number;
-  runaway_limit_W_m2: number;
-  outer_edge_stellar_equivalent_W_m2: number;
-  stellar_equivalent_W_m2: number;
+  stellar_w_m2: number;
+  reflected_w_m2: number;
+  thermal_w_m2: number;
+  tidal_w_m2: number;
+  total_w_m2: number;
+  runaway_limit_w_m2: number;
+  outer_edge_stellar_equivalent_w_m2: number;
+  stellar_equivalent_w_m2: number;
   dominant: string;
   verdict: string;
   caution: string;
@@ -77,21 +77,28 @@ export interface LimitsJson {
   ttv_alias_frequency_per_epoch: number | null;
   ttv_alias_period_epochs: number | null;
   ttv_alias_family_periods_s: number[] | null;
-  moon_depth_ppm: number | null;
+  moon_depth: number | null;
   /** (R_S/R_P)² / (M_S/M_P): above ~0.2 the moon's own dip shifts the fitted mid-times (photocentric TTV). */
   photocentric_ratio: number | null;
   /** Whether the forecast's assumptions hold (barycentric TTV dominates; see `assumptions`). Fewer than 3 transits do not break the regime: the channels that cannot be measured are null and named in `assumptions`. */
   forecast_regime_ok: boolean | null;
-  false_alarm_probability: number;
+  false_alarm: number;
   transits: number;
   /** Null without a moon or without any timing channel (1 transit). */
-  forecast_detection_probability: number | null;
+  pdet_forecast_joint: number | null;
   /** Null without a moon or with fewer than 3 transits (no TTV channel against a linear ephemeris). */
-  forecast_ttv_probability: number | null;
+  pdet_forecast_ttv: number | null;
   /** Null without a moon or with 1 transit. */
-  forecast_tdv_probability: number | null;
+  pdet_forecast_tdv: number | null;
   energy_budget: EnergyBudgetJson | null;
   assumptions: string[];
+}
+
+export const LIMITS_SCHEMA = 'moonsieve/limits/1';
+
+/** The `limits --json` document: the limits (already in the vocabulary's names) under their schema id. */
+export function limitsToJson(l: LimitsJson): { schema: typeof LIMITS_SCHEMA } & LimitsJson {
+  return { schema: LIMITS_SCHEMA, ...l };
 }
 
 /** Roche limits are quoted for the scenario's moon, or for a rock moon of this density without one. */
@@ -249,14 +256,14 @@ export function computeLimits(s: Scenario): LimitsJson {
     ttv_alias_frequency_per_epoch: null,
     ttv_alias_period_epochs: null,
     ttv_alias_family_periods_s: null,
-    moon_depth_ppm: null,
+    moon_depth: null,
     photocentric_ratio: null,
     forecast_regime_ok: null,
-    false_alarm_probability: s.detection.falseAlarm,
+    false_alarm: s.detection.falseAlarm,
     transits: observation.transits,
-    forecast_detection_probability: null,
-    forecast_ttv_probability: null,
-    forecast_tdv_probability: null,
+    pdet_forecast_joint: null,
+    pdet_forecast_ttv: null,
+    pdet_forecast_tdv: null,
     energy_budget: null,
     assumptions,
   };
@@ -355,21 +362,21 @@ export function computeLimits(s: Scenario): LimitsJson {
     ttv_alias_frequency_per_epoch: alias.aliasFrequencyPerEpoch,
     ttv_alias_period_epochs: alias.aliasPeriodEpochs,
     ttv_alias_family_periods_s: family,
-    moon_depth_ppm: dip.depthChordMean * 1e6,
+    moon_depth: dip.depthChordMean,
     photocentric_ratio: photocentric,
     forecast_regime_ok: regimeOk,
-    forecast_detection_probability: forecast.joint?.probability ?? null,
-    forecast_ttv_probability: forecast.ttv?.probability ?? null,
-    forecast_tdv_probability: forecast.tdv?.probability ?? null,
+    pdet_forecast_joint: forecast.joint?.probability ?? null,
+    pdet_forecast_ttv: forecast.ttv?.probability ?? null,
+    pdet_forecast_tdv: forecast.tdv?.probability ?? null,
     energy_budget: {
-      stellar_W_m2: budget.stellarWm2,
-      reflected_W_m2: budget.reflectedWm2,
-      thermal_W_m2: budget.thermalWm2,
-      tidal_W_m2: budget.tidalWm2,
-      total_W_m2: budget.totalWm2,
-      runaway_limit_W_m2: runaway,
-      outer_edge_stellar_equivalent_W_m2: outerEdge,
-      stellar_equivalent_W_m2: budget.stellarEquivalentWm2,
+      stellar_w_m2: budget.stellarWm2,
+      reflected_w_m2: budget.reflectedWm2,
+      thermal_w_m2: budget.thermalWm2,
+      tidal_w_m2: budget.tidalWm2,
+      total_w_m2: budget.totalWm2,
+      runaway_limit_w_m2: runaway,
+      outer_edge_stellar_equivalent_w_m2: outerEdge,
+      stellar_equivalent_w_m2: budget.stellarEquivalentWm2,
       dominant: verdict.dominant,
       verdict: verdict.verdict,
       caution: FLUX_BUDGET_CAUTION,

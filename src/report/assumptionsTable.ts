@@ -87,7 +87,7 @@ export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioD
   const lost = cells.map((c) => num(c, 'no_transit_observed')).filter((x): x is number => x !== null);
   const lostTotal = lost.reduce((a, x) => a + x, 0);
   if (lostTotal > 0) rows.push(['realizations with no transit observed', `${lostTotal} (over ${lost.length} simulated cells): every transit lost to missed transits or gaps; counted as non-detections in every channel`]);
-  const nulls = cells.map((c) => num(c, 'null_realizations')).filter((x): x is number => x !== null);
+  const nulls = cells.map((c) => num(c, 'no_moon_realizations')).filter((x): x is number => x !== null);
   let fa = `requested ${meta.false_alarm} per channel`;
   const m = summary.false_alarm_measured_combined;
   if (m) fa += `; measured on the no-moon realizations (combined channel, over the simulated cells): median ${f(m.median)}, range ${f(m.min)}–${f(m.max)}${nulls.length ? `, from ${Math.min(...nulls)} no-moon realizations` : ''}`;

@@ -58,7 +58,7 @@ const RULES: Record<string, Rule> = {
   'detection.false_alarm': { label: 'false-alarm probability', divisor: 1, unit: '' },
 };
 
-const ANGLE_FIELDS = new Set(['planet.periastron', 'planet.inclination', 'moon.inclination', 'moon.node', 'moon.periapsis', 'moon.phase']);
+const ANGLE_FIELDS = new Set(['planet.periapsis', 'planet.inclination', 'moon.inclination', 'moon.node', 'moon.periapsis', 'moon.phase']);
 
 /** Planet masses and radii of small planets read in Earth units: below these, an axis uses M⊕ / R⊕. */
 const EARTH_UNITS_BELOW: Record<string, Rule & { below: number }> = {

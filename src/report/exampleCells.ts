@@ -53,7 +53,7 @@ export function chooseExampleCells(meta: SweepMeta, cells: readonly CellResult[]
   const fo = meta.forecast_only;
   const cands: Candidate[] = [];
   for (const c of cells) {
-    if (fo ? c.stable !== true : c.simulated !== true) continue;
+    if (fo ? c.allowed !== true : c.simulated !== true) continue;
     const p = cellProbability(c, 'combined', fo);
     if (p !== null) cands.push({ c, p });
   }

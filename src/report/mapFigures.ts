@@ -159,8 +159,8 @@ function hoverMatrix(meta: SweepMeta, a: Axes2, p: Panel): string[][] {
         `cell ${c.index}: ${formatDisplay(a.yd, ya.values[j])}, ${formatDisplay(a.xd, xa.values[i])}${p.label ? `, ${p.label}` : ''}`,
         `placement: ${String(c.placement ?? '?')}; energy budget: ${String(c.habitability ?? '?')}`,
       ];
-      if (fo) lines.push(`forecast joint ${pct(num(c, 'forecast_joint'))}, TTV ${pct(num(c, 'forecast_ttv'))}, TDV ${pct(num(c, 'forecast_tdv'))}`);
-      else if (c.simulated === true) lines.push(`combined ${pct(num(c, 'p_combined'))} [${pct(num(c, 'p_combined_lo'))}, ${pct(num(c, 'p_combined_hi'))}]; TTV ${pct(num(c, 'p_ttv'))}, TDV ${pct(num(c, 'p_tdv'))}, dip ${pct(num(c, 'p_dip'))}`);
+      if (fo) lines.push(`forecast joint ${pct(num(c, 'pdet_forecast_joint'))}, TTV ${pct(num(c, 'pdet_forecast_ttv'))}, TDV ${pct(num(c, 'pdet_forecast_tdv'))}`);
+      else if (c.simulated === true) lines.push(`combined ${pct(num(c, 'pdet_combined'))} [${pct(num(c, 'pdet_combined_lo'))}, ${pct(num(c, 'pdet_combined_hi'))}]; TTV ${pct(num(c, 'pdet_ttv'))}, TDV ${pct(num(c, 'pdet_tdv'))}, dip ${pct(num(c, 'pdet_dip'))}`);
       else lines.push(`not simulated (${String(c.skipped_reason ?? '')})`);
       return lines.map(escapeHtml).join('<br>');
     }),
@@ -177,7 +177,7 @@ function placementTraces(a: Axes2, p: Panel): Array<Record<string, unknown>> {
   for (let j = 0; j < p.layout.ny; j++) {
     for (let i = 0; i < p.layout.nx; i++) {
       const c = p.layout.cellAt(i, j);
-      if (!c || c.stable === true || typeof c.placement !== 'string') continue;
+      if (!c || c.allowed === true || typeof c.placement !== 'string') continue;
       for (const label of c.placement.split('; ')) {
         if (label === 'stable' || label === 'no moon') continue;
         const g = groups.get(label) ?? { x: [], y: [] };
@@ -317,7 +317,7 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
         type: 'scatter', mode: 'lines+markers', name: `${level} detection probability${g.label ? `, ${g.label}` : ''}`,
         x: mine.map((p) => p.x / a.xd.divisor), y: mine.map((p) => (p.y === null ? null : p.y / a.yd.divisor)),
         line: { dash, width: 2.5, color: g.v === undefined ? (level === '90 %' ? '#00204c' : '#7c7b78') : facetColour(g.k, groups.length) },
-        marker: { symbol: mine.map((p) => (p.atGridEdge ? 'triangle-down' : 'circle')), size: 8 },
+        marker: { symbol: mine.map((p) => (p.at_grid_edge ? 'triangle-down' : 'circle')), size: 8 },
         connectgaps: false,
       };
     };
@@ -340,7 +340,7 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
     a.panels.forEach((p) => {
       const diff = gridMatrix(p.layout, (c) => {
         const pr = cellProbability(c, 'ttv', false);
-        const f = num(c, 'forecast_ttv');
+        const f = num(c, 'pdet_forecast_ttv');
         return pr === null || f === null ? null : pr - f;
       });
       const ox: number[] = [];
@@ -396,8 +396,8 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
   for (const ch of MAP_CHANNELS) {
     const y = channelZ[ch] as Array<number | null> | null;
     if (!y) continue;
-    const lo = x.map((_, i) => (fo ? null : num(at(i), `p_${ch}_lo`)));
-    const hi = x.map((_, i) => (fo ? null : num(at(i), `p_${ch}_hi`)));
+    const lo = x.map((_, i) => (fo ? null : num(at(i), `pdet_${ch}_lo`)));
+    const hi = x.map((_, i) => (fo ? null : num(at(i), `pdet_${ch}_hi`)));
     data.push({
       type: 'scatter', mode: 'lines+markers', x, y, name: channelLabel(ch, fo),
       line: { width: ch === 'combined' ? 3.5 : 2, color: colors[ch], dash: ch === 'combined' ? 'solid' : ch === 'ttv' ? 'dash' : ch === 'tdv' ? 'dot' : 'dashdot' },
@@ -411,7 +411,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
     const c = at(i);
     if (c?.habitability === 'temperate') shapes.push({ type: 'rect', xref: 'x', yref: 'paper', x0: edges[i], x1: edges[i + 1], y0: 0, y1: 1, fillcolor: '#1b9e77', opacity: 0.12, line: { width: 0 }, layer: 'below' });
   });
-  const unstable = x.map((xv, i) => ({ xv, c: at(i) })).filter((e) => e.c && e.c.stable !== true);
+  const unstable = x.map((xv, i) => ({ xv, c: at(i) })).filter((e) => e.c && e.c.allowed !== true);
   if (unstable.length) {
     data.push({ type: 'scatter', mode: 'markers', x: unstable.map((e) => e.xv), y: unstable.map(() => 0), name: 'not physically allowed', text: unstable.map((e) => String(e.c?.placement ?? '')), marker: { symbol: 'x-thin-open', size: 10, color: '#222', line: { width: 1.5 } } });
   }
@@ -430,18 +430,18 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
     },
   ];
   if (!fo) {
-    const pt = x.map((_, i) => num(at(i), 'p_ttv'));
-    const fc = x.map((_, i) => num(at(i), 'forecast_ttv'));
+    const pt = x.map((_, i) => num(at(i), 'pdet_ttv'));
+    const fc = x.map((_, i) => num(at(i), 'pdet_forecast_ttv'));
     const out = x.map((xv, i) => ({ xv, c: at(i) })).filter((e) => e.c?.forecast_ttv_outside_interval === true);
     figures.push({
       id: 'mcdiff',
       data: [
         {
           type: 'scatter', mode: 'lines+markers', x, y: pt, name: 'Monte Carlo (TTV), 95 % interval', line: { color: '#00204c', width: 2.5 },
-          error_y: { type: 'data', symmetric: false, array: pt.map((p, i) => (p === null ? null : (num(at(i), 'p_ttv_hi') ?? p) - p)), arrayminus: pt.map((p, i) => (p === null ? null : p - (num(at(i), 'p_ttv_lo') ?? p))) },
+          error_y: { type: 'data', symmetric: false, array: pt.map((p, i) => (p === null ? null : (num(at(i), 'pdet_ttv_hi') ?? p) - p)), arrayminus: pt.map((p, i) => (p === null ? null : p - (num(at(i), 'pdet_ttv_lo') ?? p))) },
         },
         { type: 'scatter', mode: 'lines', x, y: fc, name: 'analytic forecast (TTV)', line: { color: '#bcaf6f', width: 2.5, dash: 'dash' } },
-        { type: 'scatter', mode: 'markers', x: out.map((e) => e.xv), y: out.map((e) => num(e.c, 'forecast_ttv')), name: 'forecast outside the 95 % interval', marker: { symbol: 'circle-open', size: 13, color: '#000', line: { width: 2 } } },
+        { type: 'scatter', mode: 'markers', x: out.map((e) => e.xv), y: out.map((e) => num(e.c, 'pdet_forecast_ttv')), name: 'forecast outside the 95 % interval', marker: { symbol: 'circle-open', size: 13, color: '#000', line: { width: 2 } } },
       ],
       layout: {
         title: { text: 'TTV channel: Monte Carlo against the analytic forecast' },

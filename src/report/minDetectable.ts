@@ -4,7 +4,7 @@
  * probability reaches a level. Between the last grid value below the level
  * and the first at or above it, y is interpolated linearly in probability
  * (in log y for a log axis); common practice, no source. When even the
- * smallest grid value reaches the level, y is that value and `atGridEdge` is
+ * smallest grid value reaches the level, y is that value and `at_grid_edge` is
  * set (the true minimum is lower); when no value does, y is null.
  *
  * For an axis along which detection gets harder as the value grows (noise
@@ -19,7 +19,7 @@ export interface MinDetectablePoint {
   x: number;
   /** Minimum detectable y (SI), or null when no cell in the column reaches the level. */
   y: number | null;
-  atGridEdge: boolean;
+  at_grid_edge: boolean;
   /** On a three-axis grid: the panel's value (SI) of the facet axis (see reportGrid.ts); absent otherwise. */
   facet?: number;
 }
@@ -39,7 +39,7 @@ export function minDetectable(
   const out: MinDetectablePoint[] = [];
   for (let i = 0; i < layout.nx; i++) {
     let prev: { y: number; p: number } | null = null;
-    let found: MinDetectablePoint = { x: xValues[i], y: null, atGridEdge: false };
+    let found: MinDetectablePoint = { x: xValues[i], y: null, at_grid_edge: false };
     for (let k = 0; k < order.length; k++) {
       const j = order[k];
       const c = layout.cellAt(i, j);
@@ -50,13 +50,13 @@ export function minDetectable(
       }
       if (p >= level) {
         if (k === 0) {
-          found = { x: xValues[i], y: yValues[j], atGridEdge: true };
+          found = { x: xValues[i], y: yValues[j], at_grid_edge: true };
         } else if (prev !== null && p > prev.p) {
           const f = (level - prev.p) / (p - prev.p);
           const y = yLog ? Math.exp(Math.log(prev.y) + f * (Math.log(yValues[j]) - Math.log(prev.y))) : prev.y + f * (yValues[j] - prev.y);
-          found = { x: xValues[i], y, atGridEdge: false };
+          found = { x: xValues[i], y, at_grid_edge: false };
         } else {
-          found = { x: xValues[i], y: yValues[j], atGridEdge: false };
+          found = { x: xValues[i], y: yValues[j], at_grid_edge: false };
         }
         break;
       }

@@ -33,8 +33,8 @@ export function combinedMeaning(forecastOnly: boolean, alpha: number): string {
 
 /** The cell field holding a channel's detection probability, or null when the run has none. */
 export function channelField(channel: MapChannel, forecastOnly: boolean): string | null {
-  if (!forecastOnly) return `p_${channel}`;
-  return { combined: 'forecast_joint', ttv: 'forecast_ttv', tdv: 'forecast_tdv', dip: null }[channel];
+  if (!forecastOnly) return `pdet_${channel}`;
+  return { combined: 'pdet_forecast_joint', ttv: 'pdet_forecast_ttv', tdv: 'pdet_forecast_tdv', dip: null }[channel];
 }
 
 /** A number field of a cell, or null (JSON turned NaN into null; missing fields are null too). */

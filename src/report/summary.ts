@@ -7,24 +7,22 @@
  *   (placement "stable": outside the Roche limit, inside the stable limit,
  *   surviving tidal migration) and whose energy budget is "temperate".
  * - Its detection probability is the Monte Carlo combined-channel estimate
- *   `p_combined` (any of TTV, TDV, moon dip above its calibrated threshold),
- *   or in a forecast-only run the analytic joint forecast `forecast_joint`.
+ *   `pdet_combined` (any of TTV, TDV, moon dip above its calibrated threshold),
+ *   or in a forecast-only run the analytic joint forecast `pdet_forecast_joint`.
  * - "Detected at 90 %" means that probability ≥ 0.9; "confidently" adds that
- *   the lower Wilson bound `p_combined_lo` is ≥ 0.9 too (Monte Carlo only).
+ *   the lower Wilson bound `pdet_combined_lo` is ≥ 0.9 too (Monte Carlo only).
  */
-import { M_EARTH_KG } from '../physics/constants.js';
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
 import { cellProbability, gridLayout, num, type GridLayout } from './reportGrid.js';
 import { minDetectable, type MinDetectablePoint } from './minDetectable.js';
 
-export const SUMMARY_SCHEMA = 'moonsieve-summary/1';
+export const SUMMARY_SCHEMA = 'moonsieve/summary/2';
 
 export interface SummaryCell {
   index: number;
   coords: number[];
   moon_mass_kg: number | null;
-  moon_mass_earth: number | null;
   moon_separation_m: number | null;
   moon_separation_hill: number | null;
   probability: number;
@@ -37,15 +35,15 @@ export interface SweepSummary {
   moonsieve_version: string;
   seed: number;
   basis: 'monte carlo' | 'forecast';
-  probability_field: 'p_combined' | 'forecast_joint';
+  probability_field: 'pdet_combined' | 'pdet_forecast_joint';
   realizations: number | null;
-  false_alarm_requested: number;
+  false_alarm: number;
   /** Measured combined false-alarm rate over the simulated cells: min, median, max (null when none). */
   false_alarm_measured_combined: { min: number; median: number; max: number } | null;
   cells: number;
   cells_grid: number;
   cells_simulated: number;
-  cells_stable: number;
+  cells_allowed: number;
   cells_temperate: number;
   /** Stable and temperate. */
   cells_habitable: number;
@@ -55,8 +53,8 @@ export interface SweepSummary {
   /** The lightest habitable-zone moon detected at 90 %, when the moon mass varies over the grid. */
   smallest_habitable_detected_90: SummaryCell | null;
   /** The same over every stable cell, temperate or not. */
-  stable_detected_90: number;
-  smallest_stable_detected_90: SummaryCell | null;
+  allowed_detected_90: number;
+  smallest_allowed_detected_90: SummaryCell | null;
   /** The habitable-zone cell with the highest probability still below 0.9. */
   closest_habitable_miss: SummaryCell | null;
   /** Range of each axis (SI) over the habitable cells detected at 90 %. */
@@ -90,7 +88,6 @@ function summaryCell(c: CellResult, p: number): SummaryCell {
     index: c.index,
     coords: c.coords,
     moon_mass_kg: m,
-    moon_mass_earth: m === null ? null : m / M_EARTH_KG,
     moon_separation_m: num(c, 'moon_separation_m'),
     moon_separation_hill: num(c, 'moon_separation_hill'),
     probability: p,
@@ -143,7 +140,7 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
   const fo = meta.forecast_only;
   const prob = (c: CellResult): number | null => cellProbability(c, 'combined', fo);
   const sorted = [...cells].sort((a, b) => a.index - b.index);
-  const stable = sorted.filter((c) => c.stable === true);
+  const stable = sorted.filter((c) => c.allowed === true);
   const habitable = stable.filter((c) => c.habitability === 'temperate');
   const withP = (cs: CellResult[]) => cs.map((c) => ({ c, p: prob(c) })).filter((e): e is { c: CellResult; p: number } => e.p !== null);
   const habP = withP(habitable);
@@ -188,22 +185,22 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
     moonsieve_version: meta.moonsieve_version,
     seed: meta.seed,
     basis: fo ? 'forecast' : 'monte carlo',
-    probability_field: fo ? 'forecast_joint' : 'p_combined',
+    probability_field: fo ? 'pdet_forecast_joint' : 'pdet_combined',
     realizations: fo ? null : meta.realizations,
-    false_alarm_requested: meta.false_alarm,
+    false_alarm: meta.false_alarm,
     false_alarm_measured_combined: fa.length ? { min: Math.min(...fa), median: median(fa), max: Math.max(...fa) } : null,
     cells: sorted.length,
     cells_grid: meta.cells,
     cells_simulated: sorted.filter((c) => c.simulated === true).length,
-    cells_stable: stable.length,
+    cells_allowed: stable.length,
     cells_temperate: sorted.filter((c) => c.habitability === 'temperate').length,
     cells_habitable: habitable.length,
     habitable_detected_50: habP.filter((e) => e.p >= 0.5).length,
     habitable_detected_90: hab90.length,
-    habitable_detected_90_confident: fo ? null : hab90.filter((e) => (num(e.c, 'p_combined_lo') ?? 0) >= 0.9).length,
+    habitable_detected_90_confident: fo ? null : hab90.filter((e) => (num(e.c, 'pdet_combined_lo') ?? 0) >= 0.9).length,
     smallest_habitable_detected_90: massVaries ? lightest(hab90) : null,
-    stable_detected_90: stable90.length,
-    smallest_stable_detected_90: massVaries ? lightest(stable90) : null,
+    allowed_detected_90: stable90.length,
+    smallest_allowed_detected_90: massVaries ? lightest(stable90) : null,
     closest_habitable_miss: miss ? summaryCell(miss.c, miss.p) : null,
     habitable_detected_90_axis_ranges: hab90.length
       ? meta.axes.map((a, k) => {

@@ -6,6 +6,7 @@
  * which the tests read back and compare with summary.json.
  */
 import { escapeHtml } from './escape.js';
+import { M_EARTH_KG } from '../physics/constants.js';
 import { axisDisplay, formatNumber } from './axisDisplay.js';
 import { combinedMeaning } from './reportGrid.js';
 import type { SweepSummary, SummaryCell } from './summary.js';
@@ -35,7 +36,7 @@ function axisSpan(key: string, v: number, field: string, unit: string, meta?: Sw
 
 function describeCell(key: string, c: SummaryCell, meta: SweepMeta): string {
   const parts: string[] = [];
-  if (c.moon_mass_earth !== null) parts.push(span(`${key}.moon_mass_earth`, c.moon_mass_earth, 'sig3', 'M⊕'));
+  if (c.moon_mass_kg !== null) parts.push(span(`${key}.moon_mass_kg`, c.moon_mass_kg, 'sig3', 'M⊕', M_EARTH_KG));
   if (c.moon_separation_m !== null) parts.push(`at ${span(`${key}.moon_separation_m`, c.moon_separation_m, 'sig3', '×10³ km', 1e6)}`);
   if (c.moon_separation_hill !== null) parts.push(`(${span(`${key}.moon_separation_hill`, c.moon_separation_hill, 'sig3')} Hill radii)`);
   const other = meta.axes
@@ -54,9 +55,9 @@ export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
   const out: string[] = [];
   const basis = s.basis === 'forecast'
     ? 'analytic forecast only (no simulations were run: <code>--forecast-only</code>); probabilities are the joint TTV/TDV forecast'
-    : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (TTV, TDV or moon dip), per-channel false-alarm probability ${span('false_alarm_requested', s.false_alarm_requested, 'sig3')}`;
+    : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (TTV, TDV or moon dip), per-channel false-alarm probability ${span('false_alarm', s.false_alarm, 'sig3')}`;
   out.push(`<p><strong>Basis:</strong> ${basis}.</p>`);
-  out.push(`<p class="note" data-role="combined-meaning">${escapeHtml(combinedMeaning(s.basis === 'forecast', s.false_alarm_requested))}</p>`);
+  out.push(`<p class="note" data-role="combined-meaning">${escapeHtml(combinedMeaning(s.basis === 'forecast', s.false_alarm))}</p>`);
   const hz = `Of the ${span('cells', s.cells, 'count')} cells, ${span('cells_habitable', s.cells_habitable, 'count')} hold a habitable-zone moon (physically allowed and with a temperate energy budget).`;
   if (s.cells_habitable > 0) {
     let t = `${hz} Detected with at least 90 % probability: ${span('habitable_detected_90', s.habitable_detected_90, 'count')}`;
@@ -76,9 +77,9 @@ export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
       out.push(`<p>The habitable-zone cells detected at 90 % span ${r.join('; ')}.</p>`);
     }
   } else {
-    out.push(`<p class="headline">${hz} Over all ${span('cells_stable', s.cells_stable, 'count')} physically allowed cells, ${span('stable_detected_90', s.stable_detected_90, 'count')} are detected with at least 90 % probability.</p>`);
-    if (s.smallest_stable_detected_90) {
-      out.push(`<p>The lightest physically allowed moon detected at 90 %: ${describeCell('smallest_stable_detected_90', s.smallest_stable_detected_90, meta)}.</p>`);
+    out.push(`<p class="headline">${hz} Over all ${span('cells_allowed', s.cells_allowed, 'count')} physically allowed cells, ${span('allowed_detected_90', s.allowed_detected_90, 'count')} are detected with at least 90 % probability.</p>`);
+    if (s.smallest_allowed_detected_90) {
+      out.push(`<p>The lightest physically allowed moon detected at 90 %: ${describeCell('smallest_allowed_detected_90', s.smallest_allowed_detected_90, meta)}.</p>`);
     }
   }
   const change: string[] = [];

@@ -117,7 +117,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
     rangeNote: 'up to 1e5 days (~270 yr), beyond which no transit repeats within centuries (no source)',
     meaning: 'orbital period of the planet–moon barycentre' },
   { path: 'planet.eccentricity', type: 'number', noun: 'an eccentricity', default: 0, min: 0, max: 0.9, meaning: 'orbital eccentricity' },
-  { path: 'planet.periastron', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: Math.PI / 2, meaning: 'argument of periastron ω (Winn 2010 convention)' },
+  { path: 'planet.periapsis', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: Math.PI / 2, meaning: 'argument of periapsis ω of the planet (barycentre) orbit (Winn 2010 convention; `periastron` is its old name, accepted with a note in this release)' },
   { path: 'planet.impact_parameter', type: 'number', default: 0, min: 0, rangeNote: 'below 1 + Rp/R* (the planet must transit); not with inclination',
     meaning: 'impact parameter at conjunction, stellar radii' },
   { path: 'planet.inclination', type: 'quantity', noun: 'an inclination', kind: 'angle', bare: degrees, show: degrees, defaultText: 'from impact_parameter', min: 0, max: Math.PI,

@@ -30,6 +30,29 @@ const DEG = Math.PI / 180;
 /** Keys reserved for later stages (read by their own parsers). */
 export const EXTRA_TOP_LEVEL_KEYS: readonly string[] = ['sweep', 'budget'];
 
+/** Keys renamed in this release: old → new (the old one is read, with a caution, for one release). */
+export const PLANET_RENAMES: ReadonlyArray<[string, string]> = [['periastron', 'periapsis']];
+
+/**
+ * A block with its old key names moved to the new ones, one caution per old key met; both
+ * spellings at once is a problem. Anything not a mapping is returned as is (the reader reports it).
+ */
+export function renamedKeys(raw: unknown, block: string, renames: ReadonlyArray<[string, string]>, problems: FieldProblem[], cautions: ScenarioCaution[]): unknown {
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) return raw;
+  let out = raw as Record<string, unknown>;
+  for (const [old, now] of renames) {
+    if (out[old] === undefined) continue;
+    if (out[now] !== undefined) {
+      problems.push({ path: `${block}.${old}`, value: out[old], allowed: `give ${block}.${now} only (${block}.${old} is its old name)` });
+    } else {
+      cautions.push({ path: `${block}.${old}`, message: `deprecated name: write ${block}.${now} (the old name is accepted in this release only)` });
+    }
+    const { [old]: value, ...rest } = out;
+    out = out[now] !== undefined ? rest : { ...rest, [now]: value };
+  }
+  return out;
+}
+
 export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   const problems: FieldProblem[] = [];
   const cautions: ScenarioCaution[] = [];
@@ -41,7 +64,7 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
 
   const star = readStar(new FieldReader(top.raw('star'), 'star', problems));
   if (!top.has('star')) problems.push({ path: 'star', value: undefined, allowed: 'required: the host star (mass, radius, teff, limb_darkening)' });
-  const planetReader = new FieldReader(top.raw('planet'), 'planet', problems);
+  const planetReader = new FieldReader(renamedKeys(top.raw('planet'), 'planet', PLANET_RENAMES, problems, cautions), 'planet', problems);
   const periodErrorS = planetReader.field('period_error'); // ephemeris uncertainty, for the calendar (readSky.ts)
   if (!top.has('planet')) problems.push({ path: 'planet', value: undefined, allowed: 'required: the transiting planet (mass, radius, period)' });
   const moonRaw = top.raw('moon');
@@ -177,7 +200,7 @@ export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): 
   }
   const periodS = r.field('period');
   const eccentricity = r.field('eccentricity');
-  const omegaRad = r.field('periastron');
+  const omegaRad = r.field('periapsis');
   const albedo = r.field('albedo');
   const k2 = r.field('love_number');
   const tidalQ = r.field('tidal_q');

@@ -66,7 +66,7 @@ export const AXIS_FIELDS: ReadonlyMap<string, AxisFieldDef> = new Map([
   def('planet.radius', q('length', 'm'), { replaces: ['mass_radius'] }),
   def('planet.period', q('time', 's', [DAY_S, 'days'])),
   def('planet.eccentricity', num),
-  def('planet.periastron', q('angle', 'rad', [DEG, 'degrees'])),
+  def('planet.periapsis', q('angle', 'rad', [DEG, 'degrees']), { replaces: ['periastron'] }), // periastron: its old name
   def('planet.impact_parameter', num, { replaces: ['inclination'] }),
   def('planet.inclination', q('angle', 'rad', [DEG, 'degrees']), { replaces: ['impact_parameter'] }),
   def('planet.albedo', num),

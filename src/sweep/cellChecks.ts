@@ -5,11 +5,11 @@
  *
  * Each cell must carry an integer index inside the grid and the coordinates
  * of that index (the axis values in the sweep's meta); any field named
- * `p_*`, `forecast_ttv|tdv|joint`, `false_alarm_*` or inside a `probability`
+ * `pdet_*` (measured and forecast), `false_alarm` or `false_alarm_*` or inside a `probability`
  * object is a probability: a number in [0, 1] or null; `realizations` is a
  * whole number from 0 to the sweep's realizations per cell and
- * `null_realizations` a whole number ≥ 0 (or null); a simulated cell carries
- * its probabilities (`p_ttv`, `p_tdv`, `p_dip`, `p_combined`); and a field
+ * `no_moon_realizations` a whole number ≥ 0 (or null); a simulated cell carries
+ * its probabilities (`pdet_ttv`, `pdet_tdv`, `pdet_dip`, `pdet_combined`); and a field
  * holds the same kind of value (number or not) in every cell.
  * Coverage (each cell exactly once) is checked by `checkCoverage`.
  */
@@ -17,8 +17,8 @@ import type { FieldProblem } from '../scenario/errors.js';
 import { createGrid, type Grid } from './grid.js';
 import type { SweepMeta } from './sweepMeta.js';
 
-const PROBABILITY = /^(p_.+|forecast_(ttv|tdv|joint)|false_alarm_.+)$/;
-const SIMULATED_REQUIRED = ['p_ttv', 'p_tdv', 'p_dip', 'p_combined'];
+const PROBABILITY = /^(pdet_.+|false_alarm(_.+)?)$/;
+const SIMULATED_REQUIRED = ['pdet_ttv', 'pdet_tdv', 'pdet_dip', 'pdet_combined'];
 
 /** The value for a message: numbers, booleans, null and missing as they are; text and objects cut to 40 characters. */
 function short(v: unknown): unknown {
@@ -81,7 +81,7 @@ export function cellChecker(meta: SweepMeta): CellChecker {
             if (v !== null && !(typeof v === 'number' && v >= 0 && v <= 1)) add(name, v, 'a probability: expected a number from 0 to 1, or null');
           } else if (k === 'realizations') {
             if (v !== null && !(typeof v === 'number' && Number.isInteger(v) && v >= 0 && v <= meta.realizations)) add(name, v, `expected a whole number from 0 to ${meta.realizations} (the sweep's realizations per cell)`);
-          } else if (k === 'null_realizations') {
+          } else if (k === 'no_moon_realizations') {
             if (v !== null && !(typeof v === 'number' && Number.isInteger(v) && v >= 0)) add(name, v, 'expected a whole number ≥ 0');
           }
           if (v === null || Array.isArray(v)) continue;

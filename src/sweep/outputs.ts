@@ -45,6 +45,15 @@ export interface SweepRunInfo {
   merged_from?: Array<{ dir: string; run: unknown }>;
 }
 
+/** Schema ids of the JSON files of an output folder (schemas/*.schema.json; summary.json's is SUMMARY_SCHEMA). */
+export const CELLS_SCHEMA = 'moonsieve/cells/1';
+export const RUN_SCHEMA = 'moonsieve/run/1';
+
+/** run.json text: the run info under its schema id. */
+export function renderRunJson(run: SweepRunInfo): string {
+  return JSON.stringify({ schema: RUN_SCHEMA, ...run }, null, 2) + '\n';
+}
+
 export const OUTPUT_FILES = ['cells.json', 'cells.ecsv', 'scenario.yaml', 'summary.json', 'report.html', 'run.json'] as const;
 
 function byIndex(results: readonly CellResult[]): CellResult[] {
@@ -55,13 +64,14 @@ function byIndex(results: readonly CellResult[]): CellResult[] {
 export function renderCellsJson(meta: SweepMeta, results: readonly CellResult[]): string {
   const cells = byIndex(results);
   const body = cells.map((c) => '    ' + JSON.stringify(c)).join(',\n');
-  return `{\n  "meta": ${JSON.stringify(meta)},\n  "cells": [\n${body}${cells.length ? '\n' : ''}  ]\n}\n`;
+  return `{\n  "schema": ${JSON.stringify(CELLS_SCHEMA)},\n  "meta": ${JSON.stringify(meta)},\n  "cells": [\n${body}${cells.length ? '\n' : ''}  ]\n}\n`;
 }
 
 /** Read back what `renderCellsJson` wrote. */
 export function parseCellsJson(text: string): { meta: SweepMeta; cells: CellResult[] } {
-  const v = JSON.parse(text) as { meta?: SweepMeta; cells?: CellResult[] };
+  const v = JSON.parse(text) as { schema?: unknown; meta?: SweepMeta; cells?: CellResult[] };
   if (!v || typeof v !== 'object' || !v.meta || !Array.isArray(v.cells)) throw new Error('not a moonsieve cells.json (no meta or cells)');
+  if (v.schema !== CELLS_SCHEMA) throw new Error(`its schema is ${v.schema === undefined ? 'not stated (an older moonsieve wrote it)' : JSON.stringify(v.schema)}, this moonsieve reads ${CELLS_SCHEMA}: re-run the sweep with this version`);
   const m = v.meta as unknown as Record<string, unknown>;
   const axes = m.axes as Array<{ values?: unknown }> | undefined;
   const gridOk = Array.isArray(axes) && axes.length >= 1 &&
@@ -75,15 +85,18 @@ export function parseCellsJson(text: string): { meta: SweepMeta; cells: CellResu
 
 /** Units guessed from SI suffixes of result keys (`ttv_rms_s` → s). */
 const SUFFIX_UNITS: Array<[RegExp, string]> = [
-  [/_W_m2$/i, 'W / m2'],
+  [/_w_m2$/i, 'W / m2'],
   [/_kg_m3$/i, 'kg / m3'],
-  [/_ppm$/, '1e-06'],
   [/_kg$/, 'kg'],
   [/_rad$/, 'rad'],
-  [/_K$/, 'K'],
+  [/_k$/, 'K'],
+  [/_w$/, 'W'],
   [/_s$/, 's'],
   [/_m$/, 'm'],
 ];
+
+/** Name suffix of an axis column for its SI unit (axisFields.ts units); '' for plain numbers and fractions. */
+const AXIS_UNIT_SUFFIX: Record<string, string> = { kg: '_kg', m: '_m', s: '_s', rad: '_rad', 'kg/m^3': '_kg_m3', W: '_w', K: '_k' };
 
 function unitOf(name: string): string | undefined {
   for (const [re, u] of SUFFIX_UNITS) if (re.test(name)) return u;
@@ -112,7 +125,9 @@ export function cellsTable(meta: SweepMeta, results: readonly CellResult[]): Tab
   ];
   const taken = new Set(['index']);
   meta.axes.forEach((a, k) => {
-    const name = a.field.replace(/\./g, '_');
+    // The axis column bears the vocabulary's name for its quantity (moon.mass → moon_mass_kg), and the
+    // cell result of the same name is not repeated beside it (one column per concept).
+    const name = a.field.replace(/\./g, '_') + (AXIS_UNIT_SUFFIX[a.unit] ?? '');
     taken.add(name);
     columns.push({
       name, datatype: 'float64', unit: a.unit || undefined,
@@ -153,7 +168,8 @@ export function cellsTable(meta: SweepMeta, results: readonly CellResult[]): Tab
       if (datatype === 'bool') return v as boolean;
       return v === null || v === undefined ? '' : String(v);
     });
-    const name = taken.has(key) ? `${key}_result` : key;
+    if (taken.has(key)) continue; // an axis column already holds it
+    const name = key;
     taken.add(name);
     columns.push({ name, datatype, unit: datatype === 'float64' ? unitOf(key) : undefined, values: values as number[] | string[] | boolean[] });
   }
@@ -196,7 +212,7 @@ export function writeSweepOutputs(dir: string, meta: SweepMeta, results: readonl
     ...(scenarioDoc !== null ? ([['scenario.yaml', stringifyYaml(scenarioDoc)]] as Array<[string, string]>) : []),
     ['summary.json', renderSummaryJson(summary)],
     ['report.html', renderSweepReport({ meta, cells: results, runInfo: run, scenario: scenarioDoc, summary })],
-    ['run.json', JSON.stringify(run, null, 2) + '\n'],
+    ['run.json', renderRunJson(run)],
   ];
   // Staged and renamed as one set; a previous set's file this one lacks (scenario.yaml) is removed.
   return commitOutputs(dir, files, [...OUTPUT_FILES]);

@@ -74,7 +74,7 @@ export function channelsFor(transits: number): DetectionChannel[] {
 function skipReason(s: Scenario, base: CellResult, ctx: CellContext): string | null {
   if (!s.moon) return 'no moon in the scenario';
   if (ctx.forecastOnly) return 'forecast only';
-  if (!base.stable && !ctx.simulateUnstable) return `not simulated: ${String(base.placement)}`;
+  if (!base.allowed && !ctx.simulateUnstable) return `not simulated: ${String(base.placement)}`;
   return null;
 }
 
@@ -102,7 +102,7 @@ export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null 
   if (!s.moon || ctx.forecastOnly) return null;
   // Only the placement decides (skipReason); the rest of computeLimits (the forecast) is not needed here.
   const placement = moonPlacement(s) ?? ['no moon'];
-  const base = { placement: placement.join('; '), stable: placement.length === 1 && placement[0] === 'stable' };
+  const base = { placement: placement.join('; '), allowed: placement.length === 1 && placement[0] === 'stable' };
   return skipReason(s, base as unknown as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
 }
 
@@ -167,7 +167,7 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
   const placement = l.moon_placement ?? ['no moon'];
   return {
     placement: placement.join('; '),
-    stable: placement.length === 1 && placement[0] === 'stable',
+    allowed: placement.length === 1 && placement[0] === 'stable',
     habitability: l.energy_budget?.verdict ?? null,
     habitability_dominant: l.energy_budget?.dominant ?? null,
     moon_mass_kg: s.moon?.massKg ?? null,
@@ -175,16 +175,16 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
     moon_separation_hill: s.moon ? s.moon.separationM / l.hill_radius_m : null,
     ttv_rms_s: l.ttv_rms_s,
     tdv_rms_s: l.tdv_rms_s,
-    moon_depth_ppm: l.moon_depth_ppm,
+    moon_depth: l.moon_depth,
     timing_precision_s: l.timing_precision_s,
     duration_precision_s: l.duration_precision_s,
-    forecast_ttv: l.forecast_ttv_probability,
-    forecast_tdv: l.forecast_tdv_probability,
-    forecast_joint: l.forecast_detection_probability,
+    pdet_forecast_ttv: l.pdet_forecast_ttv,
+    pdet_forecast_tdv: l.pdet_forecast_tdv,
+    pdet_forecast_joint: l.pdet_forecast_joint,
     forecast_regime_ok: l.forecast_regime_ok,
     channels_note: s.moon ? missingChannelSummary(s.observation.transits) : null,
     photocentric_ratio: l.photocentric_ratio,
-    energy_total_W_m2: l.energy_budget?.total_W_m2 ?? null,
+    energy_total_w_m2: l.energy_budget?.total_w_m2 ?? null,
   };
 }
 
@@ -259,20 +259,20 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
     if (decision.combined) counts.combined++;
     ttvRms.push(record.ttvRmsS);
     tdvRms.push(record.tdvRmsS);
-    dipDepth.push(dip.depth * 1e6);
+    dipDepth.push(dip.depth);
     fitted.push(record.transitsFitted);
   }
   const prob: Record<string, unknown> = {};
   for (const ch of [...DETECTION_CHANNELS, 'combined'] as const) {
     const exists = ch === 'combined' || channels.includes(ch);
     const w = wilsonInterval(counts[ch], R);
-    prob[`p_${ch}`] = exists ? w.estimate : null;
-    prob[`p_${ch}_lo`] = exists ? w.lower : null;
-    prob[`p_${ch}_hi`] = exists ? w.upper : null;
+    prob[`pdet_${ch}`] = exists ? w.estimate : null;
+    prob[`pdet_${ch}_lo`] = exists ? w.lower : null;
+    prob[`pdet_${ch}_hi`] = exists ? w.upper : null;
   }
   // The forecast (noncentral χ², white noise, Carter precision) beside the Monte Carlo TTV channel.
-  const fc = limits.forecast_ttv_probability;
-  const disagrees = fc !== null && limits.forecast_regime_ok === true && (fc < (prob.p_ttv_lo as number) || fc > (prob.p_ttv_hi as number));
+  const fc = limits.pdet_forecast_ttv;
+  const disagrees = fc !== null && limits.forecast_regime_ok === true && (fc < (prob.pdet_ttv_lo as number) || fc > (prob.pdet_ttv_hi as number));
   const fa: Record<string, unknown> = {};
   for (const ch of DETECTION_CHANNELS) {
     const c = calibration.single[ch];
@@ -283,16 +283,16 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
     ...base,
     simulated: true,
     realizations: R,
-    null_realizations: nNull,
+    no_moon_realizations: nNull,
     ...prob,
     channels_used: channels.join(' '),
     no_transit_observed: nothingObserved,
     forecast_ttv_outside_interval: disagrees,
     median_fitted_ttv_rms_s: median(ttvRms),
     median_fitted_tdv_rms_s: median(tdvRms),
-    median_dip_depth_ppm: median(dipDepth),
+    median_dip_depth: median(dipDepth),
     median_transits_fitted: median(fitted),
-    false_alarm_requested: alpha,
+    false_alarm: alpha,
     calibration_limited: limited,
     false_alarm_measured_combined: calibration.measuredCombinedAlpha,
     ...fa,

@@ -187,12 +187,14 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   }
   const forecastOnly = options.forecastOnly === true;
   const force = options.force === true;
+  // Old spellings in the sweep block: one note each on the progress stream (even with quiet; not part of the sweep's identity).
+  for (const d of spec.deprecations) (options.progress ?? process.stderr).write(`note: ${d}\n`);
   // Sizes first: nothing is parsed per cell nor written before a run known to fit.
   checkGridSize(spec.axes.map((a) => a.values.length));
   const meta = buildSweepMeta(scenario, hash, spec, forecastOnly);
   // (With a false-alarm axis each cell's own count is checked with the cells below.)
   if (!forecastOnly && !spec.axes.some((a) => a.field === 'detection.false_alarm')) {
-    checkNullRealizations(meta.null_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
+    checkNullRealizations(meta.no_moon_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
   }
   const outDir = options.out ?? defaultOutDir(scenario.name);
   checkOutputDir(options.out === undefined ? 'output folder (default from the scenario name)' : '--out', outDir);

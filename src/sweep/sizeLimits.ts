@@ -35,14 +35,14 @@ export function checkGridSize(shape: readonly number[]): void {
 
 /**
  * Refuse a calibration of more than MAX_NULL_REALIZATIONS no-moon realizations.
- * `fromSweepBlock`: the count was set by sweep.null_realizations (else derived from α).
+ * `fromSweepBlock`: the count was set by sweep.no_moon_realizations (else derived from α).
  */
 export function checkNullRealizations(count: number, falseAlarm: number, fromSweepBlock: boolean, where = ''): void {
   if (count <= MAX_NULL_REALIZATIONS) return;
   const at = where ? ` (${where})` : '';
   if (fromSweepBlock) {
     throw new InputError([{
-      path: 'sweep.null_realizations' + at,
+      path: 'sweep.no_moon_realizations' + at,
       value: count,
       allowed: `at most ${MAX_NULL_REALIZATIONS} no-moon calibration realizations fit in memory (each set is held while its cells run): lower it`,
     }]);

@@ -34,9 +34,9 @@ export interface SweepMeta {
   realizations: number;
   /**
    * No-moon calibration realizations per null class: the sweep block's
-   * `null_realizations`, else the default for the base scenario's α and R.
+   * `no_moon_realizations`, else the default for the base scenario's α and R.
    */
-  null_realizations: number;
+  no_moon_realizations: number;
   simulate_unstable: boolean;
   forecast_only: boolean;
   axes: SweepAxisMeta[];
@@ -53,7 +53,7 @@ export function buildSweepMeta(scenario: Scenario, hash: string, spec: SweepSpec
     seed: scenario.seed,
     false_alarm: scenario.detection.falseAlarm,
     realizations: spec.realizations,
-    null_realizations: spec.nullRealizations ?? defaultNullRealizations(scenario.detection.falseAlarm, spec.realizations),
+    no_moon_realizations: spec.nullRealizations ?? defaultNullRealizations(scenario.detection.falseAlarm, spec.realizations),
     simulate_unstable: spec.simulateUnstable,
     forecast_only: forecastOnly,
     axes: spec.axes.map((a) => ({
@@ -76,7 +76,7 @@ export function metaDifferences(a: SweepMeta, b: SweepMeta): string[] {
   if (a.moonsieve_version !== b.moonsieve_version) out.push(`moonsieve version (${a.moonsieve_version} vs ${b.moonsieve_version})`);
   if (canonicalJson(a.axes) !== canonicalJson(b.axes) || a.cells !== b.cells) out.push(`grid (${gridText(a)} vs ${gridText(b)})`);
   if (a.realizations !== b.realizations) out.push(`realizations per cell (${a.realizations} vs ${b.realizations})`);
-  if (a.null_realizations !== b.null_realizations) out.push(`no-moon calibration realizations (${a.null_realizations} vs ${b.null_realizations})`);
+  if (a.no_moon_realizations !== b.no_moon_realizations) out.push(`no-moon calibration realizations (${a.no_moon_realizations} vs ${b.no_moon_realizations})`);
   if (a.simulate_unstable !== b.simulate_unstable) out.push(`simulate_unstable (${a.simulate_unstable} vs ${b.simulate_unstable})`);
   if (a.forecast_only !== b.forecast_only) out.push(`forecast-only mode (${a.forecast_only} vs ${b.forecast_only})`);
   if (out.length === 0 && canonicalJson(a) !== canonicalJson(b)) out.push('sweep settings');

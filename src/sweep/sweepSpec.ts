@@ -2,7 +2,7 @@
  * The `sweep:` block of a scenario: one to three axes over any numeric
  * scenario field (nested fields by their dotted path, e.g.
  * `instrument.ground.aperture`; the third axis is drawn as small multiples), the realizations per cell and whether physically
- * unstable cells are simulated (and, optionally, `null_realizations`: the
+ * unstable cells are simulated (and, optionally, `no_moon_realizations`: the
  * no-moon realizations that calibrate the false alarms, ≥ 20; by default
  * max(R, 200, ⌈10/α⌉)). A scenario with a moon and no sweep block
  * (or a block without `axes`) gets the default grid: moon mass, log-spaced
@@ -75,6 +75,8 @@ export interface SweepSpec {
   defaultAxes: boolean;
   /** Things the user should know (rounded integer axes, empty stable band...). */
   notes: string[];
+  /** Old spellings met in the sweep block, one line each, for stderr (not part of the sweep's identity). */
+  deprecations: string[];
 }
 
 export const DEFAULT_REALIZATIONS = 100;
@@ -97,14 +99,20 @@ export const DEFAULT_AXES: ReadonlyArray<Record<string, unknown>> = [
  */
 export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'): SweepSpec {
   const problems: FieldProblem[] = [];
+  const deprecations: string[] = [];
   const raw = doc !== null && typeof doc === 'object' ? (doc as Record<string, unknown>).sweep : undefined;
   const r = new FieldReader(raw, 'sweep', problems);
   const realizations = r.number('realizations', {
     default: DEFAULT_REALIZATIONS, integer: true, min: 1, max: 1_000_000,
     rangeText: 'expected a whole number of realizations per cell from 1 to 1000000',
   });
-  const nullRaw = r.raw('null_realizations');
-  const nullRealizations = nullRaw === undefined || nullRaw === null ? null : r.number('null_realizations', {
+  // `null_realizations` is the old name of `no_moon_realizations`, accepted for one release with a note.
+  const oldNullRaw = r.raw('null_realizations');
+  const newNullRaw = r.raw('no_moon_realizations');
+  const nullKey = (newNullRaw === undefined || newNullRaw === null) && oldNullRaw !== undefined && oldNullRaw !== null ? 'null_realizations' : 'no_moon_realizations';
+  const nullRaw = nullKey === 'null_realizations' ? oldNullRaw : newNullRaw;
+  if (nullKey === 'null_realizations') deprecations.push('sweep.null_realizations is deprecated: write sweep.no_moon_realizations (the old name is accepted in this release only)');
+  const nullRealizations = nullRaw === undefined || nullRaw === null ? null : r.number(nullKey, {
     integer: true, min: MIN_NULL_REALIZATIONS, max: 10_000_000,
     rangeText: `expected a whole number of no-moon calibration realizations from ${MIN_NULL_REALIZATIONS} to 10000000`,
   });
@@ -139,7 +147,7 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
   const notes: string[] = [];
   const axes: SweepAxis[] = [];
   axisDocs.forEach((a, i) => {
-    const axis = readAxis(a, `${prefix}[${i}]`, doc, base, problems, notes);
+    const axis = readAxis(a, `${prefix}[${i}]`, doc, base, problems, notes, deprecations);
     if (axis) {
       if (axes.some((b) => b.field === axis.field)) {
         problems.push({ path: `${prefix}[${i}].field`, value: axis.field, allowed: 'each axis must vary a different field' });
@@ -149,13 +157,18 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
     }
   });
   if (problems.length > 0) throw new InputError(problems, source);
-  return { realizations, nullRealizations, simulateUnstable, axes, defaultAxes, notes };
+  return { realizations, nullRealizations, simulateUnstable, axes, defaultAxes, notes, deprecations };
 }
 
-function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, problems: FieldProblem[], notes: string[]): SweepAxis | null {
+/** Axis fields renamed in this release: old → new (the old name is read, with a note, for one release). */
+const RENAMED_AXIS_FIELDS: ReadonlyMap<string, string> = new Map([['planet.periastron', 'planet.periapsis']]);
+
+function readAxis(raw: unknown, path: string, doc: unknown, base: Scenario, problems: FieldProblem[], notes: string[], deprecations: string[]): SweepAxis | null {
   const before = problems.length;
   const r = new FieldReader(raw, path, problems);
-  const field = r.string('field', '');
+  const written = r.string('field', '');
+  const field = RENAMED_AXIS_FIELDS.get(written) ?? written;
+  if (field !== written) deprecations.push(`${path}.field: ${written} is deprecated: write ${field} (the old name is accepted in this release only)`);
   const valuesRaw = r.raw('values');
   const listed = valuesRaw !== undefined && valuesRaw !== null;
   const fromRaw = r.raw('from');

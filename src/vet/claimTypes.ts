@@ -52,6 +52,8 @@ export interface PhotometricPrecision {
 
 export interface Claim {
   name: string;
+  /** Old key names met in the claim file, one note each (the CLI prints them on stderr). */
+  deprecations?: string[];
   /** Seed of the Monte Carlo propagation. */
   seed: number;
   star: StarSpec;

@@ -6,3 +6,4 @@ export { formatVetReport } from './formatVetReport.js';
 export { renderVetPage } from './vetPage.js';
 export type { Claim, ClaimedAmplitude, TimingTable, PhotometricPrecision, OrientationPrior } from './claimTypes.js';
 export type { VetResult, VetCheck, CheckStatus, Verdict, ImpliedMoonSummary, QuantileSummary } from './vetTypes.js';
+export { vetToJson, VET_SCHEMA, type VetJson } from './vetJson.js';

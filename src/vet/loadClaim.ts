@@ -12,7 +12,7 @@
  *     transits: 12                                                      # with amplitudes
  *     table: times.csv                                                  # or a table (path relative to the claim file)
  *     time_standard: BJD_TDB                                            # required with a table ("BJD_TDB-2457000" …)
- *     precision: "300 ppm per 2 min"                                    # photometric white noise (for the moon-dip check)
+ *     noise: "300 ppm per 2 min"                                        # photometric white noise (for the moon-dip check; old name precision)
  *     cadence: "2 min"                                                  # optional (default: the precision's timescale)
  *     moon_dip: none                                                    # or a claimed depth, e.g. "40 ppm"
  *     duration: "6.2 h"                                                 # optional measured T14 (default: computed)
@@ -31,7 +31,8 @@ import { DAY_S, MINUTE_S } from '../physics/constants.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
 import { FieldReader } from '../scenario/fieldReader.js';
 import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
-import { readPlanet, readStar } from '../scenario/parseScenario.js';
+import { PLANET_RENAMES, readPlanet, readStar, renamedKeys } from '../scenario/parseScenario.js';
+import type { ScenarioCaution } from '../scenario/types.js';
 import { parseQuantity } from '../scenario/units.js';
 import type { Claim, ClaimedAmplitude, PhotometricPrecision, TimingTable } from './claimTypes.js';
 import { MAX_TABLE_ROWS, TIME_STANDARD_ALLOWED, parseTimeStandard, parseTimingTable } from './timingTable.js';
@@ -60,7 +61,7 @@ export interface ParseClaimOptions {
 /** Keys of each block of a claim file (every one listed when an unknown key is met). */
 export const CLAIM_KEYS = {
   top: ['name', 'seed', 'star', 'planet', 'claim'],
-  claim: ['ttv', 'tdv', 'phase_offset', 'transits', 'table', 'time_standard', 'precision', 'cadence', 'moon_dip', 'duration', 'orientation', 'draws'],
+  claim: ['ttv', 'tdv', 'phase_offset', 'transits', 'table', 'time_standard', 'noise', 'precision', 'cadence', 'moon_dip', 'duration', 'orientation', 'draws'],
   amplitude: ['amplitude', 'uncertainty', 'kind'],
   phaseOffset: ['value', 'uncertainty'],
 } as const;
@@ -90,22 +91,36 @@ function readAmplitude(r: FieldReader, periodS: number): ClaimedAmplitude {
   return { valueS, errorS, kind };
 }
 
-function readPrecision(r: FieldReader): PhotometricPrecision | null {
-  const raw = r.raw('precision');
+/**
+ * The photometric white noise, `claim.noise` (as `instrument.noise` in a scenario); its old name
+ * `claim.precision` is read for one release with a note in `deprecations`.
+ */
+function readPrecision(r: FieldReader, deprecations: string[]): PhotometricPrecision | null {
+  const old = r.raw('precision');
+  const now = r.raw('noise');
+  const hasOld = old !== undefined && old !== null;
+  const hasNow = now !== undefined && now !== null;
+  if (hasOld && hasNow) {
+    r.problem('precision', old, 'give claim.noise only (claim.precision is its old name)');
+    return null;
+  }
+  if (hasOld) deprecations.push('claim.precision: deprecated name: write claim.noise (the old name is accepted in this release only)');
+  const key = hasOld ? 'precision' : 'noise';
+  const raw = hasOld ? old : now;
   if (raw === undefined || raw === null) return null;
   const allowed = 'expected a white-noise level (0.1 ppm to 1e6 ppm) with its timescale (1 s to 1 d), e.g. "300 ppm per 2 min"';
   if (typeof raw !== 'string' || !/\sper\s/.test(raw)) {
-    r.problem('precision', raw, allowed);
+    r.problem(key, raw, allowed);
     return null;
   }
   const [level, scale] = raw.split(/\s+per\s+/);
   try {
-    const noiseFraction = parseQuantity(level, 'claim.precision', 'fraction');
-    const noiseTimescaleS = parseQuantity(scale, 'claim.precision', 'time');
+    const noiseFraction = parseQuantity(level, r.path(key), 'fraction');
+    const noiseTimescaleS = parseQuantity(scale, r.path(key), 'time');
     if (!(noiseFraction >= MIN_FRACTION && noiseFraction <= 1) || !(noiseTimescaleS >= TIMESCALE_RANGE_S[0] && noiseTimescaleS <= TIMESCALE_RANGE_S[1])) throw new Error('range');
     return { noiseFraction, noiseTimescaleS };
   } catch {
-    r.problem('precision', raw, allowed);
+    r.problem(key, raw, allowed);
     return null;
   }
 }
@@ -120,7 +135,9 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
   if (!top.has('planet')) problems.push({ path: 'planet', value: undefined, allowed: 'required: the transiting planet (mass, radius, period)' });
   if (!top.has('claim')) problems.push({ path: 'claim', value: undefined, allowed: 'required: the claimed signal (ttv/tdv amplitudes or a table of transit times)' });
   const star = readStar(new FieldReader(top.raw('star'), 'star', problems));
-  const planet = readPlanet(new FieldReader(top.raw('planet'), 'planet', problems), star, 0);
+  const renamed: ScenarioCaution[] = [];
+  const planet = readPlanet(new FieldReader(renamedKeys(top.raw('planet'), 'planet', PLANET_RENAMES, problems, renamed), 'planet', problems), star, 0);
+  const deprecations = renamed.map((c) => `${c.path}: ${c.message}`);
   const c = new FieldReader(top.raw('claim'), 'claim', problems);
   top.rejectUnknown(CLAIM_KEYS.top);
   const ttv = c.has('ttv') ? readAmplitude(new FieldReader(c.raw('ttv'), 'claim.ttv', problems), planet.periodS) : null;
@@ -138,7 +155,7 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
   if (dipRaw !== undefined && dipRaw !== null && !(typeof dipRaw === 'string' && /^\s*none\s*$/i.test(dipRaw))) {
     moonDipDepth = c.quantity('moon_dip', 'fraction', { min: MIN_DIP, max: 1, rangeText: 'expected a claimed dip depth from 0.01 ppm to 1e6 ppm such as "40 ppm", or none' });
   }
-  const precision = readPrecision(c);
+  const precision = readPrecision(c, deprecations);
   const cadenceS = c.has('cadence') ? c.quantity('cadence', 'time', { bare: [MINUTE_S, 'minutes'], min: TIMESCALE_RANGE_S[0], max: TIMESCALE_RANGE_S[1], rangeText: 'must be a time from 1 s to 1 d' }) : null;
   const halfPeriod = Number.isFinite(planet.periodS) ? planet.periodS / 2 : Infinity;
   const durationS = c.has('duration')
@@ -183,7 +200,7 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
   }
   c.rejectUnknown(CLAIM_KEYS.claim);
   if (problems.length > 0) throw new InputError(problems, source);
-  return { name, seed, star, planet, ttv, tdv, phaseOffset, moonDipDepth, precision, cadenceS, transits, durationS, table, orientation, draws };
+  return { name, seed, star, planet, ttv, tdv, phaseOffset, moonDipDepth, precision, cadenceS, transits, durationS, table, orientation, draws, deprecations };
 }
 
 /** Parse claim YAML text; problems carry the line numbers of the YAML nodes. */

@@ -38,6 +38,21 @@ describe('moonsieve budget (CLI)', () => {
     expect(r.out).toBe('');
   });
 
+  it('--no-moon-realizations sets the calibration count; the old --null-realizations still works, with a note on stderr', async () => {
+    const now = await run([demo, '--forecast-only', '--json', '--quiet', '--no-moon-realizations', '60']);
+    expect(now.error).toBeNull();
+    expect(JSON.parse(now.out).no_moon_realizations).toBe(60);
+    expect(now.err).not.toMatch(/deprecated/);
+    const absent = await run([demo, '--forecast-only', '--json', '--quiet']);
+    expect(JSON.parse(absent.out).no_moon_realizations).toBe(400); // the default (budgetSpec.ts)
+    const old = await run([demo, '--forecast-only', '--json', '--quiet', '--null-realizations', '60']);
+    expect(old.error).toBeNull();
+    expect(JSON.parse(old.out).no_moon_realizations).toBe(60);
+    expect(old.err).toMatch(/note: --null-realizations is deprecated: write --no-moon-realizations/);
+    const bad = await run([demo, '--forecast-only', '--no-moon-realizations', '2']);
+    expect((bad.error as InputError).message).toContain('--no-moon-realizations: got "2"');
+  });
+
   it('a target moon the scenario refuses names the flag', async () => {
     const r = await run([demo, '--forecast-only', '--moon-separation', '1 Rp']);
     expect(r.error).toBeInstanceOf(InputError);
@@ -50,7 +65,10 @@ describe('moonsieve budget (CLI)', () => {
     const r = await run([demo, '--forecast-only', '--json', '--moon-mass', '0.6 Mearth', '--moon-separation', '18 Rp', '--probability', '90 %', '--html', page]);
     expect(r.error).toBeNull();
     const j = JSON.parse(r.out);
+    expect(j.schema).toBe('moonsieve/budget/1');
     expect(j.solve).toBe('transits');
+    expect(j.quantity.display_unit).toBeTypeOf('string');
+    expect(j.answer.telescope_time_s).toBeGreaterThan(0);
     expect(j.probability_target).toBeCloseTo(0.9, 15);
     expect(j.answer.reached).toBe(true);
     expect(j.quantity.values[0]).toBe(1); // the combined channel exists from 1 transit (the moon dip; budgetSpec.ts minTransitsFor)
@@ -60,9 +78,15 @@ describe('moonsieve budget (CLI)', () => {
   });
 
   it('the table names the answer, the forecast caveat for this moon and the assumptions', async () => {
-    const r = await run([demo, '--forecast-only', '--solve', 'precision']);
+    const r = await run([demo, '--forecast-only', '--solve', 'noise']);
     expect(r.error).toBeNull();
     expect(r.out).toMatch(/worst white-noise level/);
+    expect(r.err).not.toMatch(/deprecated/);
+    const old = await run([demo, '--forecast-only', '--solve', 'precision']);
+    expect(old.error).toBeNull();
+    const untimed = (t: string) => t.replace(/\(\d+(\.\d+)? s\)/g, '(… s)'); // the wall time differs between runs
+    expect(untimed(old.out)).toBe(untimed(r.out)); // the same answer
+    expect(old.err).toMatch(/note: --solve precision is deprecated: write --solve noise/);
     expect(r.out).toMatch(/photocentric/); // the demo moon's dip is large for its mass
     expect(r.out).toMatch(/Assumptions/);
   });

@@ -41,19 +41,19 @@ describe('budget forecast', () => {
     const r = planBudget(doc('0.8 Mearth'), { forecastOnly: true, channel: 'ttv' });
     for (const n of [3, 5, 12, 30]) {
       const l = computeLimits(parseScenario(doc('0.8 Mearth', '10 Rp', '30 ppm per 6.5 h', n)));
-      expect(r.forecast.probability[r.quantity.values.indexOf(n)]).toBeCloseTo(l.forecast_ttv_probability!, 12);
+      expect(r.forecast.probability[r.quantity.values.indexOf(n)]).toBeCloseTo(l.pdet_forecast_ttv!, 12);
     }
     // ...and the joint TTV+TDV forecast for the combined channel.
     const c = planBudget(doc('0.8 Mearth'), { forecastOnly: true, channel: 'combined' });
     const l8 = computeLimits(parseScenario(doc('0.8 Mearth')));
-    expect(c.forecast.probability[c.quantity.values.indexOf(8)]).toBeCloseTo(l8.forecast_detection_probability!, 12);
+    expect(c.forecast.probability[c.quantity.values.indexOf(8)]).toBeCloseTo(l8.pdet_forecast_joint!, 12);
   });
 
   it('forecast-only answer = the first n whose computeLimits forecast reaches the target (brute-force scan)', () => {
     const r = planBudget(doc('0.8 Mearth'), { forecastOnly: true, channel: 'ttv', probability: 0.9 });
     let scan = -1;
     for (let n = 3; n <= 50 && scan < 0; n++) {
-      if (computeLimits(parseScenario(doc('0.8 Mearth', '10 Rp', '30 ppm per 6.5 h', n))).forecast_ttv_probability! >= 0.9) scan = n;
+      if (computeLimits(parseScenario(doc('0.8 Mearth', '10 Rp', '30 ppm per 6.5 h', n))).pdet_forecast_ttv! >= 0.9) scan = n;
     }
     expect(r.answer.reached).toBe(true);
     expect(r.answer.value).toBe(scan);
@@ -134,7 +134,7 @@ describe('budget forecast', () => {
     for (let i = 1; i < c.values.length; i++) expect(c.values[i - 1] / c.values[i]).toBeCloseTo(GEOMETRIC_STEP, 12);
     expect(c.values[c.values.length - 1]).toBeGreaterThanOrEqual(MIN_CADENCE_S);
     expect(c.values[0]).toBeLessThanOrEqual(scenarioDurations(s).t14S / 3);
-    const n = solvedQuantity('precision', d, s, 50);
+    const n = solvedQuantity('noise', d, s, 50);
     expect(n.values).toContain(s.instrument.noiseFraction);
     expect(n.values[0]).toBeGreaterThan(n.values[n.values.length - 1]);
   });

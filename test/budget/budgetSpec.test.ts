@@ -40,7 +40,7 @@ describe('budget flags and block', () => {
     const p = problemsOf(() => readBudgetFlags({ probability: '1.2', solve: 'hours', channel: 'radio', realizations: '2.5', moonMass: '3 furlong', moonSeparation: '-2 Rp', maxTransits: '0' }));
     const paths = p.map((x) => x.path).sort();
     expect(paths).toEqual(['--channel', '--max-transits', '--moon-mass', '--moon-separation', '--probability', '--realizations', '--solve'].sort());
-    expect(p.find((x) => x.path === '--solve')!.allowed).toMatch(/transits.*cadence.*precision/);
+    expect(p.find((x) => x.path === '--solve')!.allowed).toMatch(/transits.*cadence.*noise/);
     expect(p.find((x) => x.path === '--probability')!.value).toBe('1.2');
   });
 
@@ -64,7 +64,10 @@ describe('budget flags and block', () => {
     expect(() => parseScenario(doc)).not.toThrow();
     const fromBlock = resolveBudgetTarget(doc, {});
     expect(fromBlock.probability).toBeCloseTo(0.8, 15);
-    expect(fromBlock.solve).toBe('precision');
+    // The block still says `solve: precision`, the old name of `noise`: read as noise, with a note.
+    expect(fromBlock.solve).toBe('noise');
+    expect(fromBlock.deprecations).toEqual(['budget.solve: precision is deprecated: write noise (the old value is accepted in this release only)']);
+    expect(resolveBudgetTarget(parse(scenarioText.replace('solve: precision', 'solve: noise')), {}).deprecations).toEqual([]);
     expect(fromBlock.channel).toBe('ttv');
     expect(fromBlock.moonMassKg).toBeCloseTo(2 * M_EARTH_KG, 0);
     expect(fromBlock.moonMassSource).toBe('budget.moon_mass');

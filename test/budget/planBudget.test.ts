@@ -89,7 +89,7 @@ describe('planBudget with Monte Carlo', () => {
     // against a TTV of ~40 s: timing scatter the white-noise level cannot remove (Pont et al. 2006, MNRAS 373, 231).
     const d = doc('0.8 Mearth');
     (d.instrument as Record<string, unknown>).red_noise = { model: 'power_law', amplitude: '1000 ppm per 1 h', slope: 2 };
-    const r = planBudget(d, { ...quick, solve: 'precision', realizations: 12, nullRealizations: 24 });
+    const r = planBudget(d, { ...quick, solve: 'noise', realizations: 12, nullRealizations: 24 });
     expect(r.forecast.applies).toBe(false);
     expect(r.answer.reached).toBe(false);
     expect(r.evaluations.length).toBeLessThanOrEqual(2 * Math.ceil(Math.log2(r.quantity.values.length + 1)) + 5);

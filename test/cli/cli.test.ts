@@ -59,11 +59,18 @@ describe('moonsieve CLI', () => {
     const obj = JSON.parse(j.out);
     for (const k of ['hill_radius_m', 'stable_max_separation_m', 'stable_max_separation_retrograde_m', 'roche_limit_m', 'tidal_max_moon_mass_kg',
       'transit_duration_s', 'timing_precision_s', 'duration_precision_s', 'ttv_semi_amplitude_s', 'ttv_rms_s', 'tdv_semi_amplitude_s',
-      'tdv_rms_s', 'moon_depth_ppm', 'forecast_detection_probability', 'energy_budget']) {
+      'tdv_rms_s', 'moon_depth', 'pdet_forecast_joint', 'energy_budget']) {
       expect(obj, k).toHaveProperty(k);
       expect(obj[k], k).not.toBeNull();
     }
-    for (const k of ['stellar_W_m2', 'reflected_W_m2', 'thermal_W_m2', 'tidal_W_m2', 'total_W_m2', 'runaway_limit_W_m2', 'verdict']) {
+    expect(obj.schema).toBe('moonsieve/limits/1');
+    // Dimensionless values are plain fractions in JSON (ppm is for screens): the demo moon's dip is tens of ppm.
+    expect(obj.moon_depth).toBeGreaterThan(0);
+    expect(obj.moon_depth).toBeLessThan(1e-3);
+    expect(t.out).toMatch(/moon dip depth\s+\d+\.\d\d ppm/);
+    expect(t.out).toContain('Domingos, Winter & Yokoyama 2006');
+    expect(t.out).not.toContain('DWY06');
+    for (const k of ['stellar_w_m2', 'reflected_w_m2', 'thermal_w_m2', 'tidal_w_m2', 'total_w_m2', 'runaway_limit_w_m2', 'verdict']) {
       expect(obj.energy_budget, k).toHaveProperty(k);
     }
   });

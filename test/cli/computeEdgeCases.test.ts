@@ -46,8 +46,8 @@ describe('fewer than 3 transits is an answer', () => {
     expect(r.out).toMatch(/no TTV channel with 2 transits; TDV [\d.]+ % \(1 degree of freedom\)/);
     const j = await run(['limits', scenario('two'), '--json']);
     const obj = JSON.parse(j.out);
-    expect(obj.forecast_ttv_probability).toBeNull();
-    expect(typeof obj.forecast_tdv_probability).toBe('number');
+    expect(obj.pdet_forecast_ttv).toBeNull();
+    expect(typeof obj.pdet_forecast_tdv).toBe('number');
   });
 
   it('limits with 1 transit: exit 0, no timing channel, moon dip only', async () => {
@@ -72,7 +72,7 @@ describe('fewer than 3 transits is an answer', () => {
     expect(r.code).toBe(0);
     const cells = JSON.parse(readFileSync(join(out, 'cells.json'), 'utf8'));
     const list = Array.isArray(cells) ? cells : cells.cells;
-    expect(list[0].forecast_ttv).toBeNull();
+    expect(list[0].pdet_forecast_ttv).toBeNull();
   });
 });
 
@@ -108,11 +108,30 @@ describe('geometry, cadence and size', () => {
     expect(l.code).toBe(2);
   });
 
-  it('simulate --realization 1e20: an option error with the allowed range', async () => {
-    const r = await run(['simulate', scenario('two'), '--realization', '1e20', '--out', join(dir, 'sim-r')]);
+  it('simulate --draw 1e20: an option error with the allowed range; the old --realization names itself and is noted as deprecated', async () => {
+    const r = await run(['simulate', scenario('two'), '--draw', '1e20', '--out', join(dir, 'sim-r')]);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/--realization: got "1e20"; expected a whole number from 0 to 9007199254740991/);
+    expect(r.err).toMatch(/--draw: got "1e20"; expected a whole number from 0 to 9007199254740991/);
     expect(existsSync(join(dir, 'sim-r'))).toBe(false);
+    const old = await run(['simulate', scenario('two'), '--realization', '1e20', '--out', join(dir, 'sim-r')]);
+    expect(old.code).toBe(2);
+    expect(old.err).toMatch(/note: --realization is deprecated: write --draw/);
+    expect(old.err).toMatch(/--realization: got "1e20"; expected a whole number from 0 to 9007199254740991/);
+    expect(existsSync(join(dir, 'sim-r'))).toBe(false);
+  });
+
+  it('simulate --draw N and the deprecated --realization N draw the same noise', async () => {
+    const a = await run(['simulate', scenario('two'), '--draw', '3', '--out', join(dir, 'sim-d3')]);
+    const b = await run(['simulate', scenario('two'), '--realization', '3', '--out', join(dir, 'sim-r3')]);
+    const c = await run(['simulate', scenario('two'), '--out', join(dir, 'sim-d0')]);
+    expect([a.code, b.code, c.code]).toEqual([0, 0, 0]);
+    const lc = (d: string) => readFileSync(join(dir, d, 'lightcurve.ecsv'), 'utf8');
+    expect(lc('sim-d3')).toBe(lc('sim-r3'));
+    expect(lc('sim-d3')).not.toBe(lc('sim-d0'));
+    const transits = readFileSync(join(dir, 'sim-d3', 'transits.ecsv'), 'utf8');
+    // Durations in SI like their errors (one unit per table).
+    expect(transits).toContain('{name: "fit_duration", unit: "s",');
+    expect(transits).toContain('{name: "fit_duration_err", unit: "s",');
   });
 
   it('a 4-day baseline around a 5-day period: each time stamp written once', async () => {

@@ -24,7 +24,7 @@ instrument: { cadence: 10 min, noise: 400 ppm per 10 min }
 observation: { transits: 5 }
 sweep:
   realizations: 3
-  null_realizations: 4000
+  no_moon_realizations: 4000
   axes:
     - { field: moon.density, from: 2 g/cm^3, to: 4 g/cm^3, count: 2 }
 `;

@@ -81,13 +81,13 @@ describe('every log axis of the sweep figures has explicit 1-2-5 ticks', () => {
       { field: 'moon.mass', unit: 'kg', spacing: 'log', from_text: '0.1 Mearth', to_text: '25.6 Mearth', from: masses[0], to: masses[4], count: 5, values: masses },
       { field: 'instrument.cadence', unit: 's', spacing: 'log', from_text: '1 min', to_text: '30 min', from: 60, to: 1800, count: 4, values: cadences },
     ];
-    const meta = { moonsieve_version: 't', scenario: 'Tick world', scenario_hash: 'h', seed: 1, false_alarm: 0.01, realizations: 10, null_realizations: 200, simulate_unstable: false, forecast_only: false, axes, cells: 20, notes: [] } as SweepMeta;
+    const meta = { moonsieve_version: 't', scenario: 'Tick world', scenario_hash: 'h', seed: 1, false_alarm: 0.01, realizations: 10, no_moon_realizations: 200, simulate_unstable: false, forecast_only: false, axes, cells: 20, notes: [] } as SweepMeta;
     const cells: CellResult[] = [];
     for (let i = 0; i < 20; i++) {
       const m = Math.floor(i / 4);
       const c = i % 4;
       const p = Math.min(1, (m + 1) / (c + 2));
-      cells.push({ index: i, coords: [masses[m], cadences[c]], simulated: true, stable: true, placement: 'stable', habitability: 'cold', p_combined: p, p_ttv: p, p_tdv: 0, p_dip: 0, forecast_ttv: p, moon_mass_kg: masses[m] } as CellResult);
+      cells.push({ index: i, coords: [masses[m], cadences[c]], simulated: true, allowed: true, placement: 'stable', habitability: 'cold', pdet_combined: p, pdet_ttv: p, pdet_tdv: 0, pdet_dip: 0, pdet_forecast_ttv: p, moon_mass_kg: masses[m] } as CellResult);
     }
     const g = gridFigures(meta, cells, null, buildSummary(meta, cells));
     const logAxes = g.figures.flatMap((f) => Object.entries(f.layout).filter(([k, v]) => /^[xy]axis/.test(k) && (v as { type?: string }).type === 'log').map(([, v]) => v as Record<string, unknown>));

@@ -48,11 +48,11 @@ beforeAll(async () => {
 describe('summary.json against cells.json', () => {
   it('counts habitable-zone moons and their detections as defined', () => {
     const cells = sweep.cells;
-    const hab = cells.filter((c) => c.stable === true && c.habitability === 'temperate');
-    const p = (c: CellResult) => c.p_combined as number;
+    const hab = cells.filter((c) => c.allowed === true && c.habitability === 'temperate');
+    const p = (c: CellResult) => c.pdet_combined as number;
     expect(summaryJson.cells).toBe(cells.length);
     expect(summaryJson.cells_habitable).toBe(hab.length);
-    expect(summaryJson.cells_stable).toBe(cells.filter((c) => c.stable === true).length);
+    expect(summaryJson.cells_allowed).toBe(cells.filter((c) => c.allowed === true).length);
     expect(summaryJson.habitable_detected_90).toBe(hab.filter((c) => c.simulated === true && p(c) >= 0.9).length);
     expect(summaryJson.habitable_detected_50).toBe(hab.filter((c) => c.simulated === true && p(c) >= 0.5).length);
     const det = hab.filter((c) => c.simulated === true && p(c) >= 0.9).sort((a, b) => (a.moon_mass_kg as number) - (b.moon_mass_kg as number) || a.index - b.index);
@@ -61,7 +61,6 @@ describe('summary.json against cells.json', () => {
     else {
       expect(smallest?.index).toBe(det[0].index);
       expect(smallest?.moon_mass_kg).toBe(det[0].moon_mass_kg);
-      expect(smallest?.moon_mass_earth).toBe((det[0].moon_mass_kg as number) / M_EARTH_KG);
     }
     expect(summaryJson).toEqual(JSON.parse(JSON.stringify(buildSummary(sweep.meta, sweep.cells))));
   });
@@ -84,7 +83,7 @@ describe('summary.json against cells.json', () => {
       expect(decode(text).startsWith(formatSummaryValue((v as number) / Number(divisor), format as 'count' | 'percent' | 'sig3')), key).toBe(true);
     }
     for (const k of ['cells', 'cells_habitable', 'habitable_detected_90', 'habitable_detected_50']) expect(keys.has(k), k).toBe(true);
-    if (summaryJson.smallest_habitable_detected_90) expect(keys.has('smallest_habitable_detected_90.moon_mass_earth')).toBe(true);
+    if (summaryJson.smallest_habitable_detected_90) expect(keys.has('smallest_habitable_detected_90.moon_mass_kg')).toBe(true);
   });
 });
 
@@ -101,10 +100,10 @@ describe('minimum detectable value', () => {
     const [p90] = minDetectable(layout, [10], [1, 2, 4], true, prob, 0.9);
     expect(p50.y).toBeCloseTo(2 ** 0.75, 12);
     expect(p90.y).toBeCloseTo(2 * 2 ** 0.75, 12);
-    expect(p50.atGridEdge).toBe(false);
+    expect(p50.at_grid_edge).toBe(false);
   });
   it('flags a level already reached at the lowest value, and null when never reached', () => {
-    expect(minDetectable(layout, [10], [1, 2, 4], true, prob, 0.1)[0]).toEqual({ x: 10, y: 1, atGridEdge: true });
+    expect(minDetectable(layout, [10], [1, 2, 4], true, prob, 0.1)[0]).toEqual({ x: 10, y: 1, at_grid_edge: true });
     expect(minDetectable(layout, [10], [1, 2, 4], true, () => 0.3, 0.9)[0].y).toBeNull();
   });
   it('mirrors the question for an axis along which detection gets harder (largest y still reaching the level)', () => {

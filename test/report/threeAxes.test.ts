@@ -30,7 +30,7 @@ function threeAxisDoc(): Record<string, unknown> {
   const doc = tinyScenarioDoc('Three-axis world');
   doc.sweep = {
     realizations: 3,
-    null_realizations: 20,
+    no_moon_realizations: 20,
     axes: [
       { field: 'moon.mass', from: '0.3 Mearth', to: '3 Mearth', count: 2, spacing: 'log' },
       { field: 'moon.separation', from: '0.05 hill', to: '0.4 hill', count: 2 },
@@ -95,7 +95,7 @@ describe('a three-axis sweep', () => {
     const { meta, cells } = parseCellsJson(readFileSync(join(r.outDir, 'cells.json'), 'utf8'));
     expect(meta.forecast_only).toBe(true);
     expect(cells).toHaveLength(8);
-    expect(cells.every((c) => typeof c.forecast_joint === 'number' || c.stable !== true)).toBe(true);
+    expect(cells.every((c) => typeof c.pdet_forecast_joint === 'number' || c.allowed !== true)).toBe(true);
     const html = renderSweepReport({ meta, cells, runInfo: r.runInfo, scenario: doc });
     expect(html).toMatch(/joint TTV \+ TDV/);
     expect(html).not.toMatch(/id="mcdiff"/);

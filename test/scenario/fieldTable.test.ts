@@ -8,7 +8,7 @@ import { AXIS_FIELDS } from '../../src/sweep/axisFields.js';
 const first = `name: Table check one
 seed: 7
 star: {mass: 1 Msun, radius: 1 Rsun, teff: 5772 K, age: 4 Gyr, luminosity: 1 Lsun, limb_darkening: {u1: 0.4, u2: 0.26}}
-planet: {mass: 1 Mjup, radius: 1 Rjup, period: 365.25 d, eccentricity: 0.1, periastron: 80 deg, impact_parameter: 0.2, albedo: 0.3, love_number: 0.5, tidal_q: 1e5}
+planet: {mass: 1 Mjup, radius: 1 Rjup, period: 365.25 d, eccentricity: 0.1, periapsis: 80 deg, impact_parameter: 0.2, albedo: 0.3, love_number: 0.5, tidal_q: 1e5}
 moon: {mass: 0.5 Mearth, radius: 0.8 Rearth, separation: 20 Rp, eccentricity: 0.01, inclination: 1 deg, node: 2 deg, periapsis: 3 deg, phase: 4 deg, direction: retrograde, albedo: 0.3, love_number: 0.3, tidal_q: 100}
 instrument:
   cadence: 2 min
@@ -75,7 +75,7 @@ observation: {transits: 3}
     expect(s.name).toBe(d('name'));
     expect(s.star.ageS).toBe(d('star.age'));
     expect(s.planet.eccentricity).toBe(d('planet.eccentricity'));
-    expect(s.planet.omegaRad).toBe(d('planet.periastron'));
+    expect(s.planet.omegaRad).toBe(d('planet.periapsis'));
     expect(s.planet.tidalQ).toBe(d('planet.tidal_q'));
     expect(s.observation.baselineS).toBe(d('observation.baseline'));
     expect(s.observation.t0BjdTdb).toBe(d('observation.t0'));

@@ -10,7 +10,7 @@ function validDoc(other = false): Record<string, any> {
   if (other) {
     return {
       star: { mass: '1.1 Msun', radius: '1.2 Rsun', teff: '6100 K', age: '2 Gyr', limb_darkening: { q1: 0.3, q2: 0.3 } },
-      planet: { mass: '8 Mearth', mass_radius: 'chen_kipping_2017', period: 30, inclination: 89.5, eccentricity: 0.1, periastron: 30 },
+      planet: { mass: '8 Mearth', mass_radius: 'chen_kipping_2017', period: 30, inclination: 89.5, eccentricity: 0.1, periapsis: 30 },
       moon: { mass: '0.1 Mearth', radius: '0.4 Rearth', separation: '0.3 hill', inclination: 10, direction: 'retrograde' },
       instrument: { cadence: 10, exposure: '9 min', noise: '400 ppm per 1 h', red_noise: { model: 'power_law', amplitude: '100 ppm per 30 min', slope: 1 } },
       observation: { transits: 6, baseline: 4, duty_cycle: 0.7, gap_length: 15, missed_fraction: 0.2 },

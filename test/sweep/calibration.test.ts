@@ -44,7 +44,7 @@ const TINY = {
   detection: { false_alarm: 0.05 },
   sweep: {
     realizations: 3,
-    null_realizations: 20,
+    no_moon_realizations: 20,
     axes: [
       { field: 'moon.density', from: '2 g/cm^3', to: '4 g/cm^3', count: 2 },
       { field: 'moon.separation', from: '0.1 hill', to: '0.9 hill', count: 2 },
@@ -157,10 +157,10 @@ describe('runSweep with the real runner: the pre-pass changes nothing but the sp
     const ref = cellsJson('main');
     expect(cellsJson('w1')).toBe(ref);
     expect(cellsJson('w2')).toBe(ref);
-    const parsed = JSON.parse(ref) as { meta: { null_realizations: number }; cells: CellResult[] };
-    expect(parsed.meta.null_realizations).toBe(20);
+    const parsed = JSON.parse(ref) as { meta: { no_moon_realizations: number }; cells: CellResult[] };
+    expect(parsed.meta.no_moon_realizations).toBe(20);
     expect(parsed.cells.map((c) => c.simulated)).toEqual([true, false, true, false]);
-    expect(parsed.cells[0].null_realizations).toBe(20);
+    expect(parsed.cells[0].no_moon_realizations).toBe(20);
   });
 
   it('an interrupted run resumed on 2 workers gives the same bytes; the pre-pass covers only the cells left', async () => {
@@ -197,40 +197,40 @@ describe('runSweep with the real runner: the pre-pass changes nothing but the sp
   });
 });
 
-describe('null_realizations in the sweep block and the meta', () => {
+describe('no_moon_realizations in the sweep block and the meta', () => {
   const fake: CellRunner = (task) => ({ index: task.index, coords: task.coords, x: task.index });
 
   it('is read (integer ≥ 20), defaults to defaultNullRealizations in the meta, and is refused below 20', async () => {
     const base = parseScenario(TINY);
     expect(parseSweepSpec(TINY, base).nullRealizations).toBe(20);
-    const { null_realizations: _n, ...noNull } = TINY.sweep;
+    const { no_moon_realizations: _n, ...noNull } = TINY.sweep;
     void _n;
     const plain = { ...TINY, sweep: noNull };
     expect(parseSweepSpec(plain, base).nullRealizations).toBeNull();
     const r = await runSweep(plain, { quiet: true, env: {}, runner: fake, out: join(tmp, 'plain') });
     // α = 0.05, R = 3: max(3, 200, ⌈10/0.05⌉) = 200 (computed from the scenario's values).
-    expect(r.meta.null_realizations).toBe(defaultNullRealizations(0.05, 3));
-    expect(r.meta.null_realizations).toBe(200);
+    expect(r.meta.no_moon_realizations).toBe(defaultNullRealizations(0.05, 3));
+    expect(r.meta.no_moon_realizations).toBe(200);
     for (const bad of [19, 20.5, 'many']) {
       let err: unknown;
       try {
-        parseSweepSpec({ ...TINY, sweep: { ...TINY.sweep, null_realizations: bad } }, base);
+        parseSweepSpec({ ...TINY, sweep: { ...TINY.sweep, no_moon_realizations: bad } }, base);
       } catch (e) {
         err = e;
       }
       expect(err).toBeInstanceOf(InputError);
-      expect((err as InputError).problems[0].path).toBe('sweep.null_realizations');
+      expect((err as InputError).problems[0].path).toBe('sweep.no_moon_realizations');
     }
   });
 
   it('a merge or resume with a different count is refused, naming it', async () => {
-    const other = { ...TINY, sweep: { ...TINY.sweep, null_realizations: 30 } };
+    const other = { ...TINY, sweep: { ...TINY.sweep, no_moon_realizations: 30 } };
     await runSweep(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'n1'), shard: '1/2' });
     await runSweep(other, { quiet: true, env: {}, runner: fake, out: join(tmp, 'n2'), shard: '2/2' });
     expect(() => mergeShards([join(tmp, 'n1'), join(tmp, 'n2')], join(tmp, 'nm'))).toThrow(/no-moon calibration realizations \(20 vs 30\)/);
     await runSweep(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'nr'), maxCells: 1 });
     await expect(runSweep(other, { quiet: true, env: {}, runner: fake, out: join(tmp, 'nr'), resume: true })).rejects.toThrow(/no-moon calibration realizations \(20 vs 30\)/);
     const a = (await runSweep(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'm1') })).meta;
-    expect(metaDifferences(a, { ...a, null_realizations: 40 })).toEqual(['no-moon calibration realizations (20 vs 40)']);
+    expect(metaDifferences(a, { ...a, no_moon_realizations: 40 })).toEqual(['no-moon calibration realizations (20 vs 40)']);
   });
 });

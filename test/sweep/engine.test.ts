@@ -188,8 +188,8 @@ describe('runSweep determinism', () => {
   it('writes an ECSV with axis units, flattened result fields and a scenario header, and an escaped page', () => {
     const dir = join(tmp, 'main');
     const ecsv = readFileSync(join(dir, 'cells.ecsv'), 'utf8');
-    expect(ecsv).toContain('# - {name: "moon_mass", unit: "kg", datatype: float64');
-    expect(ecsv).toContain('# - {name: "moon_separation", unit: "m", datatype: float64');
+    expect(ecsv).toContain('# - {name: "moon_mass_kg", unit: "kg", datatype: float64');
+    expect(ecsv).toContain('# - {name: "moon_separation_m", unit: "m", datatype: float64');
     expect(ecsv).toContain('# - {name: "mean_s", unit: "s", datatype: float64}');
     expect(ecsv).toContain('# - {name: "probability_ttv", datatype: float64}');
     expect(ecsv).toContain('# - {name: "detected", datatype: bool}');

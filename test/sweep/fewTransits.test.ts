@@ -41,26 +41,26 @@ describe('few transits', () => {
 
   it('computeLimits with 2 transits: no TTV forecast, a TDV forecast, and the reason in the assumptions', () => {
     const l = computeLimits(parseScenario(doc({ transits: 2 })));
-    expect(l.forecast_ttv_probability).toBeNull();
-    expect(l.forecast_tdv_probability).toBeGreaterThan(0);
-    expect(l.forecast_detection_probability).toBe(l.forecast_tdv_probability);
+    expect(l.pdet_forecast_ttv).toBeNull();
+    expect(l.pdet_forecast_tdv).toBeGreaterThan(0);
+    expect(l.pdet_forecast_joint).toBe(l.pdet_forecast_tdv);
     expect(l.assumptions.join('\n')).toMatch(/no timing channel with 2 transits/);
     const one = computeLimits(parseScenario(doc({ transits: 1 })));
-    expect(one.forecast_detection_probability).toBeNull();
+    expect(one.pdet_forecast_joint).toBeNull();
     expect(one.assumptions.join('\n')).toMatch(/no timing channel with 1 transit/);
   });
 
-  it('a sweep cell with 2 transits: p_ttv null, the other channels measured; forecast-only too', () => {
+  it('a sweep cell with 2 transits: pdet_ttv null, the other channels measured; forecast-only too', () => {
     const r = runCell({ index: 0, coords: [], scenarioDoc: doc({ transits: 2 }) }, ctx(6, 40));
     expect(r.simulated).toBe(true);
-    expect(r.p_ttv).toBeNull();
-    expect(typeof r.p_tdv).toBe('number');
-    expect(typeof r.p_combined).toBe('number');
+    expect(r.pdet_ttv).toBeNull();
+    expect(typeof r.pdet_tdv).toBe('number');
+    expect(typeof r.pdet_combined).toBe('number');
     expect(r.channels_used).toBe('tdv dip');
     expect(String(r.channels_note)).toMatch(/no TTV channel with 2 transits/);
     const f = runCell({ index: 0, coords: [], scenarioDoc: doc({ transits: 2 }) }, ctx(6, 40, true));
-    expect(f.forecast_ttv).toBeNull();
-    expect(typeof f.forecast_joint).toBe('number');
+    expect(f.pdet_forecast_ttv).toBeNull();
+    expect(typeof f.pdet_forecast_joint).toBe('number');
   });
 });
 
@@ -82,8 +82,8 @@ describe('transits lost to gaps', () => {
     const r = runCell({ index: 0, coords: [], scenarioDoc: d }, ctx(20, 20));
     expect(r.simulated).toBe(true);
     expect(r.no_transit_observed as number).toBeGreaterThanOrEqual(12);
-    expect(r.p_combined as number).toBeGreaterThanOrEqual(0);
-    expect(r.p_combined as number).toBeLessThanOrEqual((20 - (r.no_transit_observed as number)) / 20);
+    expect(r.pdet_combined as number).toBeGreaterThanOrEqual(0);
+    expect(r.pdet_combined as number).toBeLessThanOrEqual((20 - (r.no_transit_observed as number)) / 20);
     // The record of one such realization says so.
     const s = parseScenario(d);
     let seen = false;
@@ -102,7 +102,7 @@ describe('grazing geometry', () => {
     const l = computeLimits(s);
     expect(l.timing_precision_carter_s).toBeNull();
     expect(l.timing_precision_s).toBeGreaterThan(0);
-    expect(l.forecast_detection_probability).toBeGreaterThan(0);
+    expect(l.pdet_forecast_joint).toBeGreaterThan(0);
     expect(l.assumptions.join('\n')).toMatch(/grazing transit/);
   });
 });

@@ -24,7 +24,7 @@ const fake: CellRunner = (task, ctx) => ({
   index: -1, coords: [],
   simulated: true,
   realizations: ctx.realizations,
-  p_ttv: (task.index % 5) / 5, p_tdv: 0, p_dip: 0.5, p_combined: (task.index % 5) / 5,
+  pdet_ttv: (task.index % 5) / 5, pdet_tdv: 0, pdet_dip: 0.5, pdet_combined: (task.index % 5) / 5,
   label: task.index % 2 === 0 ? 'stable' : 'beyond stable limit',
 });
 
@@ -38,7 +38,7 @@ const BASE = {
   observation: { transits: 5 },
   sweep: {
     realizations: 3,
-    null_realizations: 20,
+    no_moon_realizations: 20,
     axes: [
       { field: 'moon.mass', from: '0.1 Mearth', to: '1 Mearth', count: 3, spacing: 'log' },
       { field: 'moon.separation', from: '0.1 hill', to: '0.3 hill', count: 2 },
@@ -181,7 +181,7 @@ describe('staged outputs', () => {
     const cells = readFileSync(join(dir, 'cells.json'), 'utf8');
     // A new sweep's cells.json staged with its manifest, the kill before any rename: the old set is still in place.
     mkdirSync(join(dir, STAGING_DIR));
-    const edited = cells.replace('"p_dip":0.5', '"p_dip":0.25');
+    const edited = cells.replace('"pdet_dip":0.5', '"pdet_dip":0.25');
     writeFileSync(join(dir, STAGING_DIR, 'cells.json'), edited);
     writeFileSync(join(dir, STAGING_DIR, 'manifest.json'), JSON.stringify({ files: ['cells.json'], remove: [] }));
     rewriteSweepReport(dir);
@@ -193,8 +193,8 @@ describe('staged outputs', () => {
 describe('checkpoint lines are checked on --resume', () => {
   const damage: Array<[string, (line: string) => string, RegExp]> = [
     ['missing coords', (l) => l.replace(/"coords":\[[^\]]*\],/, ''), /line 3: coords: got \(missing\)/],
-    ['non-numeric probability', (l) => l.replace(/"p_combined":[^,}]+/, '"p_combined":"abc"'), /line 3: p_combined: got "abc"; a probability/],
-    ['probability above 1', (l) => l.replace(/"p_ttv":[^,}]+/, '"p_ttv":2.5'), /line 3: p_ttv: got 2.5; a probability/],
+    ['non-numeric probability', (l) => l.replace(/"pdet_combined":[^,}]+/, '"pdet_combined":"abc"'), /line 3: pdet_combined: got "abc"; a probability/],
+    ['probability above 1', (l) => l.replace(/"pdet_ttv":[^,}]+/, '"pdet_ttv":2.5'), /line 3: pdet_ttv: got 2.5; a probability/],
     ['cell outside the grid', (l) => l.replace(/"index":\d+/, '"index":600'), /line 3: index: got 600; expected a whole cell index from 0 to 5/],
     ['wrong coordinates', (l) => l.replace(/"coords":\[[-0-9.e+]+/, '"coords":[1'), /line 3: coords: .*are not the axis values of cell/],
     ['realizations above the sweep\'s', (l) => l.replace(/"realizations":3/, '"realizations":7'), /line 3: realizations: got 7; expected a whole number from 0 to 3/],
@@ -221,7 +221,7 @@ describe('checkpoint lines are checked on --resume', () => {
     await runSweep(BASE, { ...q, out: dir, maxCells: 3 });
     const path = join(dir, CHECKPOINT_FILE);
     const lines = readFileSync(path, 'utf8').split('\n').filter((l) => l !== '');
-    writeFileSync(path, [...lines, lines[1].replace(/"p_dip":0.5/, '"p_dip":0.75')].join('\n') + '\n');
+    writeFileSync(path, [...lines, lines[1].replace(/"pdet_dip":0.5/, '"pdet_dip":0.75')].join('\n') + '\n');
     expect(await refusal(runSweep(BASE, { ...q, out: dir, resume: true }))).toMatch(/line 5: got "cell 0"; a different result for this cell is already at line 2/);
     writeFileSync(path, [...lines, lines[1]].join('\n') + '\n');
     const res = await runSweep(BASE, { ...q, out: dir, resume: true });
@@ -231,12 +231,14 @@ describe('checkpoint lines are checked on --resume', () => {
 
 describe('cells are checked in report and merge', () => {
   const damage: Array<[string, (cells: string) => string, RegExp]> = [
-    ['a probability of 2.5', (t) => t.replace(/"p_ttv":[^,}]+/, '"p_ttv":2.5'), /cell 1: p_ttv: got 2.5; a probability/],
-    ['a probability of -1', (t) => t.replace(/"p_combined":[^,}]+/, '"p_combined":-1'), /p_combined: got -1;/],
-    ['a probability "abc"', (t) => t.replace(/"p_dip":[^,}]+/, '"p_dip":"abc"'), /p_dip: got "abc";/],
+    ['a probability of 2.5', (t) => t.replace(/"pdet_ttv":[^,}]+/, '"pdet_ttv":2.5'), /cell 1: pdet_ttv: got 2.5; a probability/],
+    ['a probability of -1', (t) => t.replace(/"pdet_combined":[^,}]+/, '"pdet_combined":-1'), /pdet_combined: got -1;/],
+    ['a probability "abc"', (t) => t.replace(/"pdet_dip":[^,}]+/, '"pdet_dip":"abc"'), /pdet_dip: got "abc";/],
     ['a missing cell', (t) => t.replace(/\n {4}\{"index":1,[^\n]*/, ''), /cells\.json: got "1 of 6 cells missing"; every cell must be present; missing cells 1/],
     ['a repeated cell', (t) => t.replace(/"index":1,"coords":\[[^\]]*\]/, (m) => m.replace('"index":1', '"index":0')), /coords: .*are not the axis values of cell 0/],
     ['a cell beyond the grid', (t) => t.replace(/"index":5,/, '"index":9,'), /index: got 9; expected a whole cell index from 0 to 5/],
+    ['another schema version', (t) => t.replace('"schema": "moonsieve/cells/1"', '"schema": "moonsieve/cells/0"'), /its schema is "moonsieve\/cells\/0", this moonsieve reads moonsieve\/cells\/1/],
+    ['no schema (an older moonsieve)', (t) => t.replace('"schema": "moonsieve/cells/1",\n', ''), /its schema is not stated \(an older moonsieve wrote it\)/],
   ];
   it('a repeated cell with its own coordinates is named as a repeat', async () => {
     const dir = join(tmp, 'rep-twice');

@@ -49,14 +49,14 @@ detection: {false_alarm: 0.05}
     const l = computeLimits(parseScenario(d('10 km')));
     expect(l.timing_precision_s / 60).toBeGreaterThan(20);
     expect(l.ttv_semi_amplitude_s! / 60).toBeLessThan(3);
-    expect(l.forecast_ttv_probability!).toBeLessThan(0.06);
+    expect(l.pdet_forecast_ttv!).toBeLessThan(0.06);
     // 1000 no-moon realizations: at this per-transit S/N (~4) the fitted mid-times have heavy tails
     // (see perTransitFit.ts), so the calibrated threshold needs a large null set to be stable.
     const r = runCell({ index: 0, coords: [], scenarioDoc: d("10 km") }, { ...ctx(200, 1000), seed: 77 });
     expect(r.simulated).toBe(true);
     // Consistent with the false-alarm rate: the rate's 95 % interval reaches down to α.
-    expect(r.p_ttv_lo as number).toBeLessThanOrEqual(0.05);
-    expect(r.p_combined_lo as number).toBeLessThanOrEqual(0.05);
+    expect(r.pdet_ttv_lo as number).toBeLessThanOrEqual(0.05);
+    expect(r.pdet_combined_lo as number).toBeLessThanOrEqual(0.05);
     // With the Moon's real radius the forecast flags its regime, and detection stays rare.
     const real = computeLimits(parseScenario(d('1737.4 km')));
     expect(real.photocentric_ratio!).toBeGreaterThan(5);
@@ -73,12 +73,12 @@ detection: {false_alarm: 0.05}
       const d = doc(n, '{mass: 0.5 Mearth, radius: 0.1 Rearth, separation: 10 Rp}');
       const l = computeLimits(parseScenario(d));
       const r = runCell({ index: n, coords: [], scenarioDoc: d }, ctx(150, 300));
-      const lo = r.p_ttv_lo as number;
-      const hi = r.p_ttv_hi as number;
+      const lo = r.pdet_ttv_lo as number;
+      const hi = r.pdet_ttv_hi as number;
       // The forecast within the Monte Carlo's Wilson 95 % interval, widened by 0.03 for the
       // conservative order-statistic threshold calibrated on a finite no-moon set.
-      expect(l.forecast_ttv_probability!, `N = ${n}`).toBeGreaterThanOrEqual(lo - 0.03);
-      expect(l.forecast_ttv_probability!, `N = ${n}`).toBeLessThanOrEqual(hi + 0.03);
+      expect(l.pdet_forecast_ttv!, `N = ${n}`).toBeGreaterThanOrEqual(lo - 0.03);
+      expect(l.pdet_forecast_ttv!, `N = ${n}`).toBeLessThanOrEqual(hi + 0.03);
     }
   });
 
@@ -108,12 +108,12 @@ detection: {false_alarm: 0.05}
     const tiny = doc(8, '{mass: 0.001 Mearth, radius: 0.1 Rearth, separation: 10 Rp}', '30 ppm per 6.5 h');
     const lb = computeLimits(parseScenario(big));
     const lt = computeLimits(parseScenario(tiny));
-    expect(lb.forecast_ttv_probability!).toBeGreaterThan(0.99);
-    expect(lt.forecast_ttv_probability!).toBeLessThan(0.06);
+    expect(lb.pdet_forecast_ttv!).toBeGreaterThan(0.99);
+    expect(lt.pdet_forecast_ttv!).toBeLessThan(0.06);
     const rb = runCell({ index: 1, coords: [], scenarioDoc: big }, ctx(60, 200));
     const rt = runCell({ index: 2, coords: [], scenarioDoc: tiny }, ctx(60, 200));
-    expect(rb.p_combined as number).toBeGreaterThanOrEqual(0.95);
-    expect(rt.p_ttv as number).toBeLessThanOrEqual(0.1);
+    expect(rb.pdet_combined as number).toBeGreaterThanOrEqual(0.95);
+    expect(rt.pdet_ttv as number).toBeLessThanOrEqual(0.1);
   });
 
   it('an unstable cell is labelled and not simulated; forecast-only fills the forecast', () => {
@@ -123,6 +123,6 @@ detection: {false_alarm: 0.05}
     expect(String(r.placement)).toMatch(/beyond stable limit/);
     const f = runCell({ index: 4, coords: [], scenarioDoc: doc(8, '{mass: 0.5 Mearth, radius: 0.8 Rearth, separation: 10 Rp}') }, { ...ctx(10, 50), forecastOnly: true });
     expect(f.simulated).toBe(false);
-    expect(typeof f.forecast_ttv).toBe('number');
+    expect(typeof f.pdet_forecast_ttv).toBe('number');
   });
 });

@@ -22,7 +22,7 @@ import { computeNullRange, nullClassOfScenario } from '../../src/sweep/nullSet.j
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import type { CellRunner } from '../../src/sweep/cellTypes.js';
 
-const fake: CellRunner = () => ({ index: -1, coords: [], p_combined: 0.5 });
+const fake: CellRunner = () => ({ index: -1, coords: [], pdet_combined: 0.5 });
 
 const BASE = {
   name: 'Limits world',
@@ -35,7 +35,7 @@ const BASE = {
   detection: { false_alarm: 0.05 },
   sweep: {
     realizations: 3,
-    null_realizations: 20,
+    no_moon_realizations: 20,
     axes: [
       { field: 'moon.density', from: '2 g/cm^3', to: '4 g/cm^3', count: 2 },
       { field: 'moon.separation', from: '0.1 hill', to: '0.2 hill', count: 2 },
@@ -58,20 +58,20 @@ async function refused(doc: unknown, out: string, extra: object = {}): Promise<s
 
 describe('size limits', () => {
   it('false_alarm 1e-9 is refused with the 10/α = 1e10 no-moon realizations it would need and how to change it', async () => {
-    const msg = await refused({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, null_realizations: undefined } }, join(tmp, 'fa'));
+    const msg = await refused({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, no_moon_realizations: undefined } }, join(tmp, 'fa'));
     expect(msg).toMatch(/detection\.false_alarm: got 1e-9/);
     expect(msg).toContain('1.00e10 no-moon realizations');
     expect(msg).toContain(`at most ${MAX_NULL_REALIZATIONS}`);
     expect(msg).toMatch(/α must be at least 0\.0001/); // 10 / 100 000
     expect(msg).toMatch(/--forecast-only/);
     // The analytic forecast needs no calibration and is not limited by it.
-    const fo = await runSweep({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, null_realizations: undefined } }, { quiet: true, env: {}, out: join(tmp, 'fa-fo'), forecastOnly: true, runner: fake });
+    const fo = await runSweep({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, no_moon_realizations: undefined } }, { quiet: true, env: {}, out: join(tmp, 'fa-fo'), forecastOnly: true, runner: fake });
     expect(fo.complete).toBe(true);
   });
 
-  it('an explicit null_realizations above the limit is refused naming that field', async () => {
-    const msg = await refused({ ...BASE, sweep: { ...BASE.sweep, null_realizations: 200000 } }, join(tmp, 'nr'));
-    expect(msg).toMatch(/sweep\.null_realizations: got 200000; at most 100000/);
+  it('an explicit no_moon_realizations above the limit is refused naming that field', async () => {
+    const msg = await refused({ ...BASE, sweep: { ...BASE.sweep, no_moon_realizations: 200000 } }, join(tmp, 'nr'));
+    expect(msg).toMatch(/sweep\.no_moon_realizations: got 200000; at most 100000/);
   });
 
   it('a 400 × 400 grid is refused with its cell count and the limit, before any cell is parsed', async () => {
@@ -114,7 +114,7 @@ describe('size limits', () => {
 describe('every grid cell is validated before any work', () => {
   it('with a false-alarm axis, each cell whose α needs too many no-moon realizations is named', async () => {
     const axes = [{ field: 'detection.false_alarm', from: 1e-9, to: 1e-2, count: 3, spacing: 'log' }, BASE.sweep.axes[1]];
-    const msg = await refused({ ...BASE, sweep: { ...BASE.sweep, null_realizations: undefined, axes } }, join(tmp, 'fa-axis'));
+    const msg = await refused({ ...BASE, sweep: { ...BASE.sweep, no_moon_realizations: undefined, axes } }, join(tmp, 'fa-axis'));
     expect(msg).toMatch(/^4 of 6 grid cells are invalid/);
     expect(msg).toMatch(/cell 0 \(detection\.false_alarm = 1\.00e-9, .*10\/α = 1\.00e10 no-moon realizations/);
     expect(msg).toMatch(/cell 3 \(detection\.false_alarm = 3\.16e-6, .*10\/α = 3\.16e6/);

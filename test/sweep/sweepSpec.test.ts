@@ -127,6 +127,29 @@ describe('sweep block validation', () => {
     expect(problems(() => spec(withSweep({ simulate_unstable: 'yes' })))[0].path).toBe('sweep.simulate_unstable');
   });
 
+  it('reads the old axis field planet.periastron as planet.periapsis, with a deprecation note; its values replace the old key', () => {
+    const base = { ...BASE, planet: { ...(BASE.planet as Record<string, unknown>), eccentricity: 0.2, periastron: '40 deg' } };
+    const sw = spec({ ...base, sweep: { axes: [{ field: 'planet.periastron', from: '10 deg', to: '80 deg', count: 2 }] } });
+    expect(sw.axes[0].field).toBe('planet.periapsis');
+    expect(sw.deprecations).toEqual([expect.stringMatching(/sweep\.axes\[0\]\.field: planet\.periastron is deprecated: write planet\.periapsis/)]);
+    const cell = applyAxisValues(base, sw.axes, [sw.axes[0].values[1]]);
+    const s = parseScenario(cell);
+    expect(s.planet.omegaRad).toBeCloseTo((80 * Math.PI) / 180, 12); // the axis value, not the scenario's 40 deg (definition of degrees)
+    expect((cell.planet as Record<string, unknown>).periastron).toBeUndefined();
+  });
+
+  it('reads no_moon_realizations, and the old spelling null_realizations with a deprecation note', () => {
+    const now = spec(withSweep({ no_moon_realizations: 300 }));
+    expect(now.nullRealizations).toBe(300);
+    expect(now.deprecations).toEqual([]);
+    const old = spec(withSweep({ null_realizations: 300 }));
+    expect(old.nullRealizations).toBe(300);
+    expect(old.deprecations).toEqual([expect.stringMatching(/sweep\.null_realizations is deprecated: write sweep\.no_moon_realizations/)]);
+    expect(old.notes).toEqual(now.notes); // not part of the sweep's identity
+    expect(problems(() => spec(withSweep({ null_realizations: 3 })))[0].path).toBe('sweep.null_realizations');
+    expect(problems(() => spec(withSweep({ no_moon_realizations: 3 })))[0].path).toBe('sweep.no_moon_realizations');
+  });
+
   it('refuses a moon axis when the scenario has no moon', () => {
     const { moon: _moon, ...noMoon } = BASE;
     void _moon;

@@ -34,7 +34,7 @@ function withMoon(c: Claim, moonMassKg: number, separationM: number, relErr: num
 
 const blockAmplitudes = `  ttv: {amplitude: 1 s, uncertainty: 1 s, kind: rms}
   transits: 36
-  precision: 100 ppm per 2 min
+  noise: 100 ppm per 2 min
   moon_dip: none`;
 
 describe('vetClaim', () => {

@@ -33,11 +33,39 @@ describe('moonsieve vet', () => {
     const out = await run([demo, '--json', '--html', html]);
     const r = JSON.parse(out);
     expect(['consistent with a moon', 'in tension', 'implausible']).toContain(r.verdict);
-    expect(r.implied.separationM.median).toBeGreaterThan(0);
-    expect(r.tableSignificance.transits).toBe(13);
+    expect(r.schema).toBe('moonsieve/vet/1');
+    expect(r.implied.moon_separation_m.median).toBeGreaterThan(0);
+    expect(r.table_significance.transits).toBe(13);
+    expect(r.system.hill_radius_m).toBeGreaterThan(0);
     const page = readFileSync(html, 'utf8');
     expect(page).toContain('Plotly.newPlot');
     expect(page).not.toMatch(/<script[^>]+src=/);
+  });
+
+  it('old key names (claim.precision, planet.periastron) are read as the new ones, with a note on stderr', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-vet-'));
+    copyFileSync(demoTimes, join(dir, 'demo-claim-times.csv'));
+    const text = readFileSync(demo, 'utf8');
+    expect(text).toMatch(/\n {2}noise: /);
+    writeFileSync(join(dir, 'now.yaml'), text.replace('  impact_parameter: 0.3', '  impact_parameter: 0.3\n  eccentricity: 0.1\n  periapsis: 60 deg'));
+    writeFileSync(join(dir, 'old.yaml'), text.replace('  impact_parameter: 0.3', '  impact_parameter: 0.3\n  eccentricity: 0.1\n  periastron: 60 deg').replace(/\n {2}noise: /, '\n  precision: '));
+    let err = '';
+    const runWithErr = async (file: string) => {
+      let out = '';
+      err = '';
+      const program = new Command().exitOverride();
+      registerVet(program, { out: (t) => { out += t; }, err: (t) => { err += t; } });
+      await program.parseAsync(['node', 'moonsieve', 'vet', join(dir, file), '--json']);
+      return out;
+    };
+    const now = await runWithErr('now.yaml');
+    expect(err).toBe('');
+    const old = await runWithErr('old.yaml');
+    expect(old).toBe(now);
+    expect(err).toContain('note: planet.periastron: deprecated name: write planet.periapsis');
+    expect(err).toContain('note: claim.precision: deprecated name: write claim.noise');
+    writeFileSync(join(dir, 'both.yaml'), text.replace(/\n {2}noise: (.*)/, '\n  noise: $1\n  precision: $1'));
+    await expect(runWithErr('both.yaml')).rejects.toThrow(/claim\.precision.*give claim\.noise only/);
   });
 
   it('user text reaching the page is escaped', async () => {

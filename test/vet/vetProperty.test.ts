@@ -97,7 +97,7 @@ describe('vet never throws and never reports NaN or Infinity on valid claims (pr
         if (c.ttv) y += `  ttv: ${amp(c.ttv)}\n`;
         if (c.tdv) y += `  tdv: ${amp(c.tdv)}\n`;
         y += `  transits: ${c.transits}\n  orientation: ${c.orientation}\n`;
-        if (c.precision !== undefined) y += `  precision: "${c.precision * 1e6} ppm per ${c.timescale} s"\n`;
+        if (c.precision !== undefined) y += `  noise: "${c.precision * 1e6} ppm per ${c.timescale} s"\n`;
         if (c.cadence !== undefined) y += `  cadence: ${c.cadence} s\n`;
         if (c.duration !== undefined && c.duration < (c.system.period * 86400) / 2) y += `  duration: ${c.duration} s\n`;
         if (c.dip !== undefined) y += `  moon_dip: "${c.dip * 1e6} ppm"\n`;
@@ -125,7 +125,7 @@ describe('vet never throws and never reports NaN or Infinity on valid claims (pr
           lines.push(row);
           e += c.gaps[i];
         }
-        const y = systemYaml(c.system) + 'claim:\n  table: t.csv\n  time_standard: BJD_TDB-2457000\n  precision: "500 ppm per 2 min"\n';
+        const y = systemYaml(c.system) + 'claim:\n  table: t.csv\n  time_standard: BJD_TDB-2457000\n  noise: "500 ppm per 2 min"\n';
         check(y, lines.join('\n') + '\n');
       }),
       { numRuns: 60, seed: 16 },
