@@ -4,7 +4,7 @@
  * the machine is shared and noisy.
  */
 import { availableParallelism, cpus } from 'node:os';
-import type { BenchMedian } from './measure.js';
+import { median, type BenchMedian } from './measure.js';
 import { benchPhotometry } from './photometry.js';
 import { benchGaussian, benchFft } from './noise.js';
 import { benchLightCurveWindow, benchRecovery } from './lightCurve.js';
@@ -12,6 +12,7 @@ import { benchBudget } from './budget.js';
 import { benchCalendar } from './calendar.js';
 import { benchSweep, referenceSweepDoc } from './sweep.js';
 import { threadScaling } from './threadScaling.js';
+import { benchLimitsStart, benchWorkerStart } from './workerStart.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -66,6 +67,37 @@ async function sweepSection(full: boolean): Promise<BenchMedian[]> {
   return rows;
 }
 
+/**
+ * The small sweep of issue 16: the reference scenario on a 6 × 6 grid, 20
+ * realizations per cell (+ its no-moon calibration), on 1 and 2 workers in the
+ * order 1, 2, 2, 1, 1, 2 (a linear drift of the machine's speed then weighs
+ * both alike); medians of 3 per worker count and their ratio, with the
+ * machine's two-thread ceiling measured right after.
+ */
+async function smallSweepSection(): Promise<BenchMedian[]> {
+  const doc = referenceSweepDoc(20);
+  for (const a of (doc.sweep as { axes: Array<{ count: number }> }).axes) a.count = 6;
+  const order = [1, 2, 2, 1, 1, 2];
+  const seconds: Record<number, number[]> = { 1: [], 2: [] };
+  let shape = '';
+  for (const workers of order) {
+    const r = await benchSweep(doc, { workers, label: `small sweep, ${workers} worker(s)` });
+    seconds[workers].push(r.seconds);
+    shape = `${r.cells} cells × 20 realizations (${r.realizations} with a moon + ${r.calibrationRealizations} no-moon)`;
+  }
+  const cores = availableParallelism();
+  const machine = await threadScaling();
+  const m1 = median(seconds[1]);
+  const m2 = median(seconds[2]);
+  const runs = (ts: number[]): string => ts.map((t) => t.toFixed(2)).join(', ');
+  return [
+    { label: `${shape}, 1 worker: wall time (${runs(seconds[1])} s)`, median: m1, unit: 's', repeats: 3 },
+    { label: `the same on 2 workers (${runs(seconds[2])} s)`, median: m2, unit: 's', repeats: 3 },
+    { label: `speed-up, 2 workers over 1, on ${cores} cores (goal ≥ 1.8)`, median: m1 / m2, unit: '×', repeats: 3, summary: 'ratio of the medians' },
+    { label: '  this machine\'s two-thread ceiling right after (bench/threadScaling.ts)', median: machine.ratio, unit: '×', repeats: 3 },
+  ];
+}
+
 async function main(): Promise<void> {
   const only = process.argv[2] && !process.argv[2].startsWith('--') ? process.argv[2] : undefined;
   process.stdout.write(`moonsieve bench — node ${process.version}, ${availableParallelism()} cores (${cpus()[0]?.model ?? 'unknown CPU'}), ${new Date().toISOString()}\n`);
@@ -76,6 +108,8 @@ async function main(): Promise<void> {
     ['recovery', () => benchRecovery()],
     ['budget', () => benchBudget()],
     ['calendar', () => benchCalendar()],
+    ['startup', async () => [...benchLimitsStart(), ...(await benchWorkerStart(referenceSweepDoc(20)))]],
+    ['small-sweep', () => smallSweepSection()],
     ['sweep', () => sweepSection(process.argv.includes('--full'))],
   ];
   for (const [name, run] of sections) {

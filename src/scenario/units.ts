@@ -3,7 +3,8 @@
  *
  * A value is either a string "number unit" (`"0.3 Mjup"`, `"180 d"`,
  * `"60 ppm"`) or a bare number in the unit the schema documents for that
- * field. Parsing uses mathjs units extended with astronomy units whose values
+ * field. The common units and their products are read from a table; any
+ * other unit text goes to mathjs units (loaded on first need), extended with astronomy units whose values
  * come from `physics/constants.ts` (IAU 2015 B3 nominal values, IAU 2012 au).
  * Spellings follow astropy's aliases (`Mjup`, `M_jup`, `Rearth`, `AU`/`au`).
  */
@@ -97,9 +98,9 @@ function astroMath(): MathJsInstance {
  * definitions astroMath registers (constants.ts) and the SI's own (BIPM 2019,
  * The International System of Units, 9th ed., Tables 2, 5 and 8: 1 min = 60 s,
  * 1 h = 3600 s, 1 d = 86 400 s, 1° = π/180 rad, 1 g = 10⁻³ kg). A unit text
- * found here (after ALIASES) needs no mathjs, whose first use costs about a
- * second of start-up; every other text goes to mathjs. The tests check each
- * entry against mathjs.
+ * found here (after ALIASES), or a product of powers of them (`productUnitValue`),
+ * needs no mathjs, whose first use costs 0.4 to 1 s of start-up; every other
+ * text goes to mathjs. The tests check each entry against mathjs.
  */
 export const COMMON_UNITS: Readonly<Record<string, { kind: QuantityKind; si: number }>> = {
   kg: { kind: 'mass', si: 1 },
@@ -222,8 +223,63 @@ function unitValue(unitText: string, kind: QuantityKind): number | 'unknown' | '
   return remembered(unitValues, 1000, `${kind}|${unitText}`, () => {
     const common = COMMON_UNITS[normaliseUnitText(unitText)];
     if (common !== undefined) return common.kind === kind ? common.si : 'wrong kind';
-    return mathjsUnitValue(unitText, kind);
+    return productUnitValue(unitText, kind) ?? mathjsUnitValue(unitText, kind);
   });
+}
+
+/** Exponents of mass, length, time, angle and temperature, in that order (mathjs's base dimensions). */
+type Dimension = readonly [number, number, number, number, number];
+
+const KIND_DIMENSION: Record<Exclude<QuantityKind, 'fraction'>, Dimension> = {
+  mass: [1, 0, 0, 0, 0],
+  length: [0, 1, 0, 0, 0],
+  time: [0, 0, 1, 0, 0],
+  angle: [0, 0, 0, 1, 0],
+  temperature: [0, 0, 0, 0, 1],
+  density: [1, -3, 0, 0, 0],
+  power: [1, 2, -3, 0, 0], // W = kg m² s⁻³ (BIPM 2019, SI Brochure, Table 4)
+};
+
+/** One factor of a product: a table unit (single word, after ALIASES) and an optional integer power. */
+const FACTOR = /^([A-Za-z_][A-Za-z_0-9]*)(?:\^([-+]?\d{1,2}))?$/;
+
+/**
+ * SI value of a product of table units with integer powers and at most one
+ * divisor, such as "kg m^-3", "g/cm^3", "W m^-2", "kg*m^2", "Mjup/Rjup^3", or
+ * undefined when the text is not of that simple form (mathjs then reads it).
+ * Factors are separated by spaces or "*"; "a b / c d" is refused, since which
+ * factors a "/" divides is a matter of convention. Fractions (ppm, percent)
+ * never enter a product. Tests check it against mathjs on a list of texts.
+ */
+export function productUnitValue(unitText: string, kind: QuantityKind): number | 'wrong kind' | undefined {
+  if (kind === 'fraction') return undefined;
+  const halves = unitText.split('/');
+  if (halves.length > 2) return undefined;
+  const parts: Array<{ text: string; sign: 1 | -1 }> = [];
+  for (const [h, sign] of [[0, 1], [1, -1]] as const) {
+    if (h >= halves.length) break;
+    const factors = halves[h].trim().split(/\s*\*\s*|\s+/);
+    if (sign === -1 && factors.length !== 1) return undefined;
+    for (const f of factors) parts.push({ text: f, sign });
+  }
+  let si = 1;
+  const dim = [0, 0, 0, 0, 0];
+  for (const { text, sign } of parts) {
+    const m = FACTOR.exec(text);
+    if (!m) return undefined;
+    const entry = COMMON_UNITS[ALIASES[m[1]] ?? m[1]];
+    if (entry === undefined || entry.kind === 'fraction') return undefined;
+    const power = sign * (m[2] === undefined ? 1 : Number(m[2]));
+    if (power === 0) return undefined;
+    const d = KIND_DIMENSION[entry.kind];
+    for (let k = 0; k < 5; k++) dim[k] += power * d[k];
+    // Positive powers multiply and negative ones divide, so "kg/m^3" and "kg m^-3" give the same bits.
+    const scale = entry.si ** Math.abs(power);
+    si = power > 0 ? si * scale : si / scale;
+  }
+  if (!Number.isFinite(si) || si === 0) return undefined;
+  const want = KIND_DIMENSION[kind];
+  return dim.every((x, k) => x === want[k]) ? si : 'wrong kind';
 }
 
 /** unitValue through mathjs alone (exported for the tests that check COMMON_UNITS against it). */

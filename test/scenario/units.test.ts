@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { COMMON_UNITS, mathjsUnitValue, parseQuantity, type QuantityKind } from '../../src/scenario/units.js';
+import { COMMON_UNITS, mathjsUnitValue, parseQuantity, productUnitValue, type QuantityKind } from '../../src/scenario/units.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { AU_M, M_JUP_KG, R_EARTH_M } from '../../src/physics/constants.js';
 
@@ -67,5 +67,47 @@ describe('COMMON_UNITS (the table that spares mathjs)', () => {
     expect(parseQuantity('5 mm', 'x', 'length')).toBeCloseTo(5e-3, 18);
     expect(parseQuantity('3600 arcsec', 'x', 'angle')).toBeCloseTo(Math.PI / 180, 15);
     expect(() => parseQuantity('1 kg', 'planet.radius', 'length')).toThrow(/planet\.radius.*not a unit of length/);
+  });
+});
+
+describe('productUnitValue (products and powers of table units, without mathjs)', () => {
+  const kinds: QuantityKind[] = ['mass', 'length', 'time', 'angle', 'temperature', 'density', 'fraction', 'power'];
+  // Reference: mathjs 15, as above, on the same texts: the same SI value to a few ulp (the
+  // order of the multiplications differs) and the same verdict for every other kind.
+  const texts = [
+    'kg m^-3', 'kg/m^3', 'g cm^-3', 'g/cm^3', 'g / cm^3', 'kg*m^-3', 'kg * m^-3', 'Mearth Rearth^-3', 'M_jup/R_jup^3',
+    'Msun/AU^3', 'W m^-2', 'Lsun', 'kg m^2 s^-3', 'kg*m^2/s^3', 'Lsun/Rsun^2', 'm^3 kg^-1 s^-2',
+    'h', 'min^1', 'd^2/d', 'km', 'cm^2/cm', 'deg', 'rad s^-1', 'K', 'K^2/K', 'kg m', 'm^-3', 'g cm^+3', 'yr/s',
+  ];
+  it('agrees with mathjs on every text and every kind', () => {
+    for (const text of texts) {
+      for (const kind of kinds) {
+        const mine = productUnitValue(text, kind);
+        if (mine === undefined) {
+          expect(kind === 'fraction', `${text} as ${kind} was not read`).toBe(true);
+          continue;
+        }
+        const ref = mathjsUnitValue(text, kind);
+        if (mine === 'wrong kind') expect(ref, `${text} as ${kind}`).toBe('wrong kind');
+        else {
+          expect(typeof ref, `${text} as ${kind}`).toBe('number');
+          expect(Math.abs(mine - (ref as number)), `${text} as ${kind}`).toBeLessThanOrEqual(1e-15 * mine);
+        }
+      }
+    }
+  });
+
+  it('leaves to mathjs what is not a plain product of table units', () => {
+    // Not table units, fractions in a product, two factors after "/", no caret, a fractional power.
+    for (const text of ['mm', 'g/cc', 'ppm m', '% kg', 'kg/m s', 'kg m-3', 'm^1.5', 'm^(-3)', '/m', 'kg//m', 'm^0'])
+      expect(productUnitValue(text, 'density'), text).toBeUndefined();
+    expect(productUnitValue('kg m^-3', 'fraction')).toBeUndefined();
+  });
+
+  it('is what parseQuantity uses for such texts: "4000 kg m^-3" is the density of "4 g/cm^3"', () => {
+    // 1 g cm⁻³ = 1000 kg m⁻³ (BIPM 2019, SI Brochure, Table 8: 1 g = 10⁻³ kg; 1 cm = 10⁻² m).
+    expect(parseQuantity('4000 kg m^-3', 'moon.density', 'density')).toBe(4000);
+    expect(parseQuantity('4 g cm^-3', 'moon.density', 'density')).toBeCloseTo(4000, 9);
+    expect(() => parseQuantity('4 g cm^-2', 'moon.density', 'density')).toThrow(/moon\.density.*not a unit of density/);
   });
 });
