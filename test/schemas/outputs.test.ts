@@ -3,7 +3,7 @@
  * and every key it uses listed in the table of names (docs/vocabulary.md), so
  * the code speaks no other names: limits, vet and budget --json (forecast-only
  * and a small Monte Carlo), and a sweep's cells.json, summary.json and run.json
- * (Monte Carlo and forecast-only, a shard and the merge of the shards).
+ * (Monte Carlo and forecast-only, a shard and the merge of the shards), and calendar --json.
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
@@ -22,11 +22,12 @@ function run(args: string[]) {
 const demo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).pathname;
 const claim = new URL('../../scenarios/demo-claim.yaml', import.meta.url).pathname;
 const tiny = new URL('../cluster/tiny-array.yaml', import.meta.url).pathname;
+const calendarDemo = new URL('../../scenarios/demo-calendar.yaml', import.meta.url).pathname;
 const vocabulary = readFileSync(new URL('../../docs/vocabulary.md', import.meta.url), 'utf8');
 /** Names in the first column of the table under "## Names" in docs/vocabulary.md: | `name` | … */
 const NAMES = new Set([...vocabulary.slice(vocabulary.indexOf('\n## Names\n')).matchAll(/^\| `([a-z0-9_]+)` \|/gm)].map((m) => m[1]));
 
-const SCHEMAS = ['limits', 'vet', 'budget', 'cells', 'summary', 'run'] as const;
+const SCHEMAS = ['limits', 'vet', 'budget', 'cells', 'summary', 'run', 'calendar'] as const;
 type Name = (typeof SCHEMAS)[number];
 /** Outputs produced once for all tests: schema name → the parsed documents. */
 const outputs = new Map<Name, Array<{ what: string; doc: unknown }>>();
@@ -49,6 +50,13 @@ beforeAll(async () => {
   add('limits', 'limits demo', await json(['limits', demo, '--json']));
   add('limits', 'limits tiny', await json(['limits', tiny, '--json']));
   add('vet', 'vet demo claim', await json(['vet', claim, '--json']));
+  // The calendar: a two-site network (demo), and one site whose target never rises (every transit 'none').
+  add('calendar', 'calendar demo network', await json(['calendar', calendarDemo, '--json']));
+  const oneSite = readFileSync(calendarDemo, 'utf8')
+    .replace(/^site:\n(?:  - .*\n)+/m, 'site: {latitude: -30.17 deg, longitude: -70.80 deg, altitude: 2400 m}\n')
+    .replace(/^target: .*$/m, 'target: {ra: "08:41:12.5", dec: "+75:00:00"}');
+  writeFileSync(join(dir, 'never.yaml'), oneSite);
+  add('calendar', 'calendar never rises', await json(['calendar', join(dir, 'never.yaml'), '--json']));
   // Claimed amplitudes (an invented system), both and TTV alone: the other branches of the vet document.
   const amplitudes = (block: string) => `name: invented amplitudes
 seed: 11
