@@ -1,0 +1,176 @@
+// The source tree is layered (DESIGN.md, "Shape"): imports run downward only
+// and there are no import cycles. This test walks every import of src/**/*.ts
+// and fails on an import into a higher layer and on any cycle, naming each.
+// Common practice, no source: a layering rule checked by a test keeps it true.
+import { describe, expect, it } from 'vitest';
+import { fileURLToPath } from 'node:url';
+import { importCycles, readImportGraph, type ImportEdge } from './importGraph.js';
+
+const SRC = fileURLToPath(new URL('../../src/', import.meta.url));
+
+/**
+ * Layers, lowest first. A file may import files of its own layer or of a
+ * lower one. The first matching prefix names a file's layer.
+ */
+const LAYERS: { name: string; prefixes: string[] }[] = [
+  // base: numerics and tiny helpers with no knowledge of moons
+  { name: 'base', prefixes: ['numeric/', 'memo.ts', 'version.ts'] },
+  // the scenario's types and the input-error class: the contract every layer speaks
+  { name: 'contracts', prefixes: ['scenario/types.ts', 'scenario/errors.ts'] },
+  // stages, in pipeline order: each is a set of pure functions of its stage
+  { name: 'physics', prefixes: ['physics/'] },
+  { name: 'sky+photometry', prefixes: ['sky/', 'photometry/'] },
+  { name: 'noise', prefixes: ['noise/'] },
+  { name: 'timing', prefixes: ['timing/'] },
+  // scenario parsing: units, validation and the derived values (uses physics)
+  { name: 'scenario', prefixes: ['scenario/'] },
+  // renderers: ECSV/JSON/HTML text from results; pure functions of results
+  { name: 'renderers', prefixes: ['io/ecsv.ts', 'report/'] },
+  // application: the orchestrations, the only place besides the CLI that touches files
+  { name: 'application', prefixes: ['app/', 'io/', 'sweep/', 'budget/', 'vet/', 'docs/'] },
+  { name: 'cli', prefixes: ['cli/'] },
+  { name: 'public api', prefixes: ['index.ts'] },
+];
+
+export function layerOf(file: string): number {
+  const rank = LAYERS.findIndex((l) => l.prefixes.some((p) => file === p || (p.endsWith('/') && file.startsWith(p))));
+  if (rank < 0) throw new Error(`src/${file} belongs to no layer: add its folder to LAYERS in test/architecture/layers.test.ts`);
+  return rank;
+}
+
+/**
+ * Upward imports that exist today, each with its reason. This list only
+ * shrinks: an entry that no longer occurs fails the test, so remove it when
+ * its import is gone.
+ */
+const ALLOWED_UPWARD: Record<string, string> = {
+  'photometry/simulateScenario.ts -> io/ecsv.ts':
+    "orchestrator (light curve + noise + timing + ECSV) in a stage folder; moves to the application layer",
+  'photometry/simulateScenario.ts -> noise/observe.ts':
+    "orchestrator (light curve + noise + timing + ECSV) in a stage folder; moves to the application layer",
+  'photometry/simulateScenario.ts -> noise/rng.ts':
+    "orchestrator (light curve + noise + timing + ECSV) in a stage folder; moves to the application layer",
+  'photometry/simulateScenario.ts -> timing/timingSeries.ts':
+    "orchestrator (light curve + noise + timing + ECSV) in a stage folder; moves to the application layer",
+  'physics/computeLimits.ts -> noise/whiteNoise.ts':
+    "the limits orchestrator in a stage folder; moves to the application layer",
+  'physics/computeLimits.ts -> photometry/transitFlux.ts':
+    "the limits orchestrator in a stage folder; moves to the application layer",
+  'physics/computeLimits.ts -> photometry/transitWindows.ts':
+    "the limits orchestrator in a stage folder; moves to the application layer",
+  'physics/computeLimits.ts -> timing/modelTimingPrecision.ts':
+    "the limits orchestrator in a stage folder; moves to the application layer",
+  'physics/computeLimits.ts -> timing/transitTemplate.ts':
+    "the limits orchestrator in a stage folder; moves to the application layer",
+  'physics/detectionForecast.ts -> timing/noncentralChiSquare.ts':
+    "the noncentral chi-square is a special function kept in timing/; moves to numeric/",
+  'report/assumptionsTable.ts -> sweep/cellTypes.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/assumptionsTable.ts -> sweep/outputs.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/assumptionsTable.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/axisDisplay.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/exampleCells.ts -> sweep/cellTypes.ts':
+    "the report re-simulates example cells; moves to the application layer",
+  'report/exampleCells.ts -> sweep/sweepMeta.ts':
+    "the report re-simulates example cells; moves to the application layer",
+  'report/exampleCells.ts -> sweep/sweepSpec.ts':
+    "the report re-simulates example cells; moves to the application layer",
+  'report/mapFigures.ts -> sweep/cellTypes.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/mapFigures.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/minDetectable.ts -> sweep/cellTypes.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/reportGrid.ts -> sweep/cellTypes.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/reportGrid.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/rewriteReport.ts -> io/outputPaths.ts':
+    "report assembly reading and writing a sweep folder; moves to the application layer",
+  'report/rewriteReport.ts -> sweep/canonicalJson.ts':
+    "report assembly reading and writing a sweep folder; moves to the application layer",
+  'report/rewriteReport.ts -> sweep/cellChecks.ts':
+    "report assembly reading and writing a sweep folder; moves to the application layer",
+  'report/rewriteReport.ts -> sweep/outputFolder.ts':
+    "report assembly reading and writing a sweep folder; moves to the application layer",
+  'report/rewriteReport.ts -> sweep/outputs.ts':
+    "report assembly reading and writing a sweep folder; moves to the application layer",
+  'report/rewriteReport.ts -> sweep/shard.ts':
+    "report assembly reading and writing a sweep folder; moves to the application layer",
+  'report/summary.ts -> sweep/cellTypes.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/summary.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/summaryText.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/sweepReport.ts -> sweep/canonicalJson.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/sweepReport.ts -> sweep/cellTypes.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/sweepReport.ts -> sweep/outputs.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'report/sweepReport.ts -> sweep/sweepMeta.ts':
+    "renderer takes the sweep's result types (CellResult, SweepMeta, run info) from sweep/",
+  'sky/calendar.ts -> scenario/readSky.ts':
+    "the calendar reads the scenario's sky blocks through readSky",
+  'sweep/interrupted.ts -> cli/exitCodes.ts':
+    "exit code defined in cli/",
+  'sweep/merge.ts -> cli/outputPaths.ts':
+    "output-path helper defined in cli/",
+  'sweep/runSweep.ts -> cli/outputPaths.ts':
+    "output-path helper defined in cli/",
+};
+
+/** Import cycles that exist today (files of each cycle, sorted). Only shrinks. */
+const ALLOWED_CYCLES: string[][] = [
+  // the commands import the CliIo type from main.ts, which imports the commands
+  ['cli/budgetCommand.ts', 'cli/calendarCommand.ts', 'cli/limitsCommand.ts', 'cli/main.ts', 'cli/mergeCommand.ts', 'cli/reportCommand.ts', 'cli/simulateCommand.ts', 'cli/sweepCommand.ts', 'cli/vetCommand.ts'],
+  // outputs.ts renders the page; the page takes the run info type from outputs.ts
+  ['report/assumptionsTable.ts', 'report/sweepReport.ts', 'sweep/outputs.ts'],
+];
+
+const edgeKey = (e: ImportEdge): string => `${e.from} -> ${e.to}`;
+
+describe('layers of src/', () => {
+  const { files, edges } = readImportGraph(SRC);
+
+  it('reads the graph (sanity: the known files and imports are found)', () => {
+    expect(files).toContain('index.ts');
+    expect(edges.length).toBeGreaterThan(200);
+  });
+
+  it('every file belongs to a layer', () => {
+    for (const f of files) expect(() => layerOf(f)).not.toThrow();
+  });
+
+  it('no import runs upward (beyond the listed ones)', () => {
+    const upward = edges.filter((e) => layerOf(e.to) > layerOf(e.from));
+    const found = [...new Set(upward.map(edgeKey))].sort();
+    const unexpected = found.filter((k) => !(k in ALLOWED_UPWARD)).map((k) => {
+      const [from, to] = k.split(' -> ');
+      return `${k}   (${LAYERS[layerOf(from)].name} imports ${LAYERS[layerOf(to)].name})`;
+    });
+    const stale = Object.keys(ALLOWED_UPWARD).filter((k) => !found.includes(k));
+    expect(unexpected, 'upward imports').toEqual([]);
+    expect(stale, 'allowlist entries that no longer occur: remove them').toEqual([]);
+  });
+
+  it('there is no import cycle (beyond the listed ones)', () => {
+    const cycles = importCycles(files, edges).map((c) => c.join(' + '));
+    const allowed = ALLOWED_CYCLES.map((c) => [...c].sort().join(' + '));
+    expect(cycles.filter((c) => !allowed.includes(c)), 'import cycles').toEqual([]);
+    expect(allowed.filter((c) => !cycles.includes(c)), 'allowed cycles that no longer occur: remove them').toEqual([]);
+  });
+
+  it('the cycle finder finds a planted cycle (so the check can fail)', () => {
+    const planted = importCycles(['a.ts', 'b.ts', 'c.ts'], [
+      { from: 'a.ts', to: 'b.ts' },
+      { from: 'b.ts', to: 'a.ts' },
+      { from: 'b.ts', to: 'c.ts' },
+    ]);
+    expect(planted).toEqual([['a.ts', 'b.ts']]);
+  });
+});
