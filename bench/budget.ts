@@ -6,7 +6,7 @@
  * timed beside it.
  */
 import { performance } from 'node:perf_hooks';
-import { planBudget } from '../src/budget/planBudget.js';
+import { planBudget } from '../src/app/planBudget.js';
 import { median, type BenchMedian } from './measure.js';
 
 /**

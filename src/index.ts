@@ -30,14 +30,14 @@ export { timingSignals } from './physics/timingSignals.js';
 export { ttvAlias, aliasFamily } from './physics/ttvAlias.js';
 export { timingPrecision } from './physics/timingPrecision.js';
 export { forecastDetection } from './physics/detectionForecast.js';
-export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson } from './physics/computeLimits.js';
+export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson } from './app/computeLimits.js';
 
 // Photometry
 export { transitFlux } from './photometry/transitFlux.js';
 export { pairTransitFlux } from './photometry/pairTransitFlux.js';
 export { lightCurveModel, modelFlux } from './photometry/lightCurve.js';
 export { transitWindows, sampleWindows } from './photometry/transitWindows.js';
-export { simulateScenario } from './photometry/simulateScenario.js';
+export { simulateScenario } from './app/simulateScenario.js';
 
 // Noise
 export { createRng, type Rng } from './noise/rng.js';
@@ -59,7 +59,7 @@ export { mergeShards } from './sweep/merge.js';
 export { runCell } from './sweep/runCell.js';
 export { writeSweepOutputs, CELLS_SCHEMA, RUN_SCHEMA } from './sweep/outputs.js';
 export type { CellTask, CellResult, CellContext, CellRunner } from './sweep/cellTypes.js';
-export { renderSweepReport } from './report/sweepReport.js';
+export { renderSweepReport } from './app/sweepReport.js';
 export { buildSummary, SUMMARY_SCHEMA } from './report/summary.js';
 export { loadClaim, parseClaimText, vetClaim, formatVetReport, vetToJson, VET_SCHEMA } from './vet/index.js';
 export type { Claim, VetResult, VetJson } from './vet/index.js';

@@ -1,5 +1,5 @@
 /** The observing budget: public API of src/budget/. */
-export { planBudget, evaluationText } from './planBudget.js';
+export { planBudget, evaluationText } from '../app/planBudget.js';
 export { readBudgetFlags, resolveBudgetTarget, type BudgetFlags } from './budgetSpec.js';
 export { formatBudget } from './formatBudget.js';
 export { renderBudgetPage, budgetFigure } from './budgetPage.js';

@@ -1,12 +1,12 @@
 /** `moonsieve budget SCENARIO`: the fewest transits / hours, or the coarsest cadence / worst noise, reaching a detection probability. */
 import type { Command } from 'commander';
 import { writeFileAtomic } from '../io/atomicWrite.js';
-import { planBudget } from '../budget/planBudget.js';
+import { planBudget } from '../app/planBudget.js';
 import { readBudgetFlags, type BudgetFlags } from '../budget/budgetSpec.js';
 import { formatBudget } from '../budget/formatBudget.js';
 import { renderBudgetPage } from '../budget/budgetPage.js';
 import { budgetToJson } from '../budget/budgetJson.js';
-import type { CliIo } from './main.js';
+import type { CliIo } from './cliIo.js';
 import { InputError } from '../scenario/errors.js';
 import { checkOutputFile } from '../io/outputPaths.js';
 

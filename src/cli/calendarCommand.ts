@@ -9,7 +9,7 @@ import { transitCalendar, type CalendarCounts, type CalendarResult } from '../sk
 import { renderTable, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { checkOutputFile } from '../io/outputPaths.js';
-import type { CliIo } from './main.js';
+import type { CliIo } from './cliIo.js';
 
 export function registerCalendar(program: Command, io: CliIo): void {
   program

@@ -2,11 +2,11 @@
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
-import { computeLimits, limitsToJson, type LimitsJson } from '../physics/computeLimits.js';
+import { computeLimits, limitsToJson, type LimitsJson } from '../app/computeLimits.js';
 import { assertObservable } from '../photometry/transitWindows.js';
 import { AU_M, DAY_S, HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
-import type { CliIo } from './main.js';
+import type { CliIo } from './cliIo.js';
 
 export function registerLimits(program: Command, io: CliIo): void {
   program

@@ -5,7 +5,7 @@
  */
 import { Command, CommanderError } from 'commander';
 import { escapeControl, InputError } from '../scenario/errors.js';
-import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_INTERRUPTED, EXIT_OK } from './exitCodes.js';
+import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_INTERRUPTED, EXIT_OK } from '../app/exitCodes.js';
 import { registerSimulate } from './simulateCommand.js';
 import { registerLimits } from './limitsCommand.js';
 import { registerVet } from './vetCommand.js';
@@ -17,10 +17,9 @@ import { registerCalendar } from './calendarCommand.js';
 import { SweepInterruptedError } from '../sweep/interrupted.js';
 import { VERSION } from '../version.js';
 
-export interface CliIo {
-  out: (text: string) => void;
-  err: (text: string) => void;
-}
+import type { CliIo } from './cliIo.js';
+
+export type { CliIo };
 
 const defaultIo: CliIo = {
   out: (t) => process.stdout.write(t),

@@ -1,7 +1,7 @@
 /** `moonsieve report DIR [--scenario FILE]`: re-render report.html and summary.json from a finished sweep's results. */
 import type { Command } from 'commander';
-import { rewriteSweepReport } from '../report/rewriteReport.js';
-import type { CliIo } from './main.js';
+import { rewriteSweepReport } from '../app/rewriteReport.js';
+import type { CliIo } from './cliIo.js';
 
 export function registerReport(program: Command, io: CliIo): void {
   program

@@ -4,14 +4,14 @@ import { join } from 'node:path';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
 import { InputError } from '../scenario/errors.js';
-import { fitOf, simulateScenario, simulationTables, tdvOf, ttvOf } from '../photometry/simulateScenario.js';
+import { fitOf, simulateScenario, simulationTables, tdvOf, ttvOf } from '../app/simulateScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { renderTable } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderSimulatePage } from '../report/simulatePage.js';
 import { assertObservable, windowsOverlap } from '../photometry/transitWindows.js';
-import { defaultOutDir } from './outputPaths.js';
-import type { CliIo } from './main.js';
+import { defaultOutDir } from '../app/defaultOutDir.js';
+import type { CliIo } from './cliIo.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 
 export function registerSimulate(program: Command, io: CliIo): void {

@@ -2,7 +2,7 @@
 import type { Command } from 'commander';
 import { runSweep } from '../sweep/runSweep.js';
 import { SweepInterruptedError } from '../sweep/interrupted.js';
-import type { CliIo } from './main.js';
+import type { CliIo } from './cliIo.js';
 
 interface SweepCliOptions {
   out?: string;

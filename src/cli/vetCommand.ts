@@ -6,7 +6,7 @@ import { vetClaim } from '../vet/vetClaim.js';
 import { formatVetReport } from '../vet/formatVetReport.js';
 import { renderVetPage } from '../vet/vetPage.js';
 import { vetToJson } from '../vet/vetJson.js';
-import type { CliIo } from './main.js';
+import type { CliIo } from './cliIo.js';
 import { checkOutputFile } from '../io/outputPaths.js';
 
 export function registerVet(program: Command, io: CliIo): void {

@@ -10,8 +10,7 @@ import { scenarioDurations, windowsOverlap } from '../photometry/transitWindows.
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { AU_M, DAY_S, HOUR_S, JULIAN_YEAR_S, L_SUN_W, M_EARTH_KG, M_JUP_KG, M_SUN_KG, R_EARTH_M, R_JUP_M, R_SUN_M } from '../physics/constants.js';
 import type { CellResult } from '../sweep/cellTypes.js';
-import type { SweepMeta } from '../sweep/sweepMeta.js';
-import type { SweepRunInfo } from '../sweep/outputs.js';
+import type { SweepMeta, SweepRunInfo } from '../sweep/sweepMeta.js';
 import { axisDisplay, formatDisplay, formatNumber as f } from './axisDisplay.js';
 import type { SweepSummary } from './summary.js';
 import { num } from './reportGrid.js';

@@ -1,7 +1,28 @@
 /** Plotly figures of the example cells (see exampleCells.ts). */
 import type { Figure } from './plotlyPage.js';
-import type { ExampleCell } from './exampleCells.js';
 import { formatNumber } from './axisDisplay.js';
+
+/** One example cell of the report: realization 0 of a chosen cell (computed by app/exampleCells.ts). */
+export interface ExampleCell {
+  index: number;
+  coords: number[];
+  /** Why it was chosen ("most detectable", …). */
+  label: string;
+  /** The cell's combined detection probability (Monte Carlo, or forecast in a forecast-only run). */
+  probability: number;
+  moonMassKg: number | null;
+  moonSeparationM: number | null;
+  planetPeriodS: number;
+  /** Observed points, hours from each transit's predicted conjunction, and flux − 1 in ppm (binned by `binFactor`). */
+  lightCurve: { timeH: number[]; fluxPpm: number[]; binFactor: number; modelTimeH: Array<number | null>; modelPpm: Array<number | null>; noisePpm: number };
+  ttv: { epoch: number[]; valueS: number[]; errS: number[] };
+  tdv: { epoch: number[]; valueS: number[]; errS: number[] };
+  /** Null when fewer than four transits were fitted. */
+  periodogram: { frequency: number[]; power: number[]; peakFrequency: number; falseAlarmProbability: number } | null;
+  /** The moon's TTV frequency folded into [0, ½] cycles per epoch, and other moon periods with the same alias, s. */
+  aliasFrequencyPerEpoch: number | null;
+  aliasFamilyPeriodsS: number[];
+}
 
 const MIN_S = 60;
 

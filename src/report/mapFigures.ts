@@ -16,8 +16,18 @@ import type { Figure } from './plotlyPage.js';
 import { escapeHtml } from './escape.js';
 import { axisDisplay, formatDisplay, formatNumber, logTickLayout, type AxisDisplay } from './axisDisplay.js';
 import { MAP_CHANNELS, cellEdges, cellProbability, channelLabel, gridLayout, gridMatrix, num, regionOutline, type GridLayout, type MapChannel } from './reportGrid.js';
-import type { PhysicalBoundaries } from './physicalBoundaries.js';
 import type { SweepSummary } from './summary.js';
+
+/** The physical boundaries drawn over a moon mass × separation map (computed by app/physicalBoundaries.ts). */
+export interface PhysicalBoundaries {
+  rocheLimitM: number;
+  stableLimitProgradeM: number;
+  stableLimitRetrogradeM: number;
+  tidalSurvivalMassKg: number;
+  hillRadiusM: number;
+  planetRadiusM: number;
+  retrograde: boolean;
+}
 
 export const MAP_COLORSCALE = 'Cividis';
 /** Trace indices of the map that the channel selector restyles (heatmap, 50 % and 90 % contours). */

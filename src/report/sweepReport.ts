@@ -1,5 +1,5 @@
 /**
- * `renderSweepReport`: the self-contained HTML report of a sweep (plotly
+ * `renderSweepPage`: the self-contained HTML report of a sweep (plotly
  * inlined, opens offline): plain-language summary, detectability map with a
  * channel selector, contours at 50 % and 90 %, physical boundaries and the
  * habitable region, minimum detectable mass, Monte Carlo against the
@@ -8,24 +8,21 @@
  * JSON made safe for <script> (jsonForScript).
  */
 import type { CellResult } from '../sweep/cellTypes.js';
-import type { SweepMeta } from '../sweep/sweepMeta.js';
-import type { SweepRunInfo } from '../sweep/outputs.js';
+import type { SweepMeta, SweepRunInfo } from '../sweep/sweepMeta.js';
 import { scenarioHash } from '../sweep/canonicalJson.js';
 import { escapeHtml, jsonForScript } from './escape.js';
 import { renderPlotlyPage, type Figure } from './plotlyPage.js';
 import { buildSummary, type SweepSummary } from './summary.js';
 import { renderSummaryHtml } from './summaryText.js';
-import { physicalBoundaries } from './physicalBoundaries.js';
-import { gridFigures, mapTitles, MAP_Z_TRACES } from './mapFigures.js';
-import { computeExampleCells, type ExampleCell } from './exampleCells.js';
-import { exampleFigures } from './exampleFigures.js';
+import { gridFigures, mapTitles, MAP_Z_TRACES, type PhysicalBoundaries } from './mapFigures.js';
+import { exampleFigures, type ExampleCell } from './exampleFigures.js';
 import { assumptionRows } from './assumptionsTable.js';
 import { axisDisplay, formatDisplay, formatNumber } from './axisDisplay.js';
 import { MAP_CHANNELS, axisRoles, channelLabel, combinedMeaning } from './reportGrid.js';
 import { parseQuantity } from '../scenario/units.js';
 import { R_EARTH_M, R_JUP_M } from '../physics/constants.js';
 
-export interface SweepReportInput {
+export interface SweepPageInput {
   meta: SweepMeta;
   cells: readonly CellResult[];
   /** run.json of the run (null when unknown). */
@@ -36,8 +33,10 @@ export interface SweepReportInput {
    * physical boundaries, example cells and most assumptions are omitted).
    */
   scenario: unknown;
-  /** Example cells; computed from the scenario when omitted (pass [] for none). */
-  examples?: ExampleCell[];
+  /** Example cells (app/exampleCells.ts computes them; [] for none). */
+  examples: ExampleCell[];
+  /** Physical boundaries of the base scenario (app/physicalBoundaries.ts), null when unknown. */
+  boundaries: PhysicalBoundaries | null;
   /** The summary; built with buildSummary(meta, cells) when omitted. */
   summary?: SweepSummary;
 }
@@ -89,18 +88,23 @@ ${pg}
 </section>`;
 }
 
-export function renderSweepReport(input: SweepReportInput): string {
+/** Throws a RangeError unless the scenario document (when given) is the one the sweep ran. */
+export function checkScenarioHash(meta: SweepMeta, scenario: unknown): void {
+  if (scenario === null || scenario === undefined) return;
+  const h = scenarioHash(scenario);
+  if (h !== meta.scenario_hash) throw new RangeError(`scenario must be the document the sweep ran (hash ${meta.scenario_hash.slice(0, 12)}…), got one with hash ${h.slice(0, 12)}…`);
+}
+
+/** The page from computed parts; renderSweepReport (app/sweepReport.ts) computes the parts and calls this. */
+export function renderSweepPage(input: SweepPageInput): string {
   const { meta, runInfo } = input;
   const cells = [...input.cells].sort((a, b) => a.index - b.index);
-  if (input.scenario !== null && input.scenario !== undefined) {
-    const h = scenarioHash(input.scenario);
-    if (h !== meta.scenario_hash) throw new RangeError(`scenario must be the document the sweep ran (hash ${meta.scenario_hash.slice(0, 12)}…), got one with hash ${h.slice(0, 12)}…`);
-  }
+  checkScenarioHash(meta, input.scenario);
   const scenarioDoc = input.scenario ?? null;
   const summary = input.summary ?? buildSummary(meta, cells);
-  const boundaries = physicalBoundaries(scenarioDoc);
+  const boundaries = input.boundaries;
   const grid = gridFigures(meta, cells, boundaries, summary);
-  const examples = input.examples ?? (scenarioDoc !== null ? computeExampleCells(scenarioDoc, meta, cells) : []);
+  const examples = input.examples;
   const figures: Figure[] = [...grid.figures, ...examples.flatMap((ex, k) => exampleFigures(ex, k))];
   const ids = new Set(grid.figures.map((f) => f.id));
 

@@ -8,7 +8,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
-import { defaultOutDir } from '../cli/outputPaths.js';
+import { defaultOutDir } from '../app/defaultOutDir.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
 import { VERSION } from '../version.js';
 import type { CellResult } from './cellTypes.js';

@@ -15,35 +15,12 @@ import { commitOutputs } from './outputFolder.js';
 import { toEcsv, type EcsvDatatype, type TableColumn } from '../io/ecsv.js';
 import { stringify as stringifyYaml } from 'yaml';
 import { buildSummary, renderSummaryJson } from '../report/summary.js';
-import { renderSweepReport } from '../report/sweepReport.js';
+import { renderSweepReport } from '../app/sweepReport.js';
 import type { CellResult } from './cellTypes.js';
-import type { SweepMeta } from './sweepMeta.js';
+import type { SweepMeta, SweepRunInfo } from './sweepMeta.js';
 import type { Shard } from './shard.js';
 
-export interface SweepRunInfo {
-  moonsieve_version: string;
-  scenario: string;
-  scenario_hash: string;
-  seed: number;
-  shard: Shard | null;
-  /** Worker threads used (0: cells ran in the main thread). */
-  workers: number;
-  host_cores: number;
-  started: string;
-  finished: string;
-  wall_time_s: number;
-  /** Cells in the whole grid, in this output, computed in this run, read back from a checkpoint. */
-  cells_total: number;
-  cells: number;
-  cells_computed: number;
-  cells_resumed: number;
-  realizations: number;
-  forecast_only: boolean;
-  false_alarm: number;
-  node_version: string;
-  /** For a merge: the run.json of each shard merged. */
-  merged_from?: Array<{ dir: string; run: unknown }>;
-}
+export type { SweepRunInfo };
 
 /** Schema ids of the JSON files of an output folder (schemas/*.schema.json; summary.json's is SUMMARY_SCHEMA). */
 export const CELLS_SCHEMA = 'moonsieve/cells/1';

@@ -17,7 +17,7 @@ import { existsSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { availableParallelism } from 'node:os';
 import { performance } from 'node:perf_hooks';
-import { defaultOutDir } from '../cli/outputPaths.js';
+import { defaultOutDir } from '../app/defaultOutDir.js';
 import { parseYamlWithLines, withLines } from '../scenario/loadScenario.js';
 import { describeValue, InputError, type FieldProblem } from '../scenario/errors.js';
 import { checkOutputDir } from '../io/outputPaths.js';

@@ -10,6 +10,7 @@ import { cautionNotes } from '../scenario/parseScenario.js';
 import { canonicalJson } from './canonicalJson.js';
 import type { SweepSpec } from './sweepSpec.js';
 import { defaultNullRealizations } from './nullSet.js';
+import type { Shard } from './shard.js';
 
 export interface SweepAxisMeta {
   field: string;
@@ -85,4 +86,30 @@ export function metaDifferences(a: SweepMeta, b: SweepMeta): string[] {
 
 function gridText(m: SweepMeta): string {
   return (m.axes ?? []).map((a) => `${a.field}×${a.values?.length ?? a.count}`).join(' by ') || '?';
+}
+
+/** run.json of a run (written by sweep/outputs.ts). */
+export interface SweepRunInfo {
+  moonsieve_version: string;
+  scenario: string;
+  scenario_hash: string;
+  seed: number;
+  shard: Shard | null;
+  /** Worker threads used (0: cells ran in the main thread). */
+  workers: number;
+  host_cores: number;
+  started: string;
+  finished: string;
+  wall_time_s: number;
+  /** Cells in the whole grid, in this output, computed in this run, read back from a checkpoint. */
+  cells_total: number;
+  cells: number;
+  cells_computed: number;
+  cells_resumed: number;
+  realizations: number;
+  forecast_only: boolean;
+  false_alarm: number;
+  node_version: string;
+  /** For a merge: the run.json of each shard merged. */
+  merged_from?: Array<{ dir: string; run: unknown }>;
 }

@@ -1,5 +1,5 @@
 // The import graph of src/: every relative import (static, `import type`,
-// `export … from` and dynamic `import('…')`) of every src/**/*.ts file,
+// `export … from` and dynamic imports) of every src/**/*.ts file,
 // resolved to the file it names. Used by layers.test.ts.
 import { readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, normalize, relative, sep } from 'node:path';

@@ -10,10 +10,10 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { parse } from 'yaml';
-import { planBudget } from '../../src/budget/planBudget.js';
+import { planBudget } from '../../src/app/planBudget.js';
 import { forecastProbability, forecastTransitsNeeded, moonSignal, valuePrecision } from '../../src/budget/budgetForecast.js';
 import { solvedQuantity, GEOMETRIC_STEP, MIN_CADENCE_S } from '../../src/budget/solvedQuantity.js';
-import { computeLimits } from '../../src/physics/computeLimits.js';
+import { computeLimits } from '../../src/app/computeLimits.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { scenarioDurations } from '../../src/photometry/transitWindows.js';
 

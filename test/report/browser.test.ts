@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium, type Browser } from 'playwright-core';
 import { runTinySweep, type TinySweep } from './tinySweep.js';
-import { renderSweepReport } from '../../src/report/sweepReport.js';
+import { renderSweepReport } from '../../src/app/sweepReport.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);

@@ -7,7 +7,7 @@
 import { describe, it, expect } from 'vitest';
 import { runSweep } from '../../src/sweep/runSweep.js';
 import { runCell } from '../../src/sweep/runCell.js';
-import { renderSweepReport } from '../../src/report/sweepReport.js';
+import { renderSweepReport } from '../../src/app/sweepReport.js';
 import { buildSummary } from '../../src/report/summary.js';
 import { tinyScenarioDoc } from './tinySweep.js';
 import { mkdtempSync } from 'node:fs';

@@ -12,11 +12,11 @@ import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runSweep } from '../../src/sweep/runSweep.js';
 import { mergeShards } from '../../src/sweep/merge.js';
-import { rewriteSweepReport } from '../../src/report/rewriteReport.js';
+import { rewriteSweepReport } from '../../src/app/rewriteReport.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { CHECKPOINT_FILE } from '../../src/sweep/checkpoint.js';
 import { LOCK_FILE, STAGING_DIR, acquireFolderLock, commitOutputs, settleStaging } from '../../src/sweep/outputFolder.js';
-import { defaultOutDir } from '../../src/cli/outputPaths.js';
+import { defaultOutDir } from '../../src/app/defaultOutDir.js';
 import type { CellRunner } from '../../src/sweep/cellTypes.js';
 
 /** A deterministic runner in the main thread: probabilities from the cell index. */

@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { parseSweepSpec, applyAxisValues, spacedValues } from '../../src/sweep/sweepSpec.js';
 import { loadSweep } from '../../src/sweep/runSweep.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
-import { computeLimits } from '../../src/physics/computeLimits.js';
+import { computeLimits } from '../../src/app/computeLimits.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { M_EARTH_KG, MINUTE_S } from '../../src/physics/constants.js';
 

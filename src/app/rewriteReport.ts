@@ -17,7 +17,7 @@ import { acquireFolderLock, commitOutputs, settleStaging, STAGING_DIR } from '..
 import { capProblems, cellChecker, coverageProblems } from '../sweep/cellChecks.js';
 import { shardCells } from '../sweep/shard.js';
 import { checkOutputDir } from '../io/outputPaths.js';
-import { buildSummary, renderSummaryJson, type SweepSummary } from './summary.js';
+import { buildSummary, renderSummaryJson, type SweepSummary } from '../report/summary.js';
 import { renderSweepReport } from './sweepReport.js';
 
 export interface RewriteReportResult {

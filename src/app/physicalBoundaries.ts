@@ -5,18 +5,12 @@
  * & Yokoyama 2006), and the largest moon surviving tidal migration
  * (Barnes & O'Brien 2002).
  */
-import { computeLimits } from '../physics/computeLimits.js';
+import { computeLimits } from './computeLimits.js';
 import { parseScenario } from '../scenario/parseScenario.js';
+import type { PhysicalBoundaries } from '../report/mapFigures.js';
 
-export interface PhysicalBoundaries {
-  rocheLimitM: number;
-  stableLimitProgradeM: number;
-  stableLimitRetrogradeM: number;
-  tidalSurvivalMassKg: number;
-  hillRadiusM: number;
-  planetRadiusM: number;
-  retrograde: boolean;
-}
+export type { PhysicalBoundaries };
+
 
 /** Boundaries of the base scenario document (null when it cannot be read). */
 export function physicalBoundaries(scenarioDoc: unknown): PhysicalBoundaries | null {

@@ -7,7 +7,7 @@ import type { Scenario } from '../scenario/types.js';
 import { observeScenario, type Observation } from '../noise/observe.js';
 import { createRng } from '../noise/rng.js';
 import { planetTransitTruth, type PlanetTransitTruth } from '../physics/planetTransitTruth.js';
-import { windowHalfWidthS } from './transitWindows.js';
+import { windowHalfWidthS } from '../photometry/transitWindows.js';
 import { recoverTimings, type TimingRecovery } from '../timing/timingSeries.js';
 import type { TableColumn } from '../io/ecsv.js';
 import { DAY_S } from '../physics/constants.js';

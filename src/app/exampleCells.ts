@@ -13,32 +13,15 @@ import type { Scenario } from '../scenario/types.js';
 import { createRng } from '../noise/rng.js';
 import { runRealization } from '../timing/realization.js';
 import { lombScargle } from '../timing/lombScargle.js';
-import { computeLimits } from '../physics/computeLimits.js';
+import { computeLimits } from './computeLimits.js';
 import { parseSweepSpec, applyAxisValues } from '../sweep/sweepSpec.js';
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
-import { cellProbability, num } from './reportGrid.js';
+import { cellProbability, num } from '../report/reportGrid.js';
 
-export interface ExampleCell {
-  index: number;
-  coords: number[];
-  /** Why it was chosen ("most detectable", …). */
-  label: string;
-  /** The cell's combined detection probability (Monte Carlo, or forecast in a forecast-only run). */
-  probability: number;
-  moonMassKg: number | null;
-  moonSeparationM: number | null;
-  planetPeriodS: number;
-  /** Observed points, hours from each transit's predicted conjunction, and flux − 1 in ppm (binned by `binFactor`). */
-  lightCurve: { timeH: number[]; fluxPpm: number[]; binFactor: number; modelTimeH: Array<number | null>; modelPpm: Array<number | null>; noisePpm: number };
-  ttv: { epoch: number[]; valueS: number[]; errS: number[] };
-  tdv: { epoch: number[]; valueS: number[]; errS: number[] };
-  /** Null when fewer than four transits were fitted. */
-  periodogram: { frequency: number[]; power: number[]; peakFrequency: number; falseAlarmProbability: number } | null;
-  /** The moon's TTV frequency folded into [0, ½] cycles per epoch, and other moon periods with the same alias, s. */
-  aliasFrequencyPerEpoch: number | null;
-  aliasFamilyPeriodsS: number[];
-}
+import type { ExampleCell } from '../report/exampleFigures.js';
+
+export type { ExampleCell };
 
 /** At most this many points per light curve on the page (more are averaged in consecutive groups). */
 export const MAX_LIGHT_CURVE_POINTS = 6000;

@@ -4,21 +4,21 @@
  * function named beside it, which cites its source. All values SI.
  */
 import type { Scenario } from '../scenario/types.js';
-import { hillRadius, hillRadiusPericentre } from './hillRadius.js';
-import { stableSeparationLimit } from './stability.js';
-import { meanDensity, rocheLimit } from './rocheLimit.js';
-import { tidalSurvivalMassMax } from './tidalMigration.js';
-import { tidalHeatFlux } from './tidalHeating.js';
-import { moonEnergyBudget } from './energyBudget.js';
-import { runawayGreenhouseFlux, surfaceGravity } from './runawayGreenhouse.js';
-import { FLUX_BUDGET_CAUTION, HZ_TEFF_MAX_K, HZ_TEFF_MIN_K, KOPPARAPU_2013, habitabilityVerdict, habitableZoneDistance, habitableZoneEdgeFlux } from './habitableZone.js';
-import { timingSignals } from './timingSignals.js';
-import { transitAveraging } from './transitAveraging.js';
-import { ttvAlias, aliasFamily } from './ttvAlias.js';
-import { moonDipDepth } from './moonDip.js';
-import { timingPrecision } from './timingPrecision.js';
-import { forecastDetection } from './detectionForecast.js';
-import { transitDurations } from './transitDuration.js';
+import { hillRadius, hillRadiusPericentre } from '../physics/hillRadius.js';
+import { stableSeparationLimit } from '../physics/stability.js';
+import { meanDensity, rocheLimit } from '../physics/rocheLimit.js';
+import { tidalSurvivalMassMax } from '../physics/tidalMigration.js';
+import { tidalHeatFlux } from '../physics/tidalHeating.js';
+import { moonEnergyBudget } from '../physics/energyBudget.js';
+import { runawayGreenhouseFlux, surfaceGravity } from '../physics/runawayGreenhouse.js';
+import { FLUX_BUDGET_CAUTION, HZ_TEFF_MAX_K, HZ_TEFF_MIN_K, KOPPARAPU_2013, habitabilityVerdict, habitableZoneDistance, habitableZoneEdgeFlux } from '../physics/habitableZone.js';
+import { timingSignals } from '../physics/timingSignals.js';
+import { transitAveraging } from '../physics/transitAveraging.js';
+import { ttvAlias, aliasFamily } from '../physics/ttvAlias.js';
+import { moonDipDepth } from '../physics/moonDip.js';
+import { timingPrecision } from '../physics/timingPrecision.js';
+import { forecastDetection } from '../physics/detectionForecast.js';
+import { transitDurations } from '../physics/transitDuration.js';
 import { transitFluxScalar } from '../photometry/transitFlux.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { modelTimingPrecision } from '../timing/modelTimingPrecision.js';

@@ -21,7 +21,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
-import { computeLimits, type LimitsJson } from '../physics/computeLimits.js';
+import { computeLimits, type LimitsJson } from './computeLimits.js';
 import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../photometry/transitWindows.js';
 import { InputError } from '../scenario/errors.js';
@@ -30,14 +30,14 @@ import { cautionNotes, parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
-} from './budgetTypes.js';
-import { minTransitsFor, resolveBudgetTarget } from './budgetSpec.js';
-import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlong, type ValuePrecision } from './budgetForecast.js';
-import { habitablePopulation, spreadEvenly } from './habitableTargets.js';
-import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from './monteCarloPoint.js';
-import { searchCheapestPassing } from './monotoneSearch.js';
-import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from './solvedQuantity.js';
-import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from './targetMoon.js';
+} from '../budget/budgetTypes.js';
+import { minTransitsFor, resolveBudgetTarget } from '../budget/budgetSpec.js';
+import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlong, type ValuePrecision } from '../budget/budgetForecast.js';
+import { habitablePopulation, spreadEvenly } from '../budget/habitableTargets.js';
+import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from '../budget/monteCarloPoint.js';
+import { searchCheapestPassing } from '../budget/monotoneSearch.js';
+import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
+import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from '../budget/targetMoon.js';
 
 /** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
 const COMBINED_CHANNELS = 3;
