@@ -9,9 +9,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { parse as parseYaml } from 'yaml';
-import { runSweep } from '../src/sweep/runSweep.js';
+import { runSweep } from '../src/app/sweep/runSweep.js';
 import type { CellRunner } from '../src/sweep/cellTypes.js';
-import type { RunnerModule } from '../src/sweep/workerPool.js';
+import type { RunnerModule } from '../src/app/sweep/workerPool.js';
 
 export interface SweepBenchResult {
   label: string;

@@ -14,10 +14,10 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { performance } from 'node:perf_hooks';
-import { loadSweep } from '../src/sweep/runSweep.js';
-import { workerScriptUrl } from '../src/sweep/workerPool.js';
+import { loadSweep } from '../src/app/sweep/runSweep.js';
+import { workerScriptUrl } from '../src/app/sweep/workerPool.js';
 import { unitValueEntries } from '../src/scenario/units.js';
-import type { WorkerInit } from '../src/sweep/worker.js';
+import type { WorkerInit } from '../src/app/sweep/worker.js';
 import type { BenchMedian } from './measure.js';
 import { median } from './measure.js';
 

@@ -30,7 +30,7 @@ export { timingSignals } from './physics/timingSignals.js';
 export { ttvAlias, aliasFamily } from './physics/ttvAlias.js';
 export { timingPrecision } from './physics/timingPrecision.js';
 export { forecastDetection } from './physics/detectionForecast.js';
-export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson } from './app/computeLimits.js';
+export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson } from './limits/computeLimits.js';
 
 // Photometry
 export { transitFlux } from './photometry/transitFlux.js';
@@ -54,10 +54,10 @@ export { wilsonInterval } from './timing/falseAlarmCalibration.js';
 export { modelTimingPrecision } from './timing/modelTimingPrecision.js';
 
 // Sweep, report, vet
-export { runSweep, loadSweep, type SweepOptions, type SweepOutcome } from './sweep/runSweep.js';
-export { mergeShards } from './sweep/merge.js';
+export { runSweep, loadSweep, type SweepOptions, type SweepOutcome } from './app/sweep/runSweep.js';
+export { mergeShards } from './app/sweep/merge.js';
 export { runCell } from './sweep/runCell.js';
-export { writeSweepOutputs, CELLS_SCHEMA, RUN_SCHEMA } from './sweep/outputs.js';
+export { writeSweepOutputs, CELLS_SCHEMA, RUN_SCHEMA } from './app/sweep/outputs.js';
 export type { CellTask, CellResult, CellContext, CellRunner } from './sweep/cellTypes.js';
 export { renderSweepReport } from './app/sweepReport.js';
 export { buildSummary, SUMMARY_SCHEMA } from './report/summary.js';

@@ -63,7 +63,7 @@ describe('package.json', () => {
     // npm lists what a pack would hold from `files` (without --ignore-scripts, pack would rebuild dist/ first).
     const out = execFileSync(process.platform === 'win32' ? 'npm.cmd' : 'npm', ['pack', '--dry-run', '--json', '--ignore-scripts'], { cwd: root, encoding: 'utf8' });
     const paths = (JSON.parse(out) as Array<{ files: Array<{ path: string }> }>)[0].files.map((f) => f.path);
-    for (const needed of ['package.json', 'README.md', pkg.bin.moonsieve, pkg.main, pkg.types, 'dist/src/sweep/worker.js', 'dist/src/sweep/runCell.js']) {
+    for (const needed of ['package.json', 'README.md', pkg.bin.moonsieve, pkg.main, pkg.types, 'dist/src/app/sweep/worker.js', 'dist/src/sweep/runCell.js']) {
       expect(paths, needed).toContain(needed);
     }
     const stray = paths.filter((p) => !/^(dist\/src\/.*\.(js|d\.ts)|bin\/[^/]+\.js|schemas\/.*|README\.md|LICENSE|package\.json)$/.test(p) || p.startsWith('dist/src/docs/'));

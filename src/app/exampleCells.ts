@@ -13,7 +13,7 @@ import type { Scenario } from '../scenario/types.js';
 import { createRng } from '../noise/rng.js';
 import { runRealization } from '../timing/realization.js';
 import { lombScargle } from '../timing/lombScargle.js';
-import { computeLimits } from './computeLimits.js';
+import { computeLimits } from '../limits/computeLimits.js';
 import { parseSweepSpec, applyAxisValues } from '../sweep/sweepSpec.js';
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';

@@ -5,7 +5,7 @@
  * & Yokoyama 2006), and the largest moon surviving tidal migration
  * (Barnes & O'Brien 2002).
  */
-import { computeLimits } from './computeLimits.js';
+import { computeLimits } from '../limits/computeLimits.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { PhysicalBoundaries } from '../report/mapFigures.js';
 

@@ -21,7 +21,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
-import { computeLimits, type LimitsJson } from './computeLimits.js';
+import { computeLimits, type LimitsJson } from '../limits/computeLimits.js';
 import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../photometry/transitWindows.js';
 import { InputError } from '../scenario/errors.js';

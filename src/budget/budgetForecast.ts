@@ -7,7 +7,7 @@
  * star, planet and instrument, the TTV/TDV amplitudes only on the moon, so
  * each is computed once and combined for every (value, moon) pair.
  */
-import { computeLimits, type LimitsJson } from '../app/computeLimits.js';
+import { computeLimits, type LimitsJson } from '../limits/computeLimits.js';
 import { forecastDetection } from '../physics/detectionForecast.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';

@@ -5,7 +5,7 @@
  * moons that computeLimits places as 'stable' and whose energy budget is
  * 'temperate' (Kopparapu et al. 2013 limits; see src/physics/habitableZone.ts).
  */
-import { computeLimits, type LimitsJson } from '../app/computeLimits.js';
+import { computeLimits, type LimitsJson } from '../limits/computeLimits.js';
 import { InputError } from '../scenario/errors.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';

@@ -2,7 +2,7 @@
 export { planBudget, evaluationText } from '../app/planBudget.js';
 export { readBudgetFlags, resolveBudgetTarget, type BudgetFlags } from './budgetSpec.js';
 export { formatBudget } from './formatBudget.js';
-export { renderBudgetPage, budgetFigure } from './budgetPage.js';
+export { renderBudgetPage, budgetFigure } from '../report/budgetPage.js';
 export { searchCheapestPassing, type MonotoneSearchOutcome } from './monotoneSearch.js';
 export type {
   BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,

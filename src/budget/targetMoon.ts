@@ -2,7 +2,7 @@
  * Writing a target moon (mass and separation) into a scenario document, with
  * the sweep's field writer, and reading back what the physics says about it.
  */
-import { DEFAULT_MOON_DENSITY_KG_M3, type LimitsJson } from '../app/computeLimits.js';
+import { DEFAULT_MOON_DENSITY_KG_M3, type LimitsJson } from '../limits/computeLimits.js';
 import { meanDensity } from '../physics/rocheLimit.js';
 import { describeValue, InputError, type FieldProblem } from '../scenario/errors.js';
 import { parseQuantity, splitNumberUnit } from '../scenario/units.js';

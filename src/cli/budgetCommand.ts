@@ -4,7 +4,7 @@ import { writeFileAtomic } from '../io/atomicWrite.js';
 import { planBudget } from '../app/planBudget.js';
 import { readBudgetFlags, type BudgetFlags } from '../budget/budgetSpec.js';
 import { formatBudget } from '../budget/formatBudget.js';
-import { renderBudgetPage } from '../budget/budgetPage.js';
+import { renderBudgetPage } from '../report/budgetPage.js';
 import { budgetToJson } from '../budget/budgetJson.js';
 import type { CliIo } from './cliIo.js';
 import { InputError } from '../scenario/errors.js';

@@ -2,7 +2,7 @@
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
-import { computeLimits, limitsToJson, type LimitsJson } from '../app/computeLimits.js';
+import { computeLimits, limitsToJson, type LimitsJson } from '../limits/computeLimits.js';
 import { assertObservable } from '../photometry/transitWindows.js';
 import { AU_M, DAY_S, HOUR_S, M_EARTH_KG } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';

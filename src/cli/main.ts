@@ -14,7 +14,7 @@ import { registerMerge } from './mergeCommand.js';
 import { registerReport } from './reportCommand.js';
 import { registerBudget } from './budgetCommand.js';
 import { registerCalendar } from './calendarCommand.js';
-import { SweepInterruptedError } from '../sweep/interrupted.js';
+import { SweepInterruptedError } from '../app/sweep/interrupted.js';
 import { VERSION } from '../version.js';
 
 import type { CliIo } from './cliIo.js';

@@ -1,6 +1,6 @@
 /** `moonsieve merge DIR...`: join the shard outputs of one sweep into one result, identical to an unsharded run. */
 import type { Command } from 'commander';
-import { mergeShards } from '../sweep/merge.js';
+import { mergeShards } from '../app/sweep/merge.js';
 import type { CliIo } from './cliIo.js';
 
 export function registerMerge(program: Command, io: CliIo): void {

@@ -1,7 +1,7 @@
-/** `moonsieve sweep SCENARIO`: injection–recovery over the scenario's grid (see src/sweep/runSweep.ts). */
+/** `moonsieve sweep SCENARIO`: injection–recovery over the scenario's grid (see src/app/sweep/runSweep.ts). */
 import type { Command } from 'commander';
-import { runSweep } from '../sweep/runSweep.js';
-import { SweepInterruptedError } from '../sweep/interrupted.js';
+import { runSweep } from '../app/sweep/runSweep.js';
+import { SweepInterruptedError } from '../app/sweep/interrupted.js';
 import type { CliIo } from './cliIo.js';
 
 interface SweepCliOptions {

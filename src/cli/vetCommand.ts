@@ -4,7 +4,7 @@ import { writeFileAtomic } from '../io/atomicWrite.js';
 import { loadClaim } from '../vet/loadClaim.js';
 import { vetClaim } from '../vet/vetClaim.js';
 import { formatVetReport } from '../vet/formatVetReport.js';
-import { renderVetPage } from '../vet/vetPage.js';
+import { renderVetPage } from '../report/vetPage.js';
 import { vetToJson } from '../vet/vetJson.js';
 import type { CliIo } from './cliIo.js';
 import { checkOutputFile } from '../io/outputPaths.js';

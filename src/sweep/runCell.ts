@@ -40,7 +40,7 @@
  */
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
-import { computeLimits, moonPlacement, type LimitsJson } from '../app/computeLimits.js';
+import { computeLimits, moonPlacement, type LimitsJson } from '../limits/computeLimits.js';
 import { missingChannelSummary } from '../physics/detectionForecast.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
 import { createRng } from '../noise/rng.js';

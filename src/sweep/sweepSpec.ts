@@ -33,7 +33,7 @@
  * takes the other's); without, the scenario's own timescale is kept (or, when
  * the scenario writes a bare level, the values are bare levels too).
  */
-import { computeLimits } from '../app/computeLimits.js';
+import { computeLimits } from '../limits/computeLimits.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
 import { FieldReader } from '../scenario/fieldReader.js';
 import { parseScenario } from '../scenario/parseScenario.js';

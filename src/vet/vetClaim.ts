@@ -15,7 +15,7 @@
  * Threshold policy: a check fails when even the 2σ bound most favourable to
  * the claim violates the limit, and is in tension when the median does.
  */
-import { computeLimits } from '../app/computeLimits.js';
+import { computeLimits } from '../limits/computeLimits.js';
 import { G, HOUR_S, MINUTE_S, R_EARTH_M } from '../physics/constants.js';
 import { meanDensity, rocheLimit } from '../physics/rocheLimit.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';

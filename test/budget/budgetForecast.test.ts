@@ -13,7 +13,7 @@ import { parse } from 'yaml';
 import { planBudget } from '../../src/app/planBudget.js';
 import { forecastProbability, forecastTransitsNeeded, moonSignal, valuePrecision } from '../../src/budget/budgetForecast.js';
 import { solvedQuantity, GEOMETRIC_STEP, MIN_CADENCE_S } from '../../src/budget/solvedQuantity.js';
-import { computeLimits } from '../../src/app/computeLimits.js';
+import { computeLimits } from '../../src/limits/computeLimits.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { scenarioDurations } from '../../src/photometry/transitWindows.js';
 

@@ -11,9 +11,9 @@ import { describe, it, expect } from 'vitest';
 import { parse } from 'yaml';
 import { readFileSync } from 'node:fs';
 import { planBudget } from '../../src/app/planBudget.js';
-import { renderBudgetPage } from '../../src/budget/budgetPage.js';
+import { renderBudgetPage } from '../../src/report/budgetPage.js';
 import { formatBudget } from '../../src/budget/formatBudget.js';
-import { computeLimits } from '../../src/app/computeLimits.js';
+import { computeLimits } from '../../src/limits/computeLimits.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 
 function doc(moonMass: string, separation = '10 Rp', noise = '30 ppm per 6.5 h', name = 'MC budget test (invented)'): Record<string, unknown> {

@@ -10,8 +10,8 @@ import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { CHECKPOINT_FILE } from '../../src/sweep/checkpoint.js';
-import { LOCK_FILE, NULLSET_DIR } from '../../src/sweep/outputFolder.js';
+import { CHECKPOINT_FILE } from '../../src/app/sweep/checkpoint.js';
+import { LOCK_FILE, NULLSET_DIR } from '../../src/app/sweep/outputFolder.js';
 
 const BIN = resolve('bin/moonsieve.js');
 const SCENARIO = `

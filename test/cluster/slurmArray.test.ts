@@ -38,7 +38,7 @@ import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync
 import { hostname, tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { runSweep } from '../../src/sweep/runSweep.js';
+import { runSweep } from '../../src/app/sweep/runSweep.js';
 
 const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const SCENARIO = join(ROOT, 'test', 'cluster', 'tiny-array.yaml');

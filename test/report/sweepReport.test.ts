@@ -5,7 +5,7 @@
  * Expected values are the report's own contracts (common practice, no source).
  */
 import { describe, it, expect } from 'vitest';
-import { runSweep } from '../../src/sweep/runSweep.js';
+import { runSweep } from '../../src/app/sweep/runSweep.js';
 import { runCell } from '../../src/sweep/runCell.js';
 import { renderSweepReport } from '../../src/app/sweepReport.js';
 import { buildSummary } from '../../src/report/summary.js';

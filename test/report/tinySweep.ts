@@ -7,9 +7,9 @@
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep } from '../../src/sweep/runSweep.js';
+import { runSweep } from '../../src/app/sweep/runSweep.js';
 import { runCell } from '../../src/sweep/runCell.js';
-import { parseCellsJson, type SweepRunInfo } from '../../src/sweep/outputs.js';
+import { parseCellsJson, type SweepRunInfo } from '../../src/app/sweep/outputs.js';
 import type { CellResult, CellContext } from '../../src/sweep/cellTypes.js';
 import type { SweepMeta } from '../../src/sweep/sweepMeta.js';
 

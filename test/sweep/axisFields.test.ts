@@ -13,7 +13,7 @@ import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { createGrid } from '../../src/sweep/grid.js';
 import { HOUR_S, MINUTE_S } from '../../src/physics/constants.js';
-import { computeLimits } from '../../src/app/computeLimits.js';
+import { computeLimits } from '../../src/limits/computeLimits.js';
 
 const WHITE: Record<string, unknown> = {
   name: 'Axis world',

@@ -9,10 +9,10 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { runSweep } from '../../src/sweep/runSweep.js';
-import { mergeShards } from '../../src/sweep/merge.js';
+import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { mergeShards } from '../../src/app/sweep/merge.js';
 import { InputError } from '../../src/scenario/errors.js';
-import { CHECKPOINT_FILE } from '../../src/sweep/checkpoint.js';
+import { CHECKPOINT_FILE } from '../../src/app/sweep/checkpoint.js';
 import type { CellRunner } from '../../src/sweep/cellTypes.js';
 
 const RNG_URL = pathToFileURL(resolve('dist/src/noise/rng.js')).href;

@@ -7,7 +7,7 @@ import { describe, it, expect } from 'vitest';
 import { parse } from 'yaml';
 import { runCell, channelsFor } from '../../src/sweep/runCell.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
-import { computeLimits } from '../../src/app/computeLimits.js';
+import { computeLimits } from '../../src/limits/computeLimits.js';
 import { observeScenario } from '../../src/noise/observe.js';
 import { createRng } from '../../src/noise/rng.js';
 import { recoverTimings } from '../../src/timing/timingSeries.js';

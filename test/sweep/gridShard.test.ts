@@ -7,7 +7,7 @@ import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { createGrid } from '../../src/sweep/grid.js';
 import { parseShard, resolveShard, shardCells, shardFromEnv } from '../../src/sweep/shard.js';
-import { resolveWorkerCount } from '../../src/sweep/workerPool.js';
+import { resolveWorkerCount } from '../../src/app/sweep/workerPool.js';
 import { InputError } from '../../src/scenario/errors.js';
 
 describe('grid', () => {

@@ -10,12 +10,12 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep } from '../../src/sweep/runSweep.js';
-import { mergeShards } from '../../src/sweep/merge.js';
+import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { mergeShards } from '../../src/app/sweep/merge.js';
 import { rewriteSweepReport } from '../../src/app/rewriteReport.js';
 import { InputError } from '../../src/scenario/errors.js';
-import { CHECKPOINT_FILE } from '../../src/sweep/checkpoint.js';
-import { LOCK_FILE, STAGING_DIR, acquireFolderLock, commitOutputs, settleStaging } from '../../src/sweep/outputFolder.js';
+import { CHECKPOINT_FILE } from '../../src/app/sweep/checkpoint.js';
+import { LOCK_FILE, STAGING_DIR, acquireFolderLock, commitOutputs, settleStaging } from '../../src/app/sweep/outputFolder.js';
 import { defaultOutDir } from '../../src/app/defaultOutDir.js';
 import type { CellRunner } from '../../src/sweep/cellTypes.js';
 

@@ -4,7 +4,7 @@
  * Expected numbers are worked by hand ("common practice, no source").
  */
 import { describe, it, expect } from 'vitest';
-import { createProgress, formatDuration } from '../../src/sweep/progress.js';
+import { createProgress, formatDuration } from '../../src/app/sweep/progress.js';
 
 function sink(isTTY: boolean) {
   const chunks: string[] = [];

@@ -8,9 +8,9 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parseSweepSpec, applyAxisValues, spacedValues } from '../../src/sweep/sweepSpec.js';
-import { loadSweep } from '../../src/sweep/runSweep.js';
+import { loadSweep } from '../../src/app/sweep/runSweep.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
-import { computeLimits } from '../../src/app/computeLimits.js';
+import { computeLimits } from '../../src/limits/computeLimits.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { M_EARTH_KG, MINUTE_S } from '../../src/physics/constants.js';
 

@@ -8,7 +8,7 @@ import fc from 'fast-check';
 import { parseClaimText } from '../../src/vet/loadClaim.js';
 import { vetClaim } from '../../src/vet/vetClaim.js';
 import { formatVetReport } from '../../src/vet/formatVetReport.js';
-import { renderVetPage } from '../../src/vet/vetPage.js';
+import { renderVetPage } from '../../src/report/vetPage.js';
 import { nonFinitePaths } from './nonFinite.js';
 
 const logUniform = (lo: number, hi: number) => fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);

@@ -8,17 +8,17 @@ import { existsSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
-import { defaultOutDir } from '../app/defaultOutDir.js';
-import { InputError, type FieldProblem } from '../scenario/errors.js';
-import { VERSION } from '../version.js';
-import type { CellResult } from './cellTypes.js';
+import { defaultOutDir } from '../defaultOutDir.js';
+import { InputError, type FieldProblem } from '../../scenario/errors.js';
+import { VERSION } from '../../version.js';
+import type { CellResult } from '../../sweep/cellTypes.js';
 import { CHECKPOINT_FILE } from './checkpoint.js';
 import { OUTPUT_FILES, parseCellsJson, writeSweepOutputs, type SweepRunInfo } from './outputs.js';
 import { acquireFolderLock, checkFolderOwner, settleForReading, settleStaging } from './outputFolder.js';
-import { capProblems, cellChecker } from './cellChecks.js';
-import { checkOutputDir } from '../io/outputPaths.js';
-import { metaDifferences, type SweepMeta } from './sweepMeta.js';
-import { scenarioHash } from './canonicalJson.js';
+import { capProblems, cellChecker } from '../../sweep/cellChecks.js';
+import { checkOutputDir } from '../../io/outputPaths.js';
+import { metaDifferences, type SweepMeta } from '../../sweep/sweepMeta.js';
+import { scenarioHash } from '../../sweep/canonicalJson.js';
 import { parse as parseYaml } from 'yaml';
 
 export interface MergeOutcome {

@@ -4,10 +4,10 @@
  * the forecast as a line, the Monte Carlo evaluations with their Wilson
  * intervals, the target as a dashed line and the chosen value marked.
  */
-import { escapeHtml } from '../report/escape.js';
-import { renderPlotlyPage, type Figure } from '../report/plotlyPage.js';
-import type { BudgetResult } from './budgetTypes.js';
-import { formatQuantity } from './solvedQuantity.js';
+import { escapeHtml } from './escape.js';
+import { renderPlotlyPage, type Figure } from './plotlyPage.js';
+import type { BudgetResult } from '../budget/budgetTypes.js';
+import { formatQuantity } from '../budget/solvedQuantity.js';
 
 export function budgetFigure(r: BudgetResult): Figure {
   const q = r.quantity;

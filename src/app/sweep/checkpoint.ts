@@ -10,12 +10,12 @@
  */
 import { closeSync, existsSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
 import { basename, join } from 'node:path';
-import { writeFileAtomic } from '../io/atomicWrite.js';
-import { InputError, type FieldProblem } from '../scenario/errors.js';
-import { capProblems, cellChecker } from './cellChecks.js';
-import type { CellResult } from './cellTypes.js';
-import { metaDifferences, type SweepMeta } from './sweepMeta.js';
-import { shardText, type Shard } from './shard.js';
+import { writeFileAtomic } from '../../io/atomicWrite.js';
+import { InputError, type FieldProblem } from '../../scenario/errors.js';
+import { capProblems, cellChecker } from '../../sweep/cellChecks.js';
+import type { CellResult } from '../../sweep/cellTypes.js';
+import { metaDifferences, type SweepMeta } from '../../sweep/sweepMeta.js';
+import { shardText, type Shard } from '../../sweep/shard.js';
 
 export const CHECKPOINT_FILE = 'cells.partial.jsonl';
 const KIND = 'moonsieve-sweep-checkpoint';

@@ -1,6 +1,6 @@
 /** Messages between the sweep's main thread and its worker threads. */
-import type { CellResult } from './cellTypes.js';
-import type { PackedNullRange } from './nullSet.js';
+import type { CellResult } from '../../sweep/cellTypes.js';
+import type { PackedNullRange } from '../../sweep/nullSet.js';
 
 export type ToWorker =
   | { type: 'cell'; index: number }

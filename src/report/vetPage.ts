@@ -4,11 +4,11 @@
  * the periodograms, and the mass–separation plane with the stable band.
  * All user text is escaped (escape.ts; plotlyPage.ts escapes plot text).
  */
-import { escapeHtml } from '../report/escape.js';
-import { renderPlotlyPage, type Figure } from '../report/plotlyPage.js';
+import { escapeHtml } from './escape.js';
+import { renderPlotlyPage, type Figure } from './plotlyPage.js';
 import { M_EARTH_KG } from '../physics/constants.js';
 import { VERSION } from '../version.js';
-import type { VetResult } from './vetTypes.js';
+import type { VetResult } from '../vet/vetTypes.js';
 
 export function renderVetPage(r: VetResult): string {
   const figures: Figure[] = [];

@@ -12,13 +12,13 @@
  * - `run.json`: how this run went (version, hash, seed, workers, shard, times).
  */
 import { commitOutputs } from './outputFolder.js';
-import { toEcsv, type EcsvDatatype, type TableColumn } from '../io/ecsv.js';
+import { toEcsv, type EcsvDatatype, type TableColumn } from '../../io/ecsv.js';
 import { stringify as stringifyYaml } from 'yaml';
-import { buildSummary, renderSummaryJson } from '../report/summary.js';
-import { renderSweepReport } from '../app/sweepReport.js';
-import type { CellResult } from './cellTypes.js';
-import type { SweepMeta, SweepRunInfo } from './sweepMeta.js';
-import type { Shard } from './shard.js';
+import { buildSummary, renderSummaryJson } from '../../report/summary.js';
+import { renderSweepReport } from '../sweepReport.js';
+import type { CellResult } from '../../sweep/cellTypes.js';
+import type { SweepMeta, SweepRunInfo } from '../../sweep/sweepMeta.js';
+import type { Shard } from '../../sweep/shard.js';
 
 export type { SweepRunInfo };
 

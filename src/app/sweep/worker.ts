@@ -1,5 +1,5 @@
 /**
- * Worker-thread entry (runs as compiled JavaScript, dist/src/sweep/worker.js).
+ * Worker-thread entry (runs as compiled JavaScript, dist/src/app/sweep/worker.js).
  * Loads the cell runner module, says `ready`, then runs one cell per `cell`
  * message and posts its result; `stop` ends the thread. With `calibrate`, it
  * also computes chunks of no-moon calibration realizations (`nullChunk`) and
@@ -7,15 +7,15 @@
  * runner, until told to drop them.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import type { CellRunner, CellShared } from './cellTypes.js';
-import { cellTask, prepareJob, runOneCell, type CellJob } from './cellJob.js';
+import type { CellRunner, CellShared } from '../../sweep/cellTypes.js';
+import { cellTask, prepareJob, runOneCell, type CellJob } from '../../sweep/cellJob.js';
 import type { FromWorker, ToWorker } from './workerMessages.js';
-import type { NullSet } from './nullSet.js';
-import { primeUnitValues } from '../scenario/units.js';
+import type { NullSet } from '../../sweep/nullSet.js';
+import { primeUnitValues } from '../../scenario/units.js';
 
 export interface WorkerInit {
   job: CellJob;
-  /** file: URL of the module exporting the runner; default ./runCell.js beside this file. */
+  /** file: URL of the module exporting the runner; default sweep/runCell.js. */
   runnerModule: string | null;
   runnerExport: string;
   /** Take part in the calibration pre-pass (the default runner only). */
@@ -43,14 +43,14 @@ async function start(): Promise<void> {
   if (init.unitValues) primeUnitValues(init.unitValues);
   const post = (m: FromWorker, transfer?: ArrayBuffer[]): void => port.postMessage(m, transfer);
   let runner: CellRunner;
-  let calib: { cells: typeof import('./runCell.js'); sets: typeof import('./nullSet.js') } | null = null;
+  let calib: { cells: typeof import('../../sweep/runCell.js'); sets: typeof import('../../sweep/nullSet.js') } | null = null;
   try {
-    const url = init.runnerModule ?? new URL('./runCell.js', import.meta.url).href;
+    const url = init.runnerModule ?? new URL('../../sweep/runCell.js', import.meta.url).href;
     const mod = (await import(url)) as Record<string, unknown>;
     const fn = mod[init.runnerExport];
     if (typeof fn !== 'function') throw new Error(`${url} has no exported function ${init.runnerExport}`);
     runner = fn as CellRunner;
-    if (init.calibrate) calib = { cells: await import('./runCell.js'), sets: await import('./nullSet.js') };
+    if (init.calibrate) calib = { cells: await import('../../sweep/runCell.js'), sets: await import('../../sweep/nullSet.js') };
   } catch (e) {
     post(describeError(e, -1));
     return;

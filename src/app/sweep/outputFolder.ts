@@ -22,8 +22,8 @@ import {
 } from 'node:fs';
 import { hostname } from 'node:os';
 import { join } from 'node:path';
-import { writeFileAtomic } from '../io/atomicWrite.js';
-import { InputError } from '../scenario/errors.js';
+import { writeFileAtomic } from '../../io/atomicWrite.js';
+import { InputError } from '../../scenario/errors.js';
 
 export const LOCK_FILE = '.moonsieve.lock';
 export const STAGING_DIR = '.moonsieve-staging';

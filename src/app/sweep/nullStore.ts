@@ -16,8 +16,8 @@
 import { createHash } from 'node:crypto';
 import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomic } from '../io/atomicWrite.js';
-import type { PackedNullRange } from './nullSet.js';
+import { writeFileAtomic } from '../../io/atomicWrite.js';
+import type { PackedNullRange } from '../../sweep/nullSet.js';
 
 export interface NullStore {
   /** Stored ranges of class `key` (of `count` realizations), not overlapping, by start. */

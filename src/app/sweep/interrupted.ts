@@ -1,5 +1,5 @@
 /** Thrown by the CLI after a sweep was interrupted (the message is already printed); exit code 130. */
-import { EXIT_INTERRUPTED } from '../app/exitCodes.js';
+import { EXIT_INTERRUPTED } from '../exitCodes.js';
 
 export class SweepInterruptedError extends Error {
   readonly exitCode = EXIT_INTERRUPTED;

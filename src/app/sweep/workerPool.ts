@@ -17,14 +17,14 @@ import { availableParallelism } from 'node:os';
 import { dirname, isAbsolute, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { InputError, type FieldProblem } from '../scenario/errors.js';
-import type { CellResult, CellRunner } from './cellTypes.js';
-import { prepareJob, runOneCell, type CellJob } from './cellJob.js';
+import { InputError, type FieldProblem } from '../../scenario/errors.js';
+import type { CellResult, CellRunner } from '../../sweep/cellTypes.js';
+import { prepareJob, runOneCell, type CellJob } from '../../sweep/cellJob.js';
 import type { WorkerInit } from './worker.js';
 import type { FromWorker, ToWorker } from './workerMessages.js';
-import type { CalibrationClassPlan, CalibrationPlan } from './calibrationPlan.js';
-import { unitValueEntries } from '../scenario/units.js';
-import { joinNullRanges, type PackedNullRange } from './nullSet.js';
+import type { CalibrationClassPlan, CalibrationPlan } from '../../sweep/calibrationPlan.js';
+import { unitValueEntries } from '../../scenario/units.js';
+import { joinNullRanges, type PackedNullRange } from '../../sweep/nullSet.js';
 import type { NullStore } from './nullStore.js';
 
 /** A runner that worker threads load by module: a path or file: URL, and its export (default `runCell`). */
@@ -106,8 +106,8 @@ export function resolveWorkerCount(option: number | string | undefined, env: Rec
 export function workerScriptUrl(): URL {
   const here = fileURLToPath(import.meta.url);
   if (!here.endsWith('.ts')) return new URL('./worker.js', import.meta.url);
-  const root = resolve(dirname(here), '..', '..');
-  const built = join(root, 'dist', 'src', 'sweep', 'worker.js');
+  const root = resolve(dirname(here), '..', '..', '..');
+  const built = join(root, 'dist', 'src', 'app', 'sweep', 'worker.js');
   if (!existsSync(built)) {
     throw new Error(`the sweep workers run compiled JavaScript, and ${built} does not exist: run "npm run build" first`);
   }
