@@ -32,7 +32,7 @@
  * behind the planet (or the planet behind the moon) → the larger disc's flux;
  * either disc off the star → sum of deficits (the lens is off the star too).
  */
-import { gaussLegendreRule } from './gaussLegendre.js';
+import { gaussLegendreRule } from '../numeric/gaussLegendre.js';
 import { fluxKernelAt } from './transitFlux.js';
 
 /** 20-point rule per radial segment (module constant, never mutated). */

@@ -45,7 +45,7 @@
  * against the independent brute-force radial integral in the tests.
  */
 import { cel, celPair } from './bulirschCel.js';
-import { gaussLegendreRule } from './gaussLegendre.js';
+import { gaussLegendreRule } from '../numeric/gaussLegendre.js';
 import { uniformFlux } from './uniformFlux.js';
 
 /** Half-width of the z = p window (stellar radii). */

@@ -52,7 +52,7 @@
  * An absent channel is null, with the reason in `notes`.
  */
 
-import { chiSquareUpperQuantile, noncentralChiSquareSurvival } from '../timing/noncentralChiSquare.js';
+import { chiSquareUpperQuantile, noncentralChiSquareSurvival } from '../numeric/noncentralChiSquare.js';
 
 export interface DetectionForecastInput {
   /** Number of observed transits N (≥ 1; see "Few transits" in the header for N < 3). */

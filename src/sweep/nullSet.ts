@@ -22,7 +22,7 @@ import type { Scenario } from '../scenario/types.js';
 import { createRng } from '../noise/rng.js';
 import { RealizationWorkspace, runRealization } from '../timing/realization.js';
 import type { ResidualStack } from '../timing/residualStack.js';
-import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
+import { chiSquareSurvival } from '../numeric/noncentralChiSquare.js';
 import { canonicalJson } from './canonicalJson.js';
 
 /** A seed distinct from the moon realizations' seed for the same scenario seed. */

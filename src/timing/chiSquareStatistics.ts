@@ -26,7 +26,7 @@
  * transit numbers (integers in practice, any finite reals accepted).
  */
 import { fitLinearEphemeris } from './linearEphemeris.js';
-import { chiSquareSurvival } from './noncentralChiSquare.js';
+import { chiSquareSurvival } from '../numeric/noncentralChiSquare.js';
 
 /** A chi-square excess test: statistic, degrees of freedom and upper-tail p-value. */
 export interface ChiSquareExcess {

@@ -51,7 +51,7 @@ import {
   type TemplateGeometry,
   type TransitTemplate,
 } from './transitTemplate.js';
-import { lowerBound } from './lowerBound.js';
+import { lowerBound } from '../numeric/lowerBound.js';
 import { remembered } from '../memo.js';
 
 export interface LinearEphemerisGuess {

@@ -41,7 +41,7 @@
  *   MNRAS 500, 1851). Only members with period ratio P_B/P_S in
  *   [minRatio, maxRatio] (Hill stability below, Roche limit above) are kept.
  */
-import { lnGamma } from './gammaFunctions.js';
+import { lnGamma } from '../numeric/gammaFunctions.js';
 
 /** Result of a periodogram search. */
 export interface Periodogram {

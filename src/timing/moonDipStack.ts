@@ -35,7 +35,7 @@
  * those residuals under-report the moon. `excludeWithinS` drops points with
  * |t − t_mid| below it (e.g. half the planet's T14), at some cost in SNR.
  */
-import { gaussLegendreRule } from '../photometry/gaussLegendre.js';
+import { gaussLegendreRule } from '../numeric/gaussLegendre.js';
 
 /**
  * Folded OSE profile for a uniform star on a central chord of half-length 1:

@@ -100,7 +100,7 @@
  * t_c outside the search range widened by D/2, is 'failed'.
  */
 import { betaFactor, binSizesForTimescale, type BetaFactorResult } from './betaFactor.js';
-import { lowerBound } from './lowerBound.js';
+import { lowerBound } from '../numeric/lowerBound.js';
 import { invertSymmetricPositive, solveSymmetricPositive } from './globalTransitFit.js';
 import { templateFlux, templateFluxArray, templateFluxDerivatives, templateFluxSlope, type TransitTemplate } from './transitTemplate.js';
 

@@ -10,7 +10,9 @@
  * Zero residuals are skipped. With residuals of one sign only (or none) the
  * number of runs is fixed given n₊ and n₋, so the test says nothing: z and the
  * p-value are then null.
+ * The one-sided p-value is Φ(z), exact (numeric/normal.ts).
  */
+import { normalCdf } from '../numeric/normal.js';
 
 export interface RunsTest {
   runs: number;
@@ -19,22 +21,6 @@ export interface RunsTest {
   z: number | null;
   /** One-sided p-value Pr(Z ≤ z): small when there are too few runs; null when untestable. */
   pValueFewRuns: number | null;
-}
-
-/**
- * Standard normal CDF, Φ(z) = erfc(−z/√2)/2, with the rational-exponential erfc
- * approximation "erfcc" of Press et al. 1992 (Numerical Recipes in C, 2nd ed., §6.2),
- * fractional error below 1.2e-7 everywhere: ample for a p-value.
- */
-function normalCdf(z: number): number {
-  const x = Math.abs(z) / Math.SQRT2;
-  const t = 1 / (1 + 0.5 * x);
-  const y =
-    t *
-    Math.exp(
-      -x * x - 1.26551223 + t * (1.00002368 + t * (0.37409196 + t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
-    );
-  return z >= 0 ? 1 - 0.5 * y : 0.5 * y;
 }
 
 export function runsTest(residuals: ArrayLike<number>): RunsTest {

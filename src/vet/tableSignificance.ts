@@ -11,7 +11,7 @@
  * TTV residuals (runsTest.ts).
  */
 import { jointTimingExcess, tdvExcess, ttvExcess } from '../timing/chiSquareStatistics.js';
-import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
+import { chiSquareSurvival } from '../numeric/noncentralChiSquare.js';
 import type { TimingTable } from './claimTypes.js';
 import { fastPeriodogram } from './fastPeriodogram.js';
 import { runsTest } from './runsTest.js';

@@ -23,7 +23,7 @@ import { createRng, type Rng } from '../noise/rng.js';
 import type { Scenario } from '../scenario/types.js';
 import { quantileSortedType7 } from '../timing/falseAlarmCalibration.js';
 import { aliasFamily } from '../timing/lombScargle.js';
-import { chiSquareSurvival } from '../timing/noncentralChiSquare.js';
+import { chiSquareSurvival } from '../numeric/noncentralChiSquare.js';
 import type { Claim } from './claimTypes.js';
 import { earthMasses, planetRadii, sig3, timeText } from './describe.js';
 import {

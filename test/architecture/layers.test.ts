@@ -59,8 +59,6 @@ export function layerOf(file: string): number {
  * its import is gone.
  */
 const ALLOWED_UPWARD: Record<string, string> = {
-  'physics/detectionForecast.ts -> timing/noncentralChiSquare.ts':
-    "the noncentral chi-square is a special function kept in timing/; moves to numeric/",
   'sky/calendar.ts -> scenario/readSky.ts':
     "the calendar reads the scenario's sky blocks through readSky",
 };

@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { mulberry32 } from '../helpers/mulberry32.js';
 import { forecastDetection } from '../../src/physics/detectionForecast.js';
-import { chiSquareUpperQuantile } from '../../src/timing/noncentralChiSquare.js';
+import { chiSquareUpperQuantile } from '../../src/numeric/noncentralChiSquare.js';
 
 
 /**

@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { lnGamma, regularizedGammaP, regularizedGammaQ } from '../../src/timing/gammaFunctions.js';
+import { lnGamma, regularizedGammaP, regularizedGammaQ } from '../../src/numeric/gammaFunctions.js';
 
 // Reference values: scipy.special.gammaln / gammainc / gammaincc (scipy 1.17.1),
 // generated once by test/fixtures/chiSquare.py into test/fixtures/chiSquare.json.

@@ -8,7 +8,7 @@ import {
   chiSquareQuantile,
   noncentralChiSquareSurvival,
   noncentralChiSquareCdf,
-} from '../../src/timing/noncentralChiSquare.js';
+} from '../../src/numeric/noncentralChiSquare.js';
 
 // Reference values: scipy.stats.ncx2 / chi2 (scipy 1.17.1, Boost.Math), cross-checked in the
 // generator against a 40-digit mpmath Poisson-mixture sum; generated once by

@@ -16,7 +16,7 @@
  *
  * Domain: a > 0, x ≥ 0 (P(a, 0) = 0, Q(a, 0) = 1). Out-of-domain input gives
  * NaN (kernel convention). Accuracy: checked against scipy.special
- * (gammainc / gammaincc / gammaln) in test/timing/gammaFunctions.test.ts.
+ * (gammainc / gammaincc / gammaln) in test/numeric/gammaFunctions.test.ts.
  */
 
 const HALF_LN_TWO_PI = 0.9189385332046727417803297; // ½ ln(2π)

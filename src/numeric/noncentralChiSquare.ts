@@ -18,7 +18,7 @@
  *
  * Kernels: NaN for out-of-domain input (df ≤ 0, λ < 0, x NaN). Accuracy:
  * checked against scipy.stats.chi2 / ncx2 (Boost) for df 1–200 and λ 0–1000
- * in test/timing/noncentralChiSquare.test.ts.
+ * in test/numeric/noncentralChiSquare.test.ts.
  */
 
 import { lnGamma, regularizedGammaP, regularizedGammaQ } from './gammaFunctions.js';

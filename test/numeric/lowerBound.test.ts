@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { lowerBound } from '../../src/timing/lowerBound.js';
+import { lowerBound } from '../../src/numeric/lowerBound.js';
 
 describe('lowerBound', () => {
   it('finds the first index with v[k] ≥ x, within [a, b), against a linear scan (common practice, no source)', () => {
