@@ -16,6 +16,7 @@ import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
 import { cellProbability, gridLayout, num, type GridLayout } from './reportGrid.js';
 import { minDetectable, type MinDetectablePoint } from './minDetectable.js';
+import { medianOfFinite } from '../numeric/quantiles.js';
 
 export const SUMMARY_SCHEMA = 'moonsieve/summary/2';
 
@@ -74,12 +75,6 @@ export interface SweepSummary {
     level_50: MinDetectablePoint[];
     level_90: MinDetectablePoint[];
   } | null;
-}
-
-function median(xs: number[]): number {
-  const v = [...xs].sort((a, b) => a - b);
-  const h = v.length >> 1;
-  return v.length % 2 ? v[h] : 0.5 * (v[h - 1] + v[h]);
 }
 
 function summaryCell(c: CellResult, p: number): SummaryCell {
@@ -188,7 +183,7 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
     probability_field: fo ? 'pdet_forecast_joint' : 'pdet_combined',
     realizations: fo ? null : meta.realizations,
     false_alarm: meta.false_alarm,
-    false_alarm_measured_combined: fa.length ? { min: Math.min(...fa), median: median(fa), max: Math.max(...fa) } : null,
+    false_alarm_measured_combined: fa.length ? { min: Math.min(...fa), median: medianOfFinite(fa), max: Math.max(...fa) } : null,
     cells: sorted.length,
     cells_grid: meta.cells,
     cells_simulated: sorted.filter((c) => c.simulated === true).length,

@@ -56,6 +56,7 @@ import {
   chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
   type NullClass, type NullSet, type PackedNullRange,
 } from './nullSet.js';
+import { medianOfFinite } from '../numeric/quantiles.js';
 
 export { defaultNullRealizations };
 
@@ -153,13 +154,6 @@ function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
   const out = new Float64Array(stack.sum.length);
   for (let k = 0; k < out.length; k++) out[k] = foldedMoonDip((stack.x0S + k * stack.binS) * v, a, b, s.star.u1, s.star.u2, q);
   return out;
-}
-
-function median(xs: number[]): number {
-  const v = xs.filter(Number.isFinite).sort((p, q) => p - q);
-  if (v.length === 0) return NaN;
-  const h = v.length >> 1;
-  return v.length % 2 ? v[h] : 0.5 * (v[h - 1] + v[h]);
 }
 
 /** Fields every cell carries, simulated or not. */
@@ -288,10 +282,10 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
     channels_used: channels.join(' '),
     no_transit_observed: nothingObserved,
     forecast_ttv_outside_interval: disagrees,
-    median_fitted_ttv_rms_s: median(ttvRms),
-    median_fitted_tdv_rms_s: median(tdvRms),
-    median_dip_depth: median(dipDepth),
-    median_transits_fitted: median(fitted),
+    median_fitted_ttv_rms_s: medianOfFinite(ttvRms),
+    median_fitted_tdv_rms_s: medianOfFinite(tdvRms),
+    median_dip_depth: medianOfFinite(dipDepth),
+    median_transits_fitted: medianOfFinite(fitted),
     false_alarm: alpha,
     calibration_limited: limited,
     false_alarm_measured_combined: calibration.measuredCombinedAlpha,

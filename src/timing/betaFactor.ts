@@ -19,6 +19,7 @@
  * every segment's bins gives M large, so β is well determined even when
  * each transit holds only ~20 bins.
  */
+import { medianOfFinite } from '../numeric/quantiles.js';
 
 export interface BetaFactorResult {
   /** Median of β_N over the bin sizes (floored at 1 when asked). */
@@ -65,14 +66,6 @@ export function betaForBinSize(residuals: Float64Array, segmentStarts: Int32Arra
   return { beta: sigmaN / white, bins };
 }
 
-/** Median of the finite values of `v` (NaN if none). */
-function medianFinite(v: Float64Array): number {
-  const f = Array.from(v).filter(Number.isFinite).sort((a, b) => a - b);
-  if (f.length === 0) return NaN;
-  const h = f.length >> 1;
-  return f.length % 2 ? f[h] : 0.5 * (f[h - 1] + f[h]);
-}
-
 /**
  * Bin sizes (points) spanning averaging times from `loS` to `hiS` at the given
  * cadence: every integer from round(loS/cadence) to round(hiS/cadence), at
@@ -117,7 +110,7 @@ export function betaFactor(
     betaPerBin[j] = r.beta;
     binCounts[j] = r.bins;
   }
-  let beta = medianFinite(betaPerBin);
+  let beta = medianOfFinite(betaPerBin);
   if ((opts.floorAtOne ?? true) && !(beta >= 1)) beta = 1;
   return { beta, binSizes: Int32Array.from(binSizes), betaPerBin, binCounts };
 }

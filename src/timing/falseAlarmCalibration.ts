@@ -27,6 +27,7 @@
  * - Wilson 1927 (JASA 22, 209) score interval for k successes in n trials:
  *   centre (k + z²/2)/(n + z²), half-width z·sqrt(k(n − k)/n + z²/4)/(n + z²).
  */
+import { quantileSortedType7 } from '../numeric/quantiles.js';
 
 /** z for a two-sided 95 % interval, Φ⁻¹(0.975) = 1.959963984540054 (scipy.stats.norm.ppf(0.975)). */
 export const Z_95 = 1.959963984540054;
@@ -58,18 +59,8 @@ export function wilsonInterval(k: number, n: number, z: number = Z_95): Proporti
   return { estimate: k / n, lower, upper };
 }
 
-/**
- * Hyndman & Fan 1996 definition-7 quantile of an ascending-sorted sample (precondition in the
- * name: not checked). NaN for an empty sample or p outside [0, 1] (kernel convention).
- */
-export function quantileSortedType7(sorted: Float64Array, p: number): number {
-  const n = sorted.length;
-  if (n === 0 || !(p >= 0 && p <= 1)) return NaN;
-  const h = (n - 1) * p;
-  const j = Math.floor(h);
-  if (j >= n - 1) return sorted[n - 1];
-  return sorted[j] + (h - j) * (sorted[j + 1] - sorted[j]);
-}
+/** Hyndman & Fan 1996 definition-7 quantile of an ascending-sorted sample (numeric/quantiles.ts). */
+export { quantileSortedType7 };
 
 /**
  * Conservative order-statistic threshold x_(k), k = ⌈(n + 1)(1 − α)⌉, of an ascending-sorted

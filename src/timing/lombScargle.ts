@@ -42,6 +42,7 @@
  *   [minRatio, maxRatio] (Hill stability below, Roche limit above) are kept.
  */
 import { lnGamma } from '../numeric/gammaFunctions.js';
+import { goldenSectionMaximum, type ScalarObjective } from '../numeric/goldenSection.js';
 
 /** Result of a periodogram search. */
 export interface Periodogram {
@@ -212,6 +213,18 @@ export function lombScarglePower(
 }
 
 /** γ(N) = sqrt(2/N)·Γ(N/2)/Γ((N − 1)/2) of Baluev 2008 (≈ 1 − 0.75/N). */
+/** The periodogram power at ν, for the golden-section refinement (a class, not a closure: this runs per realization). */
+class PowerAt implements ScalarObjective {
+  constructor(
+    private readonly d: WeightedData,
+    private readonly fit: SineFit,
+  ) {}
+  valueAt(nu: number): number {
+    fitAt(this.d, nu, false, this.fit);
+    return this.fit.power;
+  }
+}
+
 function baluevGamma(nh: number): number {
   return Math.sqrt(2 / nh) * Math.exp(lnGamma(nh / 2) - lnGamma((nh - 1) / 2));
 }
@@ -267,7 +280,6 @@ function weightedVariance(epochs: Float64Array, w: Float64Array): number {
   return v;
 }
 
-const GOLDEN = (Math.sqrt(5) - 1) / 2;
 
 /**
  * Generalised Lomb–Scargle periodogram of `values` (TTVs, any unit) against `epochs` on
@@ -311,32 +323,9 @@ export function lombScargle(
     if (fit.power > power[best]) best = k;
   }
   // Golden-section refinement of the peak within ±step, clipped to (0, ½].
-  let lo = Math.max(frequency[best] - step, 1e-3 * step);
-  let hi = Math.min(frequency[best] + step, maxFrequency);
-  let x1 = hi - GOLDEN * (hi - lo);
-  let x2 = lo + GOLDEN * (hi - lo);
-  fitAt(d, x1, false, fit);
-  let f1 = fit.power;
-  fitAt(d, x2, false, fit);
-  let f2 = fit.power;
-  for (let it = 0; it < 60 && hi - lo > 1e-12 * maxFrequency; it++) {
-    if (f1 >= f2) {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - GOLDEN * (hi - lo);
-      fitAt(d, x1, false, fit);
-      f1 = fit.power;
-    } else {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + GOLDEN * (hi - lo);
-      fitAt(d, x2, false, fit);
-      f2 = fit.power;
-    }
-  }
-  let peakFrequency = f1 >= f2 ? x1 : x2;
+  const lo = Math.max(frequency[best] - step, 1e-3 * step);
+  const hi = Math.min(frequency[best] + step, maxFrequency);
+  let peakFrequency = goldenSectionMaximum(new PowerAt(d, fit), lo, hi, 1e-12 * maxFrequency).x;
   fitAt(d, peakFrequency, true, fit);
   // Keep the grid point when the refinement does not beat it (e.g. the peak sits on the ν = ½ edge).
   if (fit.power <= power[best]) {

@@ -12,6 +12,7 @@
  */
 import { baluevFalseAlarm, lombScarglePower } from '../timing/lombScargle.js';
 import { MAX_DFT_LENGTH, epochTrigSums } from './epochSums.js';
+import { goldenSectionMaximum } from '../numeric/goldenSection.js';
 
 export interface FastPeriodogram {
   frequency: Float64Array;
@@ -21,7 +22,6 @@ export interface FastPeriodogram {
   falseAlarmProbability: number;
 }
 
-const GOLDEN = (Math.sqrt(5) - 1) / 2;
 const EXACT_CANDIDATES = 32;
 
 /**
@@ -117,28 +117,9 @@ export function fastPeriodogram(epochs: Float64Array, values: Float64Array, erro
   });
   // Golden-section refinement of the peak within ±step, clipped to (0, ½] (as lombScargle).
   const at = (nu: number) => exact([nu])[0];
-  let lo = Math.max(frequency[best] - step, 1e-3 * step);
-  let hi = Math.min(frequency[best] + step, maxFrequency);
-  let x1 = hi - GOLDEN * (hi - lo);
-  let x2 = lo + GOLDEN * (hi - lo);
-  let f1 = at(x1);
-  let f2 = at(x2);
-  for (let it = 0; it < 60 && hi - lo > 1e-12 * maxFrequency; it++) {
-    if (f1 >= f2) {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - GOLDEN * (hi - lo);
-      f1 = at(x1);
-    } else {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + GOLDEN * (hi - lo);
-      f2 = at(x2);
-    }
-  }
-  let peakFrequency = f1 >= f2 ? x1 : x2;
+  const lo = Math.max(frequency[best] - step, 1e-3 * step);
+  const hi = Math.min(frequency[best] + step, maxFrequency);
+  let peakFrequency = goldenSectionMaximum({ valueAt: at }, lo, hi, 1e-12 * maxFrequency).x;
   let peakPower = at(peakFrequency);
   if (peakPower <= power[best]) {
     peakFrequency = frequency[best];

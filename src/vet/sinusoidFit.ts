@@ -18,6 +18,7 @@
  */
 import { invertSymmetricPositive } from '../timing/globalTransitFit.js';
 import { MAX_DFT_LENGTH, epochTrigSums } from './epochSums.js';
+import { goldenSectionMaximum, type ScalarObjective } from '../numeric/goldenSection.js';
 
 export type SeriesBase = 'line' | 'const';
 
@@ -295,8 +296,6 @@ function directGridChiSquare(series: readonly TimingSeriesData[], step: number, 
 /** Grid points re-fitted exactly around the FFT minimum (ties within roundoff of yᵀWy). */
 const EXACT_CANDIDATES = 32;
 
-const GOLDEN = (Math.sqrt(5) - 1) / 2;
-
 /**
  * The frequency ν ∈ (0, ½] (cycles per epoch) minimising the summed χ² of the series, each
  * with its own base and sinusoid coefficients. Grid step 1/(oversample·span), then golden section.
@@ -347,27 +346,16 @@ export function bestCommonFrequency(series: readonly TimingSeriesData[], oversam
       }
     }
   }
-  let lo = Math.max(best - step, 0.05 * step);
-  let hi = Math.min(best + step, 0.5);
-  let x1 = hi - GOLDEN * (hi - lo);
-  let x2 = lo + GOLDEN * (hi - lo);
-  let f1 = totalChiSquare(series, x1);
-  let f2 = totalChiSquare(series, x2);
-  for (let it = 0; it < 60 && hi - lo > 1e-10; it++) {
-    if (f1 <= f2) {
-      hi = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = hi - GOLDEN * (hi - lo);
-      f1 = totalChiSquare(series, x1);
-    } else {
-      lo = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = lo + GOLDEN * (hi - lo);
-      f2 = totalChiSquare(series, x2);
-    }
+  const lo = Math.max(best - step, 0.05 * step);
+  const hi = Math.min(best + step, 0.5);
+  const refined = goldenSectionMaximum(new NegatedChiSquare(series), lo, hi, 1e-10);
+  return -refined.value < bestChi ? refined.x : best;
+}
+
+/** −χ²(ν) of the series, for the golden-section search (a maximiser). */
+class NegatedChiSquare implements ScalarObjective {
+  constructor(private readonly series: readonly TimingSeriesData[]) {}
+  valueAt(nu: number): number {
+    return -totalChiSquare(this.series, nu);
   }
-  const refined = f1 <= f2 ? x1 : x2;
-  return Math.min(f1, f2) < bestChi ? refined : best;
 }
