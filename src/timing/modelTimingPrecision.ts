@@ -14,7 +14,7 @@
  * and raises the errors) — both are reported by `limits`.
  */
 import { buildTransitTemplate, templateFluxSlope, type TemplateGeometry } from './transitTemplate.js';
-import { invertSymmetricPositive } from './globalTransitFit.js';
+import { invertSymmetricPositive } from '../numeric/linearAlgebra.js';
 import { remembered } from '../memo.js';
 
 export interface ModelTimingPrecision {

@@ -101,7 +101,7 @@
  */
 import { betaFactor, binSizesForTimescale, type BetaFactorResult } from './betaFactor.js';
 import { lowerBound } from '../numeric/lowerBound.js';
-import { invertSymmetricPositive, solveSymmetricPositive } from './globalTransitFit.js';
+import { invertSymmetricPositive, solveSymmetricPositive } from '../numeric/linearAlgebra.js';
 import { templateFlux, templateFluxArray, templateFluxDerivatives, templateFluxSlope, type TransitTemplate } from './transitTemplate.js';
 
 export type TransitFitStatus = 'ok' | 'skipped-partial' | 'skipped-no-data' | 'failed';

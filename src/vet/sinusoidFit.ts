@@ -16,7 +16,7 @@
  * frequency of once-per-transit sampling), then golden-section refinement
  * around the best grid point (common practice, no source).
  */
-import { invertSymmetricPositive } from '../timing/globalTransitFit.js';
+import { invertSymmetricPositive } from '../numeric/linearAlgebra.js';
 import { MAX_DFT_LENGTH, epochTrigSums } from './epochSums.js';
 import { goldenSectionMaximum, type ScalarObjective } from '../numeric/goldenSection.js';
 
