@@ -15,7 +15,7 @@ import { DAY_S } from '../physics/constants.js';
 import { transitDurations } from '../physics/transitDuration.js';
 import { InputError } from '../scenario/errors.js';
 import type { Scenario, SiteSpec } from '../scenario/types.js';
-import { requireCalendarBlocks } from '../scenario/readSky.js';
+import { requireCalendarBlocks } from '../scenario/requireSky.js';
 import { airmassKastenYoung, altitudeForAirmass } from './airmass.js';
 import { bjdTdbToUtc } from './barycentric.js';
 import { EpochSky } from './skyPosition.js';
