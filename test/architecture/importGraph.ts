@@ -25,21 +25,33 @@ function stripComments(text: string): string {
   return text.replace(/\/\*[\s\S]*?\*\//g, '').replace(/(^|[^:'"`])\/\/.*$/gm, '$1');
 }
 
-export function readImportGraph(srcDir: string): { files: string[]; edges: ImportEdge[] } {
+export interface ImportGraph {
+  files: string[];
+  /** Imports of files under src/. */
+  edges: ImportEdge[];
+  /** Imports of packages and Node built-ins ('node:fs', 'yaml', …), with the specifier in `to`. */
+  packages: ImportEdge[];
+}
+
+export function readImportGraph(srcDir: string): ImportGraph {
   const files = listTs(srcDir, []).map((p) => relative(srcDir, p).split(sep).join('/')).sort();
   const known = new Set(files);
   const edges: ImportEdge[] = [];
+  const packages: ImportEdge[] = [];
   for (const file of files) {
     const text = stripComments(readFileSync(join(srcDir, file), 'utf8'));
     for (const m of text.matchAll(IMPORT_RE)) {
       const spec = m[1] ?? m[2];
-      if (!spec.startsWith('.')) continue; // a package
+      if (!spec.startsWith('.')) {
+        packages.push({ from: file, to: spec });
+        continue;
+      }
       const to = normalize(join(dirname(file), spec)).split(sep).join('/').replace(/\.js$/, '.ts');
       if (!known.has(to)) throw new Error(`${file} imports ${spec}, which is not a file under src/`);
       edges.push({ from: file, to });
     }
   }
-  return { files, edges };
+  return { files, edges, packages };
 }
 
 /** Strongly connected components with more than one file, or a file importing itself (Tarjan 1972, SIAM J. Comput. 1, 146). */
