@@ -32,7 +32,7 @@ export function formatBudget(r: BudgetResult): string {
 
   const rows = new Map<number, string>();
   const ans = r.answer.index;
-  const label = r.habitable ? 'fraction of moons [95 %]' : `Monte Carlo p_${r.channel} [95 %]`;
+  const label = r.habitable ? 'fraction of moons [95 %]' : `Monte Carlo pdet_${r.channel} [95 %]`;
   for (const e of r.evaluations) {
     rows.set(e.index, `  ${(formatQuantity(q, e.value) + (e.index === ans ? '  ◀' : '')).padEnd(26)} ${p3(r.forecast.probability[e.index]).padStart(8)}   ${`${p3(e.probability)} [${p3(e.lower)}, ${p3(e.upper)}]`.padEnd(24)} ${e.passed ? 'reaches' : 'short'}   ${e.seconds.toFixed(1)} s`);
   }

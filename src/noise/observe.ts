@@ -94,9 +94,15 @@ function gapMask(s: Scenario, timeS: Float64Array, epoch: Int32Array, rng: Rng):
 
 /**
  * Correlated noise, on the full (gap-free) grid. A power law needs an even
- * grid: it is generated over each window's contiguous run of samples (at
- * least as long as its stated timescale, then cropped); a damped random walk
- * runs on the time stamps.
+ * grid: each contiguous run of samples (one window, or windows that touch)
+ * gets its own independent realization, generated at least as long as the
+ * stated timescale, so that the rms of means over that timescale is the stated
+ * one (powerLawNoise.ts), and cropped to the run (Timmer & König 1995, A&A
+ * 300, 707, Sect. 3: generate a longer series and cut it). Nothing beyond the
+ * run is kept: the part of a block longer than its window would otherwise be
+ * added to the following windows, raising their variance and correlating them
+ * (issue 17). A damped random walk is stationary and runs on the time stamps
+ * with its exact covariance, so windows days apart are independent draws.
  */
 function addRedNoise(flux: Float64Array, timeS: Float64Array, cadenceS: number, red: RedNoiseSpec, rng: Rng): void {
   if (red.model === 'drw') {
@@ -106,9 +112,10 @@ function addRedNoise(flux: Float64Array, timeS: Float64Array, cadenceS: number, 
   let start = 0;
   for (let i = 1; i <= timeS.length; i++) {
     if (i < timeS.length && Math.abs(timeS[i] - timeS[i - 1] - cadenceS) < 1e-6 * cadenceS) continue;
-    const block = new Float64Array(Math.max(i - start, Math.ceil(red.timescaleS / cadenceS)));
+    const run = i - start;
+    const block = new Float64Array(Math.max(run, Math.ceil(red.timescaleS / cadenceS)));
     powerLawNoise(block, { dtS: cadenceS, beta: red.beta, rmsFraction: red.rmsFraction, timescaleS: red.timescaleS }, rng);
-    for (let k = 0; k < block.length; k++) flux[start + k] += block[k];
+    for (let k = 0; k < run; k++) flux[start + k] += block[k]; // crop to this run
     start = i;
   }
 }
