@@ -16,7 +16,9 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import { InputError, type FieldProblem } from '../scenario/errors.js';
-import { transitDurations } from '../physics/transitDuration.js';
+import { scenarioDurations } from '../physics/transitDuration.js';
+
+export { scenarioDurations };
 
 export interface TransitWindow {
   epoch: number;
@@ -26,18 +28,6 @@ export interface TransitWindow {
   endS: number;
 }
 
-/** Planet-only closed-form durations of the scenario (Winn 2010 eqs. 14–16). */
-export function scenarioDurations(s: Scenario) {
-  return transitDurations({
-    periodS: s.planet.periodS,
-    aOverRstar: s.planet.semiMajorAxisM / s.star.radiusM,
-    radiusRatio: s.planet.radiusM / s.star.radiusM,
-    impactParameter: s.planet.impactParameter,
-    inclinationRad: s.planet.inclinationRad,
-    eccentricity: s.planet.eccentricity,
-    omegaRad: s.planet.omegaRad,
-  });
-}
 
 /**
  * Half-width of the observing window around each conjunction, s: half the

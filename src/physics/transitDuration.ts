@@ -19,6 +19,7 @@
  * gives t14 2.6 s short of the exact 3.00879 h (relative 2.4e-4); other
  * orientations with e ≤ 0.6 at a/R* = 20 err by 1e-5 to 8e-4 (relative).
  */
+import type { Scenario } from '../scenario/types.js';
 
 export interface TransitGeometry {
   /** Orbital period, s. */
@@ -120,4 +121,17 @@ export function transitDurations(g: TransitGeometry): TransitDurations {
   const t14S = winnDuration(periodS, aOverRstar, 1 + p, b, sinI, ecc);
   const t23S = winnDuration(periodS, aOverRstar, 1 - p, b, sinI, ecc);
   return { t14S, t23S, tMidS: 0.5 * (t14S + t23S), ingressS: 0.5 * (t14S - t23S) };
+}
+
+/** Planet-only closed-form durations of the scenario (Winn 2010 eqs. 14–16). */
+export function scenarioDurations(s: Scenario): TransitDurations {
+  return transitDurations({
+    periodS: s.planet.periodS,
+    aOverRstar: s.planet.semiMajorAxisM / s.star.radiusM,
+    radiusRatio: s.planet.radiusM / s.star.radiusM,
+    impactParameter: s.planet.impactParameter,
+    inclinationRad: s.planet.inclinationRad,
+    eccentricity: s.planet.eccentricity,
+    omegaRad: s.planet.omegaRad,
+  });
 }

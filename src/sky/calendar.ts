@@ -12,7 +12,7 @@
  * Pure: a function of the Scenario alone, no files.
  */
 import { DAY_S } from '../physics/constants.js';
-import { transitDurations } from '../physics/transitDuration.js';
+import { scenarioDurations } from '../physics/transitDuration.js';
 import { InputError } from '../scenario/errors.js';
 import type { Scenario, SiteSpec } from '../scenario/types.js';
 import { requireCalendarBlocks } from '../scenario/requireSky.js';
@@ -204,15 +204,7 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
   const sky = s.sky;
   requireCalendarBlocks(sky, source);
   const { target, campaign, constraints, sites } = sky;
-  const dur = transitDurations({
-    periodS: s.planet.periodS,
-    aOverRstar: s.planet.semiMajorAxisM / s.star.radiusM,
-    radiusRatio: s.planet.radiusM / s.star.radiusM,
-    impactParameter: s.planet.impactParameter,
-    inclinationRad: s.planet.inclinationRad,
-    eccentricity: s.planet.eccentricity,
-    omegaRad: s.planet.omegaRad,
-  });
+  const dur = scenarioDurations(s);
   const t14 = dur.t14S;
   if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): a calendar needs a transit' }], source);
   const half = t14 / 2;
