@@ -61,7 +61,7 @@ export function chooseExampleCells(meta: SweepMeta, cells: readonly CellResult[]
 export function cellScenario(scenarioDoc: unknown, cell: CellResult): Scenario {
   const base = parseScenario(scenarioDoc, 'scenario');
   const spec = parseSweepSpec(scenarioDoc, base);
-  return parseScenario(applyAxisValues(scenarioDoc, spec.axes, cell.coords), `cell ${cell.index}`);
+  return parseScenario(applyAxisValues(scenarioDoc, spec.axes, cell.coords), `cell ${cell.index}`, { moonContact: 'label' });
 }
 
 export function computeExampleCell(scenarioDoc: unknown, meta: SweepMeta, cell: CellResult, label: string, probability: number): ExampleCell {

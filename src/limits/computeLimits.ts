@@ -26,7 +26,7 @@ import { templateGeometryFromScenario } from '../timing/transitTemplate.js';
 import { windowHalfWidthS } from '../photometry/transitWindows.js';
 
 /** Why a moon can or cannot be where the scenario puts it. */
-export type PlacementLabel = 'stable' | 'beyond stable limit' | 'inside Roche limit' | 'would not survive tidal migration';
+export type PlacementLabel = 'stable' | 'touches the planet' | 'beyond stable limit' | 'inside Roche limit' | 'would not survive tidal migration';
 
 export interface EnergyBudgetJson {
   stellar_w_m2: number;
@@ -140,6 +140,8 @@ export function moonPlacement(s: Scenario): PlacementLabel[] | null {
 function placementOf(s: Scenario, l: ReturnType<typeof orbitalLimits>): PlacementLabel[] {
   const moon = s.moon!;
   const placement: PlacementLabel[] = [];
+  // Separation ≤ R_P + R_S: the discs overlap, no orbit at all (sweep cells only; a single scenario refuses it).
+  if (moon.touchesPlanet) placement.push('touches the planet');
   if (moon.separationM < l.roche.fluidM) placement.push('inside Roche limit');
   const limit = moon.retrograde ? l.stable.retrograde : l.stable.prograde;
   if (moon.separationM > limit) placement.push('beyond stable limit');
@@ -270,6 +272,9 @@ export function computeLimits(s: Scenario): LimitsJson {
   if (!moon) return out;
 
   const placement = placementOf(s, lim);
+  // A moon whose disc overlaps the planet's (a sweep cell only) has no orbit: its placement is the
+  // answer, and the orbit-based quantities (signals, eclipses, energy budget) stay null.
+  if (moon.touchesPlanet) return { ...out, moon_separation_m: moon.separationM, moon_placement: placement };
 
   const frozen = timingSignals({
     planetMassKg: planet.massKg,

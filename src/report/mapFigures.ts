@@ -197,7 +197,7 @@ function placementTraces(a: Axes2, p: Panel): Array<Record<string, unknown>> {
       }
     }
   }
-  const symbols: Record<string, string> = { 'inside Roche limit': 'x-thin-open', 'beyond stable limit': 'cross-thin-open', 'would not survive tidal migration': 'asterisk-open' };
+  const symbols: Record<string, string> = { 'touches the planet': 'circle-x-open', 'inside Roche limit': 'x-thin-open', 'beyond stable limit': 'cross-thin-open', 'would not survive tidal migration': 'asterisk-open' };
   return [...groups].map(([label, g]) => ({
     type: 'scatter', mode: 'markers', x: g.x, y: g.y, name: `cell: ${label}`,
     marker: { symbol: symbols[label] ?? 'x-thin-open', size: 9, color: '#222', line: { width: 1.5, color: '#222' } },

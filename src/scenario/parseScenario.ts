@@ -53,7 +53,17 @@ export function renamedKeys(raw: unknown, block: string, renames: ReadonlyArray<
   return out;
 }
 
-export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
+/** How `parseScenario` treats a moon whose disc would touch the planet's. */
+export interface ParseOptions {
+  /**
+   * 'error' (the default): an input error, as for any single scenario. 'label': accepted and marked
+   * (`moon.touchesPlanet`), for the cells of a sweep grid, where such a moon is a physical verdict
+   * on that cell ("touches the planet", not simulated) rather than a mistake in the input.
+   */
+  moonContact?: 'error' | 'label';
+}
+
+export function parseScenario(doc: unknown, source = 'scenario', options: ParseOptions = {}): Scenario {
   const problems: FieldProblem[] = [];
   const cautions: ScenarioCaution[] = [];
   const top = new FieldReader(doc, '', problems);
@@ -69,7 +79,7 @@ export function parseScenario(doc: unknown, source = 'scenario'): Scenario {
   if (!top.has('planet')) problems.push({ path: 'planet', value: undefined, allowed: 'required: the transiting planet (mass, radius, period)' });
   const moonRaw = top.raw('moon');
   const planet = readPlanet(planetReader, star, peekMoonMass(moonRaw));
-  const moon = moonRaw === undefined || moonRaw === null ? null : readMoon(new FieldReader(moonRaw, 'moon', problems), star, planet, cautions);
+  const moon = moonRaw === undefined || moonRaw === null ? null : readMoon(new FieldReader(moonRaw, 'moon', problems), star, planet, cautions, options.moonContact === 'label');
   const instrument = readInstrument(new FieldReader(top.raw('instrument'), 'instrument', problems));
   if (!top.has('instrument')) problems.push({ path: 'instrument', value: undefined, allowed: 'required: cadence and noise' });
   const observationReader = new FieldReader(top.raw('observation'), 'observation', problems);
@@ -241,7 +251,7 @@ export function readPlanet(r: FieldReader, star: StarSpec, moonMassKg: number): 
   return planet;
 }
 
-function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: ScenarioCaution[]): MoonSpec {
+function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: ScenarioCaution[], labelContact: boolean): MoonSpec {
   const massKg = r.field('mass');
   let radiusM = Number.NaN;
   if (r.has('radius') && r.has('density')) {
@@ -265,7 +275,8 @@ function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: 
   const albedo = r.field('albedo');
   const k2 = r.field('love_number');
   const tidalQ = r.field('tidal_q');
-  if (Number.isFinite(separationM) && Number.isFinite(radiusM) && separationM <= planet.radiusM + radiusM) {
+  const touches = Number.isFinite(separationM) && Number.isFinite(radiusM) && separationM <= planet.radiusM + radiusM;
+  if (touches && !labelContact) {
     const from = r.has('density') ? ' (the moon radius follows from its mass and density)' : '';
     r.problem('separation', r.raw('separation'),
       `the moon would touch the planet: separation must exceed planet radius + moon radius = ${separationAsWritten(planet.radiusM + radiusM, r.raw('separation'), planet)}${from}`);
@@ -280,7 +291,10 @@ function readMoon(r: FieldReader, star: StarSpec, planet: PlanetSpec, cautions: 
     });
   }
   r.rejectUnknown();
-  return { massKg, radiusM, separationM, eccentricity, inclinationRad, nodeRad, periapsisRad, phaseRad, retrograde, albedo, k2, tidalQ };
+  const moon: MoonSpec = { massKg, radiusM, separationM, eccentricity, inclinationRad, nodeRad, periapsisRad, phaseRad, retrograde, albedo, k2, tidalQ };
+  // Present only when true, so the canonical JSON (and the seeds derived from it) of every other moon is unchanged.
+  if (touches && labelContact) moon.touchesPlanet = true;
+  return moon;
 }
 
 function readSeparation(r: FieldReader, star: StarSpec, planet: PlanetSpec, moonMassKg: number): number {

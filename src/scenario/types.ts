@@ -61,6 +61,8 @@ export interface MoonSpec {
   retrograde: boolean;
   /** Bond albedo (energy budget). */
   albedo: number;
+  /** Set (true) only for a sweep cell whose moon disc would touch the planet's (parseScenario's moonContact: 'label'). */
+  touchesPlanet?: true;
   /** Tidal Love number k2 and quality factor Q of the moon (tidal heating). */
   k2: number;
   tidalQ: number;

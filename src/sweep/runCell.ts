@@ -38,7 +38,7 @@
  * With too few no-moon realizations for that bound ((n + 1)·α/3 < 1) the
  * interpolated (type 7) quantile is used and the cell says `calibration_limited`.
  */
-import { parseScenario } from '../scenario/parseScenario.js';
+import { parseScenario, type ParseOptions } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { computeLimits, moonPlacement, type LimitsJson } from '../limits/computeLimits.js';
 import { missingChannelSummary } from '../physics/detectionForecast.js';
@@ -71,9 +71,14 @@ export function channelsFor(transits: number): DetectionChannel[] {
   return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
 }
 
+/** Grid cells parse a moon that touches its planet as a physical label, not an input error (parseScenario). */
+export const CELL_PARSE: ParseOptions = { moonContact: 'label' };
+
 /** Why a cell is not simulated, or null when it is. */
 function skipReason(s: Scenario, base: CellResult, ctx: CellContext): string | null {
   if (!s.moon) return 'no moon in the scenario';
+  // Overlapping discs have no orbit to simulate, whatever simulate_unstable says.
+  if (s.moon.touchesPlanet) return 'not simulated: touches the planet';
   if (ctx.forecastOnly) return 'forecast only';
   if (!base.allowed && !ctx.simulateUnstable) return `not simulated: ${String(base.placement)}`;
   return null;
@@ -99,7 +104,7 @@ function classOfCell(doc: unknown, s: Scenario, ctx: CellContext): NullClass {
  * without simulate_unstable): the same decision `runCell` makes.
  */
 export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null {
-  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
+  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE);
   if (!s.moon || ctx.forecastOnly) return null;
   // Only the placement decides (skipReason); the rest of computeLimits (the forecast) is not needed here.
   const placement = moonPlacement(s) ?? ['no moon'];
@@ -113,7 +118,7 @@ export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null 
  * empty when the cell can run. Throws the scenario's own InputError for an invalid document.
  */
 export function cellComputeProblems(task: CellTask): FieldProblem[] {
-  return observationSizeProblems(parseScenario(task.scenarioDoc, `cell ${task.index}`));
+  return observationSizeProblems(parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE));
 }
 
 /** Whether `runCell` will simulate this cell (and so needs its null set). */
@@ -126,7 +131,7 @@ export function cellNeedsCalibration(task: CellTask, ctx: CellContext): boolean 
  * packed (the calibration pre-pass runs these chunks on the workers).
  */
 export function nullChunkOf(task: CellTask, ctx: CellContext, start: number, n: number, ws?: RealizationWorkspace): { key: string; range: PackedNullRange } {
-  const c = classOfCell(task.scenarioDoc, parseScenario(task.scenarioDoc, `cell ${task.index}`), ctx);
+  const c = classOfCell(task.scenarioDoc, parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE), ctx);
   return { key: c.key, range: computeNullRange(c, start, n, ws) };
 }
 
@@ -197,7 +202,7 @@ function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, excl
 }
 
 export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared): CellResult => {
-  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`);
+  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE);
   // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
   assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);

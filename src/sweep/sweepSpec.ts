@@ -389,7 +389,8 @@ function checkEndpointsParse(axis: SweepAxis, path: string, doc: unknown, proble
     : [['from', axis.values[0], axis.fromText], ['to', axis.values[axis.values.length - 1], axis.toText]];
   for (const [key, value, text] of ends) {
     try {
-      parseScenario(applyAxisValues(doc, [axis], [value]));
+      // As a grid cell: a moon touching the planet at an end is that cell's label, not an input error.
+      parseScenario(applyAxisValues(doc, [axis], [value]), 'scenario', { moonContact: 'label' });
     } catch (e) {
       if (!(e instanceof InputError)) throw e;
       for (const p of e.problems) {

@@ -39,7 +39,7 @@ import { parseSweepSpec, type SweepSpec } from '../../sweep/sweepSpec.js';
 import { executeCells, resolveWorkerCount, type CalibrationStats, type RunnerModule } from './workerPool.js';
 import { planCalibration } from '../../sweep/calibrationPlan.js';
 import { cellTask, prepareJob, type CellJob } from '../../sweep/cellJob.js';
-import { cellComputeProblems, nullClassOf } from '../../sweep/runCell.js';
+import { CELL_PARSE, cellComputeProblems, nullClassOf } from '../../sweep/runCell.js';
 
 export interface SweepOptions {
   /** Worker threads (default: SLURM_CPUS_PER_TASK when set, else every core). */
@@ -152,7 +152,7 @@ async function validateCells(
         const c = nullClassOf(task, job.ctx);
         classes.set(i, c === null ? null : { key: c.key, count: c.count });
         if (c !== null && c.count > MAX_NULL_REALIZATIONS) {
-          checkNullRealizations(c.count, parseScenario(task.scenarioDoc).detection.falseAlarm, job.ctx.nullRealizations !== undefined);
+          checkNullRealizations(c.count, parseScenario(task.scenarioDoc, `cell ${i}`, CELL_PARSE).detection.falseAlarm, job.ctx.nullRealizations !== undefined);
         }
       }
     } catch (e) {
