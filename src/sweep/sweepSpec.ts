@@ -156,8 +156,43 @@ export function parseSweepSpec(doc: unknown, base: Scenario, source = 'scenario'
       }
     }
   });
+  if (problems.length === 0) resolveLimitWordsOverMasses(axes, axisDocs, prefix, doc, problems, notes, deprecations);
   if (problems.length > 0) throw new InputError(problems, source);
   return { realizations, nullRealizations, simulateUnstable, axes, defaultAxes, notes, deprecations };
+}
+
+/**
+ * A separation axis from `roche` to `stable` crossed with a moon-mass axis: the limits depend on the
+ * moon's mass (the Hill radius through M_P + M_S; the fluid Roche limit through the density when the
+ * radius is fixed), so words resolved with the scenario's own moon would put the end columns outside
+ * the limits of lighter or heavier moons, which are then not simulated (a false upturn of the
+ * minimum detectable mass at the stable edge). Each word is resolved for the lightest and the heaviest
+ * moon of the grid (the limits are monotonic in mass) and the tighter value kept, so the end
+ * columns hold for every mass. Derived here; axes written as lengths or Hill fractions are unchanged.
+ */
+function resolveLimitWordsOverMasses(
+  axes: SweepAxis[], axisDocs: unknown[], prefix: string, doc: unknown, problems: FieldProblem[], notes: string[], deprecations: string[],
+): void {
+  const sepIndex = axes.findIndex((a) => a.field === 'moon.separation');
+  const mass = axes.find((a) => a.field === 'moon.mass');
+  if (sepIndex < 0 || !mass) return;
+  const sep = axes[sepIndex];
+  const words = [sep.fromText, sep.toText].map((t) => t.trim().toLowerCase());
+  if (!words.some((w) => w === 'roche' || w === 'stable')) return;
+  const rawIndex = axisDocs.findIndex((a) => a !== null && typeof a === 'object' && (a as Record<string, unknown>).field === 'moon.separation');
+  if (rawIndex < 0 || (axisDocs[rawIndex] as Record<string, unknown>).values !== undefined) return;
+  const extremes = [Math.min(...mass.values), Math.max(...mass.values)].map((m) => {
+    const base = parseScenario(applyAxisValues(doc, [mass], [m]), 'scenario', { moonContact: 'label' });
+    return readAxis(axisDocs[rawIndex], `${prefix}[${rawIndex}]`, doc, base, problems, [], deprecations);
+  });
+  if (extremes.some((a) => a === null)) return;
+  const [light, heavy] = extremes as SweepAxis[];
+  const pick = (word: string, a: number, b: number): number => (word === 'roche' ? Math.max(a, b) : word === 'stable' ? Math.min(a, b) : a);
+  const from = pick(words[0], light.from, heavy.from);
+  const to = pick(words[1], light.to, heavy.to);
+  if (from === sep.from && to === sep.to) return;
+  axes[sepIndex] = { ...sep, from, to, values: spacedValues(from, to, sep.count, sep.spacing) };
+  notes.push(`moon.separation: "${sep.fromText}" to "${sep.toText}" resolved for the lightest and the heaviest moon of the grid, so that every cell of the end columns lies inside its own limits (${from.toPrecision(4)} to ${to.toPrecision(4)} m)`);
 }
 
 /** Axis fields renamed in this release: old → new (the old name is read, with a note, for one release). */

@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { parseSweepSpec, applyAxisValues, spacedValues } from '../../src/sweep/sweepSpec.js';
 import { loadSweep } from '../../src/app/sweep/runSweep.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
-import { computeLimits } from '../../src/limits/computeLimits.js';
+import { computeLimits, moonPlacement } from '../../src/limits/computeLimits.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { M_EARTH_KG, MINUTE_S } from '../../src/physics/constants.js';
 
@@ -42,7 +42,9 @@ function problems(f: () => unknown): Array<{ path: string; allowed: string }> {
 describe('default sweep', () => {
   it('is moon mass (log, 0.05–2 Mearth) × separation (Roche → stable), 20 × 20, 100 realizations', () => {
     const s = spec(BASE);
-    const lim = computeLimits(parseScenario(BASE));
+    // The limits of the grid's lightest moon (0.05 Mearth): the stable limit grows with M_P + M_S, the
+    // fluid Roche limit does not change with mass at fixed density (sweepSpec.ts, derived there).
+    const lim = computeLimits(parseScenario({ ...BASE, moon: { ...(BASE.moon as object), mass: '0.05 Mearth' } }));
     expect(s.defaultAxes).toBe(true);
     expect(s.realizations).toBe(100);
     expect(s.simulateUnstable).toBe(false);
@@ -53,14 +55,14 @@ describe('default sweep', () => {
     // Ends exact: "0.05 Mearth" is 0.05 × M_EARTH_KG (constants in the test).
     expect(s.axes[0].values[0]).toBe(0.05 * M_EARTH_KG);
     expect(s.axes[0].values[19]).toBe(2 * M_EARTH_KG);
-    // Separation ends from computeLimits of the base scenario.
+    // Separation ends from computeLimits of the lightest moon's scenario.
     expect(s.axes[1].values[0]).toBe(lim.roche_limit_m);
     expect(s.axes[1].values[19]).toBe(lim.stable_max_separation_m);
   });
 
   it('uses the retrograde stable limit for a retrograde moon', () => {
     const doc = { ...BASE, moon: { ...(BASE.moon as object), direction: 'retrograde' } };
-    const lim = computeLimits(parseScenario(doc));
+    const lim = computeLimits(parseScenario({ ...doc, moon: { ...doc.moon, mass: '0.05 Mearth' } }));
     expect(spec(doc).axes[1].to).toBe(lim.stable_max_separation_retrograde_m);
     expect(lim.stable_max_separation_retrograde_m).toBeGreaterThan(lim.stable_max_separation_m);
   });
@@ -210,5 +212,25 @@ describe('axis values written into the scenario', () => {
     expect('sweep' in doc).toBe(false);
     expect((doc.planet as Record<string, unknown>).impact_parameter).toBeUndefined();
     expect(parseScenario(doc).planet.impactParameter).toBeLessThan(1e-12);
+  });
+});
+
+describe('roche and stable against a moon-mass axis', () => {
+  it('every cell of the first and last separation columns lies inside its own limits (no false upturn at the stable edge)', () => {
+    // The demo's failure: "stable" resolved with the scenario's 0.5 Mearth moon put the last column
+    // beyond the (smaller) stable limit of every lighter moon. Checked cell by cell with computeLimits.
+    const doc = { ...BASE, sweep: { axes: [
+      { field: 'moon.mass', from: '0.05 Mearth', to: '3 Mearth', count: 6, spacing: 'log' },
+      { field: 'moon.separation', from: 'roche', to: 'stable', count: 5, spacing: 'linear' },
+    ] } };
+    const s = spec(doc);
+    expect(s.notes.join(' ')).toMatch(/lightest and the heaviest moon/);
+    const seps = s.axes[1].values;
+    for (const m of s.axes[0].values) {
+      for (const sep of [seps[0], seps[seps.length - 1]]) {
+        const cell = parseScenario(applyAxisValues(doc, s.axes, [m, sep]));
+        expect(moonPlacement(cell), `${m} kg at ${sep} m`).toEqual(['stable']);
+      }
+    }
   });
 });
