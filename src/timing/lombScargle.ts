@@ -282,6 +282,27 @@ function weightedVariance(epochs: Float64Array, w: Float64Array): number {
 
 
 /**
+ * The frequency grid of the periodogram, cycles per epoch: `count` points up to the Nyquist
+ * frequency 0.5 of unit-spaced epochs, spaced `step` = 0.5/count with `oversample` points per
+ * 1/span (common practice: oversampling the natural resolution, as discussed by VanderPlas 2018, ApJS 236, 16).
+ * Shared with the vetting's FFT periodogram, which must use exactly this grid.
+ * @throws RangeError when every epoch is the same.
+ */
+export function periodogramGrid(epochs: Float64Array, oversample: number): { maxFrequency: number; count: number; step: number } {
+  let eMin = Infinity;
+  let eMax = -Infinity;
+  for (let i = 0; i < epochs.length; i++) {
+    eMin = Math.min(eMin, epochs[i]);
+    eMax = Math.max(eMax, epochs[i]);
+  }
+  const span = eMax - eMin;
+  if (!(span > 0)) throw new RangeError('epochs must not all be equal');
+  const maxFrequency = 0.5;
+  const count = Math.max(1, Math.ceil(maxFrequency * oversample * span));
+  return { maxFrequency, count, step: maxFrequency / count };
+}
+
+/**
  * Generalised Lomb–Scargle periodogram of `values` (TTVs, any unit) against `epochs` on
  * ν ∈ (0, ½] cycles per epoch, with the refined peak, its sinusoid and its Baluev 2008 FAP.
  * @throws RangeError for N < 4 (Baluev's N_K − 1 ≥ 0), mismatched lengths, non-finite values,
@@ -297,19 +318,8 @@ export function lombScargle(
   if (!(oversample >= 1) || !Number.isFinite(oversample)) {
     throw new RangeError(`oversample must be a finite number ≥ 1, got ${oversample}`);
   }
-  const n = epochs.length;
   const d = prepare(epochs, values, errors);
-  let eMin = Infinity;
-  let eMax = -Infinity;
-  for (let i = 0; i < n; i++) {
-    eMin = Math.min(eMin, epochs[i]);
-    eMax = Math.max(eMax, epochs[i]);
-  }
-  const span = eMax - eMin;
-  if (!(span > 0)) throw new RangeError('epochs must not all be equal');
-  const maxFrequency = 0.5;
-  const count = Math.max(1, Math.ceil(maxFrequency * oversample * span));
-  const step = maxFrequency / count;
+  const { maxFrequency, count, step } = periodogramGrid(epochs, oversample);
   const frequency = new Float64Array(count);
   const power = options.powerOut ?? new Float64Array(count);
   if (power.length < count) throw new RangeError(`powerOut must have length ≥ ${count}, got ${power.length}`);
@@ -332,7 +342,7 @@ export function lombScargle(
     peakFrequency = frequency[best];
     fitAt(d, peakFrequency, true, fit);
   }
-  const fap = baluevFalseAlarm(fit.power, n, maxFrequency, weightedVariance(epochs, d.w));
+  const fap = baluevFalseAlarm(fit.power, epochs.length, maxFrequency, weightedVariance(epochs, d.w));
   return {
     frequency,
     power,

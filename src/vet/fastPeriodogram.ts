@@ -10,7 +10,7 @@
  * golden-section refinement, are evaluated exactly by `lombScarglePower`, so
  * the peak is the one the point-by-point scan finds.
  */
-import { baluevFalseAlarm, lombScarglePower } from '../timing/lombScargle.js';
+import { baluevFalseAlarm, lombScarglePower, periodogramGrid } from '../timing/lombScargle.js';
 import { MAX_DFT_LENGTH, epochTrigSums } from './epochSums.js';
 import { goldenSectionMaximum } from '../numeric/goldenSection.js';
 
@@ -54,18 +54,8 @@ export function fastPeriodogram(epochs: Float64Array, values: Float64Array, erro
   const n = epochs.length;
   const exact = (nus: number[]) => lombScarglePower(epochs, values, errors, Float64Array.from(nus));
   exact([0.25]); // validates the data (throws RangeError like lombScargle)
-  let eMin = Infinity;
-  let eMax = -Infinity;
-  for (let i = 0; i < n; i++) {
-    eMin = Math.min(eMin, epochs[i]);
-    eMax = Math.max(eMax, epochs[i]);
-  }
-  const span = eMax - eMin;
-  if (!(span > 0)) throw new RangeError('epochs must not all be equal');
-  const maxFrequency = 0.5;
-  const count = Math.max(1, Math.ceil(maxFrequency * oversample * span));
+  const { maxFrequency, count, step } = periodogramGrid(epochs, oversample);
   if (2 * count > MAX_DFT_LENGTH) throw new RangeError(`the frequency grid (${count} points) exceeds ${MAX_DFT_LENGTH / 2}`);
-  const step = maxFrequency / count;
   const L = 2 * count; // grid point k (0-based) is ν = (k + 1)/L
   // Normalised weights and centred values (ZK09 §2).
   const w = new Float64Array(n);
