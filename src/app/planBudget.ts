@@ -38,6 +38,8 @@ import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from '../bu
 import { searchCheapestPassing } from '../budget/monotoneSearch.js';
 import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
 import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from '../budget/targetMoon.js';
+import { budgetObservability, siteNote } from '../budget/nightsBudget.js';
+import { SITE_CALENDAR_ONLY } from '../scenario/readSky.js';
 
 /** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
 const COMBINED_CHANNELS = 3;
@@ -124,8 +126,12 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   ctx.notes.push(...(t.deprecations ?? []), ...scenarioNotes(ctx));
   const part = t.habitable ? planPopulation(ctx, clean) : planSingle(ctx, clean, source);
   if (part.evaluations.length > 0) ctx.notes.push(...nullCountNotes(ctx, part.evaluations));
+  // With a site, the count becomes nights, hours on sky and calendar time (src/budget/nightsBudget.ts).
+  const observability = budgetObservability(base, part.answer.reached ? part.answer.transits : null, source);
+  const notes = ctx.notes.map((n) => (n === `site: ${SITE_CALENDAR_ONLY}` ? siteNote(observability) : n));
   return {
     scenario: base.name,
+    observability,
     solve: t.solve,
     channel: t.channel,
     probability_target: t.probability,
@@ -140,8 +146,10 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
     evaluations: part.evaluations,
     answer: part.answer,
     window_per_transit_s: ctx.windowS,
-    notes: ctx.notes,
-    assumptions: assumptions(ctx),
+    notes,
+    assumptions: observability.plan
+      ? assumptions(ctx).map((a) => (a.startsWith('the transits are consecutive') ? 'the Monte Carlo simulates consecutive whole transits, each watched for T14 plus the baselines; the observing calendar below turns that count into the epochs the sky allows, partial ones counted by their timing information' : a))
+      : assumptions(ctx),
     wall_time_s: (performance.now() - t0) / 1000,
   };
 }

@@ -3,6 +3,7 @@
  * All numbers SI (s, m, kg, fractions); keys of the JSON answer are snake_case
  * like the other `--json` outputs.
  */
+import type { Observability } from './nightsBudget.js';
 
 /** What the budget solves for, the rest of the scenario held fixed. */
 /** What a budget solves for; `noise` is the white-noise level (`instrument.noise`; its old name `precision` is read for one release). */
@@ -165,6 +166,8 @@ export interface BudgetTargetMoon {
 
 export interface BudgetResult {
   scenario: string;
+  /** The answer in nights, hours on sky and calendar time when the scenario gives site, target and campaign; else the statement that every transit is assumed whole. */
+  observability: Observability;
   solve: BudgetSolve;
   channel: BudgetChannel;
   probability_target: number;

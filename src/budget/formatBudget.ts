@@ -2,6 +2,7 @@
 import { M_EARTH_KG } from '../physics/constants.js';
 import type { BudgetResult } from './budgetTypes.js';
 import { formatQuantity, pct } from './solvedQuantity.js';
+import { formatObservability } from './formatNights.js';
 
 const p3 = (p: number | null | undefined): string => (p === null || p === undefined || !Number.isFinite(p) ? '—' : p.toFixed(3));
 
@@ -29,6 +30,7 @@ export function formatBudget(r: BudgetResult): string {
   lines.push(`  method     ${r.monte_carlo ? `analytic forecast as the first guess, then a Monte Carlo search: ${r.realizations} moon realizations${r.habitable ? ` for each of ${r.habitable.simulated} moons` : ''} and ${r.no_moon_realizations} no-moon realizations per value, false-alarm ${r.false_alarm} per channel` : 'analytic forecast only (no Monte Carlo)'}`);
   lines.push(`  window     ${(r.window_per_transit_s / 3600).toFixed(2)} h per transit (T14 + 2 × baseline)`);
   lines.push('', 'Answer', `  ${r.answer.statement}`);
+  lines.push(...formatObservability(r.observability));
 
   const rows = new Map<number, string>();
   const ans = r.answer.index;

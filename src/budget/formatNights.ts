@@ -1,0 +1,42 @@
+/** The readable form of a budget's observability: the nights plan (epochs to book, nights, hours, calendar time), or the whole-transit statement. */
+import { HOUR_S } from '../physics/constants.js';
+import type { NightsPlan, Observability } from './nightsBudget.js';
+
+const hm = (iso: string) => iso.slice(5, 16).replace('T', ' ');
+const pc = (x: number | null) => (x === null ? '  -' : `${Math.round(100 * x)}`.padStart(3) + '%');
+const am = (x: number | null) => (x === null ? '-' : x.toFixed(2));
+
+/** The booking table: one line per epoch and site. */
+export function bookingLines(p: NightsPlan): string[] {
+  const siteW = Math.max(4, ...p.bookings.map((b) => b.site.length));
+  const lines = [`  ${'epoch'.padStart(5)}  ${'site'.padEnd(siteW)}  ${'night of'.padEnd(10)}  ${'book (UTC)'.padEnd(23)}  ${'on sky'.padStart(6)}  cover  ingr/egr   equiv  air mass s/m/e   class`];
+  for (const b of p.bookings) {
+    lines.push(
+      `  ${String(b.epoch).padStart(5)}  ${b.site.padEnd(siteW)}  ${b.night.slice(0, 10).padEnd(10)}  ${hm(b.book_start_utc)}–${b.book_end_utc.slice(11, 16)}  ${`${(b.on_sky_s / HOUR_S).toFixed(1)} h`.padStart(6)}  ${pc(b.transit_coverage)}  ${pc(b.ingress_coverage)}/${pc(b.egress_coverage).trim().padEnd(4)}  ${b.whole_equivalent.toFixed(2).padStart(5)}  ${`${am(b.airmass_start)}/${am(b.airmass_middle)}/${am(b.airmass_end)}`.padEnd(15)}  ${b.class}`,
+    );
+  }
+  return lines;
+}
+
+export function formatObservability(o: Observability): string[] {
+  if (!o.plan) return ['', 'Observability', `  ${o.statement}`];
+  const p = o.plan;
+  const lines = ['', `Observing calendar (${p.sites.join(', ')}; clear nights ${Math.round(100 * p.clear_fraction)} % of the time)`, `  ${o.statement}`];
+  if (p.transits_needed !== null && p.needed_length_s !== null) {
+    lines.push(
+      '',
+      `  transits needed         ${p.transits_needed} whole-transit equivalents`,
+      `  epochs to book          ${p.epochs_booked} (${p.expected_whole_equivalent.toFixed(1)} equivalents and ${p.expected_whole_transits.toFixed(1)} whole transits expected after weather)`,
+      `  nights                  ${p.nights}`,
+      `  hours on sky            ${(p.on_sky_s / HOUR_S).toFixed(1)} h (${(p.in_transit_s / HOUR_S).toFixed(1)} h in transit, ${(p.baseline_s / HOUR_S).toFixed(1)} h of baselines)`,
+      `  calendar time           ${(p.needed_length_s / 86400).toFixed(0)} days from ${p.campaign_start_utc.slice(0, 10)}, to ${p.needed_end_utc!.slice(0, 10)}${p.campaign_sufficient ? '' : ' (beyond the campaign as given)'}`,
+      `  chance of the count     ${p.probability_enough === null ? '-' : p.probability_enough.toFixed(2)} with these bookings; ${p.confident_length_s === null ? 'a 90 % chance is not reached' : `90 % after ${(p.confident_length_s / 86400).toFixed(0)} days, to ${p.confident_end_utc!.slice(0, 10)}`}`,
+    );
+  }
+  if (p.bookings.length > 0) lines.push('', '  Epochs to book (first to last contact ± baselines ± 3σ of the ephemeris, where the sky allows):', ...bookingLines(p));
+  lines.push('', `  How partial transits count: ${p.counting_rule}.`);
+  for (const n of p.notes) lines.push(`  note: ${n}`);
+  lines.push('  What the calendar plan leaves out:');
+  for (const a of p.assumptions) lines.push(`    - ${a}`);
+  return lines;
+}
