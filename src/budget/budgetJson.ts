@@ -5,6 +5,7 @@
  * one place that names them for the outside.
  */
 import { HOUR_S } from '../physics/constants.js';
+import { observabilityToJson, type ObservingPlanJson } from './nightsJson.js';
 import type { BudgetAnswer, BudgetChannel, BudgetEvaluation, BudgetForecastCurve, BudgetQuantityInfo, BudgetResult, BudgetSolve, BudgetTargetMoon } from './budgetTypes.js';
 
 export const BUDGET_SCHEMA = 'moonsieve/budget/1';
@@ -100,6 +101,12 @@ export interface BudgetJson {
   evaluations: BudgetEvaluationJson[];
   answer: BudgetAnswerJson;
   window_per_transit_s: number;
+  /** True when the budget has no calendar (no site, target and campaign): every transit is assumed observed whole. */
+  assumes_every_transit_whole: boolean;
+  /** The observability statement: the nights plan in a sentence, or the whole-transit assumption. */
+  observability: string;
+  /** Epochs to book, nights, hours on sky and calendar time (null without site, target and campaign). */
+  observing_plan: ObservingPlanJson | null;
   notes: string[];
   assumptions: string[];
   wall_time_s: number;
@@ -183,6 +190,7 @@ export function budgetToJson(r: BudgetResult): BudgetJson {
     evaluations: r.evaluations.map(evaluation),
     answer: answer(r.answer),
     window_per_transit_s: r.window_per_transit_s,
+    ...observabilityToJson(r.observability),
     notes: r.notes,
     assumptions: r.assumptions,
     wall_time_s: r.wall_time_s,
