@@ -7,8 +7,9 @@
 import { checkScenarioHash, renderSweepPage, type SweepPageInput } from '../report/sweepReport.js';
 import { computeExampleCells } from './exampleCells.js';
 import { physicalBoundaries } from './physicalBoundaries.js';
+import { campaignCalendar } from './campaignCalendar.js';
 
-export interface SweepReportInput extends Omit<SweepPageInput, 'examples' | 'boundaries'> {
+export interface SweepReportInput extends Omit<SweepPageInput, 'examples' | 'boundaries' | 'calendar'> {
   /** Example cells; computed from the scenario when omitted (pass [] for none). */
   examples?: SweepPageInput['examples'];
 }
@@ -20,5 +21,5 @@ export function renderSweepReport(input: SweepReportInput): string {
   const boundaries = physicalBoundaries(scenarioDoc);
   const cells = [...input.cells].sort((a, b) => a.index - b.index);
   const examples = input.examples ?? (scenarioDoc !== null ? computeExampleCells(scenarioDoc, input.meta, cells) : []);
-  return renderSweepPage({ ...input, examples, boundaries });
+  return renderSweepPage({ ...input, examples, boundaries, calendar: campaignCalendar(scenarioDoc) });
 }

@@ -8,6 +8,7 @@ import { escapeHtml } from './escape.js';
 import { renderPlotlyPage, type Figure } from './plotlyPage.js';
 import type { BudgetResult } from '../budget/budgetTypes.js';
 import { formatQuantity } from '../budget/solvedQuantity.js';
+import { calendarSectionHtml, seasonFigure } from './seasonChart.js';
 
 export function budgetFigure(r: BudgetResult): Figure {
   const q = r.quantity;
@@ -62,7 +63,9 @@ export function renderBudgetPage(r: BudgetResult): string {
     `<tr><td>${escapeHtml(formatQuantity(q, e.value))}${e.index === r.answer.index ? ' ◀' : ''}</td><td>${fmt(r.forecast.probability[e.index])}</td><td>${fmt(e.probability)}</td><td>${fmt(e.lower)} – ${fmt(e.upper)}</td><td>${e.passed ? 'reaches' : 'short'}</td><td>${e.seconds.toFixed(1)} s</td></tr>`).join('\n');
   const body = `<h1>${escapeHtml(r.scenario)}: observing budget</h1>
 <p class="${r.answer.reached ? '' : 'caution'}">${escapeHtml(r.answer.statement)}</p>
+${r.observability.plan ? '' : `<p class="caution" id="whole-transits">${escapeHtml(r.observability.statement)}</p>`}
 <div id="budget" class="plot"></div>
+${r.observability.plan ? calendarSectionHtml(r.observability.statement, r.observability.plan, 'Observing calendar: the nights to book') : ''}
 ${rows ? `<h2>Monte Carlo evaluations</h2>
 <table><thead><tr><th>value</th><th>forecast</th><th>${r.habitable ? 'fraction of moons' : 'probability'}</th><th>Wilson 95 %</th><th></th><th>time</th></tr></thead><tbody>
 ${rows}
@@ -72,7 +75,7 @@ ${r.answer.reasons.length ? `<h2>Why not</h2>${list(r.answer.reasons)}` : ''}
 ${r.forecast.why.length ? `<h2>Forecast</h2>${list(r.forecast.why)}` : ''}
 ${r.notes.length ? `<h2>Notes</h2>${list(r.notes)}` : ''}
 <h2>Assumptions</h2>${list(r.assumptions)}`;
-  return renderPlotlyPage({ title: `${r.scenario}: observing budget`, bodyHtml: body, figures: [budgetFigure(r)] });
+  return renderPlotlyPage({ title: `${r.scenario}: observing budget`, bodyHtml: body, figures: [budgetFigure(r), ...(r.observability.plan ? [seasonFigure(r.observability.plan)] : [])] });
 }
 
 function fmt(p: number | null | undefined): string {

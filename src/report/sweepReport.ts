@@ -21,6 +21,8 @@ import { axisDisplay, formatDisplay, formatNumber } from './axisDisplay.js';
 import { MAP_CHANNELS, axisRoles, channelLabel, combinedMeaning } from './reportGrid.js';
 import { parseQuantity } from '../scenario/units.js';
 import { R_EARTH_M, R_JUP_M } from '../physics/constants.js';
+import type { NightsPlan } from '../budget/nightsBudget.js';
+import { calendarSectionHtml, seasonFigure } from './seasonChart.js';
 
 export interface SweepPageInput {
   meta: SweepMeta;
@@ -39,6 +41,8 @@ export interface SweepPageInput {
   boundaries: PhysicalBoundaries | null;
   /** The summary; built with buildSummary(meta, cells) when omitted. */
   summary?: SweepSummary;
+  /** The campaign's calendar (every usable epoch) when the scenario gives site, target and campaign; null or absent otherwise. */
+  calendar?: NightsPlan | null;
 }
 
 /**
@@ -105,7 +109,8 @@ export function renderSweepPage(input: SweepPageInput): string {
   const boundaries = input.boundaries;
   const grid = gridFigures(meta, cells, boundaries, summary);
   const examples = input.examples;
-  const figures: Figure[] = [...grid.figures, ...examples.flatMap((ex, k) => exampleFigures(ex, k))];
+  const calendar = input.calendar ?? null;
+  const figures: Figure[] = [...grid.figures, ...examples.flatMap((ex, k) => exampleFigures(ex, k)), ...(calendar ? [seasonFigure(calendar)] : [])];
   const ids = new Set(grid.figures.map((f) => f.id));
 
   const buttons = MAP_CHANNELS.map((ch) => {
@@ -176,6 +181,7 @@ ${ids.has('mindet') && summary.min_detectable ? `<section id="mindet-section"><h
 <h2>Monte Carlo against the analytic forecast</h2>
 ${mcSection}
 </section>
+${calendar ? calendarSectionHtml(calendar.statement, calendar, 'Observing calendar: the campaign\'s observable transits') : ''}
 <section id="examples">
 <h2>Example cells</h2>
 ${examples.length ? examples.map((ex, k) => exampleSection(ex, k, meta)).join('\n') : `<p>${scenarioDoc === null ? 'Not available without the scenario document.' : 'No cell qualifies (no physically allowed, simulated cell).'}</p>`}

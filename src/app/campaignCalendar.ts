@@ -1,0 +1,18 @@
+/**
+ * The calendar a sweep page shows: every usable epoch of the base scenario's
+ * campaign (src/budget/nightsBudget.ts with no count), when the scenario
+ * gives site, target and campaign; null otherwise.
+ */
+import { nightsPlan, type NightsPlan } from '../budget/nightsBudget.js';
+import { parseScenario } from '../scenario/parseScenario.js';
+
+export function campaignCalendar(scenarioDoc: unknown): NightsPlan | null {
+  if (scenarioDoc === null || scenarioDoc === undefined || typeof scenarioDoc !== 'object') return null;
+  const doc = { ...(scenarioDoc as Record<string, unknown>) };
+  delete doc.sweep;
+  delete doc.budget;
+  const s = parseScenario(doc, 'scenario');
+  const sky = s.sky;
+  if (!sky || sky.sites.length === 0 || !sky.target || !sky.campaign) return null;
+  return nightsPlan(s, null);
+}
