@@ -16,7 +16,8 @@ function run(args: string[]) {
 
 const demoPath = new URL('../../scenarios/demo-calendar.yaml', import.meta.url).pathname;
 const demo = readFileSync(demoPath, 'utf8');
-const observerDemo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).pathname;
+// A scenario without site, target and campaign (the observer demo has them since issue 18, item 7).
+const noSkyDemo = new URL('../../scenarios/demo-survey.yaml', import.meta.url).pathname;
 const dir = mkdtempSync(join(tmpdir(), 'moonsieve-calendar-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 function variant(name: string, from: string, to: string): string {
@@ -60,7 +61,7 @@ describe('moonsieve calendar', () => {
   });
 
   it('names the missing blocks when the scenario has no site, target or campaign', async () => {
-    const r = await run(['calendar', observerDemo]);
+    const r = await run(['calendar', noSkyDemo]);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/site: got \(missing\); required by calendar/);
     expect(r.err).toMatch(/target: got \(missing\); required by calendar/);
@@ -138,7 +139,7 @@ describe('sky blocks of a scenario', () => {
   });
 
   it('leave a scenario without them unchanged (no sky property) and apply the constraint defaults', () => {
-    const plain = parseScenarioText(readFileSync(observerDemo, 'utf8'));
+    const plain = parseScenarioText(readFileSync(noSkyDemo, 'utf8'));
     expect(plain.sky).toBeUndefined();
     expect('sky' in plain).toBe(false);
     const withSite = parseScenarioText(demo.replace('constraints: {sun_altitude: -12 deg, airmass: 2.0, clear_fraction: 0.7}\n', ''));
