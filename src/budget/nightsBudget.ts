@@ -292,8 +292,8 @@ function bookingsOf(e: EpochInfo, s: Scenario): NightBooking[] {
     // The booking window with the ephemeris margin (±3σ), where the sky allows.
     const a = parseUtc(r.row.book_start_utc);
     const b = parseUtc(r.row.book_end_utc);
-    const iv = observableIntervals(new EpochSky(a, b, sky.target!), r.site, a, b, sunLimit, minAlt);
-    if (iv.length === 0) continue;
+    // With the calendar's own stretches: a sliver of a minute or so can fall between the samples of the longer window.
+    const iv = union([...observableIntervals(new EpochSky(a, b, sky.target!), r.site, a, b, sunLimit, minAlt), ...r.iv]);
     const onSky = overlap(iv, a, b);
     const inTransit = overlap(iv, r.t1, r.t4);
     const nights = new Set(iv.map(([x, y]) => nightOf(0.5 * (x + y), r.site.longitudeRad)));
@@ -344,19 +344,21 @@ export function nightsPlan(s: Scenario, needed: number | null, source = 'scenari
   // Extend the calendar forward, a year at a time, until both the expected count and the
   // PLAN_CONFIDENCE chance are reached (or the cap).
   let extendedTo = end;
+  // The scan of the epochs in date order, resumed where it stopped when the calendar grows.
+  let scanned = 0;
+  let cum0 = 0;
+  let expectedAt: number | null = null;
+  let confidentAt: number | null = null;
+  const scanDist = new SumDistribution(needUnits);
   const enough = (list: EpochInfo[]): { expectedAt: number | null; confidentAt: number | null } => {
     if (need === null) return { expectedAt: null, confidentAt: null };
     if (need === 0) return { expectedAt: -1, confidentAt: -1 };
-    let cum = 0;
-    let expectedAt: number | null = null;
-    let confidentAt: number | null = null;
-    const dist = new SumDistribution(needUnits);
-    for (let i = 0; i < list.length; i++) {
-      cum += list[i].expected;
-      dist.add(list[i].outcomes);
-      if (expectedAt === null && cum >= need - 1e-9 && list[i].expected > 0) expectedAt = i;
-      if (confidentAt === null && dist.reached() >= PLAN_CONFIDENCE && list[i].expected > 0) confidentAt = i;
-      if (expectedAt !== null && confidentAt !== null) break;
+    for (; scanned < list.length && (expectedAt === null || confidentAt === null); scanned++) {
+      const e = list[scanned];
+      cum0 += e.expected;
+      if (e.expected > 0) scanDist.add(e.outcomes);
+      if (expectedAt === null && cum0 >= need - 1e-9 && e.expected > 0) expectedAt = scanned;
+      if (confidentAt === null && scanDist.reached() >= PLAN_CONFIDENCE && e.expected > 0) confidentAt = scanned;
     }
     return { expectedAt, confidentAt };
   };
