@@ -13,7 +13,7 @@ import { checkOutputFile } from '../io/outputPaths.js';
 export function registerBudget(program: Command, io: CliIo): void {
   program
     .command('budget')
-    .description('the fewest transits (and telescope hours), or the coarsest cadence / worst white noise, that reach a target detection probability for a target moon (forecast, then Monte Carlo)')
+    .description('the fewest transits (and telescope hours), or the coarsest cadence / worst white noise, that reach a target detection probability for a target moon (forecast, then Monte Carlo); with site, target and campaign blocks also the epochs to book, nights, hours on sky and the calendar time needed at the clear fraction')
     .argument('<scenario>', 'scenario YAML file (an optional budget: block holds the same settings as these options)')
     .option('--moon-mass <mass>', 'target moon mass, e.g. "0.6 Mearth" (default: the scenario\'s moon)')
     .option('--moon-separation <sep>', 'target moon separation: a length, "18 Rp" or "0.2 hill" (default: the scenario\'s moon)')
@@ -32,7 +32,7 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--fraction <f>', 'with --habitable: fraction of the target moons that must reach the probability (default 0.5)')
     .option('--confirm-moons <n>', 'with --habitable: target moons simulated per Monte Carlo evaluation (default 8)')
     .option('--json', 'print the result as JSON (SI units) instead of the table')
-    .option('--html <file>', 'also write a small HTML page: probability against the solved quantity, the chosen value marked')
+    .option('--html <file>', 'also write a small HTML page: probability against the solved quantity, the chosen value marked; with a site, the season chart and the nights to book')
     .option('--quiet', 'no progress lines')
     .action((scenarioPath: string, opts: BudgetFlags & { json?: boolean; html?: string; quiet?: boolean }) => {
       if (opts.html !== undefined) checkOutputFile('--html', opts.html);
