@@ -34,7 +34,7 @@ export function seasonFigure(p: NightsPlan, id = 'season'): Figure {
     id,
     data,
     layout: {
-      title: { text: `Season chart: observable fraction of each transit (Sun below the limit, air mass within it); diamonds: booked` },
+      title: { text: 'Season chart: observable fraction of each transit' },
       xaxis: { title: { text: 'date of mid-transit (UTC)' }, type: 'date' },
       yaxis: { title: { text: 'observable fraction of first-to-last contact' }, range: [-0.03, top] },
       legend: { orientation: 'h', y: -0.25 },
@@ -63,6 +63,7 @@ export function calendarSectionHtml(statement: string, p: NightsPlan, heading: s
 <h2>${escapeHtml(heading)}</h2>
 <p>${escapeHtml(statement)}</p>
 <div id="${id}" class="plot"></div>
+<p class="note">Each point is one transit at one site: the fraction of first to last contact with the Sun below the altitude limit and the target within the air-mass limit. Diamonds: booked; filled: inside the campaign as given; hollow: beyond it (the calendar extended forward).</p>
 <h3>Nights to book</h3>
 ${bookingTableHtml(p)}
 ${p.notes.length ? `<h3>Calendar notes</h3>${list(p.notes)}` : ''}
