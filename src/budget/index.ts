@@ -8,3 +8,5 @@ export type {
   BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,
 } from './budgetTypes.js';
 export { budgetToJson, BUDGET_SCHEMA, type BudgetJson } from './budgetJson.js';
+export { nightsPlan, budgetObservability, rampCoverage, WHOLE_TRANSITS_ASSUMED, type NightsPlan, type NightBooking, type Observability } from './nightsBudget.js';
+export { observingPlanToJson, type ObservingPlanJson } from './nightsJson.js';
