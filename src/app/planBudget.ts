@@ -38,7 +38,7 @@ import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from '../bu
 import { searchCheapestPassing } from '../budget/monotoneSearch.js';
 import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
 import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from '../budget/targetMoon.js';
-import { budgetObservability, siteNote } from '../budget/nightsBudget.js';
+import { budgetObservability, siteNote, wholeToSky } from '../budget/nightsBudget.js';
 import { SITE_CALENDAR_ONLY } from '../scenario/readSky.js';
 
 /** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
@@ -129,6 +129,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   // With a site, the count becomes nights, hours on sky and calendar time (src/budget/nightsBudget.ts).
   const observability = budgetObservability(base, part.answer.reached ? part.answer.transits : null, source);
   const notes = ctx.notes.map((n) => (n === `site: ${SITE_CALENDAR_ONLY}` ? siteNote(observability) : n));
+  const answer = observability.plan && part.answer.reached ? { ...part.answer, statement: `${part.answer.statement} ${wholeToSky(observability.plan)}` } : part.answer;
   return {
     scenario: base.name,
     observability,
@@ -144,7 +145,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
     habitable: part.habitable,
     forecast: part.forecast,
     evaluations: part.evaluations,
-    answer: part.answer,
+    answer,
     window_per_transit_s: ctx.windowS,
     notes,
     assumptions: observability.plan

@@ -18,6 +18,25 @@ export function bookingLines(p: NightsPlan): string[] {
   return lines;
 }
 
+/** Nights, hours on sky and expected whole-transit equivalents per calendar year of the bookings (for a proposal per semester or year). */
+export function perYearLines(p: NightsPlan): string[] {
+  const years = new Map<string, { nights: Set<string>; hours: number; equivalent: number }>();
+  for (const b of p.bookings) {
+    const y = b.night.slice(0, 4);
+    const e = years.get(y) ?? { nights: new Set<string>(), hours: 0, equivalent: 0 };
+    for (const n of b.night.split(', ')) e.nights.add(`${b.site}|${n}`);
+    e.hours += b.on_sky_s / HOUR_S;
+    years.set(y, e);
+  }
+  for (const e of p.epochs) {
+    const y = years.get(e.mid_time_utc.slice(0, 4));
+    if (y && p.bookings.some((b) => b.epoch === e.epoch)) y.equivalent += e.expected_whole_equivalent;
+  }
+  const lines = [`  ${'year'.padEnd(6)}${'nights'.padStart(7)}${'hours on sky'.padStart(14)}${'expected equivalents'.padStart(22)}`];
+  for (const [y, e] of [...years.entries()].sort()) lines.push(`  ${y.padEnd(6)}${String(e.nights.size).padStart(7)}${e.hours.toFixed(1).padStart(14)}${e.equivalent.toFixed(2).padStart(22)}`);
+  return lines;
+}
+
 export function formatObservability(o: Observability): string[] {
   if (!o.plan) return ['', 'Observability', `  ${o.statement}`];
   const p = o.plan;
@@ -33,6 +52,7 @@ export function formatObservability(o: Observability): string[] {
       `  chance of the count     ${p.probability_enough === null ? '-' : p.probability_enough.toFixed(2)} with these bookings; ${p.confident_length_s === null ? 'a 90 % chance is not reached' : `90 % after ${(p.confident_length_s / 86400).toFixed(0)} days, to ${p.confident_end_utc!.slice(0, 10)}`}`,
     );
   }
+  if (p.bookings.length > 0) lines.push('', '  Per year (by the local date of each night):', ...perYearLines(p));
   if (p.bookings.length > 0) lines.push('', '  Epochs to book (first to last contact ± baselines ± 3σ of the ephemeris, where the sky allows):', ...bookingLines(p));
   lines.push('', `  How partial transits count: ${p.counting_rule}.`);
   for (const n of p.notes) lines.push(`  note: ${n}`);

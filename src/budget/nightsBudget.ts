@@ -499,3 +499,10 @@ export function siteNote(o: Observability): string {
     ? 'site: the Monte Carlo simulates whole transits at the noise budget\'s fixed air mass; the site turns the count it needs into the epochs, nights and calendar time below'
     : 'site: given, but without target and campaign no calendar is computed: the budget assumes every transit is observed whole';
 }
+
+/** The sentence after a budget's answer that turns its whole, consecutive transits into what the sky allows. */
+export function wholeToSky(p: NightsPlan): string {
+  const where = p.sites.length === 1 ? p.sites[0] : 'the network';
+  if (p.needed_length_s === null) return `Those hours assume whole, consecutive transits: from ${where} the sky does not allow them (see the observing calendar).`;
+  return `Those hours assume whole, consecutive transits; from ${where} the sky allows them as ${p.epochs_booked} epochs, ${p.nights} nights and ${(p.on_sky_s / HOUR_S).toFixed(1)} h on sky over ${(p.needed_length_s / DAY_S).toFixed(0)} days (the observing calendar below).`;
+}
