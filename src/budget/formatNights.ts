@@ -18,22 +18,37 @@ export function bookingLines(p: NightsPlan): string[] {
   return lines;
 }
 
+/** One calendar year of the bookings (by the local date of each night). */
+export interface YearTotals {
+  year: string;
+  nights: number;
+  on_sky_s: number;
+  expected_whole_equivalent: number;
+}
+
 /** Nights, hours on sky and expected whole-transit equivalents per calendar year of the bookings (for a proposal per semester or year). */
-export function perYearLines(p: NightsPlan): string[] {
-  const years = new Map<string, { nights: Set<string>; hours: number; equivalent: number }>();
+export function perYear(p: NightsPlan): YearTotals[] {
+  const years = new Map<string, { nights: Set<string>; onSky: number; equivalent: number }>();
+  const booked = new Set(p.bookings.map((b) => b.epoch));
+  const expected = new Map(p.epochs.map((e) => [e.epoch, e.expected_whole_equivalent]));
+  const counted = new Set<number>();
   for (const b of p.bookings) {
     const y = b.night.slice(0, 4);
-    const e = years.get(y) ?? { nights: new Set<string>(), hours: 0, equivalent: 0 };
+    const e = years.get(y) ?? { nights: new Set<string>(), onSky: 0, equivalent: 0 };
     for (const n of b.night.split(', ')) e.nights.add(`${b.site}|${n}`);
-    e.hours += b.on_sky_s / HOUR_S;
+    e.onSky += b.on_sky_s;
+    if (booked.has(b.epoch) && !counted.has(b.epoch)) {
+      counted.add(b.epoch);
+      e.equivalent += expected.get(b.epoch) ?? 0;
+    }
     years.set(y, e);
   }
-  for (const e of p.epochs) {
-    const y = years.get(e.mid_time_utc.slice(0, 4));
-    if (y && p.bookings.some((b) => b.epoch === e.epoch)) y.equivalent += e.expected_whole_equivalent;
-  }
+  return [...years.entries()].sort((a, b) => (a[0] < b[0] ? -1 : 1)).map(([year, e]) => ({ year, nights: e.nights.size, on_sky_s: e.onSky, expected_whole_equivalent: e.equivalent }));
+}
+
+export function perYearLines(p: NightsPlan): string[] {
   const lines = [`  ${'year'.padEnd(6)}${'nights'.padStart(7)}${'hours on sky'.padStart(14)}${'expected equivalents'.padStart(22)}`];
-  for (const [y, e] of [...years.entries()].sort()) lines.push(`  ${y.padEnd(6)}${String(e.nights.size).padStart(7)}${e.hours.toFixed(1).padStart(14)}${e.equivalent.toFixed(2).padStart(22)}`);
+  for (const y of perYear(p)) lines.push(`  ${y.year.padEnd(6)}${String(y.nights).padStart(7)}${(y.on_sky_s / HOUR_S).toFixed(1).padStart(14)}${y.expected_whole_equivalent.toFixed(2).padStart(22)}`);
   return lines;
 }
 

@@ -7,6 +7,7 @@
 import type { NightsPlan } from '../budget/nightsBudget.js';
 import { escapeHtml } from './escape.js';
 import type { Figure } from './plotlyPage.js';
+import { perYear } from '../budget/formatNights.js';
 
 const COLOURS = ['#1f77b4', '#d62728', '#2ca02c', '#9467bd', '#8c564b', '#e377c2'];
 
@@ -56,6 +57,15 @@ ${rows}
 <p class="note">Totals: ${p.epochs_booked} epochs, ${p.nights} nights, ${(p.on_sky_s / 3600).toFixed(1)} h on sky (${(p.in_transit_s / 3600).toFixed(1)} h in transit, ${(p.baseline_s / 3600).toFixed(1)} h of baselines). ${escapeHtml(p.counting_rule.charAt(0).toUpperCase() + p.counting_rule.slice(1))}.</p>`;
 }
 
+/** Nights, hours on sky and expected equivalents per year of the bookings. */
+export function perYearTableHtml(p: NightsPlan): string {
+  const rows = perYear(p);
+  if (rows.length === 0) return '';
+  return `<table class="per-year"><thead><tr><th>year</th><th>nights</th><th>hours on sky</th><th>expected whole-transit equivalents</th></tr></thead><tbody>
+${rows.map((y) => `<tr><td>${escapeHtml(y.year)}</td><td>${y.nights}</td><td>${(y.on_sky_s / 3600).toFixed(1)} h</td><td>${y.expected_whole_equivalent.toFixed(2)}</td></tr>`).join('\n')}
+</tbody></table>`;
+}
+
 /** The calendar section of a page: statement, season chart, booking table, notes and what the plan leaves out. */
 export function calendarSectionHtml(statement: string, p: NightsPlan, heading: string, id = 'season'): string {
   const list = (xs: string[]) => (xs.length ? `<ul>${xs.map((x) => `<li>${escapeHtml(x)}</li>`).join('')}</ul>` : '');
@@ -65,6 +75,7 @@ export function calendarSectionHtml(statement: string, p: NightsPlan, heading: s
 <div id="${id}" class="plot"></div>
 <p class="note">Each point is one transit at one site: the fraction of first to last contact with the Sun below the altitude limit and the target within the air-mass limit. Diamonds: booked; filled: inside the campaign as given; hollow: beyond it (the calendar extended forward).</p>
 <h3>Nights to book</h3>
+${perYearTableHtml(p)}
 ${bookingTableHtml(p)}
 ${p.notes.length ? `<h3>Calendar notes</h3>${list(p.notes)}` : ''}
 <h3>What the calendar plan leaves out</h3>${list(p.assumptions)}

@@ -17,6 +17,7 @@ import { utcSFromDate } from '../../src/sky/timeScales.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { planBudget } from '../../src/app/planBudget.js';
 import { formatBudget } from '../../src/budget/formatBudget.js';
+import { perYear } from '../../src/budget/formatNights.js';
 import { budgetToJson } from '../../src/budget/budgetJson.js';
 import { renderBudgetPage } from '../../src/report/budgetPage.js';
 import { loadSchema, schemaProblems } from '../helpers/jsonSchema.js';
@@ -49,6 +50,11 @@ describe('nightsPlan', () => {
     expect(plan.on_sky_s).toBeCloseTo(plan.bookings.reduce((x, b) => x + b.on_sky_s, 0), 6);
     expect(plan.baseline_s).toBeCloseTo(plan.on_sky_s - plan.in_transit_s, 6);
     expect(plan.nights).toBe(new Set(plan.bookings.map((b) => b.night)).size);
+    // The per-year totals add up to the plan's (common practice, no source).
+    const years = perYear(plan);
+    expect(years.reduce((x, y) => x + y.nights, 0)).toBe(plan.nights);
+    expect(years.reduce((x, y) => x + y.on_sky_s, 0)).toBeCloseTo(plan.on_sky_s, 6);
+    expect(years.reduce((x, y) => x + y.expected_whole_equivalent, 0)).toBeCloseTo(plan.expected_whole_equivalent, 9);
   });
 
   it('checks each booked window against an independent point-by-point sky: Sun below −12° and air mass ≤ 2 at its ends (astronomy-engine point functions, not EpochSky)', () => {
