@@ -61,9 +61,11 @@ ${rows}
 export function perYearTableHtml(p: NightsPlan): string {
   const rows = perYear(p);
   if (rows.length === 0) return '';
-  return `<table class="per-year"><thead><tr><th>year</th><th>nights</th><th>hours on sky</th><th>expected whole-transit equivalents</th></tr></thead><tbody>
+  return `<p>Per year, by the local date of each night:</p>
+<table class="per-year"><thead><tr><th>year</th><th>nights</th><th>hours on sky</th><th>expected whole-transit equivalents</th></tr></thead><tbody>
 ${rows.map((y) => `<tr><td>${escapeHtml(y.year)}</td><td>${y.nights}</td><td>${(y.on_sky_s / 3600).toFixed(1)} h</td><td>${y.expected_whole_equivalent.toFixed(2)}</td></tr>`).join('\n')}
-</tbody></table>`;
+</tbody></table>
+<p>Each booking:</p>`;
 }
 
 /** The calendar section of a page: statement, season chart, booking table, notes and what the plan leaves out. */
