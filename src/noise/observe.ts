@@ -43,6 +43,8 @@ export interface Observation {
   sigmaPoint: Float64Array | null;
   /** With a campaign: each point's site (index in `scenario.sky.sites`); else null. */
   site: Int32Array | null;
+  /** Ephemeris epoch (t0 + nP) of epoch 0 and of time 0: the campaign's first transit, else 0. */
+  firstEpoch: number;
   lightCurve: LightCurveModel;
 }
 
@@ -63,9 +65,9 @@ export function observeScenario(s: Scenario, rng: Rng | null, ws: LightCurveWork
     addInto(fullFlux, noise);
   }
   if (rng !== null && s.instrument.redNoise) addRedNoise(fullFlux, grid.timeS, s.instrument.cadenceS, s.instrument.redNoise, rng);
-  if (rng === null) return { windows, timeS: grid.timeS, epoch: grid.epoch, model: full, flux: fullFlux, sigma, sigmaPoint: null, site: null, lightCurve: lc };
+  if (rng === null) return { windows, timeS: grid.timeS, epoch: grid.epoch, model: full, flux: fullFlux, sigma, sigmaPoint: null, site: null, firstEpoch: 0, lightCurve: lc };
   const keep = gapMask(s, grid.timeS, grid.epoch, rng);
-  return { windows, ...subset(keep, grid.timeS, grid.epoch, full, fullFlux), sigma, sigmaPoint: null, site: null, lightCurve: lc };
+  return { windows, ...subset(keep, grid.timeS, grid.epoch, full, fullFlux), sigma, sigmaPoint: null, site: null, firstEpoch: 0, lightCurve: lc };
 }
 
 /** Root mean square of the values. */
@@ -94,7 +96,7 @@ function observeCampaign(s: Scenario, plan: ObservingPlan, rng: Rng | null, ws: 
   const fullFlux = Float64Array.from(full);
   const nEpochs = { ...s, observation: { ...s.observation, transits: plan.epochs } };
   if (rng === null) {
-    return { windows, timeS: plan.timeS, epoch: plan.epoch, model: full, flux: fullFlux, sigma: sigmaRms, sigmaPoint: plan.sigma, site: plan.site, lightCurve: lc };
+    return { windows, timeS: plan.timeS, epoch: plan.epoch, model: full, flux: fullFlux, sigma: sigmaRms, sigmaPoint: plan.sigma, site: plan.site, firstEpoch: plan.firstEpoch, lightCurve: lc };
   }
   if (sigmaRms > 0) {
     const noise = new Float64Array(fullFlux.length);
@@ -119,7 +121,7 @@ function observeCampaign(s: Scenario, plan: ObservingPlan, rng: Rng | null, ws: 
   const kept = subset(keep, plan.timeS, plan.epoch, full, fullFlux);
   const sigmaPoint = keep === null ? plan.sigma : pick(keep, plan.sigma);
   const site = keep === null ? plan.site : pickInt(keep, plan.site);
-  return { windows, ...kept, sigma: sigmaRms, sigmaPoint, site, lightCurve: lc };
+  return { windows, ...kept, sigma: sigmaRms, sigmaPoint, site, firstEpoch: plan.firstEpoch, lightCurve: lc };
 }
 
 function pick(keep: Uint8Array, x: Float64Array): Float64Array {
