@@ -39,7 +39,7 @@ export interface Observation {
   flux: Float64Array;
   /** White-noise standard deviation (relative flux): every point's, or with a campaign the rms of `sigmaPoint`. */
   sigma: number;
-  /** With a campaign: each point's own white-noise standard deviation (its air mass and site); else null. */
+  /** With a campaign and a ground budget: each point's own white-noise standard deviation (its air mass and site); else null (every point has `sigma`). */
   sigmaPoint: Float64Array | null;
   /** With a campaign: each point's site (index in `scenario.sky.sites`); else null. */
   site: Int32Array | null;
@@ -96,12 +96,16 @@ function observeCampaign(s: Scenario, plan: ObservingPlan, rng: Rng | null, ws: 
   const fullFlux = Float64Array.from(full);
   const nEpochs = { ...s, observation: { ...s.observation, transits: plan.epochs } };
   if (rng === null) {
-    return { windows, timeS: plan.timeS, epoch: plan.epoch, model: full, flux: fullFlux, sigma: sigmaRms, sigmaPoint: plan.sigma, site: plan.site, firstEpoch: plan.firstEpoch, lightCurve: lc };
+    return { windows, timeS: plan.timeS, epoch: plan.epoch, model: full, flux: fullFlux, sigma: sigmaRms, sigmaPoint: plan.sigmaVaries ? plan.sigma : null, site: plan.site, firstEpoch: plan.firstEpoch, lightCurve: lc };
   }
   if (sigmaRms > 0) {
     const noise = new Float64Array(fullFlux.length);
-    rng.fillNormal(noise, 1);
-    multiplyInto(noise, plan.sigma);
+    if (plan.sigmaVaries) {
+      rng.fillNormal(noise, 1);
+      multiplyInto(noise, plan.sigma);
+    } else {
+      rng.fillNormal(noise, sigmaRms);
+    }
     addInto(fullFlux, noise);
   }
   if (s.instrument.redNoise) {
@@ -119,7 +123,7 @@ function observeCampaign(s: Scenario, plan: ObservingPlan, rng: Rng | null, ws: 
     for (let i = 0; i < keep.length; i++) if (!clearNight[plan.night[i]]) keep[i] = 0;
   }
   const kept = subset(keep, plan.timeS, plan.epoch, full, fullFlux);
-  const sigmaPoint = keep === null ? plan.sigma : pick(keep, plan.sigma);
+  const sigmaPoint = !plan.sigmaVaries ? null : keep === null ? plan.sigma : pick(keep, plan.sigma);
   const site = keep === null ? plan.site : pickInt(keep, plan.site);
   return { windows, ...kept, sigma: sigmaRms, sigmaPoint, site, firstEpoch: plan.firstEpoch, lightCurve: lc };
 }

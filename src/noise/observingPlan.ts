@@ -54,6 +54,8 @@ export interface ObservingPlan {
   airmass: Float64Array;
   /** White noise per exposure (relative flux). */
   sigma: Float64Array;
+  /** Whether `sigma` differs between exposures (a ground budget); false for a stated noise level. */
+  sigmaVaries: boolean;
   /** Observable transit epochs per site (at least one exposure between first and last contact). */
   transitsSeenPerSite: number[];
 }
@@ -136,6 +138,7 @@ function computePlan(s: Scenario): ObservingPlan {
     nights: 0,
     airmass: new Float64Array(n),
     sigma: new Float64Array(n),
+    sigmaVaries: false,
     transitsSeenPerSite: seen,
   };
   const nightIndex = new Map<string, number>();
@@ -153,5 +156,6 @@ function computePlan(s: Scenario): ObservingPlan {
     plan.night[i] = idx;
   });
   plan.nights = nightIndex.size;
+  for (let i = 1; i < n && !plan.sigmaVaries; i++) if (plan.sigma[i] !== plan.sigma[0]) plan.sigmaVaries = true;
   return plan;
 }
