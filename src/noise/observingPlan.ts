@@ -71,8 +71,11 @@ const PLAN_MEMO_SIZE = 4;
 /** The observing plan of a scenario with site, target and campaign (see the file header); null without them. */
 export function observingPlan(s: Scenario): ObservingPlan | null {
   if (!hasCampaign(s)) return null;
-  // Not observation.transits: the campaign decides the epochs (withCampaignEpochs), so both forms share one plan.
-  const key = JSON.stringify([s.sky, s.star, s.planet, { ...s.observation, transits: 0, durationS: null }, s.instrument]);
+  // Every input of computePlan (the transit's shape: scenarioDurations' arguments); not
+  // observation.transits: the campaign decides the epochs, so both forms share one plan.
+  const p = s.planet;
+  const i = s.instrument;
+  const key = `${JSON.stringify(s.sky)}|${p.periodS},${p.semiMajorAxisM},${s.star.radiusM},${p.radiusM},${p.impactParameter},${p.inclinationRad},${p.eccentricity},${p.omegaRad}|${s.observation.t0BjdTdb},${s.observation.baselineS}|${i.cadenceS},${i.exposureS},${i.noiseFraction},${i.noiseTimescaleS}|${JSON.stringify(i.ground)}`;
   return remembered(PLAN_MEMO, PLAN_MEMO_SIZE, key, () => computePlan(s));
 }
 
