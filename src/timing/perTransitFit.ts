@@ -786,18 +786,24 @@ export function fitOneTransit(
   }
 
   // 2. Levenberg–Marquardt.
-  const fit = levenbergMarquardt(win, sigma, bestTc, fitBaseline, fitDuration, pointSigma, opts.maxIterations ?? 50, w);
+  let fit = levenbergMarquardt(win, sigma, bestTc, fitBaseline, fitDuration, pointSigma, opts.maxIterations ?? 50, w);
+  let contacts: TransitContacts = pred.contacts;
+  let cov = ruleAtFit(fit);
+  // Both contacts at the prediction, one at the fitted mid-time (a contact near the sample threshold):
+  // fitted again from that contact alone, with the duration held.
+  if (fitDuration && cov.contacts !== null && cov.contacts !== 'both') {
+    contacts = cov.contacts;
+    fit = levenbergMarquardt(win, sigma, bestTc, fitBaseline, false, pointSigma, opts.maxIterations ?? 50, w);
+    cov = ruleAtFit(fit);
+  }
   const finite = Number.isFinite(fit.tc) && Number.isFinite(fit.s) && Number.isFinite(fit.cov[0]);
   const sane = finite && fit.s >= 0.5 && fit.s <= 2 && Math.abs(fit.tc - tcPredS) <= half + 0.5 * T14;
-  // 3. Partial-transit rule at the fitted (or predicted) position.
-  const cov = sane && fit.converged
-    ? checkCoverage(timeS, order, i0, i1, fit.tc, fit.s * T14, fit.s * ingress, opts.cadenceS)
-    : pred;
   if (cov.contacts === null) return empty(cov.nIn === 0 ? 'skipped-no-data' : 'skipped-partial', cov.reason);
-  // A fit of both contacts needs both at the fitted position too; a one-contact fit needs its contact.
-  if (fitDuration ? cov.contacts !== 'both' : cov.contacts !== 'both' && cov.contacts !== pred.contacts) {
-    return empty('skipped-partial', `the contacts observed at the fitted mid-time (${cov.contacts.replace('_', ' ')}) are not those at the prediction (${pred.contacts.replace('_', ' ')})`);
+  // The contact a one-contact fit used must still be observed at the fitted mid-time.
+  if (contacts !== 'both' && cov.contacts !== 'both' && cov.contacts !== contacts) {
+    return empty('skipped-partial', `the contact observed at the fitted mid-time (${cov.contacts.replace('_', ' ')}) is not the one fitted (${contacts.replace('_', ' ')})`);
   }
+  if (contacts === 'both' && cov.contacts !== 'both') return empty('skipped-partial', 'both contacts observed at the prediction, not at the fitted mid-time');
   if (!fit.converged) return empty('failed', 'Levenberg–Marquardt did not converge');
   if (!sane) return empty('failed', `fit left the allowed range (s = ${fit.s.toPrecision(4)}, tc − predicted = ${(fit.tc - tcPredS).toPrecision(4)} s)`);
   return {
@@ -811,8 +817,14 @@ export function fitOneTransit(
     nPoints,
     status: 'ok',
     reason: '',
-    contacts: pred.contacts,
+    contacts,
   };
+
+  /** 3. The partial-transit rule at the fitted position (at the prediction when the fit failed or left its range). */
+  function ruleAtFit(f: RawFit): CoverageVerdict {
+    const ok = Number.isFinite(f.tc) && Number.isFinite(f.s) && Number.isFinite(f.cov[0]) && f.s >= 0.5 && f.s <= 2 && Math.abs(f.tc - tcPredS) <= half + 0.5 * T14;
+    return ok && f.converged ? checkCoverage(timeS, order, i0, i1, f.tc, f.s * T14, f.s * ingress, opts.cadenceS) : pred;
+  }
 }
 
 /**
