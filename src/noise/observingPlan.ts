@@ -21,6 +21,18 @@
  * it once per class of cells: it is remembered (memo.ts) under the JSON of
  * the fields it reads; the result is never written to.
  *
+ * Space instruments: the calendar (sky/calendar.ts) has no periodic
+ * visibility pattern yet (on for a stated time, off for a stated time, as
+ * for a low orbit, and observing blocks), so a plan exists only for ground
+ * sites; a space scenario without site keeps every transit window whole
+ * (observation.duty_cycle and missed_fraction approximate such losses as
+ * random gaps). To add: the pattern in the calendar, then its stretches here.
+ *
+ * Left out (what the model does not know): one extinction coefficient per
+ * band (groundAirmass.ts), no Moon or sky-brightness change over the night,
+ * the same telescope and throughput at every site, nights clear or lost
+ * whole (no partial clouds), no meridian flip or pointing limits.
+ *
  * Weather: each (site, night) is clear with probability
  * `constraints.clear_fraction`, independently; a night runs from local mean
  * noon to noon (longitude / 15° h from Greenwich), so a transit across
