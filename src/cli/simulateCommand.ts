@@ -60,7 +60,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
         io.out(`  note: the baseline reaches past half the period, so the windows are cut at the midpoints between conjunctions (each time stamp once, a continuous light curve there)\n`);
       }
       if (sim.recovery.noTransitObserved) {
-        io.out(`  no transit observed in this realization: every transit was lost to missed transits or gaps (${sim.observation.timeS.length} points kept); nothing was fitted\n`);
+        io.out(`  no transit observed in this realization: every transit was lost to ${sim.observation.site !== null ? 'the sky (nothing observable from the site: see `moonsieve calendar`), weather, ' : ''}missed transits or gaps (${sim.observation.timeS.length} points kept); nothing was fitted\n`);
       }
       io.out('epoch   true TTV (s)  true TDV (s) | fit    fitted TTV (s)       fitted TDV (s)\n');
       const meanDur = sim.truth.reduce((a, t) => a + t.durationS, 0) / sim.truth.length;

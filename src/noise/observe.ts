@@ -87,7 +87,8 @@ function observeCampaign(s: Scenario, plan: ObservingPlan, rng: Rng | null, ws: 
   const P = s.planet.periodS;
   const windows: TransitWindow[] = [];
   for (let k = 0; k < plan.epochs; k++) windows.push({ epoch: k, centreS: k * P, startS: k * P - plan.halfWindowS, endS: k * P + plan.halfWindowS });
-  const sigmaRms = rmsOf(plan.sigma);
+  // No observable exposure at all (a target that never rises high enough): the scenario's own level.
+  const sigmaRms = plan.sigma.length > 0 ? rmsOf(plan.sigma) : whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS);
   // The smearing tolerance of the lowest per-point noise (see observeScenario).
   let sigmaMin = Infinity;
   for (let i = 0; i < plan.sigma.length; i++) sigmaMin = Math.min(sigmaMin, plan.sigma[i]);
