@@ -113,7 +113,7 @@
  * unweighted and its covariance is the sandwich (JᵀJ)⁻¹ Jᵀ Σ J (JᵀJ)⁻¹, Σ =
  * diag σ_i², the exact covariance of the linearised least-squares estimate
  * with independent errors of unequal variance (e.g. White 1980, Econometrica
- * 48, 817, eq. 1, with Σ known); β is computed on the residuals scaled by
+ * 48, 817, with Σ known rather than estimated); β is computed on the residuals scaled by
  * σ̄/σ_i.
  */
 import { betaFactor, binSizesForTimescale, type BetaFactorResult } from './betaFactor.js';
