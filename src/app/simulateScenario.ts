@@ -5,6 +5,7 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import { observeScenario, type Observation } from '../noise/observe.js';
+import { withCampaignEpochs } from '../noise/observingPlan.js';
 import { createRng } from '../noise/rng.js';
 import { planetTransitTruth, type PlanetTransitTruth } from '../physics/planetTransitTruth.js';
 import { windowHalfWidthS } from '../photometry/transitWindows.js';
@@ -20,7 +21,9 @@ export interface Simulation {
   recovery: TimingRecovery;
 }
 
-export function simulateScenario(s: Scenario, opts: { noiseless?: boolean; realization?: number } = {}): Simulation {
+export function simulateScenario(given: Scenario, opts: { noiseless?: boolean; realization?: number } = {}): Simulation {
+  // With a ground campaign the campaign's transits are the epochs (noise/observingPlan.ts).
+  const s = withCampaignEpochs(given);
   const rng = opts.noiseless ? null : createRng(s.seed, 0, opts.realization ?? 0);
   const observation = observeScenario(s, rng);
   const truth = planetTransitTruth(observation.lightCurve.sys, observation.lightCurve.rp, s.observation.transits, windowHalfWidthS(s));
@@ -44,8 +47,9 @@ export function tdvOf(sim: Simulation, epoch: number): number {
 export function simulationTables(s: Scenario, sim: Simulation, noiseless: boolean) {
   const o = sim.observation;
   const bjd = new Float64Array(o.timeS.length);
-  for (let i = 0; i < bjd.length; i++) bjd[i] = s.observation.t0BjdTdb + o.timeS[i] / DAY_S;
-  const err = new Float64Array(o.timeS.length).fill(o.sigma);
+  // Time 0 is the conjunction of ephemeris epoch o.firstEpoch (a ground campaign's first transit; else 0).
+  for (let i = 0; i < bjd.length; i++) bjd[i] = s.observation.t0BjdTdb + (o.firstEpoch * s.planet.periodS + o.timeS[i]) / DAY_S;
+  const err = o.sigmaPoint ? Float64Array.from(o.sigmaPoint) : new Float64Array(o.timeS.length).fill(o.sigma);
   const meta = {
     moonsieve_version: VERSION,
     scenario: s.name,

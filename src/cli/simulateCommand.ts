@@ -52,14 +52,15 @@ export function registerSimulate(program: Command, io: CliIo): void {
         [join(outDir, 'simulate.html'), renderSimulatePage(scenario, sim.observation, sim.truth, noiseless)],
       ];
       for (const [path, text] of files) writeFileAtomic(path, text);
-      io.out(`${scenario.name}: ${sim.observation.timeS.length} points in ${scenario.observation.transits} transit windows` +
-        `${noiseless ? ' (noiseless)' : `, white noise ${(sim.observation.sigma * 1e6).toFixed(1)} ppm per exposure`}\n`);
+      const perPoint = sim.observation.sigmaPoint !== null ? ' (rms over the exposures, each at its own air mass)' : '';
+      io.out(`${scenario.name}: ${sim.observation.timeS.length} points in ${sim.truth.length} transit windows` +
+        `${noiseless ? ' (noiseless)' : `, white noise ${(sim.observation.sigma * 1e6).toFixed(1)} ppm per exposure${perPoint}`}\n`);
       for (const line of noiseModelLines(scenario, noiseless)) io.out(`  ${line}\n`);
       if (windowsOverlap(scenario)) {
         io.out(`  note: the baseline reaches past half the period, so the windows are cut at the midpoints between conjunctions (each time stamp once, a continuous light curve there)\n`);
       }
       if (sim.recovery.noTransitObserved) {
-        io.out(`  no transit observed in this realization: every transit was lost to missed transits or gaps (${sim.observation.timeS.length} points kept); nothing was fitted\n`);
+        io.out(`  no transit observed in this realization: every transit was lost to ${sim.observation.site !== null ? 'the sky (nothing observable from the site: see `moonsieve calendar`), weather, ' : ''}missed transits or gaps (${sim.observation.timeS.length} points kept); nothing was fitted\n`);
       }
       io.out('epoch   true TTV (s)  true TDV (s) | fit    fitted TTV (s)       fitted TDV (s)\n');
       const meanDur = sim.truth.reduce((a, t) => a + t.durationS, 0) / sim.truth.length;
@@ -69,7 +70,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
         const ok = f !== undefined && f.status === 'ok';
         const ttv = ttvOf(sim, t.epoch);
         const tdv = tdvOf(sim, t.epoch);
-        const fitted = ok ? `${ttv.toFixed(1).padStart(8)} ± ${f.tcErrS.toFixed(1).padEnd(7)} ${tdv.toFixed(1).padStart(8)} ± ${f.durationErrS.toFixed(1)}` : `(${f?.status ?? 'no data'}${f?.reason ? `: ${f.reason}` : ''})`;
+        const fitted = ok ? `${ttv.toFixed(1).padStart(8)} ± ${f.tcErrS.toFixed(1).padEnd(7)} ${Number.isFinite(f.durationErrS) ? `${tdv.toFixed(1).padStart(8)} ± ${f.durationErrS.toFixed(1)}` : `  (${f.contacts?.replace('_', ' ') ?? 'one contact'}: duration not measured)`}` : `(${f?.status ?? 'no data'}${f?.reason ? `: ${f.reason}` : ''})`;
         io.out(`${String(t.epoch).padStart(5)}  ${(t.midS - t.epoch * scenario.planet.periodS).toFixed(1).padStart(12)}  ${(t.durationS - meanDur).toFixed(1).padStart(12)} | ${ok ? 'ok  ' : '    '} ${fitted}\n`);
       });
       if (sim.recovery.beta) io.out(`  time-averaging beta applied to the fitted errors: ${sim.recovery.beta.beta.toFixed(2)}\n`);

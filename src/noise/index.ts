@@ -29,3 +29,5 @@ export {
   windowMask,
   type ObservingWindow,
 } from './gaps.js';
+export { EXTINCTION_MAG_PER_AIRMASS, groundSigmaAtAirmass } from './groundAirmass.js';
+export { hasCampaign, observingPlan, withCampaignEpochs, type ObservingPlan } from './observingPlan.js';

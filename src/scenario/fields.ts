@@ -169,7 +169,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'instrument.ground.floor', type: 'level', kind: 'fraction', show: [1e-6, 'ppm'], defaultText: 'none', min: 0, meaning: 'systematic floor at a timescale, "100 ppm per 10 min", scaled by √t' },
 
   { path: 'observation', type: 'mapping', required: 'yes', meaning: 'what is observed' },
-  { path: 'observation.transits', type: 'integer', noun: 'a whole number of transits', required: 'unless duration', min: 1, max: 10000, meaning: 'number of consecutive transits observed' },
+  { path: 'observation.transits', type: 'integer', noun: 'a whole number of transits', required: 'unless duration', min: 1, max: 10000, meaning: 'number of consecutive transits observed; with site, target and campaign, sweep and simulate use the campaign\'s transits instead (every epoch whose mid-time falls in it, as `moonsieve calendar` lists them)' },
   { path: 'observation.duration', type: 'quantity', kind: 'time', bare: days, show: [JULIAN_YEAR_S, 'yr'], required: 'instead of transits', min: 0,
     rangeNote: 'at most 10000 conjunctions', meaning: 'span observed from t0 ("3 yr"); the transits are the barycentre conjunctions t0 + nP inside it, the one at t0 included' },
   { path: 'observation.t0', type: 'number', default: 2461000.0, min: 0, max: 1e7, rangeNote: 'a Julian date in days (2461000 is the year 2025)', meaning: 'barycentre mid-transit time of epoch 0, BJD_TDB (days)' },
@@ -189,7 +189,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
     meaning: '1σ uncertainty of the period (widens the predicted mid-times of `moonsieve calendar`)' },
   { path: 'observation.t0_error', type: 'quantity', kind: 'time', bare: days, show: minutes, default: 0, min: 0, max: 10 * DAY_S,
     meaning: '1σ uncertainty of t0 (widens the predicted mid-times of `moonsieve calendar`)' },
-  { path: 'site', type: 'mapping', defaultText: 'none', meaning: 'the observing site; a list of sites (each with a name) makes a network' },
+  { path: 'site', type: 'mapping', defaultText: 'none', meaning: 'the observing site; a list of sites (each with a name) makes a network. With target and campaign, sweep and simulate observe only the observable parts of the campaign\'s transits (partial transits included) at each site, each exposure with the ground budget at its own air mass (instrument.ground: extinction, scintillation at the site\'s height; a stated noise level is used as is), each site\'s nights lost to weather (constraints.clear_fraction); a transit seen from several sites has each site\'s own data and noise. Space instruments: no periodic visibility pattern yet' },
   { path: 'site.name', type: 'text', default: 'site', meaning: 'name of the site in tables (required to tell the sites of a list apart)' },
   { path: 'site.latitude', noun: 'a latitude', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, required: 'with site', min: -Math.PI / 2, max: Math.PI / 2, meaning: 'geodetic latitude, north positive' },
   { path: 'site.longitude', noun: 'a longitude', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, required: 'with site', min: -Math.PI, max: 2 * Math.PI, meaning: 'longitude, east positive (west negative)' },
@@ -208,7 +208,7 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'constraints.sun_altitude', noun: 'an altitude of the Sun', type: 'quantity', kind: 'angle', bare: degrees, show: degrees, default: -12 * DEG, min: -Math.PI / 2, max: 0,
     meaning: 'the Sun\'s centre must be below this geometric altitude (−12: nautical twilight, −18: astronomical)' },
   { path: 'constraints.airmass', noun: 'an air mass', type: 'number', default: 2, min: 1, max: 10, rangeNote: 'air mass by Kasten & Young (1989), valid to the horizon', meaning: 'largest air mass of the target' },
-  { path: 'constraints.clear_fraction', noun: 'a fraction of nights', type: 'number', default: 1, min: 0, minExclusive: true, max: 1, meaning: 'chance that a night at a site is usable (weather)' },
+  { path: 'constraints.clear_fraction', noun: 'a fraction of nights', type: 'number', default: 1, min: 0, minExclusive: true, max: 1, meaning: 'chance that a night at a site is usable (weather); sweep and simulate draw it per site and local noon-to-noon night, seeded per (seed, cell, realization)' },
 ];
 
 const BY_PATH: ReadonlyMap<string, ScenarioField> = new Map(SCENARIO_FIELDS.map((f) => [f.path, f]));

@@ -37,7 +37,7 @@ class ListItemReader extends FieldReader {
  * The caution a scenario with a site carries until the simulation observes
  * only what the calendar says is observable (issue 18, items 4–6).
  */
-export const SITE_CALENDAR_ONLY = 'used by `moonsieve calendar` only so far: sweep, simulate, limits and budget still assume every transit is observed whole, at the fixed air mass of the noise budget';
+export const SITE_CALENDAR_ONLY = 'with target and campaign, sweep and simulate observe only what the calendar finds observable (the campaign\'s transits replace observation.transits; partial transits, each exposure\'s air mass, weather per night); limits and budget still assume every transit is observed whole, at the fixed air mass of the noise budget';
 
 /**
  * Read the sky blocks from the top-level reader. `periodErrorS` and

@@ -189,6 +189,20 @@ export function observableIntervals(sky: EpochSky, site: SiteSpec, a: number, b:
   return out.filter(([x, y]) => y > x);
 }
 
+/**
+ * Epochs n whose mid-time t0 + nP may fall inside the campaign (BJD ≈ JD_UTC + 69 s
+ * ± 8.3 min, with 0.01 d of margin); the exact test, in UTC, is the caller's.
+ */
+export function campaignEpochRange(campaign: { startUtcS: number; endUtcS: number }, t0BjdTdb: number, periodD: number): [number, number] {
+  const approxBjd = (utcS: number) => JD_J2000 + (utcS + ttMinusUtcS(utcS)) / DAY_S;
+  return [Math.ceil((approxBjd(campaign.startUtcS) - 0.01 - t0BjdTdb) / periodD), Math.floor((approxBjd(campaign.endUtcS) + 0.01 - t0BjdTdb) / periodD)];
+}
+
+/** The calendar's baseline on each side, s: the given one, cut at half the period less half the transit, and at 10 days. */
+export function calendarBaselineS(s: Scenario, t14S: number): number {
+  return Math.max(0, Math.min(s.observation.baselineS, s.planet.periodS / 2 - t14S / 2, 10 * DAY_S));
+}
+
 function counts(rows: ReadonlyArray<{ class: TransitClass }>, expectedFull: number): CalendarCounts {
   const full = rows.filter((r) => r.class === 'full').length;
   const none = rows.filter((r) => r.class === 'none').length;
@@ -212,7 +226,7 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
   // Baselines beyond the half period would overlap the next transit's window; beyond 10 days
   // they are no longer a night's baseline: the calendar cuts them there and says so.
   const givenBaseline = s.observation.baselineS;
-  const baseline = Math.max(0, Math.min(givenBaseline, s.planet.periodS / 2 - half, 10 * DAY_S));
+  const baseline = calendarBaselineS(s, t14);
   const periodD = s.planet.periodS / DAY_S;
   const t0 = s.observation.t0BjdTdb;
   const sunLimit = constraints.sunAltitudeRad;
@@ -220,10 +234,7 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
   const minAlt = minAltDeg * DEG;
   const clear = constraints.clearFraction;
 
-  // Epochs whose mid-time may fall in the campaign (BJD ≈ JD_UTC + 69 s ± 8.3 min), then the exact test in UTC.
-  const approxBjd = (utcS: number) => JD_J2000 + (utcS + ttMinusUtcS(utcS)) / DAY_S;
-  const nLo = Math.ceil((approxBjd(campaign.startUtcS) - 0.01 - t0) / periodD);
-  const nHi = Math.floor((approxBjd(campaign.endUtcS) + 0.01 - t0) / periodD);
+  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
   if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
     throw new InputError([{ path: 'campaign', value: `${isoUtc(campaign.startUtcS)} to ${isoUtc(campaign.endUtcS)}`, allowed: `holds about ${nHi - nLo + 1} transits of the ${formatDays(periodD)}-day period; a calendar lists at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
   }

@@ -38,6 +38,7 @@
  * With too few no-moon realizations for that bound ((n + 1)·α/3 < 1) the
  * interpolated (type 7) quantile is used and the cell says `calibration_limited`.
  */
+import { withCampaignEpochs } from '../noise/observingPlan.js';
 import { parseScenario, type ParseOptions } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { computeLimits, moonPlacement, type LimitsJson } from '../limits/computeLimits.js';
@@ -202,7 +203,8 @@ function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, excl
 }
 
 export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared): CellResult => {
-  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE);
+  // With a ground campaign the campaign's transits are the epochs (noise/observingPlan.ts).
+  const s = withCampaignEpochs(parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE));
   // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
   assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);

@@ -86,18 +86,35 @@
  * recovery at S/N 60 on the photodynamical light curve: scatter/bound 1.027,
  * pull spread 1.027, quoted errors/bound 0.9999 (2000 transits).
  *
- * Partial-transit rule (ours): with contacts t1 = t_c − D/2, t4 = t_c + D/2
- * (D = s·T14) and ingress τ = s·(template ingress), a transit is fitted only if
- *   (a) the data cover all of the ingress [t1, t1 + τ] or all of the egress
- *       [t4 − τ, t4], where an interval counts as covered when every instant
- *       in it is within 0.75 cadence of a sample (no gap over 1.5 cadences),
- *   (b) and the in-transit samples span at least half the transit:
- *       n_in · cadence ≥ 0.5 D.
- * The rule is checked at the fitted t_c and s (at the prediction if the fit
- * fails). A window with no sample inside the predicted transit is
- * 'skipped-no-data'; one failing (a) or (b) is 'skipped-partial', with the
- * reason; a fit that does not converge, or ends with s outside [0.5, 2] or
- * t_c outside the search range widened by D/2, is 'failed'.
+ * Partial transits (issue 18): the timing information is in the ingress and
+ * egress, so a transit is fitted from whichever of them the data hold. With
+ * contacts t1 = t_c − D/2, t4 = t_c + D/2 (D = s·T14) and ingress τ =
+ * s·(template ingress), a contact counts as observed when its interval
+ * ([t1, t1 + τ] or [t4 − τ, t4]) is fully covered (every instant within 0.75
+ * cadence of a sample: no gap over 1.5 cadences) or holds at least
+ * MIN_CONTACT_SAMPLES samples (within half a cadence of it). Then
+ *   both contacts observed: t_c, s and f0 fitted ('both');
+ *   one contact observed: t_c and f0 fitted with the shape, and so the
+ *     duration, held at the global fit's ('ingress_only', 'egress_only'): one
+ *     contact fixes t_c only given the duration (Carter et al. 2008, ApJ 689,
+ *     499: σ_tc comes from the ingress and egress, each half of it); the
+ *     duration is not measured (durationErrS NaN, no TDV point);
+ *   no contact observed (the middle, or baselines only): 'skipped-partial',
+ *     with the counts; no sample between the contacts: 'skipped-no-data'.
+ * The rule is applied at the prediction to choose what to fit and again at
+ * the fitted t_c and s (the same mode, or the fit is skipped with the
+ * reason). A fit that does not converge, or ends with s outside [0.5, 2] or
+ * t_c outside the search range widened by D/2, is 'failed'. The errors are
+ * the Fisher (Cramér–Rao) errors of whatever was fitted, so a partial
+ * transit's larger error is its own: pulls of full, ingress-only and
+ * egress-only fits have the same unit spread (test/timing/partialTransits.test.ts).
+ *
+ * Per-point noise (a ground campaign, noise/observingPlan.ts): the fit stays
+ * unweighted and its covariance is the sandwich (JᵀJ)⁻¹ Jᵀ Σ J (JᵀJ)⁻¹, Σ =
+ * diag σ_i², the exact covariance of the linearised least-squares estimate
+ * with independent errors of unequal variance (e.g. White 1980, Econometrica
+ * 48, 817, with Σ known rather than estimated); β is computed on the residuals scaled by
+ * σ̄/σ_i.
  */
 import { betaFactor, binSizesForTimescale, type BetaFactorResult } from './betaFactor.js';
 import { lowerBound } from '../numeric/lowerBound.js';
@@ -106,14 +123,21 @@ import { templateFlux, templateFluxArray, templateFluxDerivatives, templateFluxS
 
 export type TransitFitStatus = 'ok' | 'skipped-partial' | 'skipped-no-data' | 'failed';
 
+/** Which contacts an ok fit used (null unless ok); see the file header. */
+export type TransitContacts = 'both' | 'ingress_only' | 'egress_only';
+
+/** Fewest samples in an ingress or egress that count it as observed when it is not fully covered (ours, no source). */
+export const MIN_CONTACT_SAMPLES = 3;
+
 export interface TransitFit {
   epoch: number;
   /** Fitted mid-time (t1 + t4)/2, s since t0 (NaN unless ok). */
   tcS: number;
   /** 1σ uncertainty of tcS, s, including β. */
   tcErrS: number;
-  /** First-to-last-contact duration s·T14, s. */
+  /** First-to-last-contact duration s·T14, s (the global fit's when only one contact was observed). */
   durationS: number;
+  /** Its 1σ uncertainty, s; NaN when only one contact was observed (duration not measured). */
   durationErrS: number;
   /** Out-of-transit flux level of the window. */
   baseline: number;
@@ -124,6 +148,8 @@ export interface TransitFit {
   status: TransitFitStatus;
   /** Why a transit was skipped or failed ('' when ok). */
   reason: string;
+  /** The contacts the fit used (ok fits); absent otherwise. */
+  contacts?: TransitContacts;
 }
 
 export interface PerTransitFitOptions {
@@ -141,8 +167,12 @@ export interface PerTransitFitOptions {
   beta?: 'pooled' | 'off';
   /** Largest number of Levenberg–Marquardt steps per transit (default 50). */
   maxIterations?: number;
-  /** Smallest in-transit fraction for rule (b) (default 0.5). */
-  minInTransitFraction?: number;
+  /**
+   * Each sample's own white-noise σ (relative flux), indexed like timeS; the
+   * errors are then the sandwich covariance (file header). Default: every
+   * sample has the `sigma` argument.
+   */
+  pointSigma?: Float64Array | null;
 }
 
 export interface PerTransitFitResult {
@@ -193,9 +223,20 @@ function intervalCovered(timeS: Float64Array, order: Int32Array, i0: number, i1:
 }
 
 interface CoverageVerdict {
-  ok: boolean;
+  /** What can be fitted, or null (skip, with the reason). */
+  contacts: TransitContacts | null;
   nIn: number;
   reason: string;
+}
+
+/** Samples k in [i0, i1) with a ≤ t ≤ b. */
+function countIn(timeS: Float64Array, order: Int32Array, i0: number, i1: number, a: number, b: number): number {
+  let n = 0;
+  for (let k = i0; k < i1; k++) {
+    const t = timeS[order[k]];
+    if (t >= a && t <= b) n++;
+  }
+  return n;
 }
 
 function checkCoverage(
@@ -207,7 +248,6 @@ function checkCoverage(
   durationS: number,
   ingressS: number,
   cadenceS: number,
-  minFraction: number,
 ): CoverageVerdict {
   const t1 = tc - 0.5 * durationS;
   const t4 = tc + 0.5 * durationS;
@@ -216,16 +256,21 @@ function checkCoverage(
     const t = timeS[order[k]];
     if (t > t1 && t < t4) nIn++;
   }
-  if (nIn === 0) return { ok: false, nIn, reason: 'no samples between first and last contact' };
+  if (nIn === 0) return { contacts: null, nIn, reason: 'no samples between first and last contact' };
   const reach = 0.75 * cadenceS;
-  const ingress = intervalCovered(timeS, order, i0, i1, t1, t1 + ingressS, reach);
-  const egress = intervalCovered(timeS, order, i0, i1, t4 - ingressS, t4, reach);
-  const fraction = (nIn * cadenceS) / durationS;
-  if (!ingress && !egress) return { ok: false, nIn, reason: 'neither ingress nor egress fully covered' };
-  if (fraction < minFraction) {
-    return { ok: false, nIn, reason: `in-transit coverage ${(100 * fraction).toFixed(0)} % < ${(100 * minFraction).toFixed(0)} %` };
-  }
-  return { ok: true, nIn, reason: '' };
+  const h = 0.5 * cadenceS;
+  const nIng = countIn(timeS, order, i0, i1, t1 - h, t1 + ingressS + h);
+  const nEgr = countIn(timeS, order, i0, i1, t4 - ingressS - h, t4 + h);
+  const ingress = nIng >= MIN_CONTACT_SAMPLES || intervalCovered(timeS, order, i0, i1, t1, t1 + ingressS, reach);
+  const egress = nEgr >= MIN_CONTACT_SAMPLES || intervalCovered(timeS, order, i0, i1, t4 - ingressS, t4, reach);
+  if (ingress && egress) return { contacts: 'both', nIn, reason: '' };
+  if (ingress) return { contacts: 'ingress_only', nIn, reason: '' };
+  if (egress) return { contacts: 'egress_only', nIn, reason: '' };
+  return {
+    contacts: null,
+    nIn,
+    reason: `no timing information: ${nIng} sample${nIng === 1 ? '' : 's'} in the ingress and ${nEgr} in the egress (a contact needs ${MIN_CONTACT_SAMPLES}, or no gap over 1.5 cadences)`,
+  };
 }
 
 /** Caller-owned scratch for `fitOneTransit` (no allocation per point or per transit loop step; one per thread of work, reused from transit to transit). */
@@ -240,6 +285,14 @@ export class FitScratch {
   readonly cholesky = new Float64Array(12);
   readonly grad = new Float64Array(3);
   readonly delta = new Float64Array(3);
+  /** The full (t_c, s, f0) normal equations before the free parameters are picked (see levenbergMarquardt). */
+  readonly A3 = new Float64Array(9);
+  readonly H3 = new Float64Array(9);
+  readonly grad3 = new Float64Array(3);
+  /** Σ σ_i² J_i J_iᵀ (sandwich covariance) and a product. */
+  readonly B3 = new Float64Array(9);
+  readonly B = new Float64Array(9);
+  readonly P = new Float64Array(9);
   /** Running-sum buffers for TransitWindow (grown on demand, reused from one transit to the next). */
   cumD = new Float64Array(0);
   cumDD = new Float64Array(0);
@@ -429,8 +482,10 @@ interface RawFit {
   tc: number;
   s: number;
   f0: number;
-  cov: Float64Array; // (JᵀJ)⁻¹ · σ², np×np
+  cov: Float64Array; // (JᵀJ)⁻¹ · σ² (or the sandwich), np×np
   np: number;
+  /** Index of s among the fitted parameters, −1 when the duration was held fixed. */
+  sIndex: number;
   chi2: number; // Σ r² (unweighted)
   converged: boolean;
 }
@@ -452,14 +507,14 @@ function sumSquares(win: TransitWindow, tc: number, s: number, f0: number, ts: F
 }
 
 /**
- * At (tc, s, f0), parameter order tc, s, [f0]: the Fisher matrix JᵀJ into
- * w.A, the full Hessian of ½Σr², JᵀJ − Σ r ∇²m, into w.H, and Jᵀr into
- * w.grad. Second derivatives of m = f0·T(u), u = (t − tc)/s:
+ * At (tc, s, f0), for the free parameters `free[0..np)` (indices into tc, s,
+ * f0, in that order): the Fisher matrix JᵀJ into w.A, the full Hessian of
+ * ½Σr², JᵀJ − Σ r ∇²m, into w.H, and Jᵀr into w.grad. Second derivatives of m = f0·T(u), u = (t − tc)/s:
  *   ∂²m/∂tc² = f0 T″/s², ∂²m/∂tc∂s = f0 (T″u + T′)/s², ∂²m/∂s² = f0 (T″u² + 2T′u)/s²,
  *   ∂²m/∂tc∂f0 = −T′/s, ∂²m/∂s∂f0 = −T′u/s, ∂²m/∂f0² = 0.
  * Samples outside the table (T = 1, T′ = T″ = 0) add only to ∂m/∂f0 terms.
  */
-function normalEquations(win: TransitWindow, tc: number, s: number, f0: number, np: number, w: FitScratch): void {
+function normalEquations(win: TransitWindow, tc: number, s: number, f0: number, free: Int32Array, np: number, w: FitScratch): void {
   const { timeS, flux, order, tpl } = win;
   win.span(tc, s);
   let a00 = 0, a01 = 0, a02 = 0, a11 = 0, a12 = 0, a22 = 0, g0 = 0, g1 = 0, g2 = 0;
@@ -494,24 +549,72 @@ function normalEquations(win: TransitWindow, tc: number, s: number, f0: number, 
   // Outside the table: ∂m/∂f0 = 1 and r = d − (f0 − 1).
   a22 += win.nOut;
   g2 += win.sumD - win.nOut * (f0 - 1);
-  const A = w.A;
-  const H = w.H;
-  if (np === 3) {
-    A[0] = a00; A[1] = a01; A[2] = a02;
-    A[3] = a01; A[4] = a11; A[5] = a12;
-    A[6] = a02; A[7] = a12; A[8] = a22;
-    H[0] = a00 - h00; H[1] = a01 - h01; H[2] = a02 - h02;
-    H[3] = H[1]; H[4] = a11 - h11; H[5] = a12 - h12;
-    H[6] = H[2]; H[7] = H[5]; H[8] = a22;
-    w.grad[0] = g0; w.grad[1] = g1; w.grad[2] = g2;
-  } else {
-    A[0] = a00; A[1] = a01;
-    A[2] = a01; A[3] = a11;
-    H[0] = a00 - h00; H[1] = a01 - h01;
-    H[2] = H[1]; H[3] = a11 - h11;
-    w.grad[0] = g0; w.grad[1] = g1;
+  const A = w.A3;
+  const H = w.H3;
+  A[0] = a00; A[1] = a01; A[2] = a02;
+  A[3] = a01; A[4] = a11; A[5] = a12;
+  A[6] = a02; A[7] = a12; A[8] = a22;
+  H[0] = a00 - h00; H[1] = a01 - h01; H[2] = a02 - h02;
+  H[3] = H[1]; H[4] = a11 - h11; H[5] = a12 - h12;
+  H[6] = H[2]; H[7] = H[5]; H[8] = a22;
+  w.grad3[0] = g0; w.grad3[1] = g1; w.grad3[2] = g2;
+  for (let a = 0; a < np; a++) {
+    w.grad[a] = w.grad3[free[a]];
+    for (let b = 0; b < np; b++) {
+      w.A[a * np + b] = A[free[a] * 3 + free[b]];
+      w.H[a * np + b] = H[free[a] * 3 + free[b]];
+    }
   }
 }
+
+/**
+ * B = Σ σ_i² J_i J_iᵀ over the free parameters at (tc, s, f0), into w.B: the
+ * middle of the sandwich covariance (file header). Every sample is visited
+ * (σ_i differ), with J = (−f0 T′/s, −f0 T′u/s, T) and T = 1, T′ = 0 outside the table.
+ */
+function noiseMoments(win: TransitWindow, pointSigma: Float64Array, tc: number, s: number, f0: number, free: Int32Array, np: number, w: FitScratch): void {
+  const { timeS, order, tpl } = win;
+  const d = w.ts;
+  let b00 = 0, b01 = 0, b02 = 0, b11 = 0, b12 = 0, b22 = 0;
+  for (let k = win.i0; k < win.i1; k++) {
+    const i = order[k];
+    const u = (timeS[i] - tc) / s;
+    templateFluxDerivatives(tpl, u, d);
+    const v = pointSigma[i] * pointSigma[i];
+    const j0 = (-f0 * d[1]) / s;
+    const j1 = j0 * u;
+    const j2 = d[0];
+    b00 += v * j0 * j0; b01 += v * j0 * j1; b02 += v * j0 * j2;
+    b11 += v * j1 * j1; b12 += v * j1 * j2; b22 += v * j2 * j2;
+  }
+  const B3 = w.B3;
+  B3[0] = b00; B3[1] = b01; B3[2] = b02;
+  B3[3] = b01; B3[4] = b11; B3[5] = b12;
+  B3[6] = b02; B3[7] = b12; B3[8] = b22;
+  for (let a = 0; a < np; a++) for (let b = 0; b < np; b++) w.B[a * np + b] = B3[free[a] * 3 + free[b]];
+}
+
+/** out = M·B·M for symmetric np×np M and B (w.P scratch). */
+function sandwich(M: Float64Array, B: Float64Array, np: number, P: Float64Array, out: Float64Array): void {
+  for (let a = 0; a < np; a++) for (let b = 0; b < np; b++) {
+    let x = 0;
+    for (let c = 0; c < np; c++) x += M[a * np + c] * B[c * np + b];
+    P[a * np + b] = x;
+  }
+  for (let a = 0; a < np; a++) for (let b = 0; b < np; b++) {
+    let x = 0;
+    for (let c = 0; c < np; c++) x += P[a * np + c] * M[c * np + b];
+    out[a * np + b] = x;
+  }
+}
+
+/** Free parameters (indices into t_c, s, f0): with or without the duration and the baseline. */
+const FREE_SETS: Record<string, Int32Array> = {
+  '11': Int32Array.from([0, 1, 2]),
+  '10': Int32Array.from([0, 1]),
+  '01': Int32Array.from([0, 2]),
+  '00': Int32Array.from([0]),
+};
 
 /**
  * Damped Newton iteration on χ²: steps solve (H + λ·diag JᵀJ) δ = Jᵀr with
@@ -528,11 +631,16 @@ function levenbergMarquardt(
   sigma: number,
   tcStart: number,
   fitBaseline: boolean,
+  fitDuration: boolean,
+  pointSigma: Float64Array | null,
   maxIterations: number,
   w: FitScratch,
 ): RawFit {
   const { timeS, flux, order, tpl } = win;
-  const np = fitBaseline ? 3 : 2;
+  const free = FREE_SETS[`${fitDuration ? 1 : 0}${fitBaseline ? 1 : 0}`];
+  const np = free.length;
+  const sIndex = fitDuration ? 1 : -1;
+  const fIndex = fitBaseline ? np - 1 : -1;
   let tc = tcStart;
   let s = 1;
   let f0 = 1;
@@ -554,7 +662,7 @@ function levenbergMarquardt(
   let converged = false;
   const nn = np * np;
   for (let it = 0; it < maxIterations; it++) {
-    normalEquations(win, tc, s, f0, np, w);
+    normalEquations(win, tc, s, f0, free, np, w);
     const okInv = invertSymmetricPositive(w.A, np, w.inv, w.cholesky);
     let accepted = false;
     let small = false;
@@ -566,8 +674,8 @@ function levenbergMarquardt(
         continue;
       }
       const tcT = tc + w.delta[0];
-      const sT = Math.min(Math.max(s + w.delta[1], 0.2), 5);
-      const f0T = fitBaseline ? f0 + w.delta[2] : 1;
+      const sT = fitDuration ? Math.min(Math.max(s + w.delta[sIndex], 0.2), 5) : 1;
+      const f0T = fitBaseline ? f0 + w.delta[fIndex] : 1;
       const c = sumSquares(win, tcT, sT, f0T, w.ts);
       if (c <= chi2) {
         // Converged when every step is below 1e-4 of its standard error σ·√((JᵀJ)⁻¹)ₐₐ.
@@ -591,12 +699,17 @@ function levenbergMarquardt(
       break;
     }
   }
-  // Fisher matrix at the optimum: cov = σ² (JᵀJ)⁻¹.
-  normalEquations(win, tc, s, f0, np, w);
+  // Fisher matrix at the optimum: cov = σ² (JᵀJ)⁻¹; with per-point σ the sandwich (JᵀJ)⁻¹ JᵀΣJ (JᵀJ)⁻¹.
+  normalEquations(win, tc, s, f0, free, np, w);
   const cov = new Float64Array(nn);
-  if (!invertSymmetricPositive(w.A, np, cov, w.cholesky)) converged = false;
-  for (let k = 0; k < nn; k++) cov[k] *= sigma * sigma;
-  return { tc, s, f0, cov, np, chi2, converged };
+  if (!invertSymmetricPositive(w.A, np, w.inv, w.cholesky)) converged = false;
+  if (pointSigma === null) {
+    for (let k = 0; k < nn; k++) cov[k] = w.inv[k] * sigma * sigma;
+  } else {
+    noiseMoments(win, pointSigma, tc, s, f0, free, np, w);
+    sandwich(w.inv, w.B, np, w.P, cov);
+  }
+  return { tc, s, f0, cov, np, sIndex, chi2, converged };
 }
 
 /**
@@ -621,8 +734,8 @@ export function fitOneTransit(
   const T14 = tpl.t14S;
   const ingress = tpl.ingressS > 0 ? tpl.ingressS : 0.5 * T14;
   const half = opts.searchHalfWidthS ?? 0.5 * T14;
-  const minFraction = opts.minInTransitFraction ?? 0.5;
   const fitBaseline = opts.fitBaseline ?? true;
+  const pointSigma = opts.pointSigma ?? null;
   const empty = (status: TransitFitStatus, reason: string): TransitFit => ({
     epoch,
     tcS: NaN,
@@ -636,8 +749,10 @@ export function fitOneTransit(
     reason,
   });
   if (nPoints === 0) return empty('skipped-no-data', 'no samples in the window');
-  const pred = checkCoverage(timeS, order, i0, i1, tcPredS, T14, ingress, opts.cadenceS, minFraction);
+  const pred = checkCoverage(timeS, order, i0, i1, tcPredS, T14, ingress, opts.cadenceS);
   if (pred.nIn === 0) return empty('skipped-no-data', 'no samples inside the predicted transit');
+  if (pred.contacts === null) return empty('skipped-partial', pred.reason);
+  const fitDuration = pred.contacts === 'both';
 
   // 1. Coarse grid in t_c (s = 1, f0 linear), in terms of d = y − 1 and q = T − 1 (q = 0 outside the
   // table): with f0 = 1 + e the residual is (d − q) − e(1 + q), linear in e.
@@ -671,14 +786,24 @@ export function fitOneTransit(
   }
 
   // 2. Levenberg–Marquardt.
-  const fit = levenbergMarquardt(win, sigma, bestTc, fitBaseline, opts.maxIterations ?? 50, w);
+  let fit = levenbergMarquardt(win, sigma, bestTc, fitBaseline, fitDuration, pointSigma, opts.maxIterations ?? 50, w);
+  let contacts: TransitContacts = pred.contacts;
+  let cov = ruleAtFit(fit);
+  // Both contacts at the prediction, one at the fitted mid-time (a contact near the sample threshold):
+  // fitted again from that contact alone, with the duration held.
+  if (fitDuration && cov.contacts !== null && cov.contacts !== 'both') {
+    contacts = cov.contacts;
+    fit = levenbergMarquardt(win, sigma, bestTc, fitBaseline, false, pointSigma, opts.maxIterations ?? 50, w);
+    cov = ruleAtFit(fit);
+  }
   const finite = Number.isFinite(fit.tc) && Number.isFinite(fit.s) && Number.isFinite(fit.cov[0]);
   const sane = finite && fit.s >= 0.5 && fit.s <= 2 && Math.abs(fit.tc - tcPredS) <= half + 0.5 * T14;
-  // 3. Partial-transit rule at the fitted (or predicted) position.
-  const cov = sane && fit.converged
-    ? checkCoverage(timeS, order, i0, i1, fit.tc, fit.s * T14, fit.s * ingress, opts.cadenceS, minFraction)
-    : pred;
-  if (!cov.ok) return empty(cov.nIn === 0 ? 'skipped-no-data' : 'skipped-partial', cov.reason);
+  if (cov.contacts === null) return empty(cov.nIn === 0 ? 'skipped-no-data' : 'skipped-partial', cov.reason);
+  // The contact a one-contact fit used must still be observed at the fitted mid-time.
+  if (contacts !== 'both' && cov.contacts !== 'both' && cov.contacts !== contacts) {
+    return empty('skipped-partial', `the contact observed at the fitted mid-time (${cov.contacts.replace('_', ' ')}) is not the one fitted (${contacts.replace('_', ' ')})`);
+  }
+  if (contacts === 'both' && cov.contacts !== 'both') return empty('skipped-partial', 'both contacts observed at the prediction, not at the fitted mid-time');
   if (!fit.converged) return empty('failed', 'Levenberg–Marquardt did not converge');
   if (!sane) return empty('failed', `fit left the allowed range (s = ${fit.s.toPrecision(4)}, tc − predicted = ${(fit.tc - tcPredS).toPrecision(4)} s)`);
   return {
@@ -686,13 +811,20 @@ export function fitOneTransit(
     tcS: fit.tc,
     tcErrS: Math.sqrt(fit.cov[0]),
     durationS: fit.s * T14,
-    durationErrS: Math.sqrt(fit.cov[fit.np + 1]) * T14,
+    durationErrS: fit.sIndex >= 0 ? Math.sqrt(fit.cov[fit.sIndex * fit.np + fit.sIndex]) * T14 : NaN,
     baseline: fit.f0,
     chi2: fit.chi2 / (sigma * sigma),
     nPoints,
     status: 'ok',
     reason: '',
+    contacts,
   };
+
+  /** 3. The partial-transit rule at the fitted position (at the prediction when the fit failed or left its range). */
+  function ruleAtFit(f: RawFit): CoverageVerdict {
+    const ok = Number.isFinite(f.tc) && Number.isFinite(f.s) && Number.isFinite(f.cov[0]) && f.s >= 0.5 && f.s <= 2 && Math.abs(f.tc - tcPredS) <= half + 0.5 * T14;
+    return ok && f.converged ? checkCoverage(timeS, order, i0, i1, f.tc, f.s * T14, f.s * ingress, opts.cadenceS) : pred;
+  }
 }
 
 /**
@@ -716,6 +848,7 @@ export function fitTransits(
   if (flux.length !== n) throw new RangeError(`flux.length must equal timeS.length (${n}), got ${flux.length}`);
   if (epoch.length !== n) throw new RangeError(`epoch.length must equal timeS.length (${n}), got ${epoch.length}`);
   if (!(sigma > 0) || !Number.isFinite(sigma)) throw new RangeError(`sigma must be a positive finite number, got ${sigma}`);
+  if (opts.pointSigma && opts.pointSigma.length !== n) throw new RangeError(`pointSigma.length must equal timeS.length (${n}), got ${opts.pointSigma.length}`);
   if (!(opts.cadenceS > 0) || !Number.isFinite(opts.cadenceS)) throw new RangeError(`cadenceS must be a positive finite number, got ${opts.cadenceS}`);
   if (!(opts.ephemeris.periodS > 0) || !Number.isFinite(opts.ephemeris.periodS)) {
     throw new RangeError(`ephemeris.periodS must be a positive finite number, got ${opts.ephemeris.periodS}`);
@@ -757,7 +890,7 @@ export function fitTransits(
     for (let k = start[f.epoch]; k < start[f.epoch + 1]; k++) {
       const i = order[k];
       templateFluxSlope(tpl, (timeS[i] - f.tcS) / s, ts);
-      residuals[j++] = flux[i] - f.baseline * ts[0];
+      residuals[j++] = (flux[i] - f.baseline * ts[0]) * (opts.pointSigma ? sigma / opts.pointSigma[i] : 1);
     }
   }
   segments[nOk] = j;

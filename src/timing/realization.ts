@@ -14,7 +14,8 @@ import type { Rng } from '../noise/rng.js';
 import { observeScenario, type Observation } from '../noise/observe.js';
 import { LightCurveWorkspace } from '../photometry/lightCurve.js';
 import { GlobalFitWorkspace } from './globalTransitFit.js';
-import { recoverTimings, type TimingRecovery } from './timingSeries.js';
+import { measuresDuration, recoverTimings, type TimingRecovery } from './timingSeries.js';
+import { withCampaignEpochs } from '../noise/observingPlan.js';
 import { ttvExcess, tdvExcess } from './chiSquareStatistics.js';
 import { lombScargle } from './lombScargle.js';
 import { stackResiduals, type ResidualStack } from './residualStack.js';
@@ -89,8 +90,10 @@ export function realizationStatistics(s: Scenario, obs: Observation, rec: Timing
       fap = ls.falseAlarmProbability;
     }
   }
-  if (n >= 2) {
-    tdvChi2 = tdvExcess(epochs, Float64Array.from(ok, (f) => f.durationS), Float64Array.from(ok, (f) => f.durationErrS)).chiSquare;
+  // The TDV channel: the fits that measured a duration (both contacts; perTransitFit.ts).
+  const dur = ok.filter(measuresDuration);
+  if (dur.length >= 2) {
+    tdvChi2 = tdvExcess(Float64Array.from(dur, (f) => f.epoch), Float64Array.from(dur, (f) => f.durationS), Float64Array.from(dur, (f) => f.durationErrS)).chiSquare;
   }
   const stack = stackResiduals(obs.timeS, obs.flux, obs.epoch, rec.fits, rec.global?.template ?? null, obs.sigma, s.instrument.cadenceS, windowHalfWidthS(s));
   return {
@@ -99,7 +102,7 @@ export function realizationStatistics(s: Scenario, obs: Observation, rec: Timing
     ttvChi2,
     ttvDof: Math.max(0, n - 2),
     tdvChi2,
-    tdvDof: Math.max(0, n - 1),
+    tdvDof: Math.max(0, dur.length - 1),
     ttvRmsS: rms(rec.ttv.map((p) => p.ttvS)),
     tdvRmsS: rms(rec.tdv.points.map((p) => p.tdvS)),
     periodogramPeakPerEpoch: peak,
@@ -117,7 +120,9 @@ export function runRealization(
   rng: Rng,
   opts: { withMoon?: boolean; workspace?: RealizationWorkspace } = {},
 ): { record: RealizationRecord; scenario: Scenario; observation: Observation; recovery: TimingRecovery } {
-  const drawn = opts.withMoon === false ? { ...s, moon: null } : drawMoonOrientation(s, rng);
+  // With a ground campaign its transits are the epochs (observingPlan.ts), whatever observation.transits says.
+  const base = withCampaignEpochs(s);
+  const drawn = opts.withMoon === false ? { ...base, moon: null } : drawMoonOrientation(base, rng);
   const observation = observeScenario(drawn, rng, opts.workspace?.lightCurve);
   const recovery = recoverTimings(drawn, observation, { workspace: opts.workspace?.globalFit });
   return { record: realizationStatistics(drawn, observation, recovery), scenario: drawn, observation, recovery };

@@ -54,12 +54,17 @@ export function ttvSeries(fits: readonly TransitFit[], eph: LinearEphemeris): Tt
   return out;
 }
 
-/** TDVs of the successful fits about their inverse-variance weighted mean duration. */
+/** Whether a fit measured the duration (ok, with both contacts: a one-contact fit holds it at the global fit's). */
+export function measuresDuration(f: TransitFit): boolean {
+  return f.status === 'ok' && Number.isFinite(f.durationErrS);
+}
+
+/** TDVs of the successful fits that measured a duration, about their inverse-variance weighted mean duration. */
 export function tdvSeries(fits: readonly TransitFit[]): TdvSeries {
   let sw = 0;
   let swd = 0;
   for (const f of fits) {
-    if (f.status !== 'ok') continue;
+    if (!measuresDuration(f)) continue;
     const w = 1 / (f.durationErrS * f.durationErrS);
     sw += w;
     swd += w * f.durationS;
@@ -67,7 +72,7 @@ export function tdvSeries(fits: readonly TransitFit[]): TdvSeries {
   const mean = sw > 0 ? swd / sw : NaN;
   const points: TdvPoint[] = [];
   for (const f of fits) {
-    if (f.status !== 'ok') continue;
+    if (!measuresDuration(f)) continue;
     points.push({ epoch: f.epoch, tdvS: f.durationS - mean, errS: f.durationErrS });
   }
   return { meanDurationS: mean, meanDurationErrS: sw > 0 ? 1 / Math.sqrt(sw) : NaN, points };
@@ -161,6 +166,7 @@ export function recoverTimings(scenario: Scenario, observation: Observation, opt
     epochs: scenario.observation.transits,
     beta: opts.beta ?? 'pooled',
     fitBaseline: opts.fitBaseline ?? true,
+    pointSigma: o.sigmaPoint ?? null,
   });
   const ok = per.fits.filter((f) => f.status === 'ok');
   let ephemeris: LinearEphemeris | null = null;

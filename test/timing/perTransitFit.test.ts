@@ -161,8 +161,9 @@ describe('per-transit fits', () => {
   });
 
   it('applies the partial-transit rule and records why', () => {
-    // Rule (src/timing/perTransitFit.ts): ingress or egress fully covered, and ≥ 50 % of the transit sampled.
-    const s = tessel({ noise: 1e-3, transits: 4 });
+    // Rule (src/timing/perTransitFit.ts, issue 18): a transit is fitted from whichever contacts the data
+    // hold (the duration only when both are); with neither contact it is skipped with the counts.
+    const s = tessel({ noise: 1e-3, transits: 5 });
     const obs = observeScenario(s, createRng(s.seed, 0, 0));
     const half = 0.5 * buildTransitTemplate(templateGeometryFromScenario(s)).t14S;
     const keep = (i: number): boolean => {
@@ -171,6 +172,7 @@ describe('per-transit fits', () => {
       if (n === 1) return x < -0.7 * half; // the ingress, but only 15 % of the transit
       if (n === 2) return Math.abs(x) > half + 300; // baseline only
       if (n === 3) return x < 0.5 * half; // egress missing, 75 % of the transit kept
+      if (n === 4) return Math.abs(x) < 0.5 * half; // the middle only: neither contact
       return true;
     };
     const idx = Array.from(obs.timeS.keys()).filter(keep);
@@ -179,9 +181,14 @@ describe('per-transit fits', () => {
       : (Int32Array.from(idx, (i) => a[i]) as T);
     const cut: Observation = { ...obs, timeS: pick(obs.timeS), flux: pick(obs.flux), model: pick(obs.model), epoch: pick(obs.epoch) };
     const rec = recoverTimings(s, cut);
-    expect(rec.fits.map((f) => f.status)).toEqual(['ok', 'skipped-partial', 'skipped-no-data', 'ok']);
-    expect(rec.fits[1].reason).toMatch(/coverage/);
-    expect(Number.isNaN(rec.fits[1].tcS)).toBe(true);
+    expect(rec.fits.map((f) => f.status)).toEqual(['ok', 'ok', 'skipped-no-data', 'ok', 'skipped-partial']);
+    expect(rec.fits.map((f) => f.contacts ?? null)).toEqual(['both', 'ingress_only', null, 'ingress_only', null]);
+    // One contact: the duration is the global fit's, not measured (no TDV point).
+    expect(Number.isNaN(rec.fits[1].durationErrS)).toBe(true);
+    expect(rec.fits[1].tcErrS).toBeGreaterThan(rec.fits[0].tcErrS); // half the timing information (Carter et al. 2008)
+    expect(rec.tdv.points.map((p) => p.epoch)).toEqual([0]);
+    expect(rec.fits[4].reason).toMatch(/no timing information/);
+    expect(Number.isNaN(rec.fits[4].tcS)).toBe(true);
   });
 
   it('meets the issue-4 requirement at S/N 60 (10 % ingress, 2-min cadence; 2000 transits)', () => {

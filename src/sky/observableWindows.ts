@@ -1,0 +1,76 @@
+/**
+ * The calendar's observable stretches as numbers, for the simulation: for
+ * every transit epoch of the campaign (the same epochs, windows, limits and
+ * sky samples as `transitCalendar`, calendar.ts) and every site, the
+ * stretches of the window (first contact − baseline to last contact +
+ * baseline) in which the Sun is low enough and the target's air mass within
+ * the limit, as offsets in seconds from the transit's geocentric mid-time.
+ * The epoch's `EpochSky` is returned with it, so that a caller can evaluate
+ * the target's altitude (air mass) at each exposure.
+ *
+ * Pure: a function of the Scenario alone.
+ */
+import { scenarioDurations } from '../physics/transitDuration.js';
+import { requireCalendarBlocks } from '../scenario/requireSky.js';
+import type { Scenario, SiteSpec } from '../scenario/types.js';
+import { altitudeForAirmass } from './airmass.js';
+import { bjdTdbToUtc } from './barycentric.js';
+import { calendarBaselineS, campaignEpochRange, MAX_CALENDAR_TRANSITS, observableIntervals } from './calendar.js';
+import { EpochSky } from './skyPosition.js';
+import { DAY_S } from '../physics/constants.js';
+import { InputError } from '../scenario/errors.js';
+
+const DEG = Math.PI / 180;
+
+export interface EpochObservability {
+  /** Calendar epoch n (mid-time t0 + nP, BJD_TDB). */
+  epoch: number;
+  /** Geocentric UTC of the mid-time, s since J2000.0 (calendar.ts time axis). */
+  midUtcS: number;
+  sky: EpochSky;
+  /** Per site (in the scenario's order): observable stretches [start, end], s from midUtcS, in time order. */
+  intervals: Array<Array<[number, number]>>;
+}
+
+export interface CampaignObservability {
+  sites: SiteSpec[];
+  /** Every epoch whose mid-time falls inside the campaign, in order (those with nothing observable included). */
+  epochs: EpochObservability[];
+  /** Half of first-to-last contact, s, and the baseline on each side used for the windows, s. */
+  halfT14S: number;
+  baselineS: number;
+}
+
+/**
+ * Observable stretches of every transit of the campaign at every site. Needs
+ * the scenario's site, target and campaign (InputError naming the missing ones).
+ */
+export function campaignObservability(s: Scenario, source = 'scenario'): CampaignObservability {
+  const sky = s.sky;
+  requireCalendarBlocks(sky, source);
+  const { target, campaign, constraints, sites } = sky;
+  const t14 = scenarioDurations(s).t14S;
+  if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): an observing campaign needs a transit' }], source);
+  const half = t14 / 2;
+  const baseline = calendarBaselineS(s, t14);
+  const periodD = s.planet.periodS / DAY_S;
+  const t0 = s.observation.t0BjdTdb;
+  const minAlt = altitudeForAirmass(constraints.airmass) * DEG;
+  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
+  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
+    throw new InputError([{ path: 'campaign', value: undefined, allowed: `holds about ${nHi - nLo + 1} transits; at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
+  }
+  const epochs: EpochObservability[] = [];
+  for (let n = nLo; n <= nHi; n++) {
+    const mid = bjdTdbToUtc(t0 + n * periodD, target, null);
+    if (mid < campaign.startUtcS || mid > campaign.endUtcS) continue;
+    const a = mid - half - baseline;
+    const b = mid + half + baseline;
+    const epochSky = new EpochSky(a, b, target);
+    const intervals = sites.map((site) =>
+      observableIntervals(epochSky, site, a, b, constraints.sunAltitudeRad, minAlt).map(([x, y]) => [x - mid, y - mid] as [number, number]),
+    );
+    epochs.push({ epoch: n, midUtcS: mid, sky: epochSky, intervals });
+  }
+  return { sites, epochs, halfT14S: half, baselineS: baseline };
+}
