@@ -57,6 +57,7 @@ import {
   type NullClass, type NullSet, type PackedNullRange,
 } from './nullSet.js';
 import { medianOfFinite } from '../numeric/quantiles.js';
+import { cellBound } from './cellBound.js';
 
 export { defaultNullRealizations };
 
@@ -206,7 +207,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
   assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);
-  const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits) };
+  const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits), pdet_bound: cellBound(task.scenarioDoc, s) };
   const skipped = skipReason(s, base, ctx);
   if (skipped !== null) return { ...base, simulated: false, skipped_reason: skipped };
 
