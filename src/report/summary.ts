@@ -11,6 +11,10 @@
  *   or in a forecast-only run the analytic joint forecast `pdet_forecast_joint`.
  * - "Detected at 90 %" means that probability ≥ 0.9; "confidently" adds that
  *   the lower Wilson bound `pdet_combined_lo` is ≥ 0.9 too (Monte Carlo only).
+ * - The bound lines (`bound_50`, `bound_90`) are the same search on the
+ *   known-template bound `pdet_bound` (timing/knownTemplateBound.ts), over the
+ *   cells that have a probability above (like for like), and `efficiency_50`
+ *   compares the two 50 % lines per x value (see `efficiencyOf`).
  */
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
@@ -74,7 +78,47 @@ export interface SweepSummary {
     facet_field?: string;
     level_50: MinDetectablePoint[];
     level_90: MinDetectablePoint[];
+    /** The same lines for the known-template bound (`pdet_bound`): no analysis of the same data can do better. */
+    bound_50: MinDetectablePoint[];
+    bound_90: MinDetectablePoint[];
+    /** Per x value: how far the detector's 50 % line is from the bound's (see `efficiencyOf`). */
+    efficiency_50: EfficiencyPoint[];
   } | null;
+}
+
+/**
+ * The detector against the bound at one x value: `ratio` is the detector's
+ * 50 % y over the bound's for an 'increasing' axis (a moon mass: how many
+ * times heavier a moon must be for this detector than for the best possible
+ * one), the bound's over the detector's for a 'decreasing' one; 1 is optimal.
+ */
+export interface EfficiencyPoint {
+  x: number;
+  facet?: number;
+  ratio: number | null;
+  /**
+   * 'value'; 'at most' when the detector's y is itself a bound (reached after
+   * unsimulated cells or at the grid's edge); 'at least' when the bound's is,
+   * or when the detector never reaches 50 % on the grid (ratio then from the
+   * grid's last value); 'unknown' when both are bounds or the bound never reaches 50 %.
+   */
+  ratio_kind: 'value' | 'at most' | 'at least' | 'unknown';
+}
+
+/** Per x value, the detector's 50 % point against the bound's (EfficiencyPoint). */
+export function efficiencyOf(mc: readonly MinDetectablePoint[], bound: readonly MinDetectablePoint[], direction: 'increasing' | 'decreasing', yValues: readonly number[]): EfficiencyPoint[] {
+  const far = direction === 'increasing' ? Math.max(...yValues) : Math.min(...yValues);
+  return mc.map((m, k) => {
+    const b = bound[k];
+    const base = { x: m.x, ...(m.facet !== undefined ? { facet: m.facet } : {}) };
+    if (!b || b.y === null || !(b.y > 0)) return { ...base, ratio: null, ratio_kind: 'unknown' as const };
+    const ratioOf = (mcY: number): number => (direction === 'increasing' ? mcY / (b.y as number) : (b.y as number) / mcY);
+    const bLoose = b.is_bound || b.at_grid_edge;
+    if (m.y === null) return { ...base, ratio: bLoose ? null : ratioOf(far), ratio_kind: bLoose ? ('unknown' as const) : ('at least' as const) };
+    const mLoose = m.is_bound || m.at_grid_edge;
+    const kind = mLoose && bLoose ? 'unknown' : mLoose ? 'at most' : bLoose ? 'at least' : 'value';
+    return { ...base, ratio: kind === 'unknown' ? null : ratioOf(m.y), ratio_kind: kind };
+  });
 }
 
 function summaryCell(c: CellResult, p: number): SummaryCell {
@@ -159,17 +203,24 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
     const fa = first.facetAxis === null ? null : meta.axes[first.facetAxis];
     const ylog = ya.spacing === 'log';
     const direction = detectionDirection(layouts, ya.field, ya.values, prob);
-    const level = (lv: number): MinDetectablePoint[] => layouts.flatMap((layout, k) => {
-      const pts = minDetectable(layout, xa.values, ya.values, ylog, prob, lv, direction);
+    // The bound over the cells the detector has a probability for: like for like.
+    const boundProb = (c: CellResult): number | null => (prob(c) === null ? null : num(c, 'pdet_bound'));
+    const level = (lv: number, pr: (c: CellResult) => number | null = prob): MinDetectablePoint[] => layouts.flatMap((layout, k) => {
+      const pts = minDetectable(layout, xa.values, ya.values, ylog, pr, lv, direction);
       return fa ? pts.map((p) => ({ ...p, facet: fa.values[k] })) : pts;
     });
+    const level50 = level(0.5);
+    const bound50 = level(0.5, boundProb);
     minDet = {
       y_field: ya.field,
       direction,
       x_field: xa.field,
       ...(fa ? { facet_field: fa.field } : {}),
-      level_50: level(0.5),
+      level_50: level50,
       level_90: level(0.9),
+      bound_50: bound50,
+      bound_90: level(0.9, boundProb),
+      efficiency_50: efficiencyOf(level50, bound50, direction, ya.values),
     };
   }
 
