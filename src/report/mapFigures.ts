@@ -172,7 +172,8 @@ function hoverMatrix(meta: SweepMeta, a: Axes2, p: Panel): string[][] {
         `cell ${c.index}: ${formatDisplay(a.yd, ya.values[j])}, ${formatDisplay(a.xd, xa.values[i])}${p.label ? `, ${p.label}` : ''}`,
         `placement: ${String(c.placement ?? '?')}; energy budget: ${String(c.habitability ?? '?')}`,
       ];
-      if (fo) lines.push(`forecast joint ${pct(num(c, 'pdet_forecast_joint'))}, TTV ${pct(num(c, 'pdet_forecast_ttv'))}, TDV ${pct(num(c, 'pdet_forecast_tdv'))}`);
+      if (fo && cellProbability(c, 'combined', true, meta.simulate_unstable) === null) lines.push(`not forecast (${String(c.placement ?? '')}): the Monte Carlo would not simulate it`);
+      else if (fo) lines.push(`forecast combined ${pct(num(c, 'pdet_forecast_combined'))}, TTV ${pct(num(c, 'pdet_forecast_ttv'))}, TDV ${pct(num(c, 'pdet_forecast_tdv'))}; joint χ² ${pct(num(c, 'pdet_forecast_joint'))}`);
       else if (c.simulated === true) lines.push(`combined ${pct(num(c, 'pdet_combined'))} [${pct(num(c, 'pdet_combined_lo'))}, ${pct(num(c, 'pdet_combined_hi'))}]; TTV ${pct(num(c, 'pdet_ttv'))}, TDV ${pct(num(c, 'pdet_tdv'))}, dip ${pct(num(c, 'pdet_dip'))}`);
       else lines.push(`not simulated (${String(c.skipped_reason ?? '')})`);
       if (num(c, 'pdet_bound') !== null) lines.push(`bound (best possible analysis) ${pct(num(c, 'pdet_bound'))}`);
@@ -289,13 +290,13 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
   const a = axes2(meta, cells);
   const fo = meta.forecast_only;
   const faceted = a.panels.length > 1;
-  const perPanel = (ch: MapChannel) => a.panels.map((p) => gridMatrix(p.layout, (c) => cellProbability(c, ch, fo)));
+  const perPanel = (ch: MapChannel) => a.panels.map((p) => gridMatrix(p.layout, (c) => cellProbability(c, ch, fo, meta.simulate_unstable)));
   const zByChannel = Object.fromEntries(MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? perPanel(ch) : null])) as Record<MapChannel, Array<Array<Array<number | null>>> | null>;
   const channelZ = Object.fromEntries(
     MAP_CHANNELS.map((ch) => [ch, zByChannel[ch] === null ? null : faceted ? zByChannel[ch] : (zByChannel[ch] as Array<Array<Array<number | null>>>)[0]]),
   ) as GridFigures['channelZ'];
   const combined = zByChannel.combined as Array<Array<Array<number | null>>>;
-  const bound = a.panels.map((p) => gridMatrix(p.layout, (c) => (cellProbability(c, 'combined', fo) === null ? null : num(c, 'pdet_bound'))));
+  const bound = a.panels.map((p) => gridMatrix(p.layout, (c) => (cellProbability(c, 'combined', fo, meta.simulate_unstable) === null ? null : num(c, 'pdet_bound'))));
   const data: unknown[] = [];
   const mapTraces: number[] = [];
   const mapTraceFacet: number[] = [];
@@ -429,7 +430,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
   const fo = meta.forecast_only;
   const at = (i: number) => layout.cellAt(i, 0);
   const channelZ = Object.fromEntries(
-    MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? x.map((_, i) => { const c = at(i); return c ? cellProbability(c, ch, fo) : null; }) : null]),
+    MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? x.map((_, i) => { const c = at(i); return c ? cellProbability(c, ch, fo, meta.simulate_unstable) : null; }) : null]),
   ) as GridFigures['channelZ'];
   const colors: Record<MapChannel, string> = { combined: '#00204c', ttv: '#7c7b78', tdv: '#bcaf6f', dip: '#ffe945' };
   const data: unknown[] = [];
@@ -444,7 +445,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
       error_y: fo ? undefined : { type: 'data', symmetric: false, array: y.map((p, i) => (p === null || hi[i] === null ? null : (hi[i] as number) - p)), arrayminus: y.map((p, i) => (p === null || lo[i] === null ? null : p - (lo[i] as number))), thickness: 1, width: 3 },
     });
   }
-  const boundY = x.map((_, i) => { const c = at(i); return c && cellProbability(c, 'combined', fo) !== null ? num(c, 'pdet_bound') : null; });
+  const boundY = x.map((_, i) => { const c = at(i); return c && cellProbability(c, 'combined', fo, meta.simulate_unstable) !== null ? num(c, 'pdet_bound') : null; });
   if (boundY.some((v) => v !== null)) {
     data.push({ type: 'scatter', mode: 'lines+markers', x, y: boundY, name: 'bound: known template, white noise (no analysis can do better)', line: { width: 2, color: BOUND_COLOUR, dash: 'longdash' } });
   }

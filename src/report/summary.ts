@@ -8,7 +8,9 @@
  *   surviving tidal migration) and whose energy budget is "temperate".
  * - Its detection probability is the Monte Carlo combined-channel estimate
  *   `pdet_combined` (any of TTV, TDV, moon dip above its calibrated threshold),
- *   or in a forecast-only run the analytic joint forecast `pdet_forecast_joint`.
+ *   or in a forecast-only run the forecast of the same rule over TTV and TDV,
+ *   `pdet_forecast_combined` (the moon dip is not forecast; summaries written
+ *   before it quote the joint χ² forecast `pdet_forecast_joint`).
  * - "Detected at 90 %" means that probability ≥ 0.9; "confidently" adds that
  *   the lower Wilson bound `pdet_combined_lo` is ≥ 0.9 too (Monte Carlo only).
  * - The bound lines (`bound_50`, `bound_90`) are the same search on the
@@ -40,7 +42,7 @@ export interface SweepSummary {
   moonsieve_version: string;
   seed: number;
   basis: 'monte carlo' | 'forecast';
-  probability_field: 'pdet_combined' | 'pdet_forecast_joint';
+  probability_field: 'pdet_combined' | 'pdet_forecast_combined' | 'pdet_forecast_joint';
   realizations: number | null;
   false_alarm: number;
   /** Measured combined false-alarm rate over the simulated cells: min, median, max (null when none). */
@@ -177,7 +179,7 @@ function detectionDirection(layouts: readonly GridLayout[], field: string, yValu
 
 export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): SweepSummary {
   const fo = meta.forecast_only;
-  const prob = (c: CellResult): number | null => cellProbability(c, 'combined', fo);
+  const prob = (c: CellResult): number | null => cellProbability(c, 'combined', fo, meta.simulate_unstable);
   const sorted = [...cells].sort((a, b) => a.index - b.index);
   const stable = sorted.filter((c) => c.allowed === true);
   const habitable = stable.filter((c) => c.habitability === 'temperate');
@@ -231,7 +233,7 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
     moonsieve_version: meta.moonsieve_version,
     seed: meta.seed,
     basis: fo ? 'forecast' : 'monte carlo',
-    probability_field: fo ? 'pdet_forecast_joint' : 'pdet_combined',
+    probability_field: fo ? 'pdet_forecast_combined' : 'pdet_combined',
     realizations: fo ? null : meta.realizations,
     false_alarm: meta.false_alarm,
     false_alarm_measured_combined: fa.length ? { min: Math.min(...fa), median: medianOfFinite(fa), max: Math.max(...fa) } : null,

@@ -181,6 +181,7 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
     pdet_forecast_ttv: l.pdet_forecast_ttv,
     pdet_forecast_tdv: l.pdet_forecast_tdv,
     pdet_forecast_joint: l.pdet_forecast_joint,
+    pdet_forecast_combined: l.pdet_forecast_combined,
     forecast_regime_ok: l.forecast_regime_ok,
     channels_note: s.moon ? missingChannelSummary(s.observation.transits) : null,
     photocentric_ratio: l.photocentric_ratio,
