@@ -102,21 +102,41 @@ export interface EfficiencyPoint {
    * 'value'; 'at most' when the detector's y is itself a bound (reached after
    * unsimulated cells or at the grid's edge); 'at least' when the bound's is,
    * or when the detector never reaches 50 % on the grid (ratio then from the
-   * grid's last value); 'unknown' when both are bounds or the bound never reaches 50 %.
+   * farthest cell of the column that has a probability); 'unknown' when both
+   * are bounds or the bound never reaches 50 %.
    */
   ratio_kind: 'value' | 'at most' | 'at least' | 'unknown';
 }
 
+/** Per column of a layout, the y farthest along the search direction among the cells with a probability (null: none). */
+function farthestWithProbability(layout: GridLayout, yValues: readonly number[], prob: (c: CellResult) => number | null, direction: 'increasing' | 'decreasing'): Array<number | null> {
+  const out: Array<number | null> = [];
+  for (let i = 0; i < layout.nx; i++) {
+    let far: number | null = null;
+    for (let j = 0; j < yValues.length; j++) {
+      const c = layout.cellAt(i, j);
+      if (!c || prob(c) === null) continue;
+      if (far === null || (direction === 'increasing' ? yValues[j] > far : yValues[j] < far)) far = yValues[j];
+    }
+    out.push(far);
+  }
+  return out;
+}
+
 /** Per x value, the detector's 50 % point against the bound's (EfficiencyPoint). */
-export function efficiencyOf(mc: readonly MinDetectablePoint[], bound: readonly MinDetectablePoint[], direction: 'increasing' | 'decreasing', yValues: readonly number[]): EfficiencyPoint[] {
-  const far = direction === 'increasing' ? Math.max(...yValues) : Math.min(...yValues);
+export function efficiencyOf(mc: readonly MinDetectablePoint[], bound: readonly MinDetectablePoint[], direction: 'increasing' | 'decreasing', farthest: readonly (number | null)[]): EfficiencyPoint[] {
   return mc.map((m, k) => {
+    const far = farthest[k];
     const b = bound[k];
     const base = { x: m.x, ...(m.facet !== undefined ? { facet: m.facet } : {}) };
     if (!b || b.y === null || !(b.y > 0)) return { ...base, ratio: null, ratio_kind: 'unknown' as const };
     const ratioOf = (mcY: number): number => (direction === 'increasing' ? mcY / (b.y as number) : (b.y as number) / mcY);
     const bLoose = b.is_bound || b.at_grid_edge;
-    if (m.y === null) return { ...base, ratio: bLoose ? null : ratioOf(far), ratio_kind: bLoose ? ('unknown' as const) : ('at least' as const) };
+    if (m.y === null) {
+      // Never reached: the minimum lies beyond the farthest cell with a probability (if the bound's is a value).
+      const known = !bLoose && far !== null && far !== undefined;
+      return { ...base, ratio: known ? ratioOf(far) : null, ratio_kind: known ? ('at least' as const) : ('unknown' as const) };
+    }
     const mLoose = m.is_bound || m.at_grid_edge;
     const kind = mLoose && bLoose ? 'unknown' : mLoose ? 'at most' : bLoose ? 'at least' : 'value';
     return { ...base, ratio: kind === 'unknown' ? null : ratioOf(m.y), ratio_kind: kind };
@@ -222,7 +242,7 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
       level_90: level(0.9),
       bound_50: bound50,
       bound_90: level(0.9, boundProb),
-      efficiency_50: efficiencyOf(level50, bound50, direction, ya.values),
+      efficiency_50: efficiencyOf(level50, bound50, direction, layouts.flatMap((layout) => farthestWithProbability(layout, ya.values, prob, direction))),
     };
   }
 

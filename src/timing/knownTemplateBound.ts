@@ -48,7 +48,7 @@
  * share it (`remembered`).
  */
 import type { Scenario } from '../scenario/types.js';
-import { orbitSystem, orbitSystemFromScenario, type OrbitSystem } from '../physics/skyPositions.js';
+import { orbitSystem, orbitSystemFromScenario, skyPositions, type OrbitSystem } from '../physics/skyPositions.js';
 import { DEFAULT_SMEARING_TOLERANCE, lightCurveModel, LightCurveWorkspace, modelFlux, type LightCurveModel } from '../photometry/lightCurve.js';
 import { sampleWindows, transitWindows } from '../photometry/transitWindows.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
@@ -65,6 +65,8 @@ export interface PlanetOnlyBasis {
   epoch: Int32Array;
   /** Planet-only flux at each time stamp (1 ppm smearing tolerance). */
   flux: Float64Array;
+  /** Sky X of the planet-only model (the barycentre), stellar radii, at each time stamp. */
+  xb: Float64Array;
   /** Orthonormal columns, column-major: q[c·n + i]. */
   q: Float64Array;
   columns: number;
@@ -146,6 +148,9 @@ function computeBasis(s0: Scenario): PlanetOnlyBasis {
   const ws = new LightCurveWorkspace();
   const base = lightCurveModel(s, { tolerance: TOLERANCE });
   const flux = modelFlux(timeS, base, new Float64Array(n), ws);
+  const xb = new Float64Array(n);
+  const scratch = new Float64Array(n);
+  skyPositions(timeS, base.sys, { xp: xb, yp: scratch, xm: scratch, ym: scratch });
   const fine = planetModel(base, base.sys, base.rp, base.u1, base.u2);
   const plus = new Float64Array(n);
   const minus = new Float64Array(n);
@@ -214,7 +219,7 @@ function computeBasis(s0: Scenario): PlanetOnlyBasis {
     for (let i = 0; i < n; i++) if (epoch[i] === w) col[i] = (timeS[i] - w * P) / P;
     add(`slope of transit ${w}`, col);
   }
-  return { timeS, epoch, flux, q: q.slice(0, cols * n), columns: cols, freedoms, sigma };
+  return { timeS, epoch, flux, xb, q: q.slice(0, cols * n), columns: cols, freedoms, sigma };
 }
 
 const BASIS_CACHE_SIZE = 8;
@@ -235,19 +240,29 @@ export function planetOnlyBasis(s: Scenario): PlanetOnlyBasis {
   return remembered(basisCache, BASIS_CACHE_SIZE, key, () => computeBasis(s));
 }
 
-/** ‖P⊥ d‖² for the orthonormal basis q (n × cols). */
-function projectedNorm2(q: Float64Array, cols: number, d: Float64Array, n: number): number {
-  let total = dot(d, 0, d, 0, n);
+/** ‖P⊥ d‖² for the orthonormal basis q (n × cols), d given on the rows `rows` (zero elsewhere). */
+function projectedNorm2(q: Float64Array, cols: number, n: number, d: Float64Array, rows: Int32Array, m: number): number {
+  let total = 0;
+  for (let k = 0; k < m; k++) total += d[k] * d[k];
   for (let c = 0; c < cols; c++) {
-    const r = dot(q, c * n, d, 0, n);
+    const off = c * n;
+    let r = 0;
+    for (let k = 0; k < m; k++) r += q[off + rows[k]] * d[k];
     total -= r * r;
   }
   return Math.max(0, total);
 }
 
-/** d = a − b. */
-function subtract(a: Float64Array, b: Float64Array, d: Float64Array): void {
-  for (let i = 0; i < d.length; i++) d[i] = a[i] - b[i];
+/** d[k] = a[k] − b[rows[k]]. */
+function subtractRows(a: Float64Array, b: Float64Array, rows: Int32Array, m: number, d: Float64Array): void {
+  for (let k = 0; k < m; k++) d[k] = a[k] - b[rows[k]];
+}
+
+/** The rows where the barycentre's sky X is within `reach` of the star's centre; returns their count. */
+function rowsWithin(xb: Float64Array, reach: number, rows: Int32Array): number {
+  let m = 0;
+  for (let i = 0; i < xb.length; i++) if (Math.abs(xb[i]) <= reach) rows[m++] = i;
+  return m;
 }
 
 /** The j-th of K angle sets (see the file header), as `drawMoonOrientation` would set them. */
@@ -297,17 +312,29 @@ export function knownTemplateBound(s: Scenario, opts: { angles?: number; planetO
   const snr = new Float64Array(k);
   const notes = boundNotes(s);
   if (!(sigma > 0)) return { probability: NaN, snr: snr.fill(NaN), threshold, notes: [...notes, 'no bound without noise'] };
+  // Δ vanishes where both bodies stay off the disc whatever the angles: where the barycentre is farther
+  // from the star's centre along X than 1 + R_P + R_S + the largest planet–moon distance a(1 + e) (each
+  // body sits within that distance of the barycentre) + its motion in half an exposure. Only the other
+  // rows are modelled (the sum over the rest is exactly zero).
+  const sys = orbitSystemFromScenario(s);
+  const v = sys.barycentre.meanMotionRadS * sys.barycentre.aRstar * Math.sqrt((1 + sys.barycentre.eccentricity) / (1 - sys.barycentre.eccentricity));
+  const aRel = (s.moon.separationM / s.star.radiusM) * (1 + s.moon.eccentricity);
+  const reach = 1 + (s.planet.radiusM + s.moon.radiusM) / s.star.radiusM + aRel + v * s.instrument.exposureS + 1e-6;
+  const rows = new Int32Array(n);
+  const m = rowsWithin(basis.xb, reach, rows);
+  const t = new Float64Array(m);
+  for (let r = 0; r < m; r++) t[r] = timeS[rows[r]];
   const ws = new LightCurveWorkspace();
-  const withMoon = new Float64Array(n);
-  const d = new Float64Array(n);
+  const withMoon = new Float64Array(m);
+  const d = new Float64Array(m);
   // The simulation's smearing tolerance (observe.ts): 2 % of the per-point noise, at least 1 ppm.
   const model = lightCurveModel(s, { tolerance: Math.max(TOLERANCE, 0.02 * sigma) });
   let p = 0;
   for (let j = 0; j < k; j++) {
     const drawn: Scenario = { ...s, moon: { ...s.moon, ...boundAngles(s, j, k) } };
-    modelFlux(timeS, { ...model, sys: orbitSystemFromScenario(drawn) }, withMoon, ws);
-    subtract(withMoon, flux, d);
-    snr[j] = Math.sqrt(projectedNorm2(q, columns, d, n)) / sigma;
+    modelFlux(t, { ...model, sys: orbitSystemFromScenario(drawn) }, withMoon, ws);
+    subtractRows(withMoon, flux, rows, m, d);
+    snr[j] = Math.sqrt(projectedNorm2(q, columns, n, d, rows, m)) / sigma;
     p += normalCdf(snr[j] - threshold);
   }
   return { probability: p / k, snr, threshold, notes };

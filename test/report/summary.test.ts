@@ -119,13 +119,13 @@ describe('minimum detectable value', () => {
   it('efficiency: the detector\'s 50 % point over the bound\'s, and what kind of number it is', () => {
     const pt = (y: number | null, o: Partial<{ at_grid_edge: boolean; is_bound: boolean }> = {}) => ({ x: 1, y, at_grid_edge: false, is_bound: false, ...o });
     // By hand: 6/1 = 6; after unsimulated cells the detector's y is at most 6, so the ratio is at most 6.
-    expect(efficiencyOf([pt(6)], [pt(1)], 'increasing', [1, 10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'value' });
-    expect(efficiencyOf([pt(6, { is_bound: true })], [pt(1)], 'increasing', [1, 10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'at most' });
-    expect(efficiencyOf([pt(6)], [pt(1, { at_grid_edge: true })], 'increasing', [1, 10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'at least' });
-    // The detector never reaches 50 %: at least the grid's largest value over the bound's.
-    expect(efficiencyOf([pt(null)], [pt(2)], 'increasing', [1, 10])[0]).toEqual({ x: 1, ratio: 5, ratio_kind: 'at least' });
+    expect(efficiencyOf([pt(6)], [pt(1)], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'value' });
+    expect(efficiencyOf([pt(6, { is_bound: true })], [pt(1)], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'at most' });
+    expect(efficiencyOf([pt(6)], [pt(1, { at_grid_edge: true })], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'at least' });
+    // The detector never reaches 50 %: at least the largest simulated value (10) over the bound's (2).
+    expect(efficiencyOf([pt(null)], [pt(2)], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 5, ratio_kind: 'at least' });
     // A noise axis (decreasing): the bound tolerates 4, the detector 2: ratio 2.
-    expect(efficiencyOf([pt(2)], [pt(4)], 'decreasing', [1, 10])[0].ratio).toBe(2);
+    expect(efficiencyOf([pt(2)], [pt(4)], 'decreasing', [1])[0].ratio).toBe(2);
   });
   it('mirrors the question for an axis along which detection gets harder (largest y still reaching the level)', () => {
     // p falls with y: 1.0, 0.6, 0.2 at y = 1, 2, 4; 90 % between 1 (1.0) and 2 (0.6): f = 0.25, y = 2^0.25 (by hand).
