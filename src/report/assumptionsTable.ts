@@ -81,7 +81,7 @@ export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioD
     const o = s.observation;
     rows.push(['transits', `${o.transits} consecutive transits${mark('observation.transits')}, each observed from ${f(o.baselineS / HOUR_S)} h before first to ${f(o.baselineS / HOUR_S)} h after last contact${mark('observation.baseline')}; epoch 0 at BJD_TDB ${o.t0BjdTdb}${windowsOverlap(s) ? '; the baseline reaches past half the period, so consecutive windows are cut at the midpoints between conjunctions (each time stamp once)' : ''}`]);
     rows.push(['gaps', gapsText(s, mark)]);
-    rows.push(['detection bound (orange)', boundText(s)]);
+    rows.push(['detection bound (cyan lines)', boundText(s)]);
   } else {
     rows.push(['scenario document', 'not available: star, planet, instrument and noise are not listed, and physical boundaries and example cells are omitted (run `moonsieve report DIR --scenario FILE` with the scenario file)']);
   }

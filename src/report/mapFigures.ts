@@ -6,7 +6,7 @@
  * detectable moon mass at 50 % and 90 %, and Monte Carlo against the
  * analytic forecast. Every map and the minimum-detectable plot also carry the
  * known-template bound (`pdet_bound`, timing/knownTemplateBound.ts): the
- * line no analysis of the same data can beat, in orange. Plain plotly
+ * line no analysis of the same data can beat, in cyan. Plain plotly
  * data/layout objects (see plotlyPage.ts).
  *
  * Colour: 'Cividis', designed to read the same for colour-blind readers and
@@ -245,8 +245,8 @@ function contourTrace(z: unknown, a: Axes2, level: number, dash: string): Record
   };
 }
 
-/** Colour of the bound's lines (Dark2 orange, apart from the Cividis scale and the white contours). */
-export const BOUND_COLOUR = '#d95f02';
+/** Colour of the bound's lines: cyan, apart from the Cividis scale, the white contours and the orange limits. */
+export const BOUND_COLOUR = '#17becf';
 
 /** The bound's contour at a level, over the cells the map shows (like for like). */
 function boundContour(z: unknown, a: Axes2, level: number, dash: string): Record<string, unknown> {
@@ -368,7 +368,7 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
         boundLine(md.bound_50, '50 %', 'dash', g), boundLine(md.bound_90, '90 %', 'solid', g),
       ]),
       layout: {
-        title: { text: `${what[0].toUpperCase()}${what.slice(1)} ${yName.replace(/ \(.*\)$/, '')} at 50 % and 90 %, and the bound (orange: known template, white noise)` },
+        title: { text: `${what[0].toUpperCase()}${what.slice(1)} ${yName.replace(/ \(.*\)$/, '')} at 50 % and 90 %, and the bound (cyan: known template, white noise)` },
         xaxis: { ...axisLayout(a.xd, a.xEdges) },
         yaxis: { ...axisLayout(a.yd, a.yEdges), title: { text: `${what} ${yName}` } },
         legend: { orientation: 'h', y: -0.2 },

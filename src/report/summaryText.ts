@@ -72,7 +72,7 @@ function boundParagraph(s: SweepSummary, meta: SweepMeta): string | null {
   const what = md.direction === 'increasing'
     ? `how many times the bound's 50 % ${escapeHtml(yName)} this detector needs`
     : `how many times this detector's 50 % ${escapeHtml(yName)} the bound tolerates`;
-  return `<p data-role="bound"><strong>Against the best possible analysis:</strong> the orange lines are the known-template bound, the detection probability of a matched filter that knows the moon's light curve up to its phase (and node and periapsis where they are drawn), after the planet-only model's own freedoms are fitted out, under white noise. It is the line no analysis of the same data can beat; where red noise, gaps or missed transits are in the scenario, they are not in the bound (see the assumptions). Efficiency at 50 % (${what}; 1 is optimal): ${items.join('; ')}.</p>`;
+  return `<p data-role="bound"><strong>Against the best possible analysis:</strong> the cyan lines are the known-template bound, the detection probability of a matched filter that knows the moon's light curve up to its phase (and node and periapsis where they are drawn), after the planet-only model's own freedoms are fitted out, under white noise. It is the line no analysis of the same data can beat; where red noise, gaps or missed transits are in the scenario, they are not in the bound (see the assumptions). Efficiency at 50 % (${what}; 1 is optimal): ${items.join('; ')}.</p>`;
 }
 
 export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
