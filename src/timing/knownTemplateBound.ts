@@ -19,7 +19,8 @@
  * and §7.7 (the linear model with nuisance parameters); equivalently the
  * Fisher information of a signal amplitude after the nuisance parameters
  * are marginalised, Kay 1993, Vol. I, §3.7 and eq. 3.34 for the Cramér–Rao
- * bound of a parameter with others unknown). The one-sided test at
+ * bound of a parameter with others unknown; Kay's section and equation
+ * numbers from memory). The one-sided test at
  * false-alarm rate α then detects with probability
  *     Pd = Φ(SNR − z₁₋α)      (Kay 1998, eq. 4.14).
  * Pd is averaged over the moon's unknown angles exactly as
@@ -43,7 +44,8 @@
  * differences on a model supersampled in every exposure that touches the disc
  * (a fixed sub-exposure grid, so the differences are smooth in θ), and is
  * orthonormalised once (modified Gram–Schmidt with one reorthogonalisation;
- * Björck 1996, Numerical Methods for Least Squares Problems, §2.4.5). The
+ * Björck 1996, Numerical Methods for Least Squares Problems, §2.4.5 [from
+ * memory]). The
  * basis depends only on the moonless scenario, so cells of one null class
  * share it (`remembered`).
  */
