@@ -13,6 +13,7 @@ import { benchCalendar } from './calendar.js';
 import { benchSweep, referenceSweepDoc } from './sweep.js';
 import { threadScaling } from './threadScaling.js';
 import { benchLimitsStart, benchWorkerStart } from './workerStart.js';
+import { benchBound } from './bound.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -109,6 +110,7 @@ async function main(): Promise<void> {
     ['budget', () => benchBudget()],
     ['calendar', () => benchCalendar()],
     ['startup', async () => [...benchLimitsStart(), ...(await benchWorkerStart(referenceSweepDoc(20)))]],
+    ['bound', () => benchBound()],
     ['small-sweep', () => smallSweepSection()],
     ['sweep', () => sweepSection(process.argv.includes('--full'))],
   ];

@@ -24,6 +24,7 @@ import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { modelTimingPrecision } from '../timing/modelTimingPrecision.js';
 import { templateGeometryFromScenario } from '../timing/transitTemplate.js';
 import { windowHalfWidthS } from '../photometry/transitWindows.js';
+import { boundAngles } from '../timing/knownTemplateBound.js';
 
 /** Why a moon can or cannot be where the scenario puts it. */
 export type PlacementLabel = 'stable' | 'touches the planet' | 'beyond stable limit' | 'inside Roche limit' | 'would not survive tidal migration';
@@ -90,6 +91,8 @@ export interface LimitsJson {
   pdet_forecast_ttv: number | null;
   /** Null without a moon or with 1 transit. */
   pdet_forecast_tdv: number | null;
+  /** The Monte Carlo's combined rule forecast over TTV and TDV (detectionForecast.ts, "Combined"; the moon dip not forecast); null without a timing channel. */
+  pdet_forecast_combined: number | null;
   energy_budget: EnergyBudgetJson | null;
   assumptions: string[];
 }
@@ -150,6 +153,38 @@ function placementOf(s: Scenario, l: ReturnType<typeof orbitalLimits>): Placemen
   return placement;
 }
 
+/** Angle sets the forecast averages over when the moon's node or periapsis is drawn (boundAngles' rule). */
+export const FORECAST_ANGLES = 16;
+
+/** Kipping's (2009a) TTV/TDV of the scenario's moon at a node and periapsis, reduced by the transit averaging. */
+function moonSignals(s: Scenario, t14S: number, nodeRad: number, periapsisRad: number) {
+  const { planet, moon } = s;
+  const frozen = timingSignals({
+    planetMassKg: planet.massKg,
+    moonMassKg: moon!.massKg,
+    moonSeparationM: moon!.separationM,
+    moonEccentricity: moon!.eccentricity,
+    moonInclinationRad: moon!.retrograde ? Math.PI - moon!.inclinationRad : moon!.inclinationRad,
+    moonNodeRad: nodeRad,
+    moonPeriapsisRad: periapsisRad,
+    barycentreSemiMajorAxisM: planet.semiMajorAxisM,
+    barycentrePeriodS: planet.periodS,
+    barycentreEccentricity: planet.eccentricity,
+    barycentreOmegaRad: planet.omegaRad,
+    durationS: t14S,
+  });
+  // The reflex motion during the transit averages the signals down (transitAveraging.ts).
+  const avg = transitAveraging(t14S, frozen.moonPeriodS);
+  const sig = {
+    ...frozen,
+    ttvSemiAmplitudeS: frozen.ttvSemiAmplitudeS * avg.ttvFactor,
+    ttvRmsS: frozen.ttvRmsS * avg.ttvFactor,
+    tdvSemiAmplitudeS: frozen.tdvSemiAmplitudeS * avg.tdvFactor,
+    tdvRmsS: frozen.tdvRmsS * avg.tdvFactor,
+  };
+  return { frozen, avg, sig };
+}
+
 export function computeLimits(s: Scenario): LimitsJson {
   const { star, planet, moon, instrument, observation } = s;
   const lim = orbitalLimits(s);
@@ -203,7 +238,7 @@ export function computeLimits(s: Scenario): LimitsJson {
     'nested two-body (Kepler) orbits: no perturbations by the star on the moon orbit, no other planets',
     'TTV/TDV amplitudes from the barycentric reflex motion (Kipping 2009a), averaged over the transit; no photocentric TTV from the moon dip',
     'per-transit precision is the Cramér–Rao bound of the limb-darkened, exposure-averaged model under white noise; red noise, spots and systematics make real errors larger',
-    `detection forecast: noncentral chi-square of white-noise TTV/TDV excesses at false-alarm probability ${s.detection.falseAlarm}`,
+    `detection forecast: noncentral chi-square of white-noise TTV/TDV excesses at false-alarm probability ${s.detection.falseAlarm}; the combined forecast applies the Monte Carlo's rule (each channel at α/m, any one detecting) to TTV and TDV, without the moon dip`,
     'Roche limit, stability band and tidal survival are fits and idealisations, not guarantees',
   ];
   if (grazing) {
@@ -266,6 +301,7 @@ export function computeLimits(s: Scenario): LimitsJson {
     pdet_forecast_joint: null,
     pdet_forecast_ttv: null,
     pdet_forecast_tdv: null,
+    pdet_forecast_combined: null,
     energy_budget: null,
     assumptions,
   };
@@ -276,49 +312,65 @@ export function computeLimits(s: Scenario): LimitsJson {
   // answer, and the orbit-based quantities (signals, eclipses, energy budget) stay null.
   if (moon.touchesPlanet) return { ...out, moon_separation_m: moon.separationM, moon_placement: placement };
 
-  const frozen = timingSignals({
-    planetMassKg: planet.massKg,
-    moonMassKg: moon.massKg,
-    moonSeparationM: moon.separationM,
-    moonEccentricity: moon.eccentricity,
-    moonInclinationRad: moon.retrograde ? Math.PI - moon.inclinationRad : moon.inclinationRad,
-    moonNodeRad: moon.nodeRad,
-    moonPeriapsisRad: moon.periapsisRad,
-    barycentreSemiMajorAxisM: aB,
-    barycentrePeriodS: planet.periodS,
-    barycentreEccentricity: planet.eccentricity,
-    barycentreOmegaRad: planet.omegaRad,
-    durationS: dur.t14S,
-  });
-  // The reflex motion during the transit averages the signals down (transitAveraging.ts).
-  const avg = transitAveraging(dur.t14S, frozen.moonPeriodS);
-  const sig = {
-    ...frozen,
-    ttvSemiAmplitudeS: frozen.ttvSemiAmplitudeS * avg.ttvFactor,
-    ttvRmsS: frozen.ttvRmsS * avg.ttvFactor,
-    tdvSemiAmplitudeS: frozen.tdvSemiAmplitudeS * avg.tdvFactor,
-    tdvRmsS: frozen.tdvRmsS * avg.tdvFactor,
-  };
+  // The Monte Carlo draws the moon's node (inclined orbit) and periapsis (eccentric orbit) per
+  // realization (timing/realization.ts); the forecast averages its probabilities over the same
+  // angles, on the known-template bound's fixed rule (boundAngles), instead of using the
+  // scenario's values (issue 17: up to 2× too strong at high inclination). The phase is averaged
+  // inside forecastDetection.
+  const drawn = moon.inclinationRad > 0 || moon.eccentricity > 0;
+  const nAngles = drawn ? FORECAST_ANGLES : 1;
+  const alias0 = ttvAlias(planet.periodS, moonSignals(s, dur.t14S, moon.nodeRad, moon.periapsisRad).sig.moonPeriodS);
+  const precisionOk = modelTcPrecision > 0 && durationPrecision > 0 && Number.isFinite(modelTcPrecision + durationPrecision);
+  const acc = { ttv: 0, tdv: 0, joint: 0, combined: 0, ttv2: 0, tdv2: 0 };
+  let first: ReturnType<typeof moonSignals> | null = null;
+  let forecast: ReturnType<typeof forecastDetection> | null = null;
+  for (let j = 0; j < nAngles; j++) {
+    const a = drawn ? boundAngles(s, j, nAngles) : { nodeRad: moon.nodeRad, periapsisRad: moon.periapsisRad };
+    const at = moonSignals(s, dur.t14S, a.nodeRad, a.periapsisRad);
+    first ??= at;
+    acc.ttv2 += at.sig.ttvRmsS ** 2;
+    acc.tdv2 += at.sig.tdvRmsS ** 2;
+    if (!precisionOk) continue;
+    forecast = forecastDetection({
+      nTransits: observation.transits,
+      sigmaTcS: modelTcPrecision,
+      sigmaDurS: durationPrecision,
+      ttvRmsS: at.sig.ttvRmsS,
+      tdvRmsS: at.sig.tdvRmsS,
+      falseAlarm: s.detection.falseAlarm,
+      aliasFrequencyPerEpoch: alias0.aliasFrequencyPerEpoch,
+    });
+    acc.ttv += forecast.ttv?.probability ?? NaN;
+    acc.tdv += forecast.tdv?.probability ?? NaN;
+    acc.joint += forecast.joint?.probability ?? NaN;
+    acc.combined += forecast.combined ?? NaN;
+  }
+  const { frozen, avg } = first!;
+  // Reported amplitudes: the rms over the drawn angles (what the realizations see on average).
+  const sig = { ...first!.sig, ttvRmsS: Math.sqrt(acc.ttv2 / nAngles), tdvRmsS: Math.sqrt(acc.tdv2 / nAngles) };
+  sig.ttvSemiAmplitudeS = sig.ttvRmsS * Math.SQRT2;
+  sig.tdvSemiAmplitudeS = sig.tdvRmsS * Math.SQRT2;
+  const meanOr = (v: number): number | null => (Number.isFinite(v) ? v / nAngles : null);
   if (avg.ttvFactor < 0.99) {
     out.assumptions.push(`the transit lasts ${(dur.t14S / frozen.moonPeriodS).toFixed(2)} of the moon's period: the reflex motion during the transit reduces the TTV by ×${avg.ttvFactor.toFixed(3)} and the TDV by ×${avg.tdvFactor.toFixed(3)} against Kipping's (2009a) frozen-planet amplitudes (included here)`);
   }
-  const alias = ttvAlias(planet.periodS, sig.moonPeriodS);
+  if (drawn) {
+    out.assumptions.push(`the forecast averages over the moon's ${[moon.inclinationRad > 0 ? 'node' : '', moon.eccentricity > 0 ? 'periapsis' : ''].filter(Boolean).join(' and ')} as the Monte Carlo draws them (uniform; ${FORECAST_ANGLES} fixed angle sets), not the scenario's values; the TTV/TDV rms quoted are rms over those angles`);
+  }
+  const alias = alias0;
   const family = aliasFamily(planet.periodS, alias.aliasFrequencyPerEpoch, 4).map((m) => m.moonPeriodS);
   const dip = moonDipDepth({ moonRadiusM: moon.radiusM, starRadiusM: star.radiusM, u1: star.u1, u2: star.u2, impactParameter: Math.min(planet.impactParameter, 0.999) });
   // Without noise the timing precision is not a positive number (no Cramér–Rao bound to compare
   // against): no forecast, said so, rather than a failure.
-  const precisionOk = modelTcPrecision > 0 && durationPrecision > 0 && Number.isFinite(modelTcPrecision + durationPrecision);
-  const forecast = precisionOk
-    ? forecastDetection({
-        nTransits: observation.transits,
-        sigmaTcS: modelTcPrecision,
-        sigmaDurS: durationPrecision,
-        ttvRmsS: sig.ttvRmsS,
-        tdvRmsS: sig.tdvRmsS,
-        falseAlarm: s.detection.falseAlarm,
-        aliasFrequencyPerEpoch: alias.aliasFrequencyPerEpoch,
-      })
-    : { ttv: null, tdv: null, joint: null, notes: [`no detection forecast: the per-transit timing precision is ${modelTcPrecision} s (noise ${sigma}), not a positive number, so there is no white-noise χ² test to forecast`] };
+  const forecastNotes = forecast
+    ? forecast.notes
+    : [`no detection forecast: the per-transit timing precision is ${modelTcPrecision} s (noise ${sigma}), not a positive number, so there is no white-noise χ² test to forecast`];
+  const probabilities = {
+    ttv: forecast ? meanOr(acc.ttv) : null,
+    tdv: forecast ? meanOr(acc.tdv) : null,
+    joint: forecast ? meanOr(acc.joint) : null,
+    combined: forecast ? meanOr(acc.combined) : null,
+  };
 
   const tidal = tidalHeatFlux({
     planetMassKg: planet.massKg,
@@ -352,7 +404,7 @@ export function computeLimits(s: Scenario): LimitsJson {
   if (!regimeOk) {
     out.assumptions.push(`the moon's own dip is large for its mass ((R_S/R_P)²/(M_S/M_P) = ${photocentric.toPrecision(2)}): its photocentric TTV (Szabó et al. 2006) partly cancels or reverses the barycentric TTV, so the analytic forecast does not hold; trust the Monte Carlo sweep`);
   }
-  out.assumptions.push(...forecast.notes);
+  out.assumptions.push(...forecastNotes);
 
   return {
     ...out,
@@ -370,9 +422,10 @@ export function computeLimits(s: Scenario): LimitsJson {
     moon_depth: dip.depthChordMean,
     photocentric_ratio: photocentric,
     forecast_regime_ok: regimeOk,
-    pdet_forecast_joint: forecast.joint?.probability ?? null,
-    pdet_forecast_ttv: forecast.ttv?.probability ?? null,
-    pdet_forecast_tdv: forecast.tdv?.probability ?? null,
+    pdet_forecast_joint: probabilities.joint,
+    pdet_forecast_ttv: probabilities.ttv,
+    pdet_forecast_tdv: probabilities.tdv,
+    pdet_forecast_combined: probabilities.combined,
     energy_budget: {
       stellar_w_m2: budget.stellarWm2,
       reflected_w_m2: budget.reflectedWm2,

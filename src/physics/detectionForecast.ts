@@ -39,6 +39,18 @@
  * quantile and the detection probability is the noncentral chi-square
  * survival function at that threshold.
  *
+ * Combined: the Monte Carlo's decision rule (timing/detection.ts) forecast
+ * for the channels modelled here. Each of the m channels the Monte Carlo
+ * combines (TTV, TDV and the moon dip; `combinedChannels`) is tested at the
+ * level `combinedChannelAlpha(α, m)`, and a detection in any of them counts:
+ *   P = 1 − Π (1 − P_ch)      over TTV and TDV,
+ * independent channels (under white noise the fitted mid-time and duration
+ * of a symmetric transit are uncorrelated: Carter et al. 2008, ApJ 689, 499,
+ * §3, their Fisher matrix). In mode 2 the product is formed at each signal
+ * phase φ (TTV and TDV share it) and then averaged. The moon-dip channel is
+ * not forecast: its share of the combined probability is missing, so the
+ * combined forecast is a lower estimate where the dip carries the signal.
+ *
  * Few transits. A channel exists only with at least one degree of freedom
  * left after its fit (a χ² with 0 dof is identically 0 and carries no
  * information, Seber & Lee 2003 §2.4):
@@ -69,6 +81,8 @@ export interface DetectionForecastInput {
   falseAlarm: number;
   /** Optional alias frequency ν of the TTV/TDV signal, cycles per epoch in [0, ½] (mode 2). */
   aliasFrequencyPerEpoch?: number;
+  /** Channels the Monte Carlo's combined rule joins, m (default: the timing channels N allows, plus the moon dip). */
+  combinedChannels?: number;
 }
 
 export interface ChannelForecast {
@@ -89,6 +103,8 @@ export interface DetectionForecast {
   tdv: ChannelForecast | null;
   /** χ²_TTV + χ²_TDV over the channels that exist; null when none does. */
   joint: ChannelForecast | null;
+  /** The Monte Carlo's combined rule over TTV and TDV (see "Combined" in the header); null when neither exists. */
+  combined: number | null;
   /** Why a channel is absent (empty when all three exist). */
   notes: string[];
 }
@@ -108,6 +124,30 @@ export function missingChannelNotes(n: number): string[] {
     return ['no timing channel with 2 transits: a linear ephemeris (2 free parameters) fits 2 mid-times exactly, so there is no TTV test; the TDV test has 1 degree of freedom (the difference of the two durations) and the joint forecast is that TDV test alone; the moon dip is not forecast (Monte Carlo only)'];
   }
   return [`no timing channel with ${n} transit: one mid-time and one duration leave no degree of freedom for a TTV or TDV test; only the moon's own dip (not forecast here; Monte Carlo only) could show a moon`];
+}
+
+/**
+ * The combination rule the Monte Carlo applies (timing/detection.ts): the one
+ * place to switch when it changes. 'bonferroni': each of m channels at α/m
+ * (Bonferroni 1936; Pr(any) ≤ α whatever the correlation). 'sidak': each at
+ * 1 − (1 − α)^(1/m), the level at which m independent channels together
+ * false-alarm at exactly α (Šidák 1967, JASA 62, 626) — what a min-p rule
+ * calibrated directly on no-moon realizations reaches for independent channels.
+ */
+export type CombinationRule = 'bonferroni' | 'sidak';
+export const MONTE_CARLO_COMBINATION: CombinationRule = 'bonferroni';
+
+/** Per-channel false-alarm level of the combined rule over m channels. */
+export function combinedChannelAlpha(alpha: number, m: number, rule: CombinationRule = MONTE_CARLO_COMBINATION): number {
+  if (!(m >= 1)) throw new RangeError(`m must be ≥ 1; got ${m}`);
+  return rule === 'bonferroni' ? alpha / m : -Math.expm1(Math.log1p(-alpha) / m);
+}
+
+/** Probability that at least one of independent channels detects: 1 − Π(1 − p). */
+export function anyOfIndependent(ps: readonly number[]): number {
+  let miss = 1;
+  for (const p of ps) miss *= 1 - p;
+  return 1 - miss;
 }
 
 function channel(dof: number, noncentrality: number, falseAlarm: number): ChannelForecast {
@@ -171,7 +211,23 @@ function phaseAveragedChannel(dof: number, q: PhaseQuadratic, falseAlarm: number
   return { threshold, noncentrality: lam / PHASE_NODES, dof, probability: p / PHASE_NODES };
 }
 
-/** Forecast TTV, TDV and joint detection probabilities (see the file header). */
+/** The combined rule averaged over a uniform phase φ (mode 2): TTV and TDV at the same φ, joined per φ. */
+function phaseAveragedCombined(qTtv: PhaseQuadratic | null, dofTtv: number, qTdv: PhaseQuadratic, dofTdv: number, level: number): number {
+  const tTtv = qTtv ? chiSquareUpperQuantile(level, dofTtv) : NaN;
+  const tTdv = chiSquareUpperQuantile(level, dofTdv);
+  let p = 0;
+  for (let j = 0; j < PHASE_NODES; j++) {
+    const phi = (Math.PI * j) / PHASE_NODES;
+    const c = Math.cos(phi), s = Math.sin(phi);
+    const lam = (q: PhaseQuadratic): number => Math.max(0, q.a * c * c + q.b * s * s + 2 * q.c * s * c);
+    const pTdv = noncentralChiSquareSurvival(tTdv, dofTdv, lam(qTdv));
+    const pTtv = qTtv ? noncentralChiSquareSurvival(tTtv, dofTtv, lam(qTtv)) : 0;
+    p += anyOfIndependent([pTtv, pTdv]);
+  }
+  return p / PHASE_NODES;
+}
+
+/** Forecast TTV, TDV, joint and combined detection probabilities (see the file header). */
 export function forecastDetection(input: DetectionForecastInput): DetectionForecast {
   const { nTransits: n, sigmaTcS, sigmaDurS, ttvRmsS, tdvRmsS, falseAlarm } = input;
   if (!Number.isInteger(n) || n < 1) throw new RangeError(`nTransits must be an integer ≥ 1; got ${n}`);
@@ -184,7 +240,9 @@ export function forecastDetection(input: DetectionForecastInput): DetectionForec
   if (!(falseAlarm > 0 && falseAlarm < 1)) throw new RangeError(`falseAlarm must be in (0, 1); got ${falseAlarm}`);
   const nu = input.aliasFrequencyPerEpoch;
   if (nu !== undefined && !(nu >= 0 && nu <= 0.5)) throw new RangeError(`aliasFrequencyPerEpoch must be in [0, 0.5]; got ${nu}`);
-  if (n < 2) return { ttv: null, tdv: null, joint: null, notes: missingChannelNotes(n) };
+  if (n < 2) return { ttv: null, tdv: null, joint: null, combined: null, notes: missingChannelNotes(n) };
+  const m = input.combinedChannels ?? (n >= 3 ? 3 : 2);
+  const level = combinedChannelAlpha(falseAlarm, m);
   if (nu !== undefined) {
     // TTV s = A(cosφ·u + sinφ·v), residual after the line; TDV s = −B(cosφ·v − sinφ·u), residual after the mean.
     const rt = residualProducts(n, nu, true);
@@ -199,6 +257,7 @@ export function forecastDetection(input: DetectionForecastInput): DetectionForec
       ttv: hasTtv ? phaseAveragedChannel(n - 2, qTtv, falseAlarm) : null,
       tdv: n >= 2 ? phaseAveragedChannel(n - 1, qTdv, falseAlarm) : null,
       joint: n >= 2 ? phaseAveragedChannel(Math.max(0, n - 2) + (n - 1), qJoint, falseAlarm) : null,
+      combined: phaseAveragedCombined(hasTtv ? qTtv : null, n - 2, qTdv, n - 1, level),
       notes: missingChannelNotes(n),
     };
   }
@@ -208,6 +267,7 @@ export function forecastDetection(input: DetectionForecastInput): DetectionForec
     ttv: n >= 3 ? channel(n - 2, lambdaTtv, falseAlarm) : null,
     tdv: n >= 2 ? channel(n - 1, lambdaTdv, falseAlarm) : null,
     joint: n >= 2 ? channel(Math.max(0, n - 2) + (n - 1), lambdaTtv + lambdaTdv, falseAlarm) : null,
+    combined: anyOfIndependent([n >= 3 ? channel(n - 2, lambdaTtv, level).probability : 0, channel(n - 1, lambdaTdv, level).probability]),
     notes: missingChannelNotes(n),
   };
 }

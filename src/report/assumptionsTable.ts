@@ -8,6 +8,7 @@ import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { scenarioDurations, windowsOverlap } from '../photometry/transitWindows.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
+import { boundNotes } from '../timing/knownTemplateBound.js';
 import { AU_M, DAY_S, HOUR_S, JULIAN_YEAR_S, L_SUN_W, M_EARTH_KG, M_JUP_KG, M_SUN_KG, R_EARTH_M, R_JUP_M, R_SUN_M } from '../physics/constants.js';
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta, SweepRunInfo } from '../sweep/sweepMeta.js';
@@ -17,6 +18,13 @@ import { num } from './reportGrid.js';
 
 const DEG = 180 / Math.PI;
 const ppm = (x: number) => `${f(x * 1e6)} ppm`;
+
+/** What the known-template bound (pdet_bound) is, and what of this scenario it leaves out. */
+export function boundText(s: Scenario): string {
+  const leaves = boundNotes(s);
+  return 'the known-template bound: the matched filter for the exact planet+moon light curve after the planet-only model\'s own freedoms (mid-time, period, radius ratio, impact parameter, a/R*, limb darkening, each transit\'s offset and slope) are projected out, Φ(SNR − z₁₋α), averaged over the moon\'s phase (and node, periapsis where drawn); no analysis of the same data can beat it: it knows the moon\'s mass, radius and orbit up to those angles and assumes white noise (Kay 1998, Detection Theory, §4.3, §7.7)'
+    + (leaves.length ? `; ${leaves.join('; ')}` : '');
+}
 
 /** The instrument row: cadence, exposure and where the white-noise level came from (stated, or a ground budget). */
 export function instrumentText(s: Scenario, mark: (field: string) => string = () => ''): string {
@@ -73,6 +81,7 @@ export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioD
     const o = s.observation;
     rows.push(['transits', `${o.transits} consecutive transits${mark('observation.transits')}, each observed from ${f(o.baselineS / HOUR_S)} h before first to ${f(o.baselineS / HOUR_S)} h after last contact${mark('observation.baseline')}; epoch 0 at BJD_TDB ${o.t0BjdTdb}${windowsOverlap(s) ? '; the baseline reaches past half the period, so consecutive windows are cut at the midpoints between conjunctions (each time stamp once)' : ''}`]);
     rows.push(['gaps', gapsText(s, mark)]);
+    rows.push(['detection bound (cyan lines)', boundText(s)]);
   } else {
     rows.push(['scenario document', 'not available: star, planet, instrument and noise are not listed, and physical boundaries and example cells are omitted (run `moonsieve report DIR --scenario FILE` with the scenario file)']);
   }

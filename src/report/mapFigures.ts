@@ -4,7 +4,10 @@
  * sweep, small multiples: one map per value of the third axis, all on the
  * same colour scale, each labelled with its value and unit), the minimum
  * detectable moon mass at 50 % and 90 %, and Monte Carlo against the
- * analytic forecast. Plain plotly data/layout objects (see plotlyPage.ts).
+ * analytic forecast. Every map and the minimum-detectable plot also carry the
+ * known-template bound (`pdet_bound`, timing/knownTemplateBound.ts): the
+ * line no analysis of the same data can beat, in cyan. Plain plotly
+ * data/layout objects (see plotlyPage.ts).
  *
  * Colour: 'Cividis', designed to read the same for colour-blind readers and
  * to increase monotonically in lightness, so it survives greyscale printing
@@ -169,9 +172,11 @@ function hoverMatrix(meta: SweepMeta, a: Axes2, p: Panel): string[][] {
         `cell ${c.index}: ${formatDisplay(a.yd, ya.values[j])}, ${formatDisplay(a.xd, xa.values[i])}${p.label ? `, ${p.label}` : ''}`,
         `placement: ${String(c.placement ?? '?')}; energy budget: ${String(c.habitability ?? '?')}`,
       ];
-      if (fo) lines.push(`forecast joint ${pct(num(c, 'pdet_forecast_joint'))}, TTV ${pct(num(c, 'pdet_forecast_ttv'))}, TDV ${pct(num(c, 'pdet_forecast_tdv'))}`);
+      if (fo && cellProbability(c, 'combined', true, meta.simulate_unstable) === null) lines.push(`not forecast (${String(c.placement ?? '')}): the Monte Carlo would not simulate it`);
+      else if (fo) lines.push(`forecast combined ${pct(num(c, 'pdet_forecast_combined'))}, TTV ${pct(num(c, 'pdet_forecast_ttv'))}, TDV ${pct(num(c, 'pdet_forecast_tdv'))}; joint χ² ${pct(num(c, 'pdet_forecast_joint'))}`);
       else if (c.simulated === true) lines.push(`combined ${pct(num(c, 'pdet_combined'))} [${pct(num(c, 'pdet_combined_lo'))}, ${pct(num(c, 'pdet_combined_hi'))}]; TTV ${pct(num(c, 'pdet_ttv'))}, TDV ${pct(num(c, 'pdet_tdv'))}, dip ${pct(num(c, 'pdet_dip'))}`);
       else lines.push(`not simulated (${String(c.skipped_reason ?? '')})`);
+      if (num(c, 'pdet_bound') !== null) lines.push(`bound (best possible analysis) ${pct(num(c, 'pdet_bound'))}`);
       return lines.map(escapeHtml).join('<br>');
     }),
   );
@@ -240,6 +245,19 @@ function contourTrace(z: unknown, a: Axes2, level: number, dash: string): Record
   };
 }
 
+/** Colour of the bound's lines: cyan, apart from the Cividis scale, the white contours and the orange limits. */
+export const BOUND_COLOUR = '#17becf';
+
+/** The bound's contour at a level, over the cells the map shows (like for like). */
+function boundContour(z: unknown, a: Axes2, level: number, dash: string): Record<string, unknown> {
+  return {
+    ...contourTrace(z, a, level, dash),
+    name: `bound ${Math.round(level * 100)} % (no analysis can do better)`,
+    contours: { coloring: 'none', start: level, end: level, size: 1, showlabels: true, labelfont: { color: BOUND_COLOUR, size: 12 } },
+    line: { color: BOUND_COLOUR, width: 2.5, dash },
+  };
+}
+
 function mapTitle(meta: SweepMeta, channel: MapChannel): string {
   const below = channel === 'combined' && !meta.forecast_only ? '; can be below a single channel, tested at α' : '';
   const forecast = meta.forecast_only && channel !== 'combined' ? ' (analytic forecast)' : '';
@@ -272,12 +290,13 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
   const a = axes2(meta, cells);
   const fo = meta.forecast_only;
   const faceted = a.panels.length > 1;
-  const perPanel = (ch: MapChannel) => a.panels.map((p) => gridMatrix(p.layout, (c) => cellProbability(c, ch, fo)));
+  const perPanel = (ch: MapChannel) => a.panels.map((p) => gridMatrix(p.layout, (c) => cellProbability(c, ch, fo, meta.simulate_unstable)));
   const zByChannel = Object.fromEntries(MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? perPanel(ch) : null])) as Record<MapChannel, Array<Array<Array<number | null>>> | null>;
   const channelZ = Object.fromEntries(
     MAP_CHANNELS.map((ch) => [ch, zByChannel[ch] === null ? null : faceted ? zByChannel[ch] : (zByChannel[ch] as Array<Array<Array<number | null>>>)[0]]),
   ) as GridFigures['channelZ'];
   const combined = zByChannel.combined as Array<Array<Array<number | null>>>;
+  const bound = a.panels.map((p) => gridMatrix(p.layout, (c) => (cellProbability(c, 'combined', fo, meta.simulate_unstable) === null ? null : num(c, 'pdet_bound'))));
   const data: unknown[] = [];
   const mapTraces: number[] = [];
   const mapTraceFacet: number[] = [];
@@ -296,6 +315,8 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
       },
       contourTrace(z, a, 0.5, 'dash'),
       contourTrace(z, a, 0.9, 'solid'),
+      boundContour(bound[k], a, 0.5, 'dash'),
+      boundContour(bound[k], a, 0.9, 'solid'),
       { type: 'scatter', mode: 'lines', x: outline.x, y: outline.y, name: 'habitable region (temperate energy budget)', line: { color: '#1b9e77', width: 4 }, hoverinfo: 'skip', connectgaps: false },
       ...boundaryTraces(meta, a, b, p),
       ...placementTraces(a, p),
@@ -327,17 +348,27 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
         type: 'scatter', mode: 'lines+markers', name: `${level} detection probability${g.label ? `, ${g.label}` : ''}`,
         x: mine.map((p) => p.x / a.xd.divisor), y: mine.map((p) => (p.y === null ? null : p.y / a.yd.divisor)),
         line: { dash, width: 2.5, color: g.v === undefined ? (level === '90 %' ? '#00204c' : '#7c7b78') : facetColour(g.k, groups.length) },
-        marker: { symbol: mine.map((p) => (p.at_grid_edge ? 'triangle-down' : 'circle')), size: 8 },
+        // A point that is only an upper bound (at the grid's edge, or reached after unsimulated cells) points down.
+        marker: { symbol: mine.map((p) => (p.at_grid_edge || p.is_bound ? 'triangle-down' : 'circle')), size: 8 },
         connectgaps: false,
       };
     };
+    const boundLine = (pts: typeof md.level_50, level: string, dash: string, g: (typeof groups)[number]) => ({
+      ...line(pts, level, dash, g),
+      name: `bound ${level} (no analysis can do better)${g.label ? `, ${g.label}` : ''}`,
+      line: { dash, width: 2, color: g.v === undefined ? BOUND_COLOUR : facetColour(g.k, groups.length) },
+      opacity: 0.85,
+    });
     const yName = a.yd.title;
     const what = md.direction === 'increasing' ? 'minimum detectable' : 'largest detectable';
     figures.push({
       id: 'mindet',
-      data: groups.flatMap((g) => [line(md.level_50, '50 %', 'dash', g), line(md.level_90, '90 %', 'solid', g)]),
+      data: groups.flatMap((g) => [
+        line(md.level_50, '50 %', 'dash', g), line(md.level_90, '90 %', 'solid', g),
+        boundLine(md.bound_50, '50 %', 'dash', g), boundLine(md.bound_90, '90 %', 'solid', g),
+      ]),
       layout: {
-        title: { text: `${what[0].toUpperCase()}${what.slice(1)} ${yName.replace(/ \(.*\)$/, '')} at 50 % and 90 %` },
+        title: { text: `${what[0].toUpperCase()}${what.slice(1)} ${yName.replace(/ \(.*\)$/, '')} at 50 % and 90 %, and the bound (cyan: known template, white noise)` },
         xaxis: { ...axisLayout(a.xd, a.xEdges) },
         yaxis: { ...axisLayout(a.yd, a.yEdges), title: { text: `${what} ${yName}` } },
         legend: { orientation: 'h', y: -0.2 },
@@ -399,7 +430,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
   const fo = meta.forecast_only;
   const at = (i: number) => layout.cellAt(i, 0);
   const channelZ = Object.fromEntries(
-    MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? x.map((_, i) => { const c = at(i); return c ? cellProbability(c, ch, fo) : null; }) : null]),
+    MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? x.map((_, i) => { const c = at(i); return c ? cellProbability(c, ch, fo, meta.simulate_unstable) : null; }) : null]),
   ) as GridFigures['channelZ'];
   const colors: Record<MapChannel, string> = { combined: '#00204c', ttv: '#7c7b78', tdv: '#bcaf6f', dip: '#ffe945' };
   const data: unknown[] = [];
@@ -413,6 +444,10 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
       line: { width: ch === 'combined' ? 3.5 : 2, color: colors[ch], dash: ch === 'combined' ? 'solid' : ch === 'ttv' ? 'dash' : ch === 'tdv' ? 'dot' : 'dashdot' },
       error_y: fo ? undefined : { type: 'data', symmetric: false, array: y.map((p, i) => (p === null || hi[i] === null ? null : (hi[i] as number) - p)), arrayminus: y.map((p, i) => (p === null || lo[i] === null ? null : p - (lo[i] as number))), thickness: 1, width: 3 },
     });
+  }
+  const boundY = x.map((_, i) => { const c = at(i); return c && cellProbability(c, 'combined', fo, meta.simulate_unstable) !== null ? num(c, 'pdet_bound') : null; });
+  if (boundY.some((v) => v !== null)) {
+    data.push({ type: 'scatter', mode: 'lines+markers', x, y: boundY, name: 'bound: known template, white noise (no analysis can do better)', line: { width: 2, color: BOUND_COLOUR, dash: 'longdash' } });
   }
   const shapes: unknown[] = [0.5, 0.9].map((lv) => ({ type: 'line', xref: 'paper', x0: 0, x1: 1, y0: lv, y1: lv, line: { dash: lv === 0.5 ? 'dash' : 'solid', color: '#888', width: 1 } }));
   const edges = cellEdges(x, d.log);

@@ -13,7 +13,7 @@ export const CHANNEL_LABELS: Record<MapChannel, string> = { combined: 'combined 
 
 /** A channel's label; in a forecast-only run "combined" is the joint TTV + TDV forecast. */
 export function channelLabel(ch: MapChannel, forecastOnly: boolean): string {
-  return forecastOnly && ch === 'combined' ? 'combined (joint TTV + TDV forecast)' : CHANNEL_LABELS[ch];
+  return forecastOnly && ch === 'combined' ? 'combined (forecast: TTV or TDV, each at α/3; moon dip not forecast)' : CHANNEL_LABELS[ch];
 }
 
 /**
@@ -27,14 +27,14 @@ export function channelLabel(ch: MapChannel, forecastOnly: boolean): string {
 export function combinedMeaning(forecastOnly: boolean, alpha: number): string {
   const a = String(Number(alpha.toPrecision(3)));
   return forecastOnly
-    ? `"combined" is the analytic joint TTV + TDV test at the false-alarm probability α = ${a}.`
+    ? `"combined" is the analytic forecast of the Monte Carlo's rule: a detection in TTV or TDV, each tested at α/3 = ${String(Number((alpha / 3).toPrecision(3)))} (the moon dip, the third channel, is not forecast, so where it carries the signal the forecast reads low), averaged over the moon's phase and the angles the Monte Carlo draws; false-alarm probability α = ${a}.`
     : `"combined" counts a detection in any of TTV, TDV and moon dip, each tested at α/3 = ${String(Number((alpha / 3).toPrecision(3)))} so that the three together keep the false-alarm probability α = ${a} (Bonferroni); a single channel's map tests that channel alone at α, so where one channel carries the signal the combined probability can be below it.`;
 }
 
 /** The cell field holding a channel's detection probability, or null when the run has none. */
 export function channelField(channel: MapChannel, forecastOnly: boolean): string | null {
   if (!forecastOnly) return `pdet_${channel}`;
-  return { combined: 'pdet_forecast_joint', ttv: 'pdet_forecast_ttv', tdv: 'pdet_forecast_tdv', dip: null }[channel];
+  return { combined: 'pdet_forecast_combined', ttv: 'pdet_forecast_ttv', tdv: 'pdet_forecast_tdv', dip: null }[channel];
 }
 
 /** A number field of a cell, or null (JSON turned NaN into null; missing fields are null too). */
@@ -43,11 +43,17 @@ export function num(c: CellResult | undefined, key: string): number | null {
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 
-/** Detection probability of a cell in a channel; null for cells without one (not simulated). */
-export function cellProbability(c: CellResult, channel: MapChannel, forecastOnly: boolean): number | null {
+/**
+ * Detection probability of a cell in a channel; null for cells without one:
+ * not simulated, or in a forecast-only run a cell the Monte Carlo would not
+ * simulate (a moon not physically allowed, unless `simulateUnstable`), so
+ * forecast-only maps leave and label the same cells as Monte Carlo maps.
+ */
+export function cellProbability(c: CellResult, channel: MapChannel, forecastOnly: boolean, simulateUnstable = false): number | null {
   const f = channelField(channel, forecastOnly);
   if (f === null) return null;
   if (!forecastOnly && c.simulated !== true) return null;
+  if (forecastOnly && c.allowed !== true && !(simulateUnstable && !String(c.placement ?? '').includes('touches the planet'))) return null;
   return num(c, f);
 }
 

@@ -8,9 +8,15 @@
  *   surviving tidal migration) and whose energy budget is "temperate".
  * - Its detection probability is the Monte Carlo combined-channel estimate
  *   `pdet_combined` (any of TTV, TDV, moon dip above its calibrated threshold),
- *   or in a forecast-only run the analytic joint forecast `pdet_forecast_joint`.
+ *   or in a forecast-only run the forecast of the same rule over TTV and TDV,
+ *   `pdet_forecast_combined` (the moon dip is not forecast; summaries written
+ *   before it quote the joint χ² forecast `pdet_forecast_joint`).
  * - "Detected at 90 %" means that probability ≥ 0.9; "confidently" adds that
  *   the lower Wilson bound `pdet_combined_lo` is ≥ 0.9 too (Monte Carlo only).
+ * - The bound lines (`bound_50`, `bound_90`) are the same search on the
+ *   known-template bound `pdet_bound` (timing/knownTemplateBound.ts), over the
+ *   cells that have a probability above (like for like), and `efficiency_50`
+ *   compares the two 50 % lines per x value (see `efficiencyOf`).
  */
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta } from '../sweep/sweepMeta.js';
@@ -36,7 +42,7 @@ export interface SweepSummary {
   moonsieve_version: string;
   seed: number;
   basis: 'monte carlo' | 'forecast';
-  probability_field: 'pdet_combined' | 'pdet_forecast_joint';
+  probability_field: 'pdet_combined' | 'pdet_forecast_combined' | 'pdet_forecast_joint';
   realizations: number | null;
   false_alarm: number;
   /** Measured combined false-alarm rate over the simulated cells: min, median, max (null when none). */
@@ -74,7 +80,67 @@ export interface SweepSummary {
     facet_field?: string;
     level_50: MinDetectablePoint[];
     level_90: MinDetectablePoint[];
+    /** The same lines for the known-template bound (`pdet_bound`): no analysis of the same data can do better. */
+    bound_50: MinDetectablePoint[];
+    bound_90: MinDetectablePoint[];
+    /** Per x value: how far the detector's 50 % line is from the bound's (see `efficiencyOf`). */
+    efficiency_50: EfficiencyPoint[];
   } | null;
+}
+
+/**
+ * The detector against the bound at one x value: `ratio` is the detector's
+ * 50 % y over the bound's for an 'increasing' axis (a moon mass: how many
+ * times heavier a moon must be for this detector than for the best possible
+ * one), the bound's over the detector's for a 'decreasing' one; 1 is optimal.
+ */
+export interface EfficiencyPoint {
+  x: number;
+  facet?: number;
+  ratio: number | null;
+  /**
+   * 'value'; 'at most' when the detector's y is itself a bound (reached after
+   * unsimulated cells or at the grid's edge); 'at least' when the bound's is,
+   * or when the detector never reaches 50 % on the grid (ratio then from the
+   * farthest cell of the column that has a probability); 'unknown' when both
+   * are bounds or the bound never reaches 50 %.
+   */
+  ratio_kind: 'value' | 'at most' | 'at least' | 'unknown';
+}
+
+/** Per column of a layout, the y farthest along the search direction among the cells with a probability (null: none). */
+function farthestWithProbability(layout: GridLayout, yValues: readonly number[], prob: (c: CellResult) => number | null, direction: 'increasing' | 'decreasing'): Array<number | null> {
+  const out: Array<number | null> = [];
+  for (let i = 0; i < layout.nx; i++) {
+    let far: number | null = null;
+    for (let j = 0; j < yValues.length; j++) {
+      const c = layout.cellAt(i, j);
+      if (!c || prob(c) === null) continue;
+      if (far === null || (direction === 'increasing' ? yValues[j] > far : yValues[j] < far)) far = yValues[j];
+    }
+    out.push(far);
+  }
+  return out;
+}
+
+/** Per x value, the detector's 50 % point against the bound's (EfficiencyPoint). */
+export function efficiencyOf(mc: readonly MinDetectablePoint[], bound: readonly MinDetectablePoint[], direction: 'increasing' | 'decreasing', farthest: readonly (number | null)[]): EfficiencyPoint[] {
+  return mc.map((m, k) => {
+    const far = farthest[k];
+    const b = bound[k];
+    const base = { x: m.x, ...(m.facet !== undefined ? { facet: m.facet } : {}) };
+    if (!b || b.y === null || !(b.y > 0)) return { ...base, ratio: null, ratio_kind: 'unknown' as const };
+    const ratioOf = (mcY: number): number => (direction === 'increasing' ? mcY / (b.y as number) : (b.y as number) / mcY);
+    const bLoose = b.is_bound || b.at_grid_edge;
+    if (m.y === null) {
+      // Never reached: the minimum lies beyond the farthest cell with a probability (if the bound's is a value).
+      const known = !bLoose && far !== null && far !== undefined;
+      return { ...base, ratio: known ? ratioOf(far) : null, ratio_kind: known ? ('at least' as const) : ('unknown' as const) };
+    }
+    const mLoose = m.is_bound || m.at_grid_edge;
+    const kind = mLoose && bLoose ? 'unknown' : mLoose ? 'at most' : bLoose ? 'at least' : 'value';
+    return { ...base, ratio: kind === 'unknown' ? null : ratioOf(m.y), ratio_kind: kind };
+  });
 }
 
 function summaryCell(c: CellResult, p: number): SummaryCell {
@@ -133,7 +199,7 @@ function detectionDirection(layouts: readonly GridLayout[], field: string, yValu
 
 export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): SweepSummary {
   const fo = meta.forecast_only;
-  const prob = (c: CellResult): number | null => cellProbability(c, 'combined', fo);
+  const prob = (c: CellResult): number | null => cellProbability(c, 'combined', fo, meta.simulate_unstable);
   const sorted = [...cells].sort((a, b) => a.index - b.index);
   const stable = sorted.filter((c) => c.allowed === true);
   const habitable = stable.filter((c) => c.habitability === 'temperate');
@@ -159,17 +225,24 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
     const fa = first.facetAxis === null ? null : meta.axes[first.facetAxis];
     const ylog = ya.spacing === 'log';
     const direction = detectionDirection(layouts, ya.field, ya.values, prob);
-    const level = (lv: number): MinDetectablePoint[] => layouts.flatMap((layout, k) => {
-      const pts = minDetectable(layout, xa.values, ya.values, ylog, prob, lv, direction);
+    // The bound over the cells the detector has a probability for: like for like.
+    const boundProb = (c: CellResult): number | null => (prob(c) === null ? null : num(c, 'pdet_bound'));
+    const level = (lv: number, pr: (c: CellResult) => number | null = prob): MinDetectablePoint[] => layouts.flatMap((layout, k) => {
+      const pts = minDetectable(layout, xa.values, ya.values, ylog, pr, lv, direction);
       return fa ? pts.map((p) => ({ ...p, facet: fa.values[k] })) : pts;
     });
+    const level50 = level(0.5);
+    const bound50 = level(0.5, boundProb);
     minDet = {
       y_field: ya.field,
       direction,
       x_field: xa.field,
       ...(fa ? { facet_field: fa.field } : {}),
-      level_50: level(0.5),
+      level_50: level50,
       level_90: level(0.9),
+      bound_50: bound50,
+      bound_90: level(0.9, boundProb),
+      efficiency_50: efficiencyOf(level50, bound50, direction, layouts.flatMap((layout) => farthestWithProbability(layout, ya.values, prob, direction))),
     };
   }
 
@@ -180,7 +253,7 @@ export function buildSummary(meta: SweepMeta, cells: readonly CellResult[]): Swe
     moonsieve_version: meta.moonsieve_version,
     seed: meta.seed,
     basis: fo ? 'forecast' : 'monte carlo',
-    probability_field: fo ? 'pdet_forecast_joint' : 'pdet_combined',
+    probability_field: fo ? 'pdet_forecast_combined' : 'pdet_combined',
     realizations: fo ? null : meta.realizations,
     false_alarm: meta.false_alarm,
     false_alarm_measured_combined: fa.length ? { min: Math.min(...fa), median: medianOfFinite(fa), max: Math.max(...fa) } : null,

@@ -51,10 +51,34 @@ function describeCell(key: string, c: SummaryCell, meta: SweepMeta): string {
   return parts.join(' ');
 }
 
+/**
+ * The detector against the known-template bound: the line no analysis can
+ * beat, and per x value how many times the bound's 50 % minimum the
+ * detector's is (summary.efficiency_50).
+ */
+function boundParagraph(s: SweepSummary, meta: SweepMeta): string | null {
+  const md = s.min_detectable;
+  if (!md || md.efficiency_50.length === 0) return null;
+  const xa = meta.axes.find((a) => a.field === md.x_field);
+  const fa = md.facet_field ? meta.axes.find((a) => a.field === md.facet_field) : undefined;
+  const yName = axisDisplay(meta.axes.find((a) => a.field === md.y_field) ?? { field: md.y_field, unit: '', spacing: 'linear' }).title.replace(/ \(.*\)$/, '');
+  const kindText = { value: '', 'at most': 'at most ', 'at least': 'at least ', unknown: '' } as const;
+  const items = md.efficiency_50.map((e, k) => {
+    const at = axisSpan(`min_detectable.efficiency_50.${k}.x`, e.x, md.x_field, xa?.unit ?? '', meta);
+    const facet = e.facet !== undefined && fa ? ` (${escapeHtml(axisDisplay(fa).title.replace(/ \(.*\)$/, ''))} ${axisSpan(`min_detectable.efficiency_50.${k}.facet`, e.facet, fa.field, fa.unit, meta)})` : '';
+    const r = e.ratio === null ? 'not known on this grid' : `${kindText[e.ratio_kind]}${span(`min_detectable.efficiency_50.${k}.ratio`, e.ratio, 'sig3')}×`;
+    return `${at}${facet}: ${r}`;
+  });
+  const what = md.direction === 'increasing'
+    ? `how many times the bound's 50 % ${escapeHtml(yName)} this detector needs`
+    : `how many times this detector's 50 % ${escapeHtml(yName)} the bound tolerates`;
+  return `<p data-role="bound"><strong>Against the best possible analysis:</strong> the cyan lines are the known-template bound, the detection probability of a matched filter that knows the moon's light curve up to its phase (and node and periapsis where they are drawn), after the planet-only model's own freedoms are fitted out, under white noise. It is the line no analysis of the same data can beat; where red noise, gaps or missed transits are in the scenario, they are not in the bound (see the assumptions). Efficiency at 50 % (${what}; 1 is optimal): ${items.join('; ')}.</p>`;
+}
+
 export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
   const out: string[] = [];
   const basis = s.basis === 'forecast'
-    ? 'analytic forecast only (no simulations were run: <code>--forecast-only</code>); probabilities are the joint TTV/TDV forecast'
+    ? 'analytic forecast only (no simulations were run: <code>--forecast-only</code>); probabilities are the forecast of the Monte Carlo\'s combined rule over TTV and TDV (the moon dip is not forecast), averaged over the moon\'s angles as the Monte Carlo draws them; cells the Monte Carlo would not simulate (a moon not physically allowed) are left blank as on Monte Carlo maps'
     : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (TTV, TDV or moon dip), per-channel false-alarm probability ${span('false_alarm', s.false_alarm, 'sig3')}`;
   out.push(`<p><strong>Basis:</strong> ${basis}.</p>`);
   out.push(`<p class="note" data-role="combined-meaning">${escapeHtml(combinedMeaning(s.basis === 'forecast', s.false_alarm))}</p>`);
@@ -82,6 +106,8 @@ export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
       out.push(`<p>The lightest physically allowed moon detected at 90 %: ${describeCell('smallest_allowed_detected_90', s.smallest_allowed_detected_90, meta)}.</p>`);
     }
   }
+  const bound = boundParagraph(s, meta);
+  if (bound) out.push(bound);
   const change: string[] = [];
   if (s.closest_habitable_miss) {
     change.push(`The nearest miss among habitable-zone moons: ${describeCell('closest_habitable_miss', s.closest_habitable_miss, meta)}.`);

@@ -149,8 +149,8 @@ document.addEventListener('click', function (e) {
   const facetAxis = grid.faceted ? meta.axes[axisRoles(meta).facetAxis as number] : null;
   const facetNote = facetAxis ? `One map per value of ${axisDisplay(facetAxis).title}, all on the same colour scale; each panel is labelled with its value. ` : '';
   const mapNote = grid.twoAxis
-    ? `${facetNote}White contours at 50 % (dashed) and 90 % (solid). Green outline: cells whose energy budget is temperate (the habitable region). ${linesText ? `${linesText[0].toUpperCase()}${linesText.slice(1)} (of the base scenario). ` : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits)${meta.forecast_only ? '' : '; they are not simulated and left blank'}. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
-    : 'Lines: detection probability per channel with 95 % Wilson intervals; grey lines at 50 % and 90 %; green bands: temperate energy budget; crosses: cells whose moon is not physically allowed.';
+    ? `${facetNote}White contours at 50 % (dashed) and 90 % (solid); cyan contours: the same levels of the known-template bound, which no analysis of these data can beat (white noise, the moon's orbit known up to its drawn angles). Green outline: cells whose energy budget is temperate (the habitable region). ${linesText ? `${linesText[0].toUpperCase()}${linesText.slice(1)} (of the base scenario). ` : ''}Crosses: cells whose moon is not physically allowed (by each cell's own limits); they are not simulated${meta.forecast_only ? ' (nor forecast)' : ''} and left blank. Colour scale Cividis: readable in greyscale and by colour-blind readers.`
+    : 'Lines: detection probability per channel with 95 % Wilson intervals; cyan: the known-template bound, which no analysis of these data can beat; grey lines at 50 % and 90 %; green bands: temperate energy budget; crosses: cells whose moon is not physically allowed.';
   const cautions = [...CAUTIONS];
   const massCaution = planetMassCaution(meta, scenarioDoc);
   if (massCaution) cautions.push(massCaution);

@@ -58,6 +58,7 @@ import {
   type NullClass, type NullSet, type PackedNullRange,
 } from './nullSet.js';
 import { medianOfFinite } from '../numeric/quantiles.js';
+import { cellBound } from './cellBound.js';
 
 export { defaultNullRealizations };
 
@@ -181,6 +182,7 @@ function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
     pdet_forecast_ttv: l.pdet_forecast_ttv,
     pdet_forecast_tdv: l.pdet_forecast_tdv,
     pdet_forecast_joint: l.pdet_forecast_joint,
+    pdet_forecast_combined: l.pdet_forecast_combined,
     forecast_regime_ok: l.forecast_regime_ok,
     channels_note: s.moon ? missingChannelSummary(s.observation.transits) : null,
     photocentric_ratio: l.photocentric_ratio,
@@ -208,7 +210,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
   assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);
-  const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits) };
+  const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits), pdet_bound: cellBound(task.scenarioDoc, s) };
   const skipped = skipReason(s, base, ctx);
   if (skipped !== null) return { ...base, simulated: false, skipped_reason: skipped };
 

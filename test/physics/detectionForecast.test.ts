@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { mulberry32 } from '../helpers/mulberry32.js';
-import { forecastDetection } from '../../src/physics/detectionForecast.js';
+import { anyOfIndependent, combinedChannelAlpha, forecastDetection } from '../../src/physics/detectionForecast.js';
 import { chiSquareUpperQuantile } from '../../src/numeric/noncentralChiSquare.js';
 
 
@@ -15,6 +15,10 @@ function simulate(n: number, nu: number | null, ttvRms: number, tdvRms: number, 
   const thrTtv = chiSquareUpperQuantile(alpha, n - 2);
   const thrTdv = chiSquareUpperQuantile(alpha, n - 1);
   const thrJoint = chiSquareUpperQuantile(alpha, 2 * n - 3);
+  // The Monte Carlo's combined rule (timing/detection.ts): TTV or TDV above its α/3 threshold (3 channels with the dip).
+  const cTtv = chiSquareUpperQuantile(alpha / 3, n - 2);
+  const cTdv = chiSquareUpperQuantile(alpha / 3, n - 1);
+  let hitCombined = 0;
   const A = ttvRms * Math.SQRT2;
   const B = tdvRms * Math.SQRT2;
   const tt = new Float64Array(n);
@@ -48,8 +52,9 @@ function simulate(n: number, nu: number | null, ttvRms: number, tdvRms: number, 
     if (c1 > thrTtv) hitTtv++;
     if (c2 > thrTdv) hitTdv++;
     if (c1 + c2 > thrJoint) hitJoint++;
+    if (c1 > cTtv || c2 > cTdv) hitCombined++;
   }
-  return { ttv: hitTtv / trials, tdv: hitTdv / trials, joint: hitJoint / trials };
+  return { ttv: hitTtv / trials, tdv: hitTdv / trials, joint: hitJoint / trials, combined: hitCombined / trials };
 }
 
 describe('forecastDetection', () => {
@@ -63,6 +68,15 @@ describe('forecastDetection', () => {
       const sigma = Math.sqrt((p * (1 - p)) / trials);
       expect(Math.abs(mc[key] - p), `${key}: MC ${mc[key]} vs forecast ${p}`).toBeLessThan(4 * sigma);
     }
+    // The combined rule, joined per phase (TTV and TDV share φ): the same seeded Monte Carlo.
+    const pc = f.combined!;
+    expect(Math.abs(mc.combined - pc), `combined: MC ${mc.combined} vs forecast ${pc}`).toBeLessThan(4 * Math.sqrt((pc * (1 - pc)) / trials));
+  });
+  it('the combination rule: Bonferroni α/m, Šidák 1 − (1 − α)^(1/m), any of independent channels', () => {
+    expect(combinedChannelAlpha(0.03, 3)).toBeCloseTo(0.01, 15); // Bonferroni (1936), by hand
+    expect(combinedChannelAlpha(0.05, 3, 'sidak')).toBeCloseTo(0.016952427508441503, 14); // 1 − 0.95^(1/3), by hand
+    expect(anyOfIndependent([0.5, 0.5])).toBeCloseTo(0.75, 15); // by hand
+    expect(anyOfIndependent([])).toBe(0);
   });
 
   it('given a low alias frequency ν = 0.07 (signal largely absorbed by the ephemeris) the same holds', () => {

@@ -9,10 +9,10 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Command } from 'commander';
 import { runTinySweep, type TinySweep } from './tinySweep.js';
-import { buildSummary } from '../../src/report/summary.js';
+import { buildSummary, efficiencyOf } from '../../src/report/summary.js';
 import { formatSummaryValue } from '../../src/report/summaryText.js';
 import { minDetectable } from '../../src/report/minDetectable.js';
-import { cellEdges, gridLayout, regionOutline } from '../../src/report/reportGrid.js';
+import { cellEdges, cellProbability, gridLayout, regionOutline } from '../../src/report/reportGrid.js';
 import { registerReport } from '../../src/cli/reportCommand.js';
 import { M_EARTH_KG } from '../../src/physics/constants.js';
 import { stringify } from 'yaml';
@@ -103,8 +103,38 @@ describe('minimum detectable value', () => {
     expect(p50.at_grid_edge).toBe(false);
   });
   it('flags a level already reached at the lowest value, and null when never reached', () => {
-    expect(minDetectable(layout, [10], [1, 2, 4], true, prob, 0.1)[0]).toEqual({ x: 10, y: 1, at_grid_edge: true });
+    expect(minDetectable(layout, [10], [1, 2, 4], true, prob, 0.1)[0]).toEqual({ x: 10, y: 1, at_grid_edge: true, is_bound: false });
     expect(minDetectable(layout, [10], [1, 2, 4], true, () => 0.3, 0.9)[0].y).toBeNull();
+  });
+  it('a level reached right after unsimulated cells is a bound, not a value (issue 17: the upturn at the stable edge)', () => {
+    // y = 1, 2 not simulated (null), y = 4 at 0.95: the 50 % crossing lies somewhere below 4 (by hand).
+    const gapFirst = (c: CellResult) => [null, null, 0.95][c.index];
+    expect(minDetectable(layout, [10], [1, 2, 4], true, gapFirst, 0.5)[0]).toEqual({ x: 10, y: 4, at_grid_edge: false, is_bound: true });
+    // A gap followed by a simulated cell below the level: the crossing between 2 and 4 is interpolated, a value.
+    const gapThenLow = (c: CellResult) => [null, 0.1, 0.9][c.index];
+    const v = minDetectable(layout, [10], [1, 2, 4], true, gapThenLow, 0.5)[0];
+    expect(v.is_bound).toBe(false);
+    expect(v.y).toBeCloseTo(2 * Math.SQRT2, 12); // halfway in log between 2 and 4 (by hand)
+  });
+  it('forecast-only: a cell the Monte Carlo would not simulate has no probability on the map, as on Monte Carlo maps (issue 17)', () => {
+    const unstable = { index: 0, coords: [], allowed: false, placement: 'beyond stable limit', simulated: false, pdet_forecast_combined: 0.8 };
+    const stable = { ...unstable, allowed: true, placement: 'stable' };
+    expect(cellProbability(unstable, 'combined', true)).toBeNull();
+    expect(cellProbability(stable, 'combined', true)).toBe(0.8);
+    // With simulate_unstable the Monte Carlo simulates it, so the forecast shows it; a moon touching its planet never.
+    expect(cellProbability(unstable, 'combined', true, true)).toBe(0.8);
+    expect(cellProbability({ ...unstable, placement: 'touches the planet' }, 'combined', true, true)).toBeNull();
+  });
+  it('efficiency: the detector\'s 50 % point over the bound\'s, and what kind of number it is', () => {
+    const pt = (y: number | null, o: Partial<{ at_grid_edge: boolean; is_bound: boolean }> = {}) => ({ x: 1, y, at_grid_edge: false, is_bound: false, ...o });
+    // By hand: 6/1 = 6; after unsimulated cells the detector's y is at most 6, so the ratio is at most 6.
+    expect(efficiencyOf([pt(6)], [pt(1)], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'value' });
+    expect(efficiencyOf([pt(6, { is_bound: true })], [pt(1)], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'at most' });
+    expect(efficiencyOf([pt(6)], [pt(1, { at_grid_edge: true })], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 6, ratio_kind: 'at least' });
+    // The detector never reaches 50 %: at least the largest simulated value (10) over the bound's (2).
+    expect(efficiencyOf([pt(null)], [pt(2)], 'increasing', [10])[0]).toEqual({ x: 1, ratio: 5, ratio_kind: 'at least' });
+    // A noise axis (decreasing): the bound tolerates 4, the detector 2: ratio 2.
+    expect(efficiencyOf([pt(2)], [pt(4)], 'decreasing', [1])[0].ratio).toBe(2);
   });
   it('mirrors the question for an axis along which detection gets harder (largest y still reaching the level)', () => {
     // p falls with y: 1.0, 0.6, 0.2 at y = 1, 2, 4; 90 % between 1 (1.0) and 2 (0.6): f = 0.25, y = 2^0.25 (by hand).
