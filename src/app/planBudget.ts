@@ -28,6 +28,7 @@ import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines, withLines, type SourcePosition } from '../scenario/loadScenario.js';
 import { cautionNotes, parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
+import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
 import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
 } from '../budget/budgetTypes.js';
@@ -36,7 +37,7 @@ import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlon
 import { habitablePopulation, spreadEvenly } from '../budget/habitableTargets.js';
 import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from '../budget/monteCarloPoint.js';
 import { searchCheapestPassing } from '../budget/monotoneSearch.js';
-import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
+import { formatQuantity, quantityScenario, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
 import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from '../budget/targetMoon.js';
 
 /** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
@@ -51,8 +52,9 @@ export function evaluationText(e: BudgetEvaluation): string {
   return `${p3(e.probability)} [${p3(e.lower)}, ${p3(e.upper)}]`;
 }
 
-function loadDoc(scenario: unknown): { doc: unknown; source: string; lineOf: ((path: string) => SourcePosition | null) | null } {
-  if (typeof scenario !== 'string') return { doc: scenario, source: 'scenario', lineOf: null };
+function loadDoc(scenario: Scenario | string): { doc: unknown; source: string; lineOf: ((path: string) => SourcePosition | null) | null } {
+  // A Scenario: its document (the budget block, and the fields the budget varies as they were written).
+  if (typeof scenario !== 'string') return { doc: scenarioDocumentOf(scenario), source: 'scenario', lineOf: null };
   let text: string;
   try {
     text = readFileSync(scenario, 'utf8');
@@ -84,10 +86,11 @@ interface Context {
 
 /**
  * The observing budget (see the file comment). `scenario` is a scenario file
- * path or its document (plain values); `target` overrides the scenario's
+ * path or a Scenario from parseScenario / loadScenario (its `budget:` block is
+ * read from the document it was parsed from); `target` overrides that
  * `budget:` block. Throws InputError for bad input.
  */
-export function planBudget(scenario: unknown, target: BudgetTarget = {}, options: PlanBudgetOptions = {}): BudgetResult {
+export function planBudget(scenario: Scenario | string, target: BudgetTarget = {}, options: PlanBudgetOptions = {}): BudgetResult {
   const t0 = performance.now();
   const { doc, source, lineOf } = loadDoc(scenario);
   try {
@@ -232,7 +235,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   const start = startIndex(ctx, fc, fcIndex);
   ctx.progress(`${tm.scenario.name}: Monte Carlo search for ${pct(t.probability)} ${t.channel} detection, ${t.realizations} moon + ${t.nullRealizations} no-moon realizations per value, starting at ${formatQuantity(q, q.values[start])}${fcIndex !== null ? ' (the forecast)' : ''}\n`);
   const evaluate = (i: number): BudgetEvaluation => {
-    const e = evaluateMoon(applyQuantity(tm.doc, q, q.values[i]), i, q.values[i], ctx.mc);
+    const e = evaluateMoon(quantityScenario(tm.scenario, q, q.values[i], 'cell 0'), i, q.values[i], ctx.mc);
     progressLine(ctx, e, `pdet_${t.channel} =`);
     return e;
   };
@@ -443,7 +446,7 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
   ctx.progress(`${base.name}: Monte Carlo search over ${chosen.length} of ${targets.length} temperate, stable moons, ${t.realizations} realizations each + ${t.nullRealizations} no-moon per value, starting at ${formatQuantity(q, q.values[start])}\n`);
   const evaluate = (i: number): BudgetEvaluation => {
     const v = q.values[i];
-    const e = evaluatePopulation(chosen.map((m) => applyQuantity(m.doc, q, v)), chosen.map((m) => m.gridIndex), i, v, ctx.mc, h.fraction);
+    const e = evaluatePopulation(chosen.map((m) => quantityScenario(m.scenario, q, v, `cell ${m.gridIndex}`)), chosen.map((m) => m.gridIndex), i, v, ctx.mc, h.fraction);
     progressLine(ctx, e, 'fraction of moons reaching it');
     return e;
   };

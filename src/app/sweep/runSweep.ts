@@ -26,7 +26,8 @@ import { checkGridSize, checkNullRealizations, MAX_NULL_REALIZATIONS } from '../
 import { acquireFolderLock, checkFolderOwner, NULLSET_DIR, settleStaging } from './outputFolder.js';
 import { openNullStore } from './nullStore.js';
 import { parseScenario } from '../../scenario/parseScenario.js';
-import type { Scenario } from '../../scenario/types.js';
+import type { Scenario, ScenarioDocument } from '../../scenario/types.js';
+import { scenarioDocumentOf } from '../../scenario/scenarioDocument.js';
 import { VERSION } from '../../version.js';
 import { scenarioHash } from '../../sweep/canonicalJson.js';
 import type { CellResult, CellRunner } from '../../sweep/cellTypes.js';
@@ -39,7 +40,7 @@ import { parseSweepSpec, type SweepSpec } from '../../sweep/sweepSpec.js';
 import { executeCells, resolveWorkerCount, type CalibrationStats, type RunnerModule } from './workerPool.js';
 import { planCalibration } from '../../sweep/calibrationPlan.js';
 import { cellTask, prepareJob, type CellJob } from '../../sweep/cellJob.js';
-import { CELL_PARSE, cellComputeProblems, nullClassOf } from '../../sweep/runCell.js';
+import { cellComputeProblems, nullClassOf } from '../../sweep/runCell.js';
 
 export interface SweepOptions {
   /** Worker threads (default: SLURM_CPUS_PER_TASK when set, else every core). */
@@ -91,39 +92,41 @@ export interface SweepOutcome {
 }
 
 export interface LoadedSweep {
-  doc: unknown;
+  /** The scenario's document (`Scenario.document`): its sweep block, its hash and `scenario.yaml` come from it. */
+  doc: ScenarioDocument;
   scenario: Scenario;
   spec: SweepSpec;
   hash: string;
 }
 
-/** Read a scenario (file path or document) and its sweep block; InputError on any problem. */
-export function loadSweep(scenarioDocOrPath: unknown): LoadedSweep {
-  let doc: unknown;
-  let scenario: Scenario;
-  let source = 'scenario';
-  if (typeof scenarioDocOrPath === 'string') {
-    source = scenarioDocOrPath;
+/**
+ * Read a scenario (a file path, or a Scenario from parseScenario / loadScenario) and its
+ * sweep block (the `sweep:` block of the file, or of the document the Scenario was parsed
+ * from); InputError on any problem.
+ */
+export function loadSweep(scenarioOrPath: Scenario | string): LoadedSweep {
+  if (typeof scenarioOrPath === 'string') {
+    const source = scenarioOrPath;
     let text: string;
     try {
-      text = readFileSync(scenarioDocOrPath, 'utf8');
+      text = readFileSync(scenarioOrPath, 'utf8');
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      throw new InputError([{ path: 'SCENARIO', value: scenarioDocOrPath, allowed: code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? String(e)})` }]);
+      throw new InputError([{ path: 'SCENARIO', value: scenarioOrPath, allowed: code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? String(e)})` }]);
     }
     const parsed = parseYamlWithLines(text, source);
-    doc = parsed.value;
     try {
-      scenario = parseScenario(doc, source);
+      const scenario = parseScenario(parsed.value, source);
+      const doc = scenarioDocumentOf(scenario);
       return { doc, scenario, spec: parseSweepSpec(doc, scenario, source), hash: scenarioHash(doc) };
     } catch (e) {
       if (e instanceof InputError) throw withLines(e, (p) => parsed.positionOf(p.replace(/\[(\d+)\]/g, '.$1').replace(/ \(default\)/, '')), source);
       throw e;
     }
   }
-  doc = scenarioDocOrPath;
-  scenario = parseScenario(doc, source);
-  return { doc, scenario, spec: parseSweepSpec(doc, scenario, source), hash: scenarioHash(doc) };
+  const scenario = scenarioOrPath;
+  const doc = scenarioDocumentOf(scenario);
+  return { doc, scenario, spec: parseSweepSpec(doc, scenario, 'scenario'), hash: scenarioHash(doc) };
 }
 
 /** One line per grid cell whose scenario is invalid, naming its axis values; plus the null classes of `classCells`. */
@@ -141,9 +144,11 @@ async function validateCells(
       await new Promise<void>((r) => setImmediate(r));
       if (signal?.aborted) return { aborted: true, classes };
     }
-    const task = cellTask(prepared, i);
-    const where = (): string => `cell ${i} (${meta.axes.map((a, k) => `${a.field} = ${formatDisplay(displays[k], task.coords[k])}`).join(', ')})`;
+    const coords = prepared.grid.cellCoords(i);
+    const where = (): string => `cell ${i} (${meta.axes.map((a, k) => `${a.field} = ${formatDisplay(displays[k], coords[k])}`).join(', ')})`;
     try {
+      // The cell's scenario: the axis values applied and validated with the scenario's own checks.
+      const task = cellTask(prepared, i);
       // The scenario's own checks, then what the simulation itself would refuse (a cadence no shorter
       // than the transit, a light curve above the size limit), so no cell fails after work has begun.
       const computeProblems = cellComputeProblems(task);
@@ -152,7 +157,7 @@ async function validateCells(
         const c = nullClassOf(task, job.ctx);
         classes.set(i, c === null ? null : { key: c.key, count: c.count });
         if (c !== null && c.count > MAX_NULL_REALIZATIONS) {
-          checkNullRealizations(c.count, parseScenario(task.scenarioDoc, `cell ${i}`, CELL_PARSE).detection.falseAlarm, job.ctx.nullRealizations !== undefined);
+          checkNullRealizations(c.count, task.scenario.detection.falseAlarm, job.ctx.nullRealizations !== undefined);
         }
       }
     } catch (e) {
@@ -175,11 +180,16 @@ async function validateCells(
   return { aborted: false, classes };
 }
 
-export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions = {}): Promise<SweepOutcome> {
+/**
+ * Run the sweep of `scenario` (a file path, or a Scenario from parseScenario / loadScenario,
+ * whose document holds the `sweep:` block) and write its outputs into the output folder
+ * (see the file comment; `runSweepInMemory` writes nothing).
+ */
+export async function runSweep(scenarioOrPath: Scenario | string, options: SweepOptions = {}): Promise<SweepOutcome> {
   const startedMs = Date.now();
   const t0 = performance.now();
   const env = options.env ?? process.env;
-  const { doc, scenario, spec, hash } = loadSweep(scenarioDocOrPath);
+  const { doc, scenario, spec, hash } = loadSweep(scenarioOrPath);
   const shard = resolveShard(options.shard, env);
   const workers = resolveWorkerCount(options.workers, env);
   if (options.maxCells !== undefined && !(Number.isInteger(options.maxCells) && options.maxCells >= 0)) {
@@ -204,7 +214,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   const runCells = shardCells(meta.cells, shard);
 
   const job: CellJob = {
-    baseDoc: doc,
+    baseDocument: doc,
     axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
     ctx: {
       seed: scenario.seed, realizations: spec.realizations, simulateUnstable: spec.simulateUnstable, forecastOnly,
@@ -243,7 +253,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   }
 
   // One run per folder: held until the outputs are written (or the run stops).
-  const lock = acquireFolderLock(outDir, `moonsieve sweep ${typeof scenarioDocOrPath === 'string' ? scenarioDocOrPath : `"${scenario.name}"`}${shard ? ` --shard ${shard.k}/${shard.n}` : ''}`);
+  const lock = acquireFolderLock(outDir, `moonsieve sweep ${typeof scenarioOrPath === 'string' ? scenarioOrPath : `"${scenario.name}"`}${shard ? ` --shard ${shard.k}/${shard.n}` : ''}`);
   try {
     settleStaging(outDir);
     checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard }); // again, now that no other run can write
