@@ -6,5 +6,6 @@ export { renderBudgetPage, budgetFigure } from '../report/budgetPage.js';
 export { searchCheapestPassing, type MonotoneSearchOutcome } from './monotoneSearch.js';
 export type {
   BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,
+  BudgetForecastCurve, BudgetTargetMoon, BudgetQuantityInfo, ResolvedBudgetTarget,
 } from './budgetTypes.js';
 export { budgetToJson, BUDGET_SCHEMA, type BudgetJson } from './budgetJson.js';

@@ -36,6 +36,7 @@ import { OUTPUT_FILES, writeSweepOutputs, type SweepRunInfo } from './outputs.js
 import { createProgress, formatDuration, type ProgressStream } from './progress.js';
 import { inShard, resolveShard, shardCells, type Shard } from '../../sweep/shard.js';
 import { buildSweepMeta, type SweepMeta } from '../../sweep/sweepMeta.js';
+import { buildSummary, type SweepSummary } from '../../report/summary.js';
 import { parseSweepSpec, type SweepSpec } from '../../sweep/sweepSpec.js';
 import { executeCells, resolveWorkerCount, type CalibrationStats, type RunnerModule } from './workerPool.js';
 import { planCalibration } from '../../sweep/calibrationPlan.js';
@@ -185,6 +186,35 @@ async function validateCells(
  * whose document holds the `sweep:` block) and write its outputs into the output folder
  * (see the file comment; `runSweepInMemory` writes nothing).
  */
+/**
+ * The sweep's meta after the checks made before any cell is parsed: the old spellings of the
+ * sweep block noted on the progress stream (even with quiet; not part of the sweep's identity),
+ * the grid size, and the no-moon count (with a false-alarm axis each cell's own count is
+ * checked with the cells).
+ */
+function sweepMetaChecked(l: Pick<LoadedSweep, 'scenario' | 'spec' | 'hash'>, forecastOnly: boolean, progress: ProgressStream | undefined): SweepMeta {
+  for (const d of l.spec.deprecations) (progress ?? process.stderr).write(`note: ${d}\n`);
+  // Sizes first: nothing is parsed per cell nor written before a run known to fit.
+  checkGridSize(l.spec.axes.map((a) => a.values.length));
+  const meta = buildSweepMeta(l.scenario, l.hash, l.spec, forecastOnly);
+  if (!forecastOnly && !l.spec.axes.some((a) => a.field === 'detection.false_alarm')) {
+    checkNullRealizations(meta.no_moon_realizations, l.scenario.detection.falseAlarm, l.spec.nullRealizations !== null);
+  }
+  return meta;
+}
+
+/** What every thread needs to run any cell of the sweep (plain data, sent once to each worker). */
+function sweepJob(l: Pick<LoadedSweep, 'doc' | 'scenario' | 'spec'>, forecastOnly: boolean): CellJob {
+  return {
+    baseDocument: l.doc,
+    axes: l.spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
+    ctx: {
+      seed: l.scenario.seed, realizations: l.spec.realizations, simulateUnstable: l.spec.simulateUnstable, forecastOnly,
+      ...(l.spec.nullRealizations !== null ? { nullRealizations: l.spec.nullRealizations } : {}),
+    },
+  };
+}
+
 export async function runSweep(scenarioOrPath: Scenario | string, options: SweepOptions = {}): Promise<SweepOutcome> {
   const startedMs = Date.now();
   const t0 = performance.now();
@@ -197,15 +227,7 @@ export async function runSweep(scenarioOrPath: Scenario | string, options: Sweep
   }
   const forecastOnly = options.forecastOnly === true;
   const force = options.force === true;
-  // Old spellings in the sweep block: one note each on the progress stream (even with quiet; not part of the sweep's identity).
-  for (const d of spec.deprecations) (options.progress ?? process.stderr).write(`note: ${d}\n`);
-  // Sizes first: nothing is parsed per cell nor written before a run known to fit.
-  checkGridSize(spec.axes.map((a) => a.values.length));
-  const meta = buildSweepMeta(scenario, hash, spec, forecastOnly);
-  // (With a false-alarm axis each cell's own count is checked with the cells below.)
-  if (!forecastOnly && !spec.axes.some((a) => a.field === 'detection.false_alarm')) {
-    checkNullRealizations(meta.no_moon_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
-  }
+  const meta = sweepMetaChecked({ scenario, spec, hash }, forecastOnly, options.progress);
   const outDir = options.out ?? defaultOutDir(scenario.name);
   checkOutputDir(options.out === undefined ? 'output folder (default from the scenario name)' : '--out', outDir);
   checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard });
@@ -213,14 +235,7 @@ export async function runSweep(scenarioOrPath: Scenario | string, options: Sweep
   const header = checkpointHeader(meta, shard);
   const runCells = shardCells(meta.cells, shard);
 
-  const job: CellJob = {
-    baseDocument: doc,
-    axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
-    ctx: {
-      seed: scenario.seed, realizations: spec.realizations, simulateUnstable: spec.simulateUnstable, forecastOnly,
-      ...(spec.nullRealizations !== null ? { nullRealizations: spec.nullRealizations } : {}),
-    },
-  };
+  const job = sweepJob({ doc, scenario, spec }, forecastOnly);
   // Every cell of the grid is parsed here, before anything is written: a cell that is invalid only at
   // some axis values is refused now, not in a worker after minutes (and again on --resume). This also
   // makes the unit values the axis fields use known to this thread, to hand to the workers (units.ts),
@@ -332,4 +347,66 @@ export async function runSweep(scenarioOrPath: Scenario | string, options: Sweep
   } finally {
     lock.release();
   }
+}
+
+export interface InMemorySweepOptions {
+  /** Worker threads (default: SLURM_CPUS_PER_TASK when set in `env`, else every core). */
+  workers?: number | string;
+  /** Fill cells from the analytic forecast only. */
+  forecastOnly?: boolean;
+  /** The per-cell computation, as in `SweepOptions.runner` (default ./runCell.js on worker threads). */
+  runner?: CellRunner | RunnerModule;
+  /** Abort: stop dispatching and stop the workers; the promise then rejects. */
+  signal?: AbortSignal;
+  /** Environment for SLURM_CPUS_PER_TASK (default process.env). */
+  env?: Record<string, string | undefined>;
+  /** Where the sweep block's deprecation notes go (default process.stderr); the run itself prints no progress. */
+  progress?: ProgressStream;
+}
+
+/** A whole sweep computed in memory. */
+export interface InMemorySweep {
+  /** Every cell of the grid, sorted by index: the `cells` of the cells.json a file run with the same scenario writes. */
+  cells: CellResult[];
+  /** What summary.json holds for these cells. */
+  summary: SweepSummary;
+  /** The sweep's identity (cells.json's `meta`). */
+  meta: SweepMeta;
+  /** The no-moon calibration pre-pass on the workers (null: none). */
+  calibration: CalibrationStats | null;
+}
+
+/**
+ * Run the whole grid of the sweep of `scenario` (a file path, or a Scenario from parseScenario /
+ * loadScenario whose document holds the `sweep:` block) and return its cells and summary,
+ * writing nothing: no output folder, no checkpoint, no lock. The cells are those `runSweep`
+ * writes to cells.json for the same scenario and seed (same seeding per cell and realization,
+ * the same validation of every cell first); an interruption cannot be resumed.
+ * Throws InputError for bad input, and an Error naming the signal when aborted.
+ */
+export async function runSweepInMemory(scenarioOrPath: Scenario | string, options: InMemorySweepOptions = {}): Promise<InMemorySweep> {
+  const env = options.env ?? process.env;
+  const loaded = loadSweep(scenarioOrPath);
+  const workers = resolveWorkerCount(options.workers, env);
+  const forecastOnly = options.forecastOnly === true;
+  const meta = sweepMetaChecked(loaded, forecastOnly, options.progress);
+  const job = sweepJob(loaded, forecastOnly);
+  const all = shardCells(meta.cells, null);
+  const useCalibration = options.runner === undefined && !forecastOnly;
+  const checked = await validateCells(job, meta, meta.cells, new Set(all), useCalibration, options.signal);
+  const aborted = (): Error => new Error(`the sweep of "${loaded.scenario.name}" was aborted; nothing was kept`);
+  if (checked.aborted) throw aborted();
+  const results: CellResult[] = [];
+  const outcome = await executeCells({
+    pending: all,
+    job,
+    runner: options.runner,
+    workers,
+    signal: options.signal,
+    calibration: useCalibration ? (cells, threads) => planCalibration(cells, (i) => checked.classes.get(i) ?? null, { workers: threads }) : undefined,
+    onResult: (r) => results.push(r),
+  });
+  if (!outcome.completed || results.length !== all.length) throw aborted();
+  results.sort((a, b) => a.index - b.index);
+  return { cells: results, summary: buildSummary(meta, results), meta, calibration: outcome.calibration };
 }
