@@ -160,7 +160,10 @@ function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
 }
 
 /** Fields every cell carries, simulated or not (CellResult, from `placement` to `energy_total_w_m2`). */
-type CellLabels = Omit<CellResult, 'index' | 'coords' | 'simulated'>;
+type CellLabels = Pick<CellResult,
+  | 'placement' | 'allowed' | 'habitability' | 'habitability_dominant' | 'moon_mass_kg' | 'moon_separation_m' | 'moon_separation_hill'
+  | 'ttv_rms_s' | 'tdv_rms_s' | 'moon_depth' | 'timing_precision_s' | 'duration_precision_s' | 'pdet_forecast_ttv' | 'pdet_forecast_tdv'
+  | 'pdet_forecast_joint' | 'forecast_regime_ok' | 'channels_note' | 'photocentric_ratio' | 'energy_total_w_m2'>;
 
 /** Fields every cell carries, simulated or not. */
 function labelFields(s: Scenario, l: LimitsJson): CellLabels {
