@@ -208,7 +208,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   const moon = targetMoonInfo(tm.scenario, limits, t.moonMassText, t.moonSeparationText);
   const sig = moonSignal(limits);
   const tf = performance.now();
-  const precisions = precisionsAlong(q, tm.doc, tm.scenario);
+  const precisions = precisionsAlong(q, tm.scenario);
   const fc = precisions.map((p) => forecastProbability(t.channel, sig, p));
   const fcIndex = firstReaching(fc, t.probability);
   const why: string[] = [];
@@ -418,7 +418,7 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
   };
   ctx.notes.push(`target moons: ${h.grid} masses (log-spaced) × ${h.grid} separations (${(pop.separationFromM / 1e3).toFixed(0)}–${(pop.separationToM / 1e3).toFixed(0)} km, fluid Roche limit to the stable limit) at density ${pop.densityKgM3.toFixed(0)} kg/m³; ${targets.length} of ${pop.candidates} are stable and temperate`);
   const tf = performance.now();
-  const precisions = precisionsAlong(q, clean, base);
+  const precisions = precisionsAlong(q, base);
   const signals = pop.targets.map((m) => moonSignal(m.limits));
   const fc: Array<number | null> = precisions.map((p) => {
     if (signals.length === 0 || t.channel === 'dip') return null;
