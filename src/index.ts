@@ -10,7 +10,7 @@ export type {
 } from './scenario/types.js';
 export { loadScenario, parseScenarioText } from './scenario/loadScenario.js';
 export { parseScenario, cautionNotes, formatCautions, type ParseOptions } from './scenario/parseScenario.js';
-export { scenarioDocumentOf } from './scenario/scenarioDocument.js';
+export { scenarioDocumentOf, scenarioToDocument } from './scenario/scenarioDocument.js';
 export { parseQuantity } from './scenario/units.js';
 export { InputError, type FieldProblem } from './scenario/errors.js';
 

@@ -5,8 +5,8 @@
  * scenario itself (a round trip; "common practice, no source").
  */
 import { describe, it, expect } from 'vitest';
-import { loadScenario, parseScenario, parseScenarioText, planBudget, scenarioDocumentOf, type Scenario } from '../../src/index.js';
-import { scenarioToDocument } from '../../src/scenario/scenarioDocument.js';
+import { loadScenario, parseScenario, parseScenarioText, planBudget, scenarioDocumentOf, scenarioToDocument, type Scenario } from '../../src/index.js';
+
 import { applyAxes } from '../../src/sweep/applyAxes.js';
 import { canonicalJson } from '../../src/sweep/canonicalJson.js';
 
