@@ -6,7 +6,6 @@
  */
 import { describe, it, expect } from 'vitest';
 import { loadScenario, parseScenario, parseScenarioText, planBudget, scenarioDocumentOf, scenarioToDocument, type Scenario } from '../../src/index.js';
-
 import { applyAxes } from '../../src/sweep/applyAxes.js';
 import { canonicalJson } from '../../src/sweep/canonicalJson.js';
 
