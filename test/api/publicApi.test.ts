@@ -6,7 +6,7 @@
  * (identical results whatever the entry point: "common practice, no source").
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import {
@@ -14,6 +14,7 @@ import {
   type BudgetResult, type CalendarResult, type CellResult, type InMemorySweep, type LimitsJson, type PlanBudgetOptions, type Scenario,
   type SweepMeta, type SweepSummary, type VetResult,
 } from '../../src/index.js';
+import { defaultOutDir } from '../../src/app/defaultOutDir.js';
 
 /** An invented system, small enough for a sweep of 4 cells × 3 realizations. */
 const DOC = {
@@ -105,9 +106,10 @@ describe('runSweepInMemory and runSweep take a Scenario', () => {
     expect(mem.summary).toEqual(summary);
     expect(mem.cells.map((c) => c.index)).toEqual([0, 1, 2, 3]);
     expect(mem.cells.some((c) => c.simulated)).toBe(true);
-    // Nothing was written by the in-memory run (only the file run's folder exists).
+    // The in-memory runs write nothing: no default output folder appears (the file run wrote to `out`).
     const mem2 = await runSweepInMemory(scenario, { ...quiet, workers: 2 });
     expect(JSON.stringify(mem2.cells)).toBe(JSON.stringify(mem.cells));
+    expect(existsSync(defaultOutDir(scenario.name))).toBe(false);
   });
 
   it('a file path and its parsed Scenario give the same sweep', () => {
