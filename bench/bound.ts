@@ -26,7 +26,7 @@ import { boundReferenceDoc } from './boundReference.js';
 
 /** Milliseconds per cell of `cellBound` over the reference grid (every cell, as a forecast-only sweep would). */
 function boundCostRows(): BenchMedian[] {
-  const { doc, spec } = loadSweep(referenceSweepDoc(10));
+  const { doc, spec } = loadSweep(parseScenario(referenceSweepDoc(10), 'reference sweep'));
   const axes = spec.axes;
   const cells: unknown[] = [];
   for (const m of axes[0].values) for (const a of axes[1].values) cells.push(applyAxisValues(doc, axes, [m, a]));
@@ -39,7 +39,7 @@ function boundCostRows(): BenchMedian[] {
   for (const d of cells) {
     const s = parseScenario(d, 'cell', CELL_PARSE);
     const t = process.cpuUsage();
-    cellBound(d, s);
+    cellBound(s, s);
     perCell.push(cpuMs(process.cpuUsage(t)));
   }
   const total = cpuMs(process.cpuUsage(t0)) / 1000;
@@ -69,7 +69,7 @@ async function efficiencyRows(): Promise<BenchMedian[]> {
   const out = mkdtempSync(join(tmpdir(), 'moonsieve-bench-bound-'));
   try {
     const t0 = performance.now();
-    const res = await runSweep(doc, { out, workers: 2, quiet: true, shard: null, env: {} });
+    const res = await runSweep(parseScenario(doc, 'bound reference'), { out, workers: 2, quiet: true, shard: null, env: {} });
     const seconds = (performance.now() - t0) / 1000;
     const summary = buildSummary(res.meta, res.results);
     const md = summary.min_detectable!;

@@ -10,7 +10,8 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { parse as parseYaml } from 'yaml';
 import { runSweep } from '../src/app/sweep/runSweep.js';
-import type { CellRunner } from '../src/sweep/cellTypes.js';
+import { parseScenario } from '../src/scenario/parseScenario.js';
+import type { CellResult, CellRunner } from '../src/sweep/cellTypes.js';
 import type { RunnerModule } from '../src/app/sweep/workerPool.js';
 
 export interface SweepBenchResult {
@@ -41,7 +42,8 @@ export interface SweepBenchOptions {
 }
 
 /** `scenario`: a scenario file path or document (with or without a sweep block). */
-export async function benchSweep(scenario: unknown, o: SweepBenchOptions): Promise<SweepBenchResult> {
+export async function benchSweep(scenarioOrDoc: unknown, o: SweepBenchOptions): Promise<SweepBenchResult> {
+  const scenario = typeof scenarioOrDoc === 'string' ? scenarioOrDoc : parseScenario(scenarioOrDoc);
   const out = mkdtempSync(join(tmpdir(), 'moonsieve-bench-sweep-'));
   try {
     const t0 = performance.now();
@@ -51,7 +53,7 @@ export async function benchSweep(scenario: unknown, o: SweepBenchOptions): Promi
     const seconds = (performance.now() - t0) / 1000;
     const cells = res.results.length;
     // Cells that were not simulated (forecast only, unstable) ran no realizations.
-    const perCell = (r: Record<string, unknown>): number =>
+    const perCell = (r: CellResult): number =>
       r.simulated === false || res.meta.forecast_only ? 0 : typeof r.realizations === 'number' ? r.realizations : res.meta.realizations;
     const realizations = res.results.reduce((n, r) => n + perCell(r), 0);
     return {

@@ -15,6 +15,7 @@ import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { performance } from 'node:perf_hooks';
 import { loadSweep } from '../src/app/sweep/runSweep.js';
+import { parseScenario } from '../src/scenario/parseScenario.js';
 import { workerScriptUrl } from '../src/app/sweep/workerPool.js';
 import { unitValueEntries } from '../src/scenario/units.js';
 import type { WorkerInit } from '../src/app/sweep/worker.js';
@@ -44,10 +45,10 @@ parentPort.postMessage({ type: 'ready' });
 
 /** Medians over `repeats` fresh workers, ms. `scenarioDoc`: the sweep whose job the workers get. */
 export async function benchWorkerStart(scenarioDoc: unknown, repeats = 7): Promise<BenchMedian[]> {
-  const { doc, scenario, spec } = loadSweep(scenarioDoc);
+  const { doc, scenario, spec } = loadSweep(typeof scenarioDoc === 'string' ? scenarioDoc : parseScenario(scenarioDoc));
   const init: WorkerInit = {
     job: {
-      baseDoc: doc,
+      baseDocument: doc,
       axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
       ctx: { seed: scenario.seed, realizations: spec.realizations, simulateUnstable: spec.simulateUnstable, forecastOnly: false },
     },

@@ -5,9 +5,12 @@
 export { VERSION } from './version.js';
 
 // Scenario
-export type { Scenario, StarSpec, PlanetSpec, MoonSpec, InstrumentSpec, ObservationSpec, DetectionSpec } from './scenario/types.js';
+export type {
+  Scenario, ScenarioDocument, ScenarioCaution, StarSpec, PlanetSpec, MoonSpec, InstrumentSpec, RedNoiseSpec, GroundSpec, ObservationSpec, DetectionSpec,
+} from './scenario/types.js';
 export { loadScenario, parseScenarioText } from './scenario/loadScenario.js';
-export { parseScenario } from './scenario/parseScenario.js';
+export { parseScenario, cautionNotes, formatCautions, type ParseOptions } from './scenario/parseScenario.js';
+export { scenarioDocumentOf, scenarioToDocument } from './scenario/scenarioDocument.js';
 export { parseQuantity } from './scenario/units.js';
 export { InputError, type FieldProblem } from './scenario/errors.js';
 
@@ -30,14 +33,14 @@ export { timingSignals } from './physics/timingSignals.js';
 export { ttvAlias, aliasFamily } from './physics/ttvAlias.js';
 export { timingPrecision } from './physics/timingPrecision.js';
 export { forecastDetection } from './physics/detectionForecast.js';
-export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson } from './limits/computeLimits.js';
+export { computeLimits, limitsToJson, LIMITS_SCHEMA, type LimitsJson, type EnergyBudgetJson, type PlacementLabel } from './limits/computeLimits.js';
 
 // Photometry
 export { transitFlux } from './photometry/transitFlux.js';
 export { pairTransitFlux } from './photometry/pairTransitFlux.js';
 export { lightCurveModel, modelFlux } from './photometry/lightCurve.js';
 export { transitWindows, sampleWindows } from './photometry/transitWindows.js';
-export { simulateScenario } from './app/simulateScenario.js';
+export { simulateScenario, type Simulation } from './app/simulateScenario.js';
 
 // Noise
 export { createRng, type Rng } from './noise/rng.js';
@@ -54,21 +57,34 @@ export { wilsonInterval } from './timing/falseAlarmCalibration.js';
 export { modelTimingPrecision } from './timing/modelTimingPrecision.js';
 
 // Sweep, report, vet
-export { runSweep, loadSweep, type SweepOptions, type SweepOutcome } from './app/sweep/runSweep.js';
+export {
+  runSweep, runSweepInMemory, loadSweep, type SweepOptions, type SweepOutcome, type InMemorySweep, type InMemorySweepOptions, type LoadedSweep,
+} from './app/sweep/runSweep.js';
+export type { RunnerModule, CalibrationStats } from './app/sweep/workerPool.js';
+export { applyAxes, withoutMoon, CELL_PARSE, type AxisWrite } from './sweep/applyAxes.js';
+export type { SweepSpec, SweepAxis, AxisSpacing } from './sweep/sweepSpec.js';
+export type { SweepMeta, SweepAxisMeta, SweepRunInfo } from './sweep/sweepMeta.js';
 export { mergeShards } from './app/sweep/merge.js';
 export { runCell } from './sweep/runCell.js';
 export { writeSweepOutputs, CELLS_SCHEMA, RUN_SCHEMA } from './app/sweep/outputs.js';
-export type { CellTask, CellResult, CellContext, CellRunner } from './sweep/cellTypes.js';
+export type { CellTask, CellResult, CellContext, CellRunner, CellShared } from './sweep/cellTypes.js';
 export { renderSweepReport } from './app/sweepReport.js';
-export { buildSummary, SUMMARY_SCHEMA } from './report/summary.js';
+export { buildSummary, SUMMARY_SCHEMA, type SweepSummary, type SummaryCell } from './report/summary.js';
+export type { MinDetectablePoint } from './report/minDetectable.js';
 export { loadClaim, parseClaimText, vetClaim, formatVetReport, vetToJson, VET_SCHEMA } from './vet/index.js';
-export type { Claim, VetResult, VetJson } from './vet/index.js';
+export type {
+  Claim, ClaimedAmplitude, TimingTable, PhotometricPrecision, OrientationPrior, ParseClaimOptions,
+  VetResult, VetCheck, CheckStatus, Verdict, ImpliedMoonSummary, QuantileSummary, VetJson,
+} from './vet/index.js';
 export { planBudget, budgetToJson, BUDGET_SCHEMA } from './budget/index.js';
-export type { BudgetJson } from './budget/index.js';
+export type {
+  BudgetJson, BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,
+  BudgetForecastCurve, BudgetTargetMoon, BudgetQuantityInfo,
+} from './budget/index.js';
 
 // Sky: where and when (issue 18)
 export type { SkySpec, SiteSpec, TargetSpec, CampaignSpec, ConstraintsSpec } from './scenario/types.js';
-export { transitCalendar, type CalendarResult, type CalendarTransit, type NetworkTransit, type TransitClass } from './sky/calendar.js';
+export { transitCalendar, type CalendarResult, type CalendarTransit, type CalendarCounts, type NetworkTransit, type TransitClass } from './sky/calendar.js';
 export { sunAltitudeDeg, targetAltitudeDeg } from './sky/skyPosition.js';
 export { airmassKastenYoung } from './sky/airmass.js';
 export { utcToBjdTdb, bjdTdbToUtc } from './sky/barycentric.js';

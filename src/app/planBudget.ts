@@ -28,6 +28,7 @@ import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines, withLines, type SourcePosition } from '../scenario/loadScenario.js';
 import { cautionNotes, parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
+import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
 import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
 } from '../budget/budgetTypes.js';
@@ -36,10 +37,9 @@ import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlon
 import { habitablePopulation, spreadEvenly } from '../budget/habitableTargets.js';
 import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from '../budget/monteCarloPoint.js';
 import { searchCheapestPassing } from '../budget/monotoneSearch.js';
-import { applyQuantity, formatQuantity, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
+import { formatQuantity, quantityScenario, pct, solvedQuantity, type SolvedQuantity } from '../budget/solvedQuantity.js';
 import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from '../budget/targetMoon.js';
 import { budgetObservability, siteNote, wholeToSky } from '../budget/nightsBudget.js';
-import { SITE_CALENDAR_ONLY } from '../scenario/readSky.js';
 
 /** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
 const COMBINED_CHANNELS = 3;
@@ -53,8 +53,9 @@ export function evaluationText(e: BudgetEvaluation): string {
   return `${p3(e.probability)} [${p3(e.lower)}, ${p3(e.upper)}]`;
 }
 
-function loadDoc(scenario: unknown): { doc: unknown; source: string; lineOf: ((path: string) => SourcePosition | null) | null } {
-  if (typeof scenario !== 'string') return { doc: scenario, source: 'scenario', lineOf: null };
+function loadDoc(scenario: Scenario | string): { doc: unknown; source: string; lineOf: ((path: string) => SourcePosition | null) | null } {
+  // A Scenario: its document (the budget block, and the fields the budget varies as they were written).
+  if (typeof scenario !== 'string') return { doc: scenarioDocumentOf(scenario), source: 'scenario', lineOf: null };
   let text: string;
   try {
     text = readFileSync(scenario, 'utf8');
@@ -74,6 +75,13 @@ function withoutBlocks(doc: unknown): Record<string, unknown> {
   return out;
 }
 
+/** The document without the blocks that place the observer on the sky (site, target, campaign, constraints). */
+function withoutSkyBlocks(doc: Record<string, unknown>): Record<string, unknown> {
+  const out = { ...doc };
+  for (const k of ['site', 'target', 'campaign', 'constraints']) delete out[k];
+  return out;
+}
+
 interface Context {
   t: ResolvedBudgetTarget;
   base: Scenario;
@@ -86,10 +94,11 @@ interface Context {
 
 /**
  * The observing budget (see the file comment). `scenario` is a scenario file
- * path or its document (plain values); `target` overrides the scenario's
+ * path or a Scenario from parseScenario / loadScenario (its `budget:` block is
+ * read from the document it was parsed from); `target` overrides that
  * `budget:` block. Throws InputError for bad input.
  */
-export function planBudget(scenario: unknown, target: BudgetTarget = {}, options: PlanBudgetOptions = {}): BudgetResult {
+export function planBudget(scenario: Scenario | string, target: BudgetTarget = {}, options: PlanBudgetOptions = {}): BudgetResult {
   const t0 = performance.now();
   const { doc, source, lineOf } = loadDoc(scenario);
   try {
@@ -102,8 +111,12 @@ export function planBudget(scenario: unknown, target: BudgetTarget = {}, options
 
 function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanBudgetOptions, t0: number): BudgetResult {
   const t = resolveBudgetTarget(doc, target, source);
-  const clean = withoutBlocks(doc);
-  const base = parseScenario(clean, source);
+  const withSky = parseScenario(withoutBlocks(doc), source);
+  // The Monte Carlo and the forecast simulate consecutive whole transits (with a campaign the sweep would
+  // observe only the calendar's epochs instead: noise/observingPlan.ts); the calendar then turns the count
+  // they need into epochs, nights and calendar time (budget/nightsBudget.ts).
+  const clean = withoutSkyBlocks(withoutBlocks(doc));
+  const base = withSky.sky ? parseScenario(clean, source) : withSky;
   assertObservable(base, source);
   const q = solvedQuantity(t.solve, clean, base, t.maxTransits, t.channel);
   if (q.solve === 'transits') {
@@ -127,8 +140,8 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   const part = t.habitable ? planPopulation(ctx, clean) : planSingle(ctx, clean, source);
   if (part.evaluations.length > 0) ctx.notes.push(...nullCountNotes(ctx, part.evaluations));
   // With a site, the count becomes nights, hours on sky and calendar time (src/budget/nightsBudget.ts).
-  const observability = budgetObservability(base, part.answer.reached ? part.answer.transits : null, source);
-  const notes = ctx.notes.map((n) => (n === `site: ${SITE_CALENDAR_ONLY}` ? siteNote(observability) : n));
+  const observability = budgetObservability(withSky, part.answer.reached ? part.answer.transits : null, source);
+  const notes = withSky.sky && withSky.sky.sites.length > 0 ? [siteNote(observability), ...ctx.notes] : ctx.notes;
   const answer = observability.plan && part.answer.reached ? { ...part.answer, statement: `${part.answer.statement} ${wholeToSky(observability.plan)}` } : part.answer;
   return {
     scenario: base.name,
@@ -214,7 +227,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   const moon = targetMoonInfo(tm.scenario, limits, t.moonMassText, t.moonSeparationText);
   const sig = moonSignal(limits);
   const tf = performance.now();
-  const precisions = precisionsAlong(q, tm.doc, tm.scenario);
+  const precisions = precisionsAlong(q, tm.scenario);
   const fc = precisions.map((p) => forecastProbability(t.channel, sig, p));
   const fcIndex = firstReaching(fc, t.probability);
   const why: string[] = [];
@@ -241,7 +254,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   const start = startIndex(ctx, fc, fcIndex);
   ctx.progress(`${tm.scenario.name}: Monte Carlo search for ${pct(t.probability)} ${t.channel} detection, ${t.realizations} moon + ${t.nullRealizations} no-moon realizations per value, starting at ${formatQuantity(q, q.values[start])}${fcIndex !== null ? ' (the forecast)' : ''}\n`);
   const evaluate = (i: number): BudgetEvaluation => {
-    const e = evaluateMoon(applyQuantity(tm.doc, q, q.values[i]), i, q.values[i], ctx.mc);
+    const e = evaluateMoon(quantityScenario(tm.scenario, q, q.values[i], 'cell 0'), i, q.values[i], ctx.mc);
     progressLine(ctx, e, `pdet_${t.channel} =`);
     return e;
   };
@@ -424,7 +437,7 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
   };
   ctx.notes.push(`target moons: ${h.grid} masses (log-spaced) × ${h.grid} separations (${(pop.separationFromM / 1e3).toFixed(0)}–${(pop.separationToM / 1e3).toFixed(0)} km, fluid Roche limit to the stable limit) at density ${pop.densityKgM3.toFixed(0)} kg/m³; ${targets.length} of ${pop.candidates} are stable and temperate`);
   const tf = performance.now();
-  const precisions = precisionsAlong(q, clean, base);
+  const precisions = precisionsAlong(q, base);
   const signals = pop.targets.map((m) => moonSignal(m.limits));
   const fc: Array<number | null> = precisions.map((p) => {
     if (signals.length === 0 || t.channel === 'dip') return null;
@@ -452,7 +465,7 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
   ctx.progress(`${base.name}: Monte Carlo search over ${chosen.length} of ${targets.length} temperate, stable moons, ${t.realizations} realizations each + ${t.nullRealizations} no-moon per value, starting at ${formatQuantity(q, q.values[start])}\n`);
   const evaluate = (i: number): BudgetEvaluation => {
     const v = q.values[i];
-    const e = evaluatePopulation(chosen.map((m) => applyQuantity(m.doc, q, v)), chosen.map((m) => m.gridIndex), i, v, ctx.mc, h.fraction);
+    const e = evaluatePopulation(chosen.map((m) => quantityScenario(m.scenario, q, v, `cell ${m.gridIndex}`)), chosen.map((m) => m.gridIndex), i, v, ctx.mc, h.fraction);
     progressLine(ctx, e, 'fraction of moons reaching it');
     return e;
   };

@@ -11,6 +11,7 @@ import { computeLimits, type LimitsJson } from '../limits/computeLimits.js';
 import { forecastDetection } from '../physics/detectionForecast.js';
 import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
+import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
 import type { BudgetChannel } from './budgetTypes.js';
 import { applyQuantity, type SolvedQuantity } from './solvedQuantity.js';
 import { MIN_BUDGET_TRANSITS } from './budgetSpec.js';
@@ -66,14 +67,16 @@ export function forecastProbability(channel: BudgetChannel, sig: MoonSignal, p: 
 
 /**
  * The observation's precision at every grid value of `q`, for the scenario
- * document `doc` (parsed as `base`). Transits change nothing in the
+ * `base` with the value applied to its document (`Scenario.document`) and
+ * validated as a scenario is. Transits change nothing in the
  * per-transit precision, so that grid needs one computeLimits call.
  */
-export function precisionsAlong(q: SolvedQuantity, doc: unknown, base: Scenario): ValuePrecision[] {
+export function precisionsAlong(q: SolvedQuantity, base: Scenario): ValuePrecision[] {
   if (q.solve === 'transits') {
     const p = valuePrecision(computeLimits(base));
     return q.values.map((n) => ({ ...p, transits: n }));
   }
+  const doc = scenarioDocumentOf(base);
   return q.values.map((v) => valuePrecision(computeLimits(parseScenario(applyQuantity(doc, q, v)))));
 }
 

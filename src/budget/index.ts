@@ -6,6 +6,7 @@ export { renderBudgetPage, budgetFigure } from '../report/budgetPage.js';
 export { searchCheapestPassing, type MonotoneSearchOutcome } from './monotoneSearch.js';
 export type {
   BudgetTarget, BudgetResult, BudgetAnswer, BudgetEvaluation, BudgetSolve, BudgetChannel, HabitableTarget, PlanBudgetOptions,
+  BudgetForecastCurve, BudgetTargetMoon, BudgetQuantityInfo, ResolvedBudgetTarget,
 } from './budgetTypes.js';
 export { budgetToJson, BUDGET_SCHEMA, type BudgetJson } from './budgetJson.js';
 export { nightsPlan, budgetObservability, rampCoverage, WHOLE_TRANSITS_ASSUMED, type NightsPlan, type NightBooking, type Observability } from './nightsBudget.js';

@@ -1,7 +1,7 @@
 /**
  * One Monte Carlo evaluation of a budget at one value of the solved quantity:
- * exactly one sweep cell (`runCell`) per target moon on the scenario document
- * with that value written in: R moon realizations (phase and orientation
+ * exactly one sweep cell (`runCell`) per target moon on the scenario with that
+ * value applied (`quantityScenario`): R moon realizations (phase and orientation
  * drawn as in the sweep) against false-alarm thresholds calibrated on no-moon
  * realizations of the same scenario, with Wilson intervals.
  *
@@ -13,6 +13,7 @@
 import { performance } from 'node:perf_hooks';
 import { runCell } from '../sweep/runCell.js';
 import type { CellResult } from '../sweep/cellTypes.js';
+import type { Scenario } from '../scenario/types.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
 import type { BudgetChannel, BudgetEvaluation } from './budgetTypes.js';
 
@@ -27,22 +28,22 @@ export interface MonteCarloSettings {
 const num = (x: unknown): number => (typeof x === 'number' ? x : Number.NaN);
 
 /** Run one cell; throws if the runner did not simulate it (an unstable moon is never simulated). */
-export function runBudgetCell(doc: unknown, cellIndex: number, value: number, m: MonteCarloSettings): CellResult {
+export function runBudgetCell(scenario: Scenario, cellIndex: number, value: number, m: MonteCarloSettings): CellResult {
   const r = runCell(
-    { index: cellIndex, coords: [value], scenarioDoc: doc },
+    { index: cellIndex, coords: [value], scenario },
     { seed: m.seed, realizations: m.realizations, simulateUnstable: false, forecastOnly: false, nullRealizations: m.nullRealizations } as Parameters<typeof runCell>[1],
   );
   if (r.simulated !== true) throw new RangeError(`the moon at this value was not simulated: ${String(r.skipped_reason)}`);
   return r;
 }
 
-/** One target moon at grid index `index` (value `value`, document `doc` with the value written in). */
-export function evaluateMoon(doc: unknown, index: number, value: number, m: MonteCarloSettings): BudgetEvaluation {
+/** One target moon at grid index `index` (value `value`, `scenario` with the value applied). */
+export function evaluateMoon(scenario: Scenario, index: number, value: number, m: MonteCarloSettings): BudgetEvaluation {
   const t0 = performance.now();
-  const r = runBudgetCell(doc, 0, value, m);
+  const r = runBudgetCell(scenario, 0, value, m);
   const p = num(r[`pdet_${m.channel}`]);
   const channels: Record<string, number> = {};
-  for (const ch of ['combined', 'ttv', 'tdv', 'dip']) channels[ch] = num(r[`pdet_${ch}`]);
+  for (const ch of ['combined', 'ttv', 'tdv', 'dip'] as const) channels[ch] = num(r[`pdet_${ch}`]);
   return {
     index,
     value,
@@ -59,21 +60,21 @@ export function evaluateMoon(doc: unknown, index: number, value: number, m: Mont
 }
 
 /**
- * A population at grid index `index`: the fraction of `docs` (one document per
- * target moon, the value already written in) whose detection probability
+ * A population at grid index `index`: the fraction of `scenarios` (one per
+ * target moon, the value already applied) whose detection probability
  * reaches `m.probability`, with its Wilson interval over the moons, and
  * whether it reaches `fraction`. Moon k uses cell index `cellIndices[k]`.
  */
-export function evaluatePopulation(docs: readonly unknown[], cellIndices: readonly number[], index: number, value: number, m: MonteCarloSettings, fraction: number): BudgetEvaluation {
+export function evaluatePopulation(scenarios: readonly Scenario[], cellIndices: readonly number[], index: number, value: number, m: MonteCarloSettings, fraction: number): BudgetEvaluation {
   const t0 = performance.now();
   let reached = 0;
   let falseAlarm = 0;
-  for (let k = 0; k < docs.length; k++) {
-    const r = runBudgetCell(docs[k], cellIndices[k], value, m);
+  for (let k = 0; k < scenarios.length; k++) {
+    const r = runBudgetCell(scenarios[k], cellIndices[k], value, m);
     if (num(r[`pdet_${m.channel}`]) >= m.probability) reached++;
     falseAlarm += num(r.false_alarm_measured_combined);
   }
-  const w = wilsonInterval(reached, docs.length);
+  const w = wilsonInterval(reached, scenarios.length);
   return {
     index,
     value,
@@ -82,7 +83,7 @@ export function evaluatePopulation(docs: readonly unknown[], cellIndices: readon
     upper: w.upper,
     passed: w.estimate >= fraction,
     channels: null,
-    falseAlarmMeasured: falseAlarm / docs.length,
+    falseAlarmMeasured: falseAlarm / scenarios.length,
     realizations: m.realizations,
     nullRealizations: m.nullRealizations,
     seconds: (performance.now() - t0) / 1000,

@@ -11,6 +11,9 @@
  */
 import { MINUTE_S } from '../physics/constants.js';
 import type { Scenario } from '../scenario/types.js';
+import { parseScenario } from '../scenario/parseScenario.js';
+import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
+import { CELL_PARSE } from '../sweep/applyAxes.js';
 import { lightCurvePointCount, MAX_LIGHT_CURVE_POINTS, scenarioDurations } from '../photometry/transitWindows.js';
 import { writeAxisValue, type AxisWriteContext } from '../sweep/axisFields.js';
 import type { BudgetChannel, BudgetQuantityInfo, BudgetSolve } from './budgetTypes.js';
@@ -98,6 +101,14 @@ export function applyQuantity(doc: unknown, q: Pick<SolvedQuantity, 'field' | 'w
   }
   writeAxisValue(out, q.field, value, q.write);
   return out;
+}
+
+/**
+ * The scenario `base` (from parseScenario) with the quantity set to `value` (SI), validated as
+ * a sweep cell is (`CELL_PARSE`), under the name `label`; `base` is not changed.
+ */
+export function quantityScenario(base: Scenario, q: Pick<SolvedQuantity, 'field' | 'write' | 'remove'>, value: number, label: string): Scenario {
+  return parseScenario(applyQuantity(scenarioDocumentOf(base), q, value), label, CELL_PARSE);
 }
 
 /** A value in the quantity's display unit, as text ("12 transits", "4.76 min", "450 ppm per 2 min"). */

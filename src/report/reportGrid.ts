@@ -39,7 +39,7 @@ export function channelField(channel: MapChannel, forecastOnly: boolean): string
 
 /** A number field of a cell, or null (JSON turned NaN into null; missing fields are null too). */
 export function num(c: CellResult | undefined, key: string): number | null {
-  const v = c?.[key];
+  const v = (c as Readonly<Record<string, unknown>> | undefined)?.[key];
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 

@@ -26,46 +26,73 @@ import { medianOfFinite } from '../numeric/quantiles.js';
 
 export const SUMMARY_SCHEMA = 'moonsieve/summary/2';
 
+/** One cell quoted by the summary. */
 export interface SummaryCell {
+  /** Row-major cell index. */
   index: number;
+  /** The cell's value on each axis, SI. */
   coords: number[];
+  /** Moon mass, kg (null without a moon). */
   moon_mass_kg: number | null;
+  /** Planet–moon semi-major axis, m (null without a moon). */
   moon_separation_m: number | null;
+  /** The separation in Hill radii (null without a moon). */
   moon_separation_hill: number | null;
+  /** The cell's detection probability (the `probability_field` of the summary). */
   probability: number;
 }
 
+/** summary.json (schema SUMMARY_SCHEMA, schemas/summary.schema.json): the headline numbers of a sweep. */
 export interface SweepSummary {
+  /** Schema id with its version (SUMMARY_SCHEMA). */
   schema: string;
+  /** The scenario's name. */
   scenario: string;
+  /** sha256 of the scenario document's canonical JSON (as in cells.json's meta). */
   scenario_hash: string;
+  /** The moonsieve version that wrote the cells. */
   moonsieve_version: string;
+  /** The scenario seed. */
   seed: number;
+  /** Where the probabilities come from: the Monte Carlo, or the analytic forecast (a forecast-only run). */
   basis: 'monte carlo' | 'forecast';
+  /** The cell field the detection probability is read from. */
   probability_field: 'pdet_combined' | 'pdet_forecast_combined' | 'pdet_forecast_joint';
+  /** Moon realizations per simulated cell (null in a forecast-only run). */
   realizations: number | null;
+  /** The requested false-alarm probability per channel. */
   false_alarm: number;
   /** Measured combined false-alarm rate over the simulated cells: min, median, max (null when none). */
   false_alarm_measured_combined: { min: number; median: number; max: number } | null;
+  /** Cells summarised. */
   cells: number;
+  /** Cells of the whole grid. */
   cells_grid: number;
+  /** Cells simulated (Monte Carlo). */
   cells_simulated: number;
+  /** Cells whose moon is physically allowed (placement "stable"). */
   cells_allowed: number;
+  /** Cells whose moon's energy budget is temperate. */
   cells_temperate: number;
   /** Stable and temperate. */
   cells_habitable: number;
+  /** Habitable-zone cells detected with probability ≥ 0.5. */
   habitable_detected_50: number;
+  /** Habitable-zone cells detected with probability ≥ 0.9. */
   habitable_detected_90: number;
+  /** Of those, the ones whose lower Wilson bound is ≥ 0.9 too (null in a forecast-only run). */
   habitable_detected_90_confident: number | null;
   /** The lightest habitable-zone moon detected at 90 %, when the moon mass varies over the grid. */
   smallest_habitable_detected_90: SummaryCell | null;
   /** The same over every stable cell, temperate or not. */
   allowed_detected_90: number;
+  /** The lightest stable moon detected at 90 %, when the moon mass varies over the grid. */
   smallest_allowed_detected_90: SummaryCell | null;
   /** The habitable-zone cell with the highest probability still below 0.9. */
   closest_habitable_miss: SummaryCell | null;
   /** Range of each axis (SI) over the habitable cells detected at 90 %. */
   habitable_detected_90_axis_ranges: Array<{ field: string; unit: string; min: number; max: number }>;
+  /** Whether the moon mass differs between cells (more than one moon_mass_kg). */
   moon_mass_varies: boolean;
   /**
    * On a two-axis grid: per x value, the smallest y (direction 'increasing',
@@ -73,12 +100,17 @@ export interface SweepSummary {
    * reaches 50 % and 90 % (see minDetectable.ts).
    */
   min_detectable: {
+    /** The axis whose minimum (or maximum) detectable value is given per column. */
     y_field: string;
+    /** 'increasing': the smallest y that reaches the level; 'decreasing': the largest. */
     direction: 'increasing' | 'decreasing';
+    /** The axis of the columns. */
     x_field: string;
     /** On a three-axis grid, the axis drawn as small multiples; each point then carries its `facet` value, panel after panel. */
     facet_field?: string;
+    /** Per column, where the probability reaches 0.5. */
     level_50: MinDetectablePoint[];
+    /** Per column, where the probability reaches 0.9. */
     level_90: MinDetectablePoint[];
     /** The same lines for the known-template bound (`pdet_bound`): no analysis of the same data can do better. */
     bound_50: MinDetectablePoint[];

@@ -22,7 +22,7 @@ import { readSky, SITE_CALENDAR_ONLY } from './readSky.js';
 import { formatNumber, parseQuantity, splitNumberUnit, writtenUnit } from './units.js';
 import { bandZeroPointPhotons, groundNoiseBudget } from '../noise/groundBudget.js';
 import type {
-  DetectionSpec, GroundSpec, InstrumentSpec, RedNoiseSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, ScenarioCaution, StarSpec,
+  DetectionSpec, GroundSpec, InstrumentSpec, RedNoiseSpec, MoonSpec, ObservationSpec, PlanetSpec, Scenario, ScenarioCaution, ScenarioDocument, StarSpec,
 } from './types.js';
 
 const DEG = Math.PI / 180;
@@ -100,6 +100,8 @@ export function parseScenario(doc: unknown, source = 'scenario', options: ParseO
   // Not enumerable: the cautions are messages, not part of the model, so they stay out of the
   // canonical JSON that seeds and identifies the no-moon sets (sweep/nullSet.ts) and out of copies.
   Object.defineProperty(scenario, 'cautions', { value: cautions, enumerable: false, writable: true, configurable: true });
+  // Not enumerable either: how the values were written, for varying the scenario (Scenario.document).
+  Object.defineProperty(scenario, 'document', { value: structuredClone(doc) as ScenarioDocument, enumerable: false, writable: true, configurable: true });
   return scenario;
 }
 

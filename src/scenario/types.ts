@@ -157,7 +157,24 @@ export interface ScenarioCaution {
   message: string;
 }
 
+/**
+ * A scenario document as read from YAML: plain values (numbers, texts with
+ * their units such as "0.3 hill" or "12 Rp", nested blocks), not yet
+ * validated. The input edge only: stages read the validated `Scenario`.
+ */
+export type ScenarioDocument = Record<string, unknown>;
+
 export interface Scenario {
+  /**
+   * The document this scenario was parsed from (a private copy), so that it can be varied
+   * field by field and validated again with the same checks (a sweep cell's axis values, a
+   * budget's solved quantity: `applyAxes`, `scenarioDocumentOf`): the document keeps what the
+   * SI values do not, how each was written ("0.3 hill" follows the planet, a density makes the
+   * radius follow the mass, a luminosity given or derived). Set by parseScenario; a non-enumerable
+   * property like `cautions` (not in JSON, spreads, structured clones or the canonical JSON that
+   * seeds the no-moon sets); absent on a Scenario built by hand or copied.
+   */
+  document?: ScenarioDocument;
   /**
    * Cautions about odd but legal inputs (empty when none; absent on a Scenario not made by
    * parseScenario); see `formatCautions`. A non-enumerable property: not in JSON, spreads,

@@ -6,14 +6,14 @@
  * projector. Null where the cell has no orbit to model (no moon, or a moon
  * touching its planet) or no noise.
  */
-import { parseScenario } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
 import { knownTemplateBound } from '../timing/knownTemplateBound.js';
+import { withCampaignEpochs } from '../noise/observingPlan.js';
+import { withoutMoon } from './applyAxes.js';
 
-export function cellBound(doc: unknown, s: Scenario): number | null {
+/** `s`: the cell's scenario as simulated (campaign epochs applied); `given`: the cell's scenario as the grid made it. */
+export function cellBound(s: Scenario, given: Scenario): number | null {
   if (!s.moon || s.moon.touchesPlanet) return null;
-  const rest = { ...(doc as Record<string, unknown>) };
-  delete rest.moon;
-  const b = knownTemplateBound(s, { planetOnly: parseScenario(rest, 'scenario without its moon') });
+  const b = knownTemplateBound(s, { planetOnly: withCampaignEpochs(withoutMoon(given)) });
   return Number.isFinite(b.probability) ? b.probability : null;
 }

@@ -5,12 +5,20 @@
  */
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import { createGrid, type Grid } from './grid.js';
-import { applyAxisValues } from './applyAxes.js';
+import { applyAxes, CELL_PARSE } from './applyAxes.js';
 import type { SweepAxis } from './sweepSpec.js';
+import { parseScenario } from '../scenario/parseScenario.js';
+import type { Scenario, ScenarioDocument } from '../scenario/types.js';
 
 /** Plain data (structured-cloneable), sent once to each worker. */
 export interface CellJob {
-  baseDoc: unknown;
+  /**
+   * The sweep's scenario as its document (`Scenario.document`, the form a
+   * Scenario is varied through: a structured clone of a Scenario drops it);
+   * each thread validates it once (`prepareJob`) and varies the typed
+   * Scenario per cell (`applyAxes`).
+   */
+  baseDocument: ScenarioDocument;
   axes: Array<Pick<SweepAxis, 'field' | 'write' | 'values'>>;
   ctx: CellContext;
 }
@@ -18,15 +26,19 @@ export interface CellJob {
 export interface PreparedJob {
   job: CellJob;
   grid: Grid;
+  /** The sweep's scenario, validated once in this thread. */
+  base: Scenario;
 }
 
 export function prepareJob(job: CellJob): PreparedJob {
-  return { job, grid: createGrid(job.axes.map((a) => a.values)) };
+  // As a grid cell (CELL_PARSE): the base's own moon need not clear its planet, only the cells' moons are judged.
+  return { job, grid: createGrid(job.axes.map((a) => a.values)), base: parseScenario(job.baseDocument, 'scenario', CELL_PARSE) };
 }
 
+/** The task of cell `index`: its coordinates and its scenario (throws the cell's InputError, named "cell <index>"). */
 export function cellTask(p: PreparedJob, index: number): CellTask {
   const coords = p.grid.cellCoords(index);
-  return { index, coords, scenarioDoc: applyAxisValues(p.job.baseDoc, p.job.axes, coords) };
+  return { index, coords, scenario: applyAxes(p.base, p.job.axes, coords, `cell ${index}`) };
 }
 
 /**

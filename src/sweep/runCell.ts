@@ -39,8 +39,8 @@
  * interpolated (type 7) quantile is used and the cell says `calibration_limited`.
  */
 import { withCampaignEpochs } from '../noise/observingPlan.js';
-import { parseScenario, type ParseOptions } from '../scenario/parseScenario.js';
 import type { Scenario } from '../scenario/types.js';
+import { CELL_PARSE, withoutMoon } from './applyAxes.js';
 import { computeLimits, moonPlacement, type LimitsJson } from '../limits/computeLimits.js';
 import { missingChannelSummary } from '../physics/detectionForecast.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
@@ -73,11 +73,11 @@ export function channelsFor(transits: number): DetectionChannel[] {
   return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
 }
 
-/** Grid cells parse a moon that touches its planet as a physical label, not an input error (parseScenario). */
-export const CELL_PARSE: ParseOptions = { moonContact: 'label' };
+/** Grid cells parse a moon that touches its planet as a physical label, not an input error (applyAxes.ts). */
+export { CELL_PARSE };
 
 /** Why a cell is not simulated, or null when it is. */
-function skipReason(s: Scenario, base: CellResult, ctx: CellContext): string | null {
+function skipReason(s: Scenario, base: Pick<CellResult, 'placement' | 'allowed'>, ctx: CellContext): string | null {
   if (!s.moon) return 'no moon in the scenario';
   // Overlapping discs have no orbit to simulate, whatever simulate_unstable says.
   if (s.moon.touchesPlanet) return 'not simulated: touches the planet';
@@ -88,16 +88,14 @@ function skipReason(s: Scenario, base: CellResult, ctx: CellContext): string | n
 
 /**
  * The null class of a cell (whether or not the cell is simulated): the cell's
- * scenario document without its moon, parsed afresh, so that every derived
+ * scenario without its moon, validated afresh (`withoutMoon`), so that every derived
  * quantity (the planet's semi-major axis from Kepler's third law with the
  * moon's mass, the inclination from the impact parameter) is that of the
  * moonless system. Cells that differ only in their moon then share one class.
  */
-function classOfCell(doc: unknown, s: Scenario, ctx: CellContext): NullClass {
+function classOfCell(s: Scenario, ctx: CellContext): NullClass {
   const count = ctx.nullRealizations ?? defaultNullRealizations(s.detection.falseAlarm, ctx.realizations);
-  const rest = { ...(doc as Record<string, unknown>) };
-  delete rest.moon;
-  return nullClassOfScenario(parseScenario(rest, 'scenario without its moon'), ctx.seed, count);
+  return nullClassOfScenario(withoutMoon(s), ctx.seed, count);
 }
 
 /**
@@ -106,12 +104,12 @@ function classOfCell(doc: unknown, s: Scenario, ctx: CellContext): NullClass {
  * without simulate_unstable): the same decision `runCell` makes.
  */
 export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null {
-  const s = parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE);
+  const s = task.scenario;
   if (!s.moon || ctx.forecastOnly) return null;
   // Only the placement decides (skipReason); the rest of computeLimits (the forecast) is not needed here.
   const placement = moonPlacement(s) ?? ['no moon'];
   const base = { placement: placement.join('; '), allowed: placement.length === 1 && placement[0] === 'stable' };
-  return skipReason(s, base as unknown as CellResult, ctx) === null ? classOfCell(task.scenarioDoc, s, ctx) : null;
+  return skipReason(s, base, ctx) === null ? classOfCell(s, ctx) : null;
 }
 
 /**
@@ -120,7 +118,7 @@ export function nullClassOf(task: CellTask, ctx: CellContext): NullClass | null 
  * empty when the cell can run. Throws the scenario's own InputError for an invalid document.
  */
 export function cellComputeProblems(task: CellTask): FieldProblem[] {
-  return observationSizeProblems(parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE));
+  return observationSizeProblems(task.scenario);
 }
 
 /** Whether `runCell` will simulate this cell (and so needs its null set). */
@@ -133,7 +131,7 @@ export function cellNeedsCalibration(task: CellTask, ctx: CellContext): boolean 
  * packed (the calibration pre-pass runs these chunks on the workers).
  */
 export function nullChunkOf(task: CellTask, ctx: CellContext, start: number, n: number, ws?: RealizationWorkspace): { key: string; range: PackedNullRange } {
-  const c = classOfCell(task.scenarioDoc, parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE), ctx);
+  const c = classOfCell(task.scenario, ctx);
   return { key: c.key, range: computeNullRange(c, start, n, ws) };
 }
 
@@ -163,8 +161,14 @@ function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
   return out;
 }
 
+/** Fields every cell carries, simulated or not (CellResult, from `placement` to `energy_total_w_m2`). */
+type CellLabels = Pick<CellResult,
+  | 'placement' | 'allowed' | 'habitability' | 'habitability_dominant' | 'moon_mass_kg' | 'moon_separation_m' | 'moon_separation_hill'
+  | 'ttv_rms_s' | 'tdv_rms_s' | 'moon_depth' | 'timing_precision_s' | 'duration_precision_s' | 'pdet_forecast_ttv' | 'pdet_forecast_tdv'
+  | 'pdet_forecast_joint' | 'pdet_forecast_combined' | 'forecast_regime_ok' | 'channels_note' | 'photocentric_ratio' | 'energy_total_w_m2'>;
+
 /** Fields every cell carries, simulated or not. */
-function labelFields(s: Scenario, l: LimitsJson): Record<string, unknown> {
+function labelFields(s: Scenario, l: LimitsJson): CellLabels {
   const placement = l.moon_placement ?? ['no moon'];
   return {
     placement: placement.join('; '),
@@ -206,17 +210,17 @@ function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, excl
 
 export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: CellShared): CellResult => {
   // With a ground campaign the campaign's transits are the epochs (noise/observingPlan.ts).
-  const s = withCampaignEpochs(parseScenario(task.scenarioDoc, `cell ${task.index}`, CELL_PARSE));
+  const s = withCampaignEpochs(task.scenario);
   // Refused before any work: a cadence no shorter than the transit, or a light curve too large (transitWindows.ts).
   assertObservable(s, `cell ${task.index}`);
   const limits = computeLimits(s);
-  const base: CellResult = { index: task.index, coords: task.coords, ...labelFields(s, limits), pdet_bound: cellBound(task.scenarioDoc, s) };
+  const base = { index: task.index, coords: task.coords, ...labelFields(s, limits), pdet_bound: cellBound(s, task.scenario) };
   const skipped = skipReason(s, base, ctx);
   if (skipped !== null) return { ...base, simulated: false, skipped_reason: skipped };
 
   const R = ctx.realizations;
   const alpha = s.detection.falseAlarm;
-  const nullClass = classOfCell(task.scenarioDoc, s, ctx);
+  const nullClass = classOfCell(s, ctx);
   const nNull = nullClass.count;
   const ws = new RealizationWorkspace();
   const nulls = nullSetFor(nullClass, shared, ws);

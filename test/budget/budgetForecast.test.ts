@@ -16,6 +16,10 @@ import { solvedQuantity, GEOMETRIC_STEP, MIN_CADENCE_S } from '../../src/budget/
 import { computeLimits } from '../../src/limits/computeLimits.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { scenarioDurations } from '../../src/photometry/transitWindows.js';
+import type { BudgetResult, BudgetTarget, PlanBudgetOptions } from '../../src/budget/budgetTypes.js';
+
+/** planBudget of a scenario document, parsed first as a library caller does. */
+const planDoc = (doc: unknown, target?: BudgetTarget, options?: PlanBudgetOptions): BudgetResult => planBudget(parseScenario(doc), target, options);
 
 /** A Sun-like star with a Jupiter at 1 au and a dense, small moon (negligible photocentric TTV), Kepler long cadence. */
 function doc(moonMass: string, separation = '10 Rp', noise = '30 ppm per 6.5 h', transits = 8): Record<string, unknown> {
@@ -32,25 +36,25 @@ detection: {false_alarm: 0.05}
 }
 
 const needed = (d: unknown, channel: 'ttv' | 'combined' = 'ttv', probability = 0.9): number => {
-  const r = planBudget(d, { forecastOnly: true, channel, probability });
+  const r = planDoc(d, { forecastOnly: true, channel, probability });
   return r.answer.reached ? r.answer.value! : Number.POSITIVE_INFINITY;
 };
 
 describe('budget forecast', () => {
   it('the forecast along the transits grid is computeLimits\' forecast for that many transits', () => {
-    const r = planBudget(doc('0.8 Mearth'), { forecastOnly: true, channel: 'ttv' });
+    const r = planDoc(doc('0.8 Mearth'), { forecastOnly: true, channel: 'ttv' });
     for (const n of [3, 5, 12, 30]) {
       const l = computeLimits(parseScenario(doc('0.8 Mearth', '10 Rp', '30 ppm per 6.5 h', n)));
       expect(r.forecast.probability[r.quantity.values.indexOf(n)]).toBeCloseTo(l.pdet_forecast_ttv!, 12);
     }
     // ...and the joint TTV+TDV forecast for the combined channel.
-    const c = planBudget(doc('0.8 Mearth'), { forecastOnly: true, channel: 'combined' });
+    const c = planDoc(doc('0.8 Mearth'), { forecastOnly: true, channel: 'combined' });
     const l8 = computeLimits(parseScenario(doc('0.8 Mearth')));
     expect(c.forecast.probability[c.quantity.values.indexOf(8)]).toBeCloseTo(l8.pdet_forecast_joint!, 12);
   });
 
   it('forecast-only answer = the first n whose computeLimits forecast reaches the target (brute-force scan)', () => {
-    const r = planBudget(doc('0.8 Mearth'), { forecastOnly: true, channel: 'ttv', probability: 0.9 });
+    const r = planDoc(doc('0.8 Mearth'), { forecastOnly: true, channel: 'ttv', probability: 0.9 });
     let scan = -1;
     for (let n = 3; n <= 50 && scan < 0; n++) {
       if (computeLimits(parseScenario(doc('0.8 Mearth', '10 Rp', '30 ppm per 6.5 h', n))).pdet_forecast_ttv! >= 0.9) scan = n;
@@ -111,14 +115,14 @@ describe('budget forecast', () => {
   it('...but aliasing can reverse it: a moon whose TTV aliases to ~0 cycles/epoch needs more transits, and the budget says why', () => {
     // At 30 Rp the moon period is nearly a whole fraction of the planet's: ν ≈ 0.012 cycles/epoch, so over
     // tens of transits the TTV looks like an ephemeris drift (detectionForecast.ts, mode 2).
-    const wide = planBudget(doc('0.5 Mearth', '30 Rp'), { forecastOnly: true, channel: 'ttv' });
-    const narrow = planBudget(doc('0.5 Mearth', '15 Rp'), { forecastOnly: true, channel: 'ttv' });
+    const wide = planDoc(doc('0.5 Mearth', '30 Rp'), { forecastOnly: true, channel: 'ttv' });
+    const narrow = planDoc(doc('0.5 Mearth', '15 Rp'), { forecastOnly: true, channel: 'ttv' });
     expect(wide.answer.value!).toBeGreaterThan(narrow.answer.value!);
     expect(wide.notes.join(' ')).toMatch(/alias/);
   });
 
   it('an unreachable target gives a clear statement with the reasons, not a loop or a crash', () => {
-    const r = planBudget(doc('0.05 Mearth'), { forecastOnly: true, channel: 'ttv', probability: 0.9, maxTransits: 20 });
+    const r = planDoc(doc('0.05 Mearth'), { forecastOnly: true, channel: 'ttv', probability: 0.9, maxTransits: 20 });
     expect(r.answer.reached).toBe(false);
     expect(r.answer.value).toBeNull();
     expect(r.answer.statement).toMatch(/cannot be reached/);

@@ -212,7 +212,7 @@ describe('budgetObservability', () => {
 describe('budget with and without a site: screen, JSON and page', () => {
   const quick = { forecastOnly: true };
   it('with a site: the answer in epochs, nights, hours and calendar time; the page holds the season chart and the booking table; the JSON validates', () => {
-    const r = planBudget(proposalDoc, quick);
+    const r = planBudget(parseScenario(proposalDoc, 'test'), quick);
     expect(r.observability.assumes_every_transit_whole).toBe(false);
     const text = formatBudget(r);
     expect(text).toContain('Observing calendar');
@@ -232,7 +232,7 @@ describe('budget with and without a site: screen, JSON and page', () => {
 
   it('without a site: the whole-transit assumption on screen, as a JSON field and on the page', () => {
     const { site: _s, target: _t, campaign: _c, constraints: _k, ...rest } = proposalDoc;
-    const r = planBudget(rest, quick);
+    const r = planBudget(parseScenario(rest, 'test'), quick);
     expect(formatBudget(r)).toContain(WHOLE_TRANSITS_ASSUMED.slice(0, 60));
     const json = budgetToJson(r);
     expect(json.assumes_every_transit_whole).toBe(true);

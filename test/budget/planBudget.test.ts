@@ -15,6 +15,10 @@ import { renderBudgetPage } from '../../src/report/budgetPage.js';
 import { formatBudget } from '../../src/budget/formatBudget.js';
 import { computeLimits } from '../../src/limits/computeLimits.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
+import type { BudgetResult, BudgetTarget, PlanBudgetOptions } from '../../src/budget/budgetTypes.js';
+
+/** planBudget of a scenario document, parsed first as a library caller does. */
+const planDoc = (doc: unknown, target?: BudgetTarget, options?: PlanBudgetOptions): BudgetResult => planBudget(parseScenario(doc), target, options);
 
 function doc(moonMass: string, separation = '10 Rp', noise = '30 ppm per 6.5 h', name = 'MC budget test (invented)'): Record<string, unknown> {
   return parse(`
@@ -36,9 +40,9 @@ describe('planBudget with Monte Carlo', () => {
     const d = doc('0.8 Mearth');
     const l = computeLimits(parseScenario(d));
     expect(l.forecast_regime_ok).toBe(true); // photocentric ratio ≪ 0.2: the forecast applies
-    const fcast = planBudget(d, { ...quick, forecastOnly: true });
+    const fcast = planDoc(d, { ...quick, forecastOnly: true });
     // 400 no-moon realizations: enough for the distribution-free threshold at α/3 (runCell.ts).
-    const r = planBudget(d, { ...quick, realizations: 60, nullRealizations: 400 });
+    const r = planDoc(d, { ...quick, realizations: 60, nullRealizations: 400 });
     expect(fcast.answer.reached).toBe(true);
     expect(r.answer.reached).toBe(true);
     expect(Math.abs(r.answer.value! - fcast.answer.value!)).toBeLessThanOrEqual(1);
@@ -58,7 +62,7 @@ describe('planBudget with Monte Carlo', () => {
 
   it('monotone: a heavier moon, a wider moon or lower noise never needs more transits (Monte Carlo)', () => {
     const need = (d: unknown) => {
-      const r = planBudget(d, quick);
+      const r = planDoc(d, quick);
       return r.answer.reached ? r.answer.value! : Infinity;
     };
     const base = need(doc('0.8 Mearth'));
@@ -75,7 +79,7 @@ describe('planBudget with Monte Carlo', () => {
   });
 
   it('an unreachable target: a clear statement after one evaluation at the most demanding value, not a loop', () => {
-    const r = planBudget(doc('0.05 Mearth'), { ...quick, maxTransits: 10, realizations: 20, nullRealizations: 40 });
+    const r = planDoc(doc('0.05 Mearth'), { ...quick, maxTransits: 10, realizations: 20, nullRealizations: 40 });
     expect(r.answer.reached).toBe(false);
     expect(r.evaluations.length).toBe(1);
     expect(r.evaluations[0].value).toBe(10);
@@ -89,7 +93,7 @@ describe('planBudget with Monte Carlo', () => {
     // against a TTV of ~40 s: timing scatter the white-noise level cannot remove (Pont et al. 2006, MNRAS 373, 231).
     const d = doc('0.8 Mearth');
     (d.instrument as Record<string, unknown>).red_noise = { model: 'power_law', amplitude: '1000 ppm per 1 h', slope: 2 };
-    const r = planBudget(d, { ...quick, solve: 'noise', realizations: 12, nullRealizations: 24 });
+    const r = planDoc(d, { ...quick, solve: 'noise', realizations: 12, nullRealizations: 24 });
     expect(r.forecast.applies).toBe(false);
     expect(r.answer.reached).toBe(false);
     expect(r.evaluations.length).toBeLessThanOrEqual(2 * Math.ceil(Math.log2(r.quantity.values.length + 1)) + 5);
@@ -98,7 +102,7 @@ describe('planBudget with Monte Carlo', () => {
   });
 
   it('a moon outside the stable band is reported as such and not simulated', () => {
-    const r = planBudget(doc('0.8 Mearth'), { ...quick, moonSeparation: '0.9 hill' });
+    const r = planDoc(doc('0.8 Mearth'), { ...quick, moonSeparation: '0.9 hill' });
     expect(r.answer.reached).toBe(false);
     expect(r.evaluations).toHaveLength(0);
     expect(r.answer.statement).toMatch(/beyond stable limit/);
@@ -106,7 +110,7 @@ describe('planBudget with Monte Carlo', () => {
 
   it('habitable: the targets are the stable, temperate moons of the grid; the Monte Carlo fraction is over the simulated ones', () => {
     const survey = parse(readFileSync(new URL('../../scenarios/demo-survey.yaml', import.meta.url), 'utf8')) as Record<string, unknown>;
-    const r = planBudget(survey, {
+    const r = planDoc(survey, {
       habitable: { massFromKg: 0.5 * 5.9722e24, massToKg: 2 * 5.9722e24, grid: 3, fraction: 0.5, confirmMoons: 2 },
       realizations: 8, nullRealizations: 20, maxTransits: 6, probability: 0.5,
     });
@@ -121,7 +125,7 @@ describe('planBudget with Monte Carlo', () => {
   });
 
   it('the HTML page: self-contained, the chosen value marked, user text escaped', () => {
-    const r = planBudget(doc('1.5 Mearth', '10 Rp', '30 ppm per 6.5 h', 'Evil <script>alert(1)</script> b'), { ...quick, forecastOnly: true });
+    const r = planDoc(doc('1.5 Mearth', '10 Rp', '30 ppm per 6.5 h', 'Evil <script>alert(1)</script> b'), { ...quick, forecastOnly: true });
     const html = renderBudgetPage(r);
     expect(html).toContain('Plotly.newPlot');
     expect(html).not.toMatch(/<script[^>]+src=/);

@@ -8,13 +8,14 @@ import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { runCell } from '../../src/sweep/runCell.js';
 import { renderSweepReport } from '../../src/app/sweepReport.js';
 import { tinyScenarioDoc } from './tinySweep.js';
 
 async function forecastSweep(doc: Record<string, unknown>) {
   const out = mkdtempSync(join(tmpdir(), 'moonsieve-season-'));
-  const r = await runSweep(doc, { out, quiet: true, shard: null, forecastOnly: true, runner: runCell });
+  const r = await runSweep(parseScenario(doc, 'test'), { out, quiet: true, shard: null, forecastOnly: true, runner: runCell });
   return { meta: r.meta, cells: r.results, runInfo: r.runInfo };
 }
 

@@ -117,13 +117,13 @@ describe('minimum detectable value', () => {
     expect(v.y).toBeCloseTo(2 * Math.SQRT2, 12); // halfway in log between 2 and 4 (by hand)
   });
   it('forecast-only: a cell the Monte Carlo would not simulate has no probability on the map, as on Monte Carlo maps (issue 17)', () => {
-    const unstable = { index: 0, coords: [], allowed: false, placement: 'beyond stable limit', simulated: false, pdet_forecast_combined: 0.8 };
-    const stable = { ...unstable, allowed: true, placement: 'stable' };
+    const unstable = { index: 0, coords: [], allowed: false, placement: 'beyond stable limit', simulated: false, pdet_forecast_combined: 0.8 } as unknown as CellResult;
+    const stable = { ...unstable, allowed: true, placement: 'stable' } as CellResult;
     expect(cellProbability(unstable, 'combined', true)).toBeNull();
     expect(cellProbability(stable, 'combined', true)).toBe(0.8);
     // With simulate_unstable the Monte Carlo simulates it, so the forecast shows it; a moon touching its planet never.
     expect(cellProbability(unstable, 'combined', true, true)).toBe(0.8);
-    expect(cellProbability({ ...unstable, placement: 'touches the planet' }, 'combined', true, true)).toBeNull();
+    expect(cellProbability({ ...unstable, placement: 'touches the planet' } as CellResult, 'combined', true, true)).toBeNull();
   });
   it('efficiency: the detector\'s 50 % point over the bound\'s, and what kind of number it is', () => {
     const pt = (y: number | null, o: Partial<{ at_grid_edge: boolean; is_bound: boolean }> = {}) => ({ x: 1, y, at_grid_edge: false, is_bound: false, ...o });

@@ -5,7 +5,7 @@
  * Expected values are the report's own contracts (common practice, no source).
  */
 import { describe, it, expect } from 'vitest';
-import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome } from '../../src/app/sweep/runSweep.js';
 import { runCell } from '../../src/sweep/runCell.js';
 import { renderSweepReport } from '../../src/app/sweepReport.js';
 import { buildSummary } from '../../src/report/summary.js';
@@ -13,12 +13,16 @@ import { tinyScenarioDoc } from './tinySweep.js';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
+
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
 
 const EVIL = 'Quillon b <script>alert("x")</script> & <img src=x onerror=alert(1)>';
 
 async function forecastSweep(doc: Record<string, unknown>) {
   const out = mkdtempSync(join(tmpdir(), 'moonsieve-report-'));
-  const r = await runSweep(doc, { out, quiet: true, shard: null, forecastOnly: true, runner: runCell });
+  const r = await sweepDoc(doc, { out, quiet: true, shard: null, forecastOnly: true, runner: runCell });
   return { meta: r.meta, cells: r.results, runInfo: r.runInfo };
 }
 

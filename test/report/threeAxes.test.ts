@@ -11,7 +11,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome } from '../../src/app/sweep/runSweep.js';
 import { parseCellsJson } from '../../src/app/sweep/outputs.js';
 import { planetMassCaution } from '../../src/report/sweepReport.js';
 import { renderSweepReport } from '../../src/app/sweepReport.js';
@@ -19,6 +19,10 @@ import { gridFigures } from '../../src/report/mapFigures.js';
 import { buildSummary } from '../../src/report/summary.js';
 import { gridLayout } from '../../src/report/reportGrid.js';
 import { tinyScenarioDoc } from './tinySweep.js';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
+
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
 
 const ENV = {};
 let tmp: string;
@@ -44,8 +48,8 @@ function threeAxisDoc(): Record<string, unknown> {
 describe('a three-axis sweep', () => {
   it('carries the third axis in cells and ECSV, identical with 1 and 2 workers, and is drawn as small multiples', async () => {
     const doc = threeAxisDoc();
-    const a = await runSweep(doc, { out: join(tmp, 'w1'), quiet: true, shard: null, workers: 1, env: ENV });
-    const b = await runSweep(doc, { out: join(tmp, 'w2'), quiet: true, shard: null, workers: 2, env: ENV });
+    const a = await sweepDoc(doc, { out: join(tmp, 'w1'), quiet: true, shard: null, workers: 1, env: ENV });
+    const b = await sweepDoc(doc, { out: join(tmp, 'w2'), quiet: true, shard: null, workers: 2, env: ENV });
     const ja = readFileSync(join(a.outDir, 'cells.json'), 'utf8');
     expect(readFileSync(join(b.outDir, 'cells.json'), 'utf8')).toBe(ja);
     const { meta, cells } = parseCellsJson(ja);
@@ -91,7 +95,7 @@ describe('a three-axis sweep', () => {
 
   it('runs with --forecast-only', async () => {
     const doc = threeAxisDoc();
-    const r = await runSweep(doc, { out: join(tmp, 'fo'), quiet: true, shard: null, workers: 1, env: ENV, forecastOnly: true });
+    const r = await sweepDoc(doc, { out: join(tmp, 'fo'), quiet: true, shard: null, workers: 1, env: ENV, forecastOnly: true });
     expect(r.complete).toBe(true);
     const { meta, cells } = parseCellsJson(readFileSync(join(r.outDir, 'cells.json'), 'utf8'));
     expect(meta.forecast_only).toBe(true);

@@ -7,11 +7,15 @@
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome } from '../../src/app/sweep/runSweep.js';
 import { runCell } from '../../src/sweep/runCell.js';
 import { parseCellsJson, type SweepRunInfo } from '../../src/app/sweep/outputs.js';
 import type { CellResult, CellContext } from '../../src/sweep/cellTypes.js';
 import type { SweepMeta } from '../../src/sweep/sweepMeta.js';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
+
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
 
 export interface TinySweep {
   dir: string;
@@ -46,7 +50,7 @@ export async function runTinySweep(opts: { name?: string; forecastOnly?: boolean
   const dir = mkdtempSync(join(tmpdir(), 'moonsieve-report-'));
   const doc = tinyScenarioDoc(opts.name);
   const nulls = opts.nullRealizations ?? 20;
-  await runSweep(doc, {
+  await sweepDoc(doc, {
     out: dir,
     quiet: true,
     shard: null,

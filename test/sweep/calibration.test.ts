@@ -11,7 +11,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep, loadSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome, loadSweep } from '../../src/app/sweep/runSweep.js';
 import { mergeShards } from '../../src/app/sweep/merge.js';
 import { runCell, nullClassOf, nullChunkOf, cellNeedsCalibration, defaultNullRealizations } from '../../src/sweep/runCell.js';
 import { planCalibration, nullChunkSize } from '../../src/sweep/calibrationPlan.js';
@@ -23,6 +23,9 @@ import { parseSweepSpec } from '../../src/sweep/sweepSpec.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { InputError } from '../../src/scenario/errors.js';
 import type { CellResult, CellRunner } from '../../src/sweep/cellTypes.js';
+
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
 
 /**
  * A small scenario (4 transits, 10-min cadence) on a 2 × 2 grid: moon density
@@ -61,9 +64,9 @@ const cellsJson = (dir: string): string => readFileSync(join(tmp, dir, 'cells.js
 const sink = (): { text: string; write(t: string): void } => ({ text: '', write(t: string) { this.text += t; } });
 
 function jobOf(sweepDoc: unknown): CellJob {
-  const { doc, scenario, spec } = loadSweep(sweepDoc);
+  const { doc, scenario, spec } = loadSweep(parseScenario(sweepDoc));
   return {
-    baseDoc: doc,
+    baseDocument: doc,
     axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
     ctx: { seed: scenario.seed, realizations: spec.realizations, simulateUnstable: false, forecastOnly: false, nullRealizations: 20 },
   };
@@ -142,11 +145,11 @@ describe('null sets from chunks', () => {
 describe('runSweep with the real runner: the pre-pass changes nothing but the speed', () => {
   it('main thread (own sets), 1 worker and 2 workers (pre-pass) give byte-identical cells.json', async () => {
     const quiet = { quiet: true, env: {} } as const;
-    const main = await runSweep(TINY, { ...quiet, out: join(tmp, 'main'), runner: runCell });
+    const main = await sweepDoc(TINY, { ...quiet, out: join(tmp, 'main'), runner: runCell });
     expect(main.calibration).toBeNull();
     const log = sink();
-    const w1 = await runSweep(TINY, { env: {}, progress: log, out: join(tmp, 'w1'), workers: 1 });
-    const w2 = await runSweep(TINY, { ...quiet, out: join(tmp, 'w2'), workers: 2 });
+    const w1 = await sweepDoc(TINY, { env: {}, progress: log, out: join(tmp, 'w1'), workers: 1 });
+    const w2 = await sweepDoc(TINY, { ...quiet, out: join(tmp, 'w2'), workers: 2 });
     expect(main.complete && w1.complete && w2.complete).toBe(true);
     expect(w2.runInfo.workers).toBe(2);
     // One null class of 20 realizations; every simulated cell used the provided set.
@@ -165,8 +168,8 @@ describe('runSweep with the real runner: the pre-pass changes nothing but the sp
 
   it('an interrupted run resumed on 2 workers gives the same bytes; the pre-pass covers only the cells left', async () => {
     const dir = join(tmp, 'resume');
-    await runSweep(TINY, { quiet: true, env: {}, out: dir, runner: runCell, maxCells: 1 });
-    const rest = await runSweep(TINY, { quiet: true, env: {}, out: dir, workers: 2, resume: true });
+    await sweepDoc(TINY, { quiet: true, env: {}, out: dir, runner: runCell, maxCells: 1 });
+    const rest = await sweepDoc(TINY, { quiet: true, env: {}, out: dir, workers: 2, resume: true });
     expect(rest.runInfo.cells_resumed).toBe(1);
     expect(rest.calibration).toMatchObject({ classes: 1, realizations: 20, fallbackCells: 0 });
     expect(cellsJson('resume')).toBe(cellsJson('main'));
@@ -198,7 +201,7 @@ describe('runSweep with the real runner: the pre-pass changes nothing but the sp
 });
 
 describe('no_moon_realizations in the sweep block and the meta', () => {
-  const fake: CellRunner = (task) => ({ index: task.index, coords: task.coords, x: task.index });
+  const fake: CellRunner = (task) => ({ index: task.index, coords: task.coords, x: task.index }) as unknown as CellResult; // a fake result: the engine passes any object through
 
   it('is read (integer ≥ 20), defaults to defaultNullRealizations in the meta, and is refused below 20', async () => {
     const base = parseScenario(TINY);
@@ -207,7 +210,7 @@ describe('no_moon_realizations in the sweep block and the meta', () => {
     void _n;
     const plain = { ...TINY, sweep: noNull };
     expect(parseSweepSpec(plain, base).nullRealizations).toBeNull();
-    const r = await runSweep(plain, { quiet: true, env: {}, runner: fake, out: join(tmp, 'plain') });
+    const r = await sweepDoc(plain, { quiet: true, env: {}, runner: fake, out: join(tmp, 'plain') });
     // α = 0.05, R = 3: max(3, 200, ⌈10/0.05⌉) = 200 (computed from the scenario's values).
     expect(r.meta.no_moon_realizations).toBe(defaultNullRealizations(0.05, 3));
     expect(r.meta.no_moon_realizations).toBe(200);
@@ -225,12 +228,12 @@ describe('no_moon_realizations in the sweep block and the meta', () => {
 
   it('a merge or resume with a different count is refused, naming it', async () => {
     const other = { ...TINY, sweep: { ...TINY.sweep, no_moon_realizations: 30 } };
-    await runSweep(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'n1'), shard: '1/2' });
-    await runSweep(other, { quiet: true, env: {}, runner: fake, out: join(tmp, 'n2'), shard: '2/2' });
+    await sweepDoc(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'n1'), shard: '1/2' });
+    await sweepDoc(other, { quiet: true, env: {}, runner: fake, out: join(tmp, 'n2'), shard: '2/2' });
     expect(() => mergeShards([join(tmp, 'n1'), join(tmp, 'n2')], join(tmp, 'nm'))).toThrow(/no-moon calibration realizations \(20 vs 30\)/);
-    await runSweep(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'nr'), maxCells: 1 });
-    await expect(runSweep(other, { quiet: true, env: {}, runner: fake, out: join(tmp, 'nr'), resume: true })).rejects.toThrow(/no-moon calibration realizations \(20 vs 30\)/);
-    const a = (await runSweep(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'm1') })).meta;
+    await sweepDoc(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'nr'), maxCells: 1 });
+    await expect(sweepDoc(other, { quiet: true, env: {}, runner: fake, out: join(tmp, 'nr'), resume: true })).rejects.toThrow(/no-moon calibration realizations \(20 vs 30\)/);
+    const a = (await sweepDoc(TINY, { quiet: true, env: {}, runner: fake, out: join(tmp, 'm1') })).meta;
     expect(metaDifferences(a, { ...a, no_moon_realizations: 40 })).toEqual(['no-moon calibration realizations (20 vs 40)']);
   });
 });

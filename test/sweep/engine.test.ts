@@ -14,6 +14,7 @@ import { mergeShards } from '../../src/app/sweep/merge.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { CHECKPOINT_FILE } from '../../src/app/sweep/checkpoint.js';
 import type { CellRunner } from '../../src/sweep/cellTypes.js';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
 
 const RNG_URL = pathToFileURL(resolve('dist/src/noise/rng.js')).href;
 
@@ -36,15 +37,15 @@ export function fakeRunCell(task, ctx) {
     detected: hits > 0,
     label: task.index % 3 === 0 ? 'stable' : 'beyond stable limit',
     probability: { ttv: hits / ctx.realizations, tdv: null },
-    moon_mass_text: task.scenarioDoc.moon.mass,
-    has_sweep_key: 'sweep' in task.scenarioDoc,
+    moon_mass_kg_task: task.scenario.moon.massKg,
+    moon_separation_m_task: task.scenario.moon.separationM,
     forecast_only: ctx.forecastOnly,
     not_a_number: NaN,
   };
 }
 `;
 
-const BASE = {
+const BASE_DOC = {
   name: 'Test world <b>&',
   seed: 12345,
   star: { mass: '1 Msun', radius: '1 Rsun', teff: '5772 K', limb_darkening: { u1: 0.4, u2: 0.25 } },
@@ -60,6 +61,8 @@ const BASE = {
     ],
   },
 };
+
+const BASE = parseScenario(BASE_DOC);
 
 let tmp: string;
 let runnerPath: string;
@@ -94,8 +97,9 @@ describe('runSweep determinism', () => {
     expect(parsed.cells.map((x) => x.index)).toEqual([0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11]);
     const c7 = parsed.cells[7];
     expect(c7.not_a_number).toBeNull();
-    expect(c7.has_sweep_key).toBe(false);
-    expect(c7.moon_mass_text).toBe(`${(c7.coords as number[])[0]} kg`);
+    // The task's typed scenario carries the cell's axis values (SI, exactly: written as "<value> kg" and read back).
+    expect(c7.moon_mass_kg_task).toBe((c7.coords as number[])[0]);
+    expect(c7.moon_separation_m_task).toBe((c7.coords as number[])[1]);
     expect(c7.coords).toEqual([a.meta.axes[0].values[2], a.meta.axes[1].values[1]]); // row-major: 7 = 2·3 + 1
     for (const f of ['cells.json', 'cells.ecsv', 'report.html', 'run.json']) expect(existsSync(join(tmp, 'w2', f))).toBe(true);
     expect(existsSync(join(tmp, 'w2', CHECKPOINT_FILE))).toBe(false);
@@ -171,7 +175,7 @@ describe('runSweep determinism', () => {
   it('a resume of a different scenario is refused, naming what differs', async () => {
     const dir = join(tmp, 'other');
     await runSweep(BASE, { ...quiet, out: dir, runner: fake, maxCells: 2 });
-    const changed = { ...BASE, seed: 999 };
+    const changed = parseScenario({ ...BASE_DOC, seed: 999 });
     const err = await runSweep(changed, { ...quiet, out: dir, runner: fake, resume: true }).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(InputError);
     expect(String((err as Error).message)).toMatch(/different sweep.*seed \(12345 vs 999\)/s);
@@ -181,7 +185,7 @@ describe('runSweep determinism', () => {
 
   it('passes forecastOnly to the runner and records it', async () => {
     const r = await runSweep(BASE, { ...quiet, out: join(tmp, 'fc'), runner: fake, forecastOnly: true });
-    expect(r.results.every((c) => c.forecast_only === true)).toBe(true);
+    expect(r.results.every((c) => (c as unknown as { forecast_only: unknown }).forecast_only === true)).toBe(true);
     expect(r.meta.forecast_only).toBe(true);
   });
 

@@ -16,6 +16,11 @@ import {
   lightCurvePointCount, MAX_LIGHT_CURVE_POINTS, observationSizeProblems, sampleWindows, scenarioDurations, transitWindows, windowsOverlap,
 } from '../../src/photometry/transitWindows.js';
 import { assumptionRows, gapsText, noiseModelText } from '../../src/report/assumptionsTable.js';
+import { CELL_PARSE } from '../../src/sweep/applyAxes.js';
+import type { Scenario } from '../../src/scenario/types.js';
+
+/** A cell's typed scenario from its document, as the engine builds it (applyAxes: CELL_PARSE). */
+const cellOf = (doc: unknown): Scenario => parseScenario(doc, 'cell', CELL_PARSE);
 
 function doc(over: { transits?: number; impact?: number; cadence?: string; baseline?: string; period?: string; extraObs?: string; extraIns?: string } = {}): Record<string, unknown> {
   return parse(`
@@ -51,14 +56,14 @@ describe('few transits', () => {
   });
 
   it('a sweep cell with 2 transits: pdet_ttv null, the other channels measured; forecast-only too', () => {
-    const r = runCell({ index: 0, coords: [], scenarioDoc: doc({ transits: 2 }) }, ctx(6, 40));
+    const r = runCell({ index: 0, coords: [], scenario: cellOf(doc({ transits: 2 })) }, ctx(6, 40));
     expect(r.simulated).toBe(true);
     expect(r.pdet_ttv).toBeNull();
     expect(typeof r.pdet_tdv).toBe('number');
     expect(typeof r.pdet_combined).toBe('number');
     expect(r.channels_used).toBe('tdv dip');
     expect(String(r.channels_note)).toMatch(/no TTV channel with 2 transits/);
-    const f = runCell({ index: 0, coords: [], scenarioDoc: doc({ transits: 2 }) }, ctx(6, 40, true));
+    const f = runCell({ index: 0, coords: [], scenario: cellOf(doc({ transits: 2 })) }, ctx(6, 40, true));
     expect(f.pdet_forecast_ttv).toBeNull();
     expect(typeof f.pdet_forecast_joint).toBe('number');
   });
@@ -79,7 +84,7 @@ describe('transits lost to gaps', () => {
   it('a cell whose realizations lose every transit counts them as non-detections (no_transit_observed)', () => {
     // 1 transit missed with probability 0.95: about 95 % of realizations observe nothing (Bernoulli).
     const d = doc({ transits: 1, extraObs: ', missed_fraction: 0.95' });
-    const r = runCell({ index: 0, coords: [], scenarioDoc: d }, ctx(20, 20));
+    const r = runCell({ index: 0, coords: [], scenario: cellOf(d) }, ctx(20, 20));
     expect(r.simulated).toBe(true);
     expect(r.no_transit_observed as number).toBeGreaterThanOrEqual(12);
     expect(r.pdet_combined as number).toBeGreaterThanOrEqual(0);

@@ -31,7 +31,7 @@ describe('forecast like for like', () => {
     const l = computeLimits(parseScenario(d));
     expect(l.forecast_regime_ok).toBe(true);
     expect(l.assumptions.join(' ')).toMatch(/averages over the moon's node/);
-    const c = runCell({ index: 0, coords: [], scenarioDoc: d }, ctx);
+    const c = runCell({ index: 0, coords: [], scenario: parseScenario(d) }, ctx);
     // Monte Carlo 95 % Wilson intervals (Wilson 1927, JASA 22, 209) against the analytic forecast
     // (noncentral χ², Johnson, Kotz & Balakrishnan 1995, ch. 29), averaged over the same drawn angles.
     expect(l.pdet_forecast_ttv!).toBeGreaterThanOrEqual(c.pdet_ttv_lo as number);

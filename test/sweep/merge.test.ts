@@ -10,17 +10,22 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Command } from 'commander';
-import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome } from '../../src/app/sweep/runSweep.js';
 import { mergeShards } from '../../src/app/sweep/merge.js';
 import { registerMerge } from '../../src/cli/mergeCommand.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { createRng } from '../../src/noise/rng.js';
-import type { CellRunner } from '../../src/sweep/cellTypes.js';
+import type { CellResult, CellRunner } from '../../src/sweep/cellTypes.js';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
+
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
 
 const fake: CellRunner = (task, ctx) => {
   let s = 0;
   for (let r = 0; r < ctx.realizations; r++) s += createRng(ctx.seed, task.index, r).uniform();
-  return { index: task.index, coords: task.coords, score: s / ctx.realizations };
+  // A fake result (not runCell's fields): the engine passes any JSON-serialisable object through.
+  return { index: task.index, coords: task.coords, score: s / ctx.realizations } as unknown as CellResult;
 };
 
 const BASE = {
@@ -35,7 +40,7 @@ const BASE = {
 
 let tmp: string;
 const run = (doc: unknown, out: string, shard: string | null) =>
-  runSweep(doc, { quiet: true, env: {}, runner: fake, out: join(tmp, out), shard });
+  sweepDoc(doc, { quiet: true, env: {}, runner: fake, out: join(tmp, out), shard });
 
 beforeAll(async () => {
   tmp = mkdtempSync(join(tmpdir(), 'moonsieve-merge-'));
@@ -46,7 +51,7 @@ beforeAll(async () => {
   await run({ ...BASE, planet: { ...BASE.planet, period: '121 d' } }, 'c2', '2/2');
   await run(BASE, 't1', '1/3');
   await run(BASE, 't2', '2/3');
-  await runSweep(BASE, { quiet: true, env: {}, runner: fake, out: join(tmp, 'part'), shard: '3/3', maxCells: 1 });
+  await sweepDoc(BASE, { quiet: true, env: {}, runner: fake, out: join(tmp, 'part'), shard: '3/3', maxCells: 1 });
 });
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 

@@ -10,14 +10,18 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome } from '../../src/app/sweep/runSweep.js';
 import { mergeShards } from '../../src/app/sweep/merge.js';
 import { rewriteSweepReport } from '../../src/app/rewriteReport.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { CHECKPOINT_FILE } from '../../src/app/sweep/checkpoint.js';
 import { LOCK_FILE, STAGING_DIR, acquireFolderLock, commitOutputs, settleStaging } from '../../src/app/sweep/outputFolder.js';
 import { defaultOutDir } from '../../src/app/defaultOutDir.js';
-import type { CellRunner } from '../../src/sweep/cellTypes.js';
+import type { CellResult, CellRunner } from '../../src/sweep/cellTypes.js';
+import { parseScenario } from '../../src/scenario/parseScenario.js';
+
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
 
 /** A deterministic runner in the main thread: probabilities from the cell index. */
 const fake: CellRunner = (task, ctx) => ({
@@ -26,7 +30,7 @@ const fake: CellRunner = (task, ctx) => ({
   realizations: ctx.realizations,
   pdet_ttv: (task.index % 5) / 5, pdet_tdv: 0, pdet_dip: 0.5, pdet_combined: (task.index % 5) / 5,
   label: task.index % 2 === 0 ? 'stable' : 'beyond stable limit',
-});
+}) as unknown as CellResult; // a fake result: the engine passes any object through
 
 const BASE = {
   name: 'Folder world',
@@ -87,16 +91,16 @@ describe('one sweep per output folder', () => {
   it('refuses a folder holding another sweep (also two names with one default folder), changing nothing; --force replaces it', async () => {
     expect(defaultOutDir(OTHER.name)).toBe(defaultOutDir(BASE.name));
     const dir = join(tmp, 'owner');
-    await runSweep(BASE, { ...q, out: dir });
+    await sweepDoc(BASE, { ...q, out: dir });
     const before = snapshot(dir);
-    const msg = await refusal(runSweep(OTHER, { ...q, out: dir }));
+    const msg = await refusal(sweepDoc(OTHER, { ...q, out: dir }));
     expect(msg).toMatch(/holds the results of another sweep \("Folder world"/);
     expect(msg).toMatch(/--force/);
     expect(snapshot(dir)).toEqual(before);
     // The same sweep again is fine (its results are the same).
-    await runSweep(BASE, { ...q, out: dir });
+    await sweepDoc(BASE, { ...q, out: dir });
     expect(readFileSync(join(dir, 'cells.json'), 'utf8')).toBe(before['cells.json']);
-    const forced = await runSweep(OTHER, { ...q, out: dir, force: true });
+    const forced = await sweepDoc(OTHER, { ...q, out: dir, force: true });
     expect(forced.complete).toBe(true);
     expect(JSON.parse(readFileSync(join(dir, 'cells.json'), 'utf8')).meta.scenario).toBe('Folder  world!');
     expect(existsSync(join(dir, LOCK_FILE))).toBe(false);
@@ -107,10 +111,10 @@ describe('one sweep per output folder', () => {
     const dir = join(tmp, 'foreign');
     mkdirSync(dir);
     writeFileSync(join(dir, 'notes.txt'), 'mine');
-    const msg = await refusal(runSweep(BASE, { ...q, out: dir }));
+    const msg = await refusal(sweepDoc(BASE, { ...q, out: dir }));
     expect(msg).toMatch(/not this sweep's \(notes\.txt\)/);
     expect(readdirSync(dir)).toEqual(['notes.txt']);
-    await runSweep(BASE, { ...q, out: dir, force: true });
+    await sweepDoc(BASE, { ...q, out: dir, force: true });
     expect(readFileSync(join(dir, 'notes.txt'), 'utf8')).toBe('mine');
     expect(existsSync(join(dir, 'cells.json'))).toBe(true);
   });
@@ -120,7 +124,7 @@ describe('one sweep per output folder', () => {
     const lock = acquireFolderLock(dir, 'moonsieve sweep other.yaml');
     try {
       for (const resume of [false, true]) {
-        const msg = await refusal(runSweep(BASE, { ...q, out: dir, resume }));
+        const msg = await refusal(sweepDoc(BASE, { ...q, out: dir, resume }));
         expect(msg).toContain(`pid ${process.pid} on host ${hostname()}`);
         expect(msg).toMatch(/wait for that run to finish, or stop it/);
       }
@@ -139,7 +143,7 @@ describe('one sweep per output folder', () => {
       const dir = join(tmp, name);
       mkdirSync(dir);
       writeFileSync(join(dir, LOCK_FILE), JSON.stringify({ ...info, host: hostname(), started: '2026-01-01T00:00:00Z', command: 'moonsieve sweep x', token: 't' }));
-      const res = await runSweep(BASE, { ...q, out: dir });
+      const res = await sweepDoc(BASE, { ...q, out: dir });
       expect(res.complete).toBe(true);
       expect(existsSync(join(dir, LOCK_FILE))).toBe(false);
     }
@@ -147,7 +151,7 @@ describe('one sweep per output folder', () => {
 
   it('two runs started together on one folder: one runs, the other is refused', async () => {
     const dir = join(tmp, 'race');
-    const results = await Promise.allSettled([runSweep(BASE, { ...q, out: dir }), runSweep(BASE, { ...q, out: dir })]);
+    const results = await Promise.allSettled([sweepDoc(BASE, { ...q, out: dir }), sweepDoc(BASE, { ...q, out: dir })]);
     expect(results.filter((r) => r.status === 'fulfilled')).toHaveLength(1);
     const rejected = results.find((r) => r.status === 'rejected') as PromiseRejectedResult;
     expect(String(rejected.reason.message)).toMatch(/in use by pid/);
@@ -177,7 +181,7 @@ describe('staged outputs', () => {
 
   it('report finishes an interrupted commit before reading the folder', async () => {
     const dir = join(tmp, 'staged-report');
-    await runSweep(BASE, { ...q, out: dir });
+    await sweepDoc(BASE, { ...q, out: dir });
     const cells = readFileSync(join(dir, 'cells.json'), 'utf8');
     // A new sweep's cells.json staged with its manifest, the kill before any rename: the old set is still in place.
     mkdirSync(join(dir, STAGING_DIR));
@@ -203,13 +207,13 @@ describe('checkpoint lines are checked on --resume', () => {
   for (const [what, edit, expected] of damage) {
     it(`refuses ${what}, naming the line, and changes nothing`, async () => {
       const dir = join(tmp, `cp-${what.replace(/\W+/g, '-')}`);
-      await runSweep(BASE, { ...q, out: dir, maxCells: 3 });
+      await sweepDoc(BASE, { ...q, out: dir, maxCells: 3 });
       const path = join(dir, CHECKPOINT_FILE);
       const lines = readFileSync(path, 'utf8').split('\n');
       lines[2] = edit(lines[2]);
       writeFileSync(path, lines.join('\n'));
       const before = snapshot(dir);
-      const msg = await refusal(runSweep(BASE, { ...q, out: dir, resume: true }));
+      const msg = await refusal(sweepDoc(BASE, { ...q, out: dir, resume: true }));
       expect(msg).toMatch(expected);
       expect(msg).toMatch(/--resume cannot trust it/);
       expect(snapshot(dir)).toEqual(before);
@@ -218,13 +222,13 @@ describe('checkpoint lines are checked on --resume', () => {
 
   it('refuses two different results for one cell; the same line twice is harmless', async () => {
     const dir = join(tmp, 'cp-repeat');
-    await runSweep(BASE, { ...q, out: dir, maxCells: 3 });
+    await sweepDoc(BASE, { ...q, out: dir, maxCells: 3 });
     const path = join(dir, CHECKPOINT_FILE);
     const lines = readFileSync(path, 'utf8').split('\n').filter((l) => l !== '');
     writeFileSync(path, [...lines, lines[1].replace(/"pdet_dip":0.5/, '"pdet_dip":0.75')].join('\n') + '\n');
-    expect(await refusal(runSweep(BASE, { ...q, out: dir, resume: true }))).toMatch(/line 5: got "cell 0"; a different result for this cell is already at line 2/);
+    expect(await refusal(sweepDoc(BASE, { ...q, out: dir, resume: true }))).toMatch(/line 5: got "cell 0"; a different result for this cell is already at line 2/);
     writeFileSync(path, [...lines, lines[1]].join('\n') + '\n');
-    const res = await runSweep(BASE, { ...q, out: dir, resume: true });
+    const res = await sweepDoc(BASE, { ...q, out: dir, resume: true });
     expect(res.runInfo.cells_resumed).toBe(3);
   });
 });
@@ -242,7 +246,7 @@ describe('cells are checked in report and merge', () => {
   ];
   it('a repeated cell with its own coordinates is named as a repeat', async () => {
     const dir = join(tmp, 'rep-twice');
-    await runSweep(BASE, { ...q, out: dir });
+    await sweepDoc(BASE, { ...q, out: dir });
     const path = join(dir, 'cells.json');
     const text = readFileSync(path, 'utf8');
     const line0 = /\n {4}(\{"index":0,[^\n]*?\}),?\n/.exec(text)![1];
@@ -252,7 +256,7 @@ describe('cells are checked in report and merge', () => {
   for (const [what, edit, expected] of damage) {
     it(`report and merge refuse ${what}; nothing is written`, async () => {
       const dir = join(tmp, `rep-${what.replace(/\W+/g, '-')}`);
-      await runSweep(BASE, { ...q, out: dir });
+      await sweepDoc(BASE, { ...q, out: dir });
       const path = join(dir, 'cells.json');
       writeFileSync(path, edit(readFileSync(path, 'utf8')));
       const before = snapshot(dir);
@@ -269,20 +273,20 @@ describe('cells are checked in report and merge', () => {
 describe('shards and folders', () => {
   it('a shard is refused in a folder holding another shard of the same sweep; a merge there is fine', async () => {
     const dir = join(tmp, 'shards-one-folder');
-    await runSweep(BASE, { ...q, out: dir, shard: '1/2' });
+    await sweepDoc(BASE, { ...q, out: dir, shard: '1/2' });
     const before = snapshot(dir);
-    const msg = await refusal(runSweep(BASE, { ...q, out: dir, shard: '2/2' }));
+    const msg = await refusal(sweepDoc(BASE, { ...q, out: dir, shard: '2/2' }));
     expect(msg).toMatch(/holds shard 1\/2 of this sweep \(run\.json\) and this run is shard 2\/2: give each shard its own --out/);
     expect(snapshot(dir)).toEqual(before);
     // A shard's folder re-renders (its cells are the shard's, exactly once); a cell of another shard is refused.
     expect(rewriteSweepReport(dir).summary.cells).toBe(3);
     const two = join(tmp, 'shard-edited');
-    await runSweep(BASE, { ...q, out: two, shard: '1/2' });
+    await sweepDoc(BASE, { ...q, out: two, shard: '1/2' });
     const cellsPath = join(two, 'cells.json');
     writeFileSync(cellsPath, readFileSync(cellsPath, 'utf8').replace(/"index":2,"coords":\[[^\]]*\]/, '"index":1,"coords":[5.972167867791379e+23,919772253.6733063]'));
     expect(() => rewriteSweepReport(two)).toThrow(/got "cell 1"; not a cell of the run that wrote cells\.json/);
     const other = join(tmp, 'shards-two');
-    await runSweep(BASE, { ...q, out: other, shard: '2/2' });
+    await sweepDoc(BASE, { ...q, out: other, shard: '2/2' });
     const merged = mergeShards([dir, other], dir);
     expect(merged.results).toHaveLength(6);
   });
@@ -291,7 +295,7 @@ describe('shards and folders', () => {
 describe('report and merge respect a running sweep', () => {
   it('report refuses a locked folder; merge refuses to read a folder being written', async () => {
     const dir = join(tmp, 'busy');
-    await runSweep(BASE, { ...q, out: dir });
+    await sweepDoc(BASE, { ...q, out: dir });
     const lock = acquireFolderLock(dir, 'moonsieve sweep busy.yaml');
     try {
       const before = snapshot(dir);

@@ -14,6 +14,11 @@ import { observeScenario } from '../../src/noise/observe.js';
 import { recoverTimings } from '../../src/timing/timingSeries.js';
 import { planetTransitTruth } from '../../src/physics/planetTransitTruth.js';
 import { windowHalfWidthS } from '../../src/photometry/transitWindows.js';
+import { CELL_PARSE } from '../../src/sweep/applyAxes.js';
+import type { Scenario } from '../../src/scenario/types.js';
+
+/** A cell's typed scenario from its document, as the engine builds it (applyAxes: CELL_PARSE). */
+const cellOf = (doc: unknown): Scenario => parseScenario(doc, 'cell', CELL_PARSE);
 
 function doc(transits: number, moon: string, noise = '30 ppm per 6.5 h', falseAlarm = 0.05): unknown {
   return parse(`
@@ -52,7 +57,7 @@ detection: {false_alarm: 0.05}
     expect(l.pdet_forecast_ttv!).toBeLessThan(0.06);
     // 1000 no-moon realizations: at this per-transit S/N (~4) the fitted mid-times have heavy tails
     // (see perTransitFit.ts), so the calibrated threshold needs a large null set to be stable.
-    const r = runCell({ index: 0, coords: [], scenarioDoc: d("10 km") }, { ...ctx(200, 1000), seed: 77 });
+    const r = runCell({ index: 0, coords: [], scenario: cellOf(d("10 km")) }, { ...ctx(200, 1000), seed: 77 });
     expect(r.simulated).toBe(true);
     // Consistent with the false-alarm rate: the rate's 95 % interval reaches down to α.
     expect(r.pdet_ttv_lo as number).toBeLessThanOrEqual(0.05);
@@ -72,7 +77,7 @@ detection: {false_alarm: 0.05}
     for (const n of [4, 8, 16]) {
       const d = doc(n, '{mass: 0.5 Mearth, radius: 0.1 Rearth, separation: 10 Rp}');
       const l = computeLimits(parseScenario(d));
-      const r = runCell({ index: n, coords: [], scenarioDoc: d }, ctx(150, 300));
+      const r = runCell({ index: n, coords: [], scenario: cellOf(d) }, ctx(150, 300));
       const lo = r.pdet_ttv_lo as number;
       const hi = r.pdet_ttv_hi as number;
       // The forecast within the Monte Carlo's Wilson 95 % interval, widened by 0.03 for the
@@ -99,7 +104,7 @@ detection: {false_alarm: 0.05}
     const barycentric = rms(truth.map((t) => t.midS - t.epoch * sc.planet.periodS));
     expect(fitted / barycentric).toBeLessThan(0.6);
     // The Monte Carlo cell is not flagged as disagreeing: the forecast is outside its regime.
-    const r = runCell({ index: 16, coords: [], scenarioDoc: d }, ctx(40, 100));
+    const r = runCell({ index: 16, coords: [], scenario: cellOf(d) }, ctx(40, 100));
     expect(r.forecast_ttv_outside_interval).toBe(false);
   });
 
@@ -110,18 +115,18 @@ detection: {false_alarm: 0.05}
     const lt = computeLimits(parseScenario(tiny));
     expect(lb.pdet_forecast_ttv!).toBeGreaterThan(0.99);
     expect(lt.pdet_forecast_ttv!).toBeLessThan(0.06);
-    const rb = runCell({ index: 1, coords: [], scenarioDoc: big }, ctx(60, 200));
-    const rt = runCell({ index: 2, coords: [], scenarioDoc: tiny }, ctx(60, 200));
+    const rb = runCell({ index: 1, coords: [], scenario: cellOf(big) }, ctx(60, 200));
+    const rt = runCell({ index: 2, coords: [], scenario: cellOf(tiny) }, ctx(60, 200));
     expect(rb.pdet_combined as number).toBeGreaterThanOrEqual(0.95);
     expect(rt.pdet_ttv as number).toBeLessThanOrEqual(0.1);
   });
 
   it('an unstable cell is labelled and not simulated; forecast-only fills the forecast', () => {
     const far = doc(8, '{mass: 0.5 Mearth, radius: 0.8 Rearth, separation: 0.8 hill}');
-    const r = runCell({ index: 3, coords: [], scenarioDoc: far }, ctx(10, 50));
+    const r = runCell({ index: 3, coords: [], scenario: cellOf(far) }, ctx(10, 50));
     expect(r.simulated).toBe(false);
     expect(String(r.placement)).toMatch(/beyond stable limit/);
-    const f = runCell({ index: 4, coords: [], scenarioDoc: doc(8, '{mass: 0.5 Mearth, radius: 0.8 Rearth, separation: 10 Rp}') }, { ...ctx(10, 50), forecastOnly: true });
+    const f = runCell({ index: 4, coords: [], scenario: cellOf(doc(8, '{mass: 0.5 Mearth, radius: 0.8 Rearth, separation: 10 Rp}')) }, { ...ctx(10, 50), forecastOnly: true });
     expect(f.simulated).toBe(false);
     expect(typeof f.pdet_forecast_ttv).toBe('number');
   });

@@ -10,7 +10,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runSweep } from '../../src/app/sweep/runSweep.js';
+import { runSweep, type SweepOptions, type SweepOutcome } from '../../src/app/sweep/runSweep.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { planCalibration } from '../../src/sweep/calibrationPlan.js';
 import { MAX_GRID_CELLS, MAX_NULL_REALIZATIONS } from '../../src/sweep/sizeLimits.js';
@@ -20,9 +20,12 @@ import { NULLSET_DIR } from '../../src/app/sweep/outputFolder.js';
 import { openNullStore } from '../../src/app/sweep/nullStore.js';
 import { computeNullRange, nullClassOfScenario } from '../../src/sweep/nullSet.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
-import type { CellRunner } from '../../src/sweep/cellTypes.js';
+import type { CellResult, CellRunner } from '../../src/sweep/cellTypes.js';
 
-const fake: CellRunner = () => ({ index: -1, coords: [], pdet_combined: 0.5 });
+/** runSweep of a scenario document, parsed first as a library caller does (a parse error rejects, as runSweep's own do). */
+const sweepDoc = async (doc: unknown, options: SweepOptions = {}): Promise<SweepOutcome> => runSweep(parseScenario(doc), options);
+
+const fake: CellRunner = () => ({ index: -1, coords: [], pdet_combined: 0.5 }) as unknown as CellResult; // a fake result: the engine passes any object through
 
 const BASE = {
   name: 'Limits world',
@@ -50,7 +53,7 @@ beforeAll(() => {
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 
 async function refused(doc: unknown, out: string, extra: object = {}): Promise<string> {
-  const e = await runSweep(doc, { quiet: true, env: {}, out, ...extra }).then(() => null, (err: unknown) => err);
+  const e = await sweepDoc(doc, { quiet: true, env: {}, out, ...extra }).then(() => null, (err: unknown) => err);
   expect(e).toBeInstanceOf(InputError);
   expect(existsSync(out)).toBe(false); // nothing written
   return (e as Error).message;
@@ -65,7 +68,7 @@ describe('size limits', () => {
     expect(msg).toMatch(/α must be at least 0\.0001/); // 10 / 100 000
     expect(msg).toMatch(/--forecast-only/);
     // The analytic forecast needs no calibration and is not limited by it.
-    const fo = await runSweep({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, no_moon_realizations: undefined } }, { quiet: true, env: {}, out: join(tmp, 'fa-fo'), forecastOnly: true, runner: fake });
+    const fo = await sweepDoc({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, no_moon_realizations: undefined } }, { quiet: true, env: {}, out: join(tmp, 'fa-fo'), forecastOnly: true, runner: fake });
     expect(fo.complete).toBe(true);
   });
 
@@ -102,7 +105,7 @@ describe('size limits', () => {
     setTimeout(() => controller.abort(), 50);
     const t0 = performance.now();
     const out = join(tmp, 'abort-validate');
-    const res = await runSweep({ ...BASE, sweep: { ...BASE.sweep, axes } }, { quiet: true, env: {}, out, runner: fake, signal: controller.signal });
+    const res = await sweepDoc({ ...BASE, sweep: { ...BASE.sweep, axes } }, { quiet: true, env: {}, out, runner: fake, signal: controller.signal });
     expect(res.complete).toBe(false);
     expect(res.cellsDone).toBe(0);
     expect(res.checkpointKept).toBe(false);
@@ -159,7 +162,7 @@ describe('every grid cell is validated before any work', () => {
   };
   it('cells whose moon would touch the planet are labelled and never simulated, even with simulate_unstable', async () => {
     const out = join(tmp, 'touching');
-    const res = await runSweep(TOUCHING, { quiet: true, env: {}, out, workers: 1 });
+    const res = await sweepDoc(TOUCHING, { quiet: true, env: {}, out, workers: 1 });
     expect(res.complete).toBe(true);
     const cells = JSON.parse(readFileSync(join(out, 'cells.json'), 'utf8')).cells as Array<{ index: number; placement: string; allowed: boolean; simulated: boolean }>;
     const touching = cells.filter((c) => c.placement.includes('touches the planet'));
@@ -195,16 +198,16 @@ describe('the no-moon calibration sets are saved for a resume', () => {
 
   it('an interrupted sweep keeps its no-moon sets; the resume reads them back instead of computing them, with the same cells.json', async () => {
     const straight = join(tmp, 'ns-straight');
-    await runSweep(BASE, { quiet: true, env: {}, out: straight, workers: 1 });
+    await sweepDoc(BASE, { quiet: true, env: {}, out: straight, workers: 1 });
     const dir = join(tmp, 'ns-resumed');
     // Stopped as Ctrl-C would, as soon as the calibration is done (before the cells that use it).
     const controller = new AbortController();
     const progress = { isTTY: false, write: (t: string) => { if (t.includes('false alarms calibrated')) controller.abort(); } };
-    const first = await runSweep(BASE, { env: {}, out: dir, workers: 1, signal: controller.signal, progress });
+    const first = await sweepDoc(BASE, { env: {}, out: dir, workers: 1, signal: controller.signal, progress });
     expect(first.complete).toBe(false);
     expect(first.calibration?.resumedRealizations).toBe(0);
     expect(readdirSync(join(dir, NULLSET_DIR)).filter((f) => f.endsWith('.bin')).length).toBeGreaterThan(0);
-    const rest = await runSweep(BASE, { quiet: true, env: {}, out: dir, workers: 2, resume: true });
+    const rest = await sweepDoc(BASE, { quiet: true, env: {}, out: dir, workers: 2, resume: true });
     expect(rest.complete).toBe(true);
     expect(rest.calibration?.resumedRealizations).toBe(20);
     expect(readFileSync(join(dir, 'cells.json'), 'utf8')).toBe(readFileSync(join(straight, 'cells.json'), 'utf8'));

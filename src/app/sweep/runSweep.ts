@@ -26,7 +26,8 @@ import { checkGridSize, checkNullRealizations, MAX_NULL_REALIZATIONS } from '../
 import { acquireFolderLock, checkFolderOwner, NULLSET_DIR, settleStaging } from './outputFolder.js';
 import { openNullStore } from './nullStore.js';
 import { parseScenario } from '../../scenario/parseScenario.js';
-import type { Scenario } from '../../scenario/types.js';
+import type { Scenario, ScenarioDocument } from '../../scenario/types.js';
+import { scenarioDocumentOf } from '../../scenario/scenarioDocument.js';
 import { VERSION } from '../../version.js';
 import { scenarioHash } from '../../sweep/canonicalJson.js';
 import type { CellResult, CellRunner } from '../../sweep/cellTypes.js';
@@ -35,11 +36,12 @@ import { OUTPUT_FILES, writeSweepOutputs, type SweepRunInfo } from './outputs.js
 import { createProgress, formatDuration, type ProgressStream } from './progress.js';
 import { inShard, resolveShard, shardCells, type Shard } from '../../sweep/shard.js';
 import { buildSweepMeta, type SweepMeta } from '../../sweep/sweepMeta.js';
+import { buildSummary, type SweepSummary } from '../../report/summary.js';
 import { parseSweepSpec, type SweepSpec } from '../../sweep/sweepSpec.js';
 import { executeCells, resolveWorkerCount, type CalibrationStats, type RunnerModule } from './workerPool.js';
 import { planCalibration } from '../../sweep/calibrationPlan.js';
 import { cellTask, prepareJob, type CellJob } from '../../sweep/cellJob.js';
-import { CELL_PARSE, cellComputeProblems, nullClassOf } from '../../sweep/runCell.js';
+import { cellComputeProblems, nullClassOf } from '../../sweep/runCell.js';
 
 export interface SweepOptions {
   /** Worker threads (default: SLURM_CPUS_PER_TASK when set, else every core). */
@@ -91,39 +93,41 @@ export interface SweepOutcome {
 }
 
 export interface LoadedSweep {
-  doc: unknown;
+  /** The scenario's document (`Scenario.document`): its sweep block, its hash and `scenario.yaml` come from it. */
+  doc: ScenarioDocument;
   scenario: Scenario;
   spec: SweepSpec;
   hash: string;
 }
 
-/** Read a scenario (file path or document) and its sweep block; InputError on any problem. */
-export function loadSweep(scenarioDocOrPath: unknown): LoadedSweep {
-  let doc: unknown;
-  let scenario: Scenario;
-  let source = 'scenario';
-  if (typeof scenarioDocOrPath === 'string') {
-    source = scenarioDocOrPath;
+/**
+ * Read a scenario (a file path, or a Scenario from parseScenario / loadScenario) and its
+ * sweep block (the `sweep:` block of the file, or of the document the Scenario was parsed
+ * from); InputError on any problem.
+ */
+export function loadSweep(scenarioOrPath: Scenario | string): LoadedSweep {
+  if (typeof scenarioOrPath === 'string') {
+    const source = scenarioOrPath;
     let text: string;
     try {
-      text = readFileSync(scenarioDocOrPath, 'utf8');
+      text = readFileSync(scenarioOrPath, 'utf8');
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      throw new InputError([{ path: 'SCENARIO', value: scenarioDocOrPath, allowed: code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? String(e)})` }]);
+      throw new InputError([{ path: 'SCENARIO', value: scenarioOrPath, allowed: code === 'ENOENT' ? 'no such file' : `cannot read it (${code ?? String(e)})` }]);
     }
     const parsed = parseYamlWithLines(text, source);
-    doc = parsed.value;
     try {
-      scenario = parseScenario(doc, source);
+      const scenario = parseScenario(parsed.value, source);
+      const doc = scenarioDocumentOf(scenario);
       return { doc, scenario, spec: parseSweepSpec(doc, scenario, source), hash: scenarioHash(doc) };
     } catch (e) {
       if (e instanceof InputError) throw withLines(e, (p) => parsed.positionOf(p.replace(/\[(\d+)\]/g, '.$1').replace(/ \(default\)/, '')), source);
       throw e;
     }
   }
-  doc = scenarioDocOrPath;
-  scenario = parseScenario(doc, source);
-  return { doc, scenario, spec: parseSweepSpec(doc, scenario, source), hash: scenarioHash(doc) };
+  const scenario = scenarioOrPath;
+  const doc = scenarioDocumentOf(scenario);
+  return { doc, scenario, spec: parseSweepSpec(doc, scenario, 'scenario'), hash: scenarioHash(doc) };
 }
 
 /** One line per grid cell whose scenario is invalid, naming its axis values; plus the null classes of `classCells`. */
@@ -141,9 +145,11 @@ async function validateCells(
       await new Promise<void>((r) => setImmediate(r));
       if (signal?.aborted) return { aborted: true, classes };
     }
-    const task = cellTask(prepared, i);
-    const where = (): string => `cell ${i} (${meta.axes.map((a, k) => `${a.field} = ${formatDisplay(displays[k], task.coords[k])}`).join(', ')})`;
+    const coords = prepared.grid.cellCoords(i);
+    const where = (): string => `cell ${i} (${meta.axes.map((a, k) => `${a.field} = ${formatDisplay(displays[k], coords[k])}`).join(', ')})`;
     try {
+      // The cell's scenario: the axis values applied and validated with the scenario's own checks.
+      const task = cellTask(prepared, i);
       // The scenario's own checks, then what the simulation itself would refuse (a cadence no shorter
       // than the transit, a light curve above the size limit), so no cell fails after work has begun.
       const computeProblems = cellComputeProblems(task);
@@ -152,7 +158,7 @@ async function validateCells(
         const c = nullClassOf(task, job.ctx);
         classes.set(i, c === null ? null : { key: c.key, count: c.count });
         if (c !== null && c.count > MAX_NULL_REALIZATIONS) {
-          checkNullRealizations(c.count, parseScenario(task.scenarioDoc, `cell ${i}`, CELL_PARSE).detection.falseAlarm, job.ctx.nullRealizations !== undefined);
+          checkNullRealizations(c.count, task.scenario.detection.falseAlarm, job.ctx.nullRealizations !== undefined);
         }
       }
     } catch (e) {
@@ -175,11 +181,45 @@ async function validateCells(
   return { aborted: false, classes };
 }
 
-export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions = {}): Promise<SweepOutcome> {
+/**
+ * Run the sweep of `scenario` (a file path, or a Scenario from parseScenario / loadScenario,
+ * whose document holds the `sweep:` block) and write its outputs into the output folder
+ * (see the file comment; `runSweepInMemory` writes nothing).
+ */
+/**
+ * The sweep's meta after the checks made before any cell is parsed: the old spellings of the
+ * sweep block noted on the progress stream (even with quiet; not part of the sweep's identity),
+ * the grid size, and the no-moon count (with a false-alarm axis each cell's own count is
+ * checked with the cells).
+ */
+function sweepMetaChecked(l: Pick<LoadedSweep, 'scenario' | 'spec' | 'hash'>, forecastOnly: boolean, progress: ProgressStream | undefined): SweepMeta {
+  for (const d of l.spec.deprecations) (progress ?? process.stderr).write(`note: ${d}\n`);
+  // Sizes first: nothing is parsed per cell nor written before a run known to fit.
+  checkGridSize(l.spec.axes.map((a) => a.values.length));
+  const meta = buildSweepMeta(l.scenario, l.hash, l.spec, forecastOnly);
+  if (!forecastOnly && !l.spec.axes.some((a) => a.field === 'detection.false_alarm')) {
+    checkNullRealizations(meta.no_moon_realizations, l.scenario.detection.falseAlarm, l.spec.nullRealizations !== null);
+  }
+  return meta;
+}
+
+/** What every thread needs to run any cell of the sweep (plain data, sent once to each worker). */
+function sweepJob(l: Pick<LoadedSweep, 'doc' | 'scenario' | 'spec'>, forecastOnly: boolean): CellJob {
+  return {
+    baseDocument: l.doc,
+    axes: l.spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
+    ctx: {
+      seed: l.scenario.seed, realizations: l.spec.realizations, simulateUnstable: l.spec.simulateUnstable, forecastOnly,
+      ...(l.spec.nullRealizations !== null ? { nullRealizations: l.spec.nullRealizations } : {}),
+    },
+  };
+}
+
+export async function runSweep(scenarioOrPath: Scenario | string, options: SweepOptions = {}): Promise<SweepOutcome> {
   const startedMs = Date.now();
   const t0 = performance.now();
   const env = options.env ?? process.env;
-  const { doc, scenario, spec, hash } = loadSweep(scenarioDocOrPath);
+  const { doc, scenario, spec, hash } = loadSweep(scenarioOrPath);
   const shard = resolveShard(options.shard, env);
   const workers = resolveWorkerCount(options.workers, env);
   if (options.maxCells !== undefined && !(Number.isInteger(options.maxCells) && options.maxCells >= 0)) {
@@ -187,15 +227,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   }
   const forecastOnly = options.forecastOnly === true;
   const force = options.force === true;
-  // Old spellings in the sweep block: one note each on the progress stream (even with quiet; not part of the sweep's identity).
-  for (const d of spec.deprecations) (options.progress ?? process.stderr).write(`note: ${d}\n`);
-  // Sizes first: nothing is parsed per cell nor written before a run known to fit.
-  checkGridSize(spec.axes.map((a) => a.values.length));
-  const meta = buildSweepMeta(scenario, hash, spec, forecastOnly);
-  // (With a false-alarm axis each cell's own count is checked with the cells below.)
-  if (!forecastOnly && !spec.axes.some((a) => a.field === 'detection.false_alarm')) {
-    checkNullRealizations(meta.no_moon_realizations, scenario.detection.falseAlarm, spec.nullRealizations !== null);
-  }
+  const meta = sweepMetaChecked({ scenario, spec, hash }, forecastOnly, options.progress);
   const outDir = options.out ?? defaultOutDir(scenario.name);
   checkOutputDir(options.out === undefined ? 'output folder (default from the scenario name)' : '--out', outDir);
   checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard });
@@ -203,14 +235,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   const header = checkpointHeader(meta, shard);
   const runCells = shardCells(meta.cells, shard);
 
-  const job: CellJob = {
-    baseDoc: doc,
-    axes: spec.axes.map((a) => ({ field: a.field, write: a.write, values: a.values })),
-    ctx: {
-      seed: scenario.seed, realizations: spec.realizations, simulateUnstable: spec.simulateUnstable, forecastOnly,
-      ...(spec.nullRealizations !== null ? { nullRealizations: spec.nullRealizations } : {}),
-    },
-  };
+  const job = sweepJob({ doc, scenario, spec }, forecastOnly);
   // Every cell of the grid is parsed here, before anything is written: a cell that is invalid only at
   // some axis values is refused now, not in a worker after minutes (and again on --resume). This also
   // makes the unit values the axis fields use known to this thread, to hand to the workers (units.ts),
@@ -243,7 +268,7 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   }
 
   // One run per folder: held until the outputs are written (or the run stops).
-  const lock = acquireFolderLock(outDir, `moonsieve sweep ${typeof scenarioDocOrPath === 'string' ? scenarioDocOrPath : `"${scenario.name}"`}${shard ? ` --shard ${shard.k}/${shard.n}` : ''}`);
+  const lock = acquireFolderLock(outDir, `moonsieve sweep ${typeof scenarioOrPath === 'string' ? scenarioOrPath : `"${scenario.name}"`}${shard ? ` --shard ${shard.k}/${shard.n}` : ''}`);
   try {
     settleStaging(outDir);
     checkFolderOwner(outDir, hash, OUTPUT_FILES, CHECKPOINT_FILE, force, { resume: options.resume === true, shard }); // again, now that no other run can write
@@ -322,4 +347,66 @@ export async function runSweep(scenarioDocOrPath: unknown, options: SweepOptions
   } finally {
     lock.release();
   }
+}
+
+export interface InMemorySweepOptions {
+  /** Worker threads (default: SLURM_CPUS_PER_TASK when set in `env`, else every core). */
+  workers?: number | string;
+  /** Fill cells from the analytic forecast only. */
+  forecastOnly?: boolean;
+  /** The per-cell computation, as in `SweepOptions.runner` (default ./runCell.js on worker threads). */
+  runner?: CellRunner | RunnerModule;
+  /** Abort: stop dispatching and stop the workers; the promise then rejects. */
+  signal?: AbortSignal;
+  /** Environment for SLURM_CPUS_PER_TASK (default process.env). */
+  env?: Record<string, string | undefined>;
+  /** Where the sweep block's deprecation notes go (default process.stderr); the run itself prints no progress. */
+  progress?: ProgressStream;
+}
+
+/** A whole sweep computed in memory. */
+export interface InMemorySweep {
+  /** Every cell of the grid, sorted by index: the `cells` of the cells.json a file run with the same scenario writes. */
+  cells: CellResult[];
+  /** What summary.json holds for these cells. */
+  summary: SweepSummary;
+  /** The sweep's identity (cells.json's `meta`). */
+  meta: SweepMeta;
+  /** The no-moon calibration pre-pass on the workers (null: none). */
+  calibration: CalibrationStats | null;
+}
+
+/**
+ * Run the whole grid of the sweep of `scenario` (a file path, or a Scenario from parseScenario /
+ * loadScenario whose document holds the `sweep:` block) and return its cells and summary,
+ * writing nothing: no output folder, no checkpoint, no lock. The cells are those `runSweep`
+ * writes to cells.json for the same scenario and seed (same seeding per cell and realization,
+ * the same validation of every cell first); an interruption cannot be resumed.
+ * Throws InputError for bad input, and an Error naming the signal when aborted.
+ */
+export async function runSweepInMemory(scenarioOrPath: Scenario | string, options: InMemorySweepOptions = {}): Promise<InMemorySweep> {
+  const env = options.env ?? process.env;
+  const loaded = loadSweep(scenarioOrPath);
+  const workers = resolveWorkerCount(options.workers, env);
+  const forecastOnly = options.forecastOnly === true;
+  const meta = sweepMetaChecked(loaded, forecastOnly, options.progress);
+  const job = sweepJob(loaded, forecastOnly);
+  const all = shardCells(meta.cells, null);
+  const useCalibration = options.runner === undefined && !forecastOnly;
+  const checked = await validateCells(job, meta, meta.cells, new Set(all), useCalibration, options.signal);
+  const aborted = (): Error => new Error(`the sweep of "${loaded.scenario.name}" was aborted; nothing was kept`);
+  if (checked.aborted) throw aborted();
+  const results: CellResult[] = [];
+  const outcome = await executeCells({
+    pending: all,
+    job,
+    runner: options.runner,
+    workers,
+    signal: options.signal,
+    calibration: useCalibration ? (cells, threads) => planCalibration(cells, (i) => checked.classes.get(i) ?? null, { workers: threads }) : undefined,
+    onResult: (r) => results.push(r),
+  });
+  if (!outcome.completed || results.length !== all.length) throw aborted();
+  results.sort((a, b) => a.index - b.index);
+  return { cells: results, summary: buildSummary(meta, results), meta, calibration: outcome.calibration };
 }
