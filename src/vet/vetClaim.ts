@@ -620,6 +620,10 @@ export const CAUTIONS: readonly string[] = [
 function rankChecks(checks: VetCheck[]): { verdict: Verdict; reasons: string[] } {
   const order = (a: VetCheck, b: VetCheck) => b.strength - a.strength || CHECK_ORDER.indexOf(a.id) - CHECK_ORDER.indexOf(b.id);
   const fails = checks.filter((c) => c.status === 'fail').sort(order);
+  // A moon heavier than its planet puts the barycentre outside it as a consequence: the cause goes first.
+  const heavy = fails.findIndex((c) => c.id === 'mass-vs-planet');
+  const bary = fails.findIndex((c) => c.id === 'barycentre');
+  if (heavy > bary && bary >= 0) fails.splice(bary, 0, ...fails.splice(heavy, 1));
   const tensions = checks.filter((c) => c.status === 'tension').sort(order);
   const verdict: Verdict = fails.length > 0 ? 'implausible' : tensions.length > 0 ? 'tension' : 'consistent';
   const reasons = [...fails, ...tensions].map((c) => `${c.status === 'fail' ? 'FAIL (decisive)' : `TENSION (${c.grade})`} ${c.title}: ${c.detail}`);
@@ -681,7 +685,7 @@ function alternativesCheck(alts: Alternative[]): CheckDraft {
 }
 
 /** Map size and realizations: about a second on one core (about 0.3 ms per injected table of 13–30 transits). */
-export const EXCLUSION_GRID = { separations: 12, masses: 20, realizations: 40 };
+export const EXCLUSION_GRID = { separations: 12, masses: 20, realizations: 50 };
 
 export interface VetOptions {
   /** Size of the exclusion map (default EXCLUSION_GRID); null leaves the map out. */
