@@ -687,6 +687,15 @@ function alternativesCheck(alts: Alternative[]): CheckDraft {
 /** Map size and realizations: about a second on one core (about 0.3 ms per injected table of 13–30 transits). */
 export const EXCLUSION_GRID = { separations: 12, masses: 20, realizations: 50 };
 
+/** Tables above this many transits get a coarser map, above MAP_MAX_TRANSITS none (each injection re-runs the periodograms). */
+const MAP_COARSE_TRANSITS = 300;
+const MAP_MAX_TRANSITS = 2000;
+
+function defaultGrid(transits: number): VetOptions['exclusionGrid'] {
+  if (transits > MAP_MAX_TRANSITS) return null;
+  return transits > MAP_COARSE_TRANSITS ? { separations: 8, masses: 12, realizations: 30 } : EXCLUSION_GRID;
+}
+
 export interface VetOptions {
   /** Size of the exclusion map (default EXCLUSION_GRID); null leaves the map out. */
   exclusionGrid?: { separations: number; masses: number; realizations: number } | null;
@@ -830,7 +839,7 @@ export function vetClaim(claim: Claim, options: VetOptions = {}): VetResult {
   if (tableSignificance) drafts.push(residualCheck(tableSignificance));
   if (amplitudeSignificance) drafts.push(precisionCheck(claim, amplitudeSignificance, sys));
   const checks = drafts.map(finish);
-  const exclusion = exclusionFor(claim, sys, limits, options.exclusionGrid === undefined ? EXCLUSION_GRID : options.exclusionGrid);
+  const exclusion = exclusionFor(claim, sys, limits, options.exclusionGrid === undefined ? defaultGrid(claim.transits) : options.exclusionGrid);
 
   const { verdict, reasons } = signal ? rankChecks(checks) : noSignalVerdict(checks, exclusion, sys.planetRadiusM);
   const assumptions = [
@@ -842,6 +851,7 @@ export function vetClaim(claim: Claim, options: VetOptions = {}): VetResult {
     `thresholds: a check fails when even the 2σ bound most favourable to the claim violates the limit, and is in tension when the median does; only decisive checks (stable limit, Roche limit, moon lighter than the planet, barycentre inside it, the moon's dip, timing precision) can make a claim implausible; reasons are ordered by how far the claim lies past each limit`,
     `signal detection at false-alarm level α = ${claim.falseAlarm}: ${claim.table ? 'χ² about a linear ephemeris (and constant duration) and the periodograms\' false-alarm probabilities over every frequency searched (Baluev 2008)' : 'the claimed amplitudes\' z-scores'}, Bonferroni over the tests; white Gaussian noise with the stated errors`,
   ];
+  if (!exclusion && options.exclusionGrid === undefined && claim.transits > MAP_MAX_TRANSITS) assumptions.push(`no exclusion map for more than ${MAP_MAX_TRANSITS} transits: its injections would take minutes`);
   if (exclusion) assumptions.push(`excluded region: ${exclusion.realizations} injected moons per cell (circular orbits, ${claim.orientation} orientation, random phase) into ${claim.table ? "the table's epochs and errors" : 'the claimed number of transits with errors from the stated precision or the amplitude uncertainties'}; the same detection rule; excluded where ≥ ${exclusion.level * 100} % are detected${signal ? '; with a signal present this is the sensitivity of the errors, not a limit on the moon that makes the signal' : ''}`);
   if (analysis) assumptions.push('amplitudes from a sinusoid fit at the best common frequency; the frequency uncertainty and aliasing are not propagated into the amplitude errors');
   if (!signal) assumptions.push('no detectable signal does not exclude a moon: one whose TTV/TDV lie below these errors would look the same (`moonsieve limits` and `budget` give the sensitivity for a given moon)');
