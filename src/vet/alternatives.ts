@@ -27,27 +27,14 @@ import { goldenSectionMaximum } from '../numeric/goldenSection.js';
 import { sig3 } from './describe.js';
 import { fitSinusoidAt, type SinusoidFit, type TimingSeriesData } from './sinusoidFit.js';
 import type { TableAnalysis } from './tableSignificance.js';
+import type { Alternative, AlternativeId } from './vetTypes.js';
 
 /** Highest sampled frequency of a near-resonant perturber's TTV, cycles per epoch (file header). */
 export const RESONANT_MAX_FREQUENCY = 0.2;
 /** |ΔBIC| above which one model is "positively" favoured (Kass & Raftery 1995, JASA 90, 773, from memory). */
 export const BIC_POSITIVE = 2;
 
-export type AlternativeId = 'perturbing_planet' | 'stellar_activity' | 'companion_star';
-
-export interface Alternative {
-  id: AlternativeId;
-  title: string;
-  /** BIC(alternative) − BIC(moon); > 0 favours the moon. null: not computable from amplitudes alone. */
-  bicDelta: number | null;
-  /** Features of the data that favour the moon over this alternative (with numbers). */
-  favourMoon: string[];
-  /** Features that favour this alternative. */
-  favourAlternative: string[];
-  /** What would tell them apart. */
-  test: string;
-  source: string;
-}
+export type { Alternative, AlternativeId } from './vetTypes.js';
 
 const SOURCES: Record<AlternativeId, string> = {
   perturbing_planet: 'Lithwick, Xie & Wu 2012, ApJ 761, 122 (near-resonant TTV: super-period sinusoid)',

@@ -2,7 +2,23 @@
 import type { RunsTest } from './runsTest.js';
 import type { SignalDecision } from './signalDetection.js';
 import type { ExclusionMap } from './exclusionMap.js';
-import type { Alternative } from './alternatives.js';
+
+/** Another explanation of a timing signal (alternatives.ts). */
+export type AlternativeId = 'perturbing_planet' | 'stellar_activity' | 'companion_star';
+
+export interface Alternative {
+  id: AlternativeId;
+  title: string;
+  /** BIC(alternative) − BIC(moon); > 0 favours the moon. null: not computable from amplitudes alone. */
+  bicDelta: number | null;
+  /** Features of the data that favour the moon over this alternative (with numbers). */
+  favourMoon: string[];
+  /** Features that favour this alternative. */
+  favourAlternative: string[];
+  /** What would tell them apart. */
+  test: string;
+  source: string;
+}
 
 export type CheckStatus = 'pass' | 'tension' | 'fail' | 'not tested';
 /**
