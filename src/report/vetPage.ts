@@ -155,7 +155,7 @@ export function renderVetPage(r: VetResult): string {
     const x = ex.separationM.map(lr);
     const y = ex.massKg.map(lg);
     // z[mass][separation] for plotly; not simulated (far below the errors) shown as 0 detected.
-    const z = y.map((_, i) => x.map((__, j) => (Number.isFinite(ex.detectedFraction[j][i]) ? ex.detectedFraction[j][i] : 0)));
+    const z = y.map((_, i) => x.map((__, j) => ex.detectedFraction[j][i] ?? 0));
     const lim = ex.upperLimitKg.map((m, j) => ({ x: x[j], y: m === null ? null : lg(m) })).filter((p) => p.y !== null);
     figures.push({
       id: 'exclusion',

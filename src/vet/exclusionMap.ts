@@ -52,8 +52,8 @@ export interface ExclusionInput {
 export interface ExclusionMap {
   separationM: number[];
   massKg: number[];
-  /** detected[j][i]: fraction detected at separation j, mass i (non-decreasing in i); NaN: not simulated, the signal is far below the errors (not excluded). */
-  detectedFraction: number[][];
+  /** detected[j][i]: fraction detected at separation j, mass i (non-decreasing in i); null: not simulated, the signal is far below the errors (not excluded). */
+  detectedFraction: Array<Array<number | null>>;
   /** Lightest excluded mass at each separation, kg; null when no mass up to the planet's is excluded. */
   upperLimitKg: Array<number | null>;
   realizations: number;
@@ -115,7 +115,7 @@ export function exclusionMap(x: ExclusionInput): ExclusionMap {
   const n = x.epochs.length;
   const buf: Buffers = { t: new Float64Array(n), d: x.durationErrS ? new Float64Array(n) : null };
   const scratch = detectionScratch(n);
-  const detected: number[][] = [];
+  const detected: Array<Array<number | null>> = [];
   const upper: Array<number | null> = [];
   for (let j = 0; j < seps.length; j++) {
     const row: number[] = [];
@@ -127,7 +127,7 @@ export function exclusionMap(x: ExclusionInput): ExclusionMap {
       saturated = f >= 1 ? saturated + 1 : 0;
       row.push(f);
     }
-    detected.push(row);
+    detected.push(row.map((f) => (Number.isFinite(f) ? f : null)));
     let lim: number | null = null;
     for (let i = 0; i < masses.length; i++) {
       if (row[i] >= EXCLUSION_LEVEL) {

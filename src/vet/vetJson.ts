@@ -257,7 +257,7 @@ const signal = (d: SignalDecision): SignalJson => ({
 const exclusion = (e: ExclusionMap): ExclusionJson => ({
   moon_separation_m: e.separationM,
   moon_mass_kg: e.massKg,
-  detected_fraction: e.detectedFraction.map((row) => row.map((f) => (Number.isFinite(f) ? f : null))),
+  detected_fraction: e.detectedFraction,
   upper_limit_moon_mass_kg: e.upperLimitKg,
   realizations: e.realizations,
   exclusion_level: e.level,
