@@ -20,6 +20,8 @@ export interface FastPeriodogram {
   peakFrequency: number;
   peakPower: number;
   falseAlarmProbability: number;
+  /** Baluev's (2008) upper bound on it, FAP_single + τ (the Davies bound, eq. 14), capped at 1. */
+  falseAlarmBound: number;
 }
 
 const EXACT_CANDIDATES = 32;
@@ -128,5 +130,5 @@ export function fastPeriodogram(epochs: Float64Array, values: Float64Array, erro
   // residuals about a fitted line (TTVs), which his N − d_H and N − d_H − 2 exponents take as one
   // point fewer (Baluev 2008, MNRAS 385, 1279, eqs. 5 and 14).
   const fap = baluevFalseAlarm(peakPower, n - (baseParameters - 1), maxFrequency, v);
-  return { frequency, power, peakFrequency, peakPower, falseAlarmProbability: fap.falseAlarmProbability };
+  return { frequency, power, peakFrequency, peakPower, falseAlarmProbability: fap.falseAlarmProbability, falseAlarmBound: Math.min(1, fap.daviesBound) };
 }

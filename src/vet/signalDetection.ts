@@ -13,7 +13,9 @@
  *     residuals (and of the TDV residuals) over every frequency searched, as a
  *     false-alarm probability (Zechmeister & Kürster 2009, A&A 496, 577;
  *     Baluev 2008, MNRAS 385, 1279, eq. 14 with the Davies bound: the
- *     look-elsewhere effect of the frequency search).
+ *     look-elsewhere effect of the frequency search), taken at its upper bound
+ *     FAP_single + τ (the Davies bound), so that the rule stays conservative for
+ *     the small tables of a claim, where the approximation is least accurate.
  * The k tests are combined by Bonferroni's bound (Bonferroni 1936; e.g. Miller
  * 1981, Simultaneous Statistical Inference, §1.2): a signal when
  * k·min(p) < α, so the false-alarm rate of the whole rule is at most α
@@ -74,10 +76,10 @@ export function decideSignal(x: DetectionInput, falseAlarm: number, scratch: Det
   }
   if (x.epochs.length >= 4) {
     const pt = fastPeriodogram(x.epochs, scratch.ttvResid, x.timeErrS, 10, 2);
-    tests.push({ id: 'ttv_periodogram', label: `TTV periodogram peak at ${pt.peakFrequency.toPrecision(3)} cycles/epoch`, pValue: pt.falseAlarmProbability });
+    tests.push({ id: 'ttv_periodogram', label: `TTV periodogram peak at ${pt.peakFrequency.toPrecision(3)} cycles/epoch`, pValue: pt.falseAlarmBound });
     if (x.durationS && x.durationErrS) {
       const pd = fastPeriodogram(x.epochs, scratch.tdvResid, x.durationErrS);
-      tests.push({ id: 'tdv_periodogram', label: `TDV periodogram peak at ${pd.peakFrequency.toPrecision(3)} cycles/epoch`, pValue: pd.falseAlarmProbability });
+      tests.push({ id: 'tdv_periodogram', label: `TDV periodogram peak at ${pd.peakFrequency.toPrecision(3)} cycles/epoch`, pValue: pd.falseAlarmBound });
     }
   }
   let best = tests[0];
