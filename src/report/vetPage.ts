@@ -226,7 +226,7 @@ ${ex.separationM.map((a, j) => `<tr><td>${escapeHtml((a / rp).toPrecision(3))}</
 <ol>${r.reasons.map((x) => `<li>${escapeHtml(x)}</li>`).join('')}</ol>
 <h2>Checks</h2>
 <table><tr><th>check</th><th>grade</th><th>status</th><th>numbers</th><th>source</th></tr>
-${r.checks.map((c) => `<tr><td>${escapeHtml(c.title)}</td><td>${escapeHtml(c.grade)}</td><td style="${statusClass(c.status)}">${escapeHtml(c.status)}</td><td>${escapeHtml(c.detail)}</td><td>${escapeHtml(c.source)}</td></tr>`).join('\n')}
+${r.checks.map((c) => `<tr><td>${escapeHtml(c.title)}</td><td>${c.id === 'significance' ? '' : escapeHtml(c.grade)}</td><td style="${statusClass(c.status)}">${escapeHtml(c.id === 'significance' && c.status === 'fail' ? 'no signal' : c.status)}</td><td>${escapeHtml(c.detail)}</td><td>${escapeHtml(c.source)}</td></tr>`).join('\n')}
 </table>
 ${alts}
 ${limits}

@@ -57,7 +57,7 @@ export function formatVetReport(r: VetResult): string {
 
   const imp = r.implied;
   if (!imp) {
-    lines.push('', 'Implied moon: none (no detectable signal to explain)');
+    lines.push('', 'Implied moon: none (no signal to explain)');
   } else {
     lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
     if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
@@ -104,7 +104,9 @@ export function formatVetReport(r: VetResult): string {
 
   lines.push('', 'Checks');
   for (const c of r.checks) {
-    lines.push(`  [${c.status.toUpperCase()}] ${c.title} (${c.grade})`);
+    // Without a signal the significance check's "fail" means "no signal", not a contradiction.
+    const label = c.id === 'significance' && c.status === 'fail' ? 'NO SIGNAL' : c.status.toUpperCase();
+    lines.push(`  [${label}] ${c.title}${c.id === 'significance' ? '' : ` (${c.grade})`}`);
     lines.push(`      ${c.detail}`);
     lines.push(`      source: ${c.source}`);
   }

@@ -24,7 +24,8 @@
 import { jointTimingExcess, tdvExcess, ttvExcess } from '../timing/chiSquareStatistics.js';
 import { fastPeriodogram } from './fastPeriodogram.js';
 
-export type SignalTestId = 'chi_square' | 'ttv_periodogram' | 'tdv_periodogram';
+/** The tests of a table; `ttv_amplitude` / `tdv_amplitude` are the z-tests of claimed amplitudes (vetClaim.ts). */
+export type SignalTestId = 'chi_square' | 'ttv_periodogram' | 'tdv_periodogram' | 'ttv_amplitude' | 'tdv_amplitude';
 
 export interface SignalTest {
   id: SignalTestId;

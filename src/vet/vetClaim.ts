@@ -580,7 +580,7 @@ function amplitudeDecision(claim: Claim): SignalDecision {
     if (!a) continue;
     const z = a.valueS / a.errorS;
     zs.push(z);
-    tests.push({ id: ch === 'TTV' ? 'ttv_periodogram' : 'tdv_periodogram', label: `claimed ${ch} amplitude ${sig3(z)}σ`, pValue: normalCdf(-z) });
+    tests.push({ id: ch === 'TTV' ? 'ttv_amplitude' : 'tdv_amplitude', label: `claimed ${ch} amplitude ${sig3(z)}σ`, pValue: normalCdf(-z) });
   }
   let best = tests[0];
   for (const t of tests) if (t.pValue < best.pValue) best = t;
@@ -854,7 +854,7 @@ export function vetClaim(claim: Claim, options: VetOptions = {}): VetResult {
   if (!exclusion && options.exclusionGrid === undefined && claim.transits > MAP_MAX_TRANSITS) assumptions.push(`no exclusion map for more than ${MAP_MAX_TRANSITS} transits: its injections would take minutes`);
   if (exclusion) assumptions.push(`excluded region: ${exclusion.realizations} injected moons per cell (circular orbits, ${claim.orientation} orientation, random phase) into ${claim.table ? "the table's epochs and errors" : 'the claimed number of transits with errors from the stated precision or the amplitude uncertainties'}; the same detection rule; excluded where ≥ ${exclusion.level * 100} % are detected${signal ? '; with a signal present this is the sensitivity of the errors, not a limit on the moon that makes the signal' : ''}`);
   if (analysis) assumptions.push('amplitudes from a sinusoid fit at the best common frequency; the frequency uncertainty and aliasing are not propagated into the amplitude errors');
-  if (!signal) assumptions.push('no detectable signal does not exclude a moon: one whose TTV/TDV lie below these errors would look the same (`moonsieve limits` and `budget` give the sensitivity for a given moon)');
+  if (!signal) assumptions.push('no signal does not exclude every moon: one whose TTV/TDV lie below these errors would look the same; the excluded region says which moons it does exclude');
   if (claim.table?.reordered) assumptions.push(`the rows of ${claim.table.source} were not in time order: they were sorted by time before the analysis`);
   return {
     claim: claim.name,
