@@ -34,6 +34,8 @@ function seriesFigures(r: VetResult, figures: Figure[]): void {
   const s = r.series;
   if (!s) return;
   const nu = s.sinusoid.frequencyPerEpoch;
+  // Without a signal the best sinusoid is drawn for reference only, and says so.
+  const caveat = r.verdict === 'no_signal' ? ' (best fit; not a significant signal)' : '';
   const sinAt = (c: number, d: number, e: number) => c * Math.cos(2 * Math.PI * nu * e) + d * Math.sin(2 * Math.PI * nu * e);
   const channels: Array<{ key: 'ttv' | 'tdv'; y: number[]; err: number[]; model: number[]; c: number; d: number }> = [
     { key: 'ttv', y: s.ttvS, err: s.ttvErrS, model: s.ttvModelS, c: s.sinusoid.ttvCosS, d: s.sinusoid.ttvSinS },
@@ -51,7 +53,7 @@ function seriesFigures(r: VetResult, figures: Figure[]): void {
       id: `series-${ch.key}`,
       data: [
         { x: s.epochs, y: ch.y, error_y: { type: 'data', array: ch.err, visible: true }, type: 'scatter', mode: 'markers', name: `${name} (measured)` },
-        { x: s.epochs, y: ch.model, type: 'scatter', mode: 'markers', marker: { symbol: 'diamond-open', size: 9 }, name: `fitted sinusoid at the observed epochs` },
+        { x: s.epochs, y: ch.model, type: 'scatter', mode: 'markers', marker: { symbol: 'diamond-open', size: 9 }, name: `fitted sinusoid at the observed epochs${caveat}` },
       ],
       layout: {
         title: { text: `${name} by epoch` },
@@ -68,11 +70,11 @@ function seriesFigures(r: VetResult, figures: Figure[]): void {
       id: `folded-${ch.key}`,
       data: [
         { x: phase, y: detrended[ch.key], error_y: { type: 'data', array: ch.err, visible: true }, type: 'scatter', mode: 'markers', name: `${name} minus the fitted ${ch.key === 'ttv' ? 'ephemeris' : 'mean duration'}` },
-        { x: grid, y: curve, type: 'scatter', mode: 'lines', name: `sinusoid at ${nu.toPrecision(3)} cycles/epoch (continuous in phase)` },
+        { x: grid, y: curve, type: 'scatter', mode: 'lines', name: `sinusoid at ${nu.toPrecision(3)} cycles/epoch (continuous in phase)${caveat}` },
       ],
       layout: {
         title: { text: `${name} folded at the fitted frequency ${nu.toPrecision(3)} cycles per epoch` },
-        xaxis: { title: { text: 'phase (fitted frequency × epoch, modulo 1)' }, range: [0, 1] },
+        xaxis: { title: { text: 'phase (fitted frequency × epoch, modulo 1)' }, range: [-0.03, 1.03] },
         yaxis: { title: { text: `${name} (s)` } },
         margin: PLOT_MARGIN,
       },
@@ -88,7 +90,7 @@ function seriesFigures(r: VetResult, figures: Figure[]): void {
       id: 'ttv-tdv',
       data: [
         { x: detrended.ttv, y: detrended.tdv, type: 'scatter', mode: 'markers', name: 'transits (base removed)' },
-        { x: th.map((x) => t.c * Math.cos(x) + t.d * Math.sin(x)), y: th.map((x) => d.c * Math.cos(x) + d.d * Math.sin(x)), type: 'scatter', mode: 'lines', name: 'fitted sinusoids' },
+        { x: th.map((x) => t.c * Math.cos(x) + t.d * Math.sin(x)), y: th.map((x) => d.c * Math.cos(x) + d.d * Math.sin(x)), type: 'scatter', mode: 'lines', name: `fitted sinusoids${caveat}` },
         // A single moon on a circular orbit: TDV in quadrature with TTV (Kipping 2009a), an ellipse with axes along TTV and TDV.
         { x: th.map((x) => aT * Math.sin(x)), y: th.map((x) => aD * Math.cos(x)), type: 'scatter', mode: 'lines', line: { dash: 'dash' }, name: 'single-moon prediction (quadrature)' },
       ],
