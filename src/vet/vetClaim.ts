@@ -693,7 +693,7 @@ const MAP_MAX_TRANSITS = 2000;
 
 function defaultGrid(transits: number): VetOptions['exclusionGrid'] {
   if (transits > MAP_MAX_TRANSITS) return null;
-  return transits > MAP_COARSE_TRANSITS ? { separations: 8, masses: 12, realizations: 30 } : EXCLUSION_GRID;
+  return transits > MAP_COARSE_TRANSITS ? { separations: 6, masses: 10, realizations: 30 } : EXCLUSION_GRID;
 }
 
 export interface VetOptions {

@@ -128,6 +128,16 @@ describe('vet verdict ladder (issue 19)', () => {
     expect(r.verdict).toBe('implausible');
     expect(r.reasons[0]).toMatch(/^FAIL \(decisive\) moon lighter than its planet/);
     expect(r.checks.find((k) => k.id === 'barycentre')!.status).toBe('fail');
+    // Claimed as a binary planet, the barycentre outside the planet is no contradiction (common practice, no source).
+    const binary = vetClaim({ ...c, companion: 'binary_planet', orientation: 'coplanar', ttv: { valueS: m.ttvSemiS, errorS: 0.03 * m.ttvSemiS, kind: 'semi-amplitude' }, tdv: { valueS: m.tdvSemiS, errorS: 0.03 * m.tdvSemiS, kind: 'semi-amplitude' } }, NO_MAP);
+    expect(binary.checks.find((k) => k.id === 'barycentre')!.status).toBe('not tested');
+  });
+
+  it('claim.false_alarm and claim.companion are read, and a bad value names the key and what is allowed', () => {
+    expect(system(amplitudeBlock + '\n  false_alarm: 0.05\n  companion: binary_planet').falseAlarm).toBe(0.05);
+    expect(system(amplitudeBlock).falseAlarm).toBe(0.01);
+    expect(() => system(amplitudeBlock + '\n  false_alarm: 2')).toThrow(/claim\.false_alarm.*1e-6 to 0\.5/);
+    expect(() => system(amplitudeBlock + '\n  companion: planet')).toThrow(/claim\.companion/);
   });
 
   it('a near-resonant perturbing planet\'s TTV (Lithwick, Xie & Wu 2012) is not "consistent", and the perturber ranks first', () => {
