@@ -12,7 +12,7 @@ import { checkOutputFile } from '../io/outputPaths.js';
 export function registerVet(program: Command, io: CliIo): void {
   program
     .command('vet')
-    .description('plausibility of a claimed moon signal, from TTV/TDV amplitudes or a table of transit times: significance, implied moon, physical checks and a verdict')
+    .description('is there a timing signal, and is a moon its plausible cause? From TTV/TDV amplitudes or a table of transit times: signal detection (look-elsewhere counted), implied moon, graded physical checks, the moons the data exclude, other explanations, and a verdict (no_signal, consistent, tension, implausible)')
     .argument('<claim>', 'claim YAML file (star, planet and a claim: block)')
     .option('--json', 'print the result as JSON (SI units) instead of the text report')
     .option('--html <file>', 'also write a self-contained HTML page with plots')

@@ -75,6 +75,10 @@ export interface Claim {
   durationS: number | null;
   table: TimingTable | null;
   orientation: OrientationPrior;
+  /** False-alarm level α of the signal detection (look-elsewhere counted). */
+  falseAlarm: number;
+  /** What the claim says the companion is: a moon (the barycentre must lie inside the planet) or a binary planet. */
+  companion: 'moon' | 'binary_planet';
   /** Monte Carlo draws. */
   draws: number;
 }

@@ -20,6 +20,8 @@ export interface FastPeriodogram {
   peakFrequency: number;
   peakPower: number;
   falseAlarmProbability: number;
+  /** Baluev's (2008) upper bound on it, FAP_single + τ (the Davies bound, eq. 14), capped at 1. */
+  falseAlarmBound: number;
 }
 
 const EXACT_CANDIDATES = 32;
@@ -47,10 +49,11 @@ function powerFromSums(C: number, S: number, YC: number, YS: number, CC: number,
 
 /**
  * Periodogram of `values` (s) with 1σ `errors` at integer `epochs` on ν ∈ (0, ½] cycles per epoch.
+ * `baseParameters`: 1 for values about a mean, 2 for residuals about a fitted line (the FAP only).
  * @throws RangeError as `lombScarglePower` does (fewer than 4 points, non-finite values, errors
  *   not > 0), for non-integer epochs, all epochs equal, or a grid longer than MAX_DFT_LENGTH / 2.
  */
-export function fastPeriodogram(epochs: Float64Array, values: Float64Array, errors: Float64Array, oversample = 10): FastPeriodogram {
+export function fastPeriodogram(epochs: Float64Array, values: Float64Array, errors: Float64Array, oversample = 10, baseParameters = 1): FastPeriodogram {
   const n = epochs.length;
   const exact = (nus: number[]) => lombScarglePower(epochs, values, errors, Float64Array.from(nus));
   exact([0.25]); // validates the data (throws RangeError like lombScargle)
@@ -123,6 +126,9 @@ export function fastPeriodogram(epochs: Float64Array, values: Float64Array, erro
     const d = epochs[i] - epochs[0] - m;
     v += w[i] * d * d;
   }
-  const fap = baluevFalseAlarm(peakPower, n, maxFrequency, v);
-  return { frequency, power, peakFrequency, peakPower, falseAlarmProbability: fap.falseAlarmProbability };
+  // Baluev's d_H counts the base model's parameters: 1 for a floating mean, 2 when the values are
+  // residuals about a fitted line (TTVs), which his N − d_H and N − d_H − 2 exponents take as one
+  // point fewer (Baluev 2008, MNRAS 385, 1279, eqs. 5 and 14).
+  const fap = baluevFalseAlarm(peakPower, n - (baseParameters - 1), maxFrequency, v);
+  return { frequency, power, peakFrequency, peakPower, falseAlarmProbability: fap.falseAlarmProbability, falseAlarmBound: Math.min(1, fap.daviesBound) };
 }

@@ -1,6 +1,14 @@
 /** The readable text report of `moonsieve vet`. */
-import type { VetResult } from './vetTypes.js';
+import type { Verdict, VetResult } from './vetTypes.js';
 import { earthMasses, planetRadii, sig3, timeText } from './describe.js';
+
+/** The verdict in words, as the screen shows it (the JSON carries the snake_case value). */
+export const VERDICT_WORDS: Record<Verdict, string> = {
+  no_signal: 'NO SIGNAL',
+  consistent: 'CONSISTENT WITH A MOON',
+  tension: 'IN TENSION',
+  implausible: 'IMPLAUSIBLE',
+};
 
 export function formatVetReport(r: VetResult): string {
   const lines: string[] = [];
@@ -14,7 +22,7 @@ export function formatVetReport(r: VetResult): string {
     return `${f(un(q.median))}  (2σ ${f(un(q.lo2))} – ${f(un(q.hi2))})`;
   };
   lines.push(`${r.claim}: vetting a claimed moon signal (${r.input === 'table' ? 'table of transit times' : 'claimed amplitudes'})`, '');
-  lines.push(`VERDICT: ${r.verdict.toUpperCase()}`);
+  lines.push(`VERDICT: ${VERDICT_WORDS[r.verdict]}`);
   r.reasons.forEach((s, i) => lines.push(`  ${i + 1}. ${s}`));
 
   lines.push('', 'Signal');
@@ -30,15 +38,16 @@ export function formatVetReport(r: VetResult): string {
     row('ΔBIC TTV (k 2 → 5)', `${sig3(t.bicTtv.delta)} at ${sig3(t.bicTtv.frequencyPerEpoch)} cycles/epoch`);
     if (t.bicTdv) row('ΔBIC TDV (k 1 → 4)', `${sig3(t.bicTdv.delta)} at ${sig3(t.bicTdv.frequencyPerEpoch)} cycles/epoch`);
     if (t.bicJoint) row('ΔBIC joint (k 3 → 8)', `${sig3(t.bicJoint.delta)} at ${sig3(t.bicJoint.frequencyPerEpoch)} cycles/epoch`);
-    const noSignal = r.verdict === 'no detectable signal';
+    const noSignal = r.verdict === 'no_signal';
     // The periodogram's power is scale-free (relative to the scatter itself): without excess scatter its FAP means nothing.
     const scaleFree = noSignal ? '; the scatter is within the errors, so this peak is not a signal' : '';
-    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} (Baluev 2008)${scaleFree}`);
+    row('TTV periodogram peak', `${sig3(t.periodogramTtv.peakFrequencyPerEpoch)} cycles/epoch, power ${sig3(t.periodogramTtv.peakPower)}, FAP ${sig3(t.periodogramTtv.falseAlarmProbability)} over the frequencies searched (Baluev 2008)${scaleFree}`);
     if (t.periodogramTdv) row('TDV periodogram peak', `${sig3(t.periodogramTdv.peakFrequencyPerEpoch)} cycles/epoch, FAP ${sig3(t.periodogramTdv.falseAlarmProbability)}`);
     row('sinusoid semi-amplitudes', `TTV ${timeText(t.ttvSemiAmplitudeS)} ± ${timeText(t.ttvSemiAmplitudeErrS)}${t.tdvSemiAmplitudeS !== null ? `, TDV ${timeText(t.tdvSemiAmplitudeS)} ± ${timeText(t.tdvSemiAmplitudeErrS!)}` : ''}`);
     const fam = t.aliasFamily;
     if (!noSignal) row('moon periods with this alias', `${fam.count} between the stable limit and the Roche limit; first: ${fam.periodsS.slice(0, 5).map(timeText).join(', ')}${fam.nearestToImpliedS !== null ? `; nearest the TDV/TTV period: ${timeText(fam.nearestToImpliedS)}` : ''}`);
   }
+  row('detection (look-elsewhere counted)', `${r.signal.detected ? 'signal' : 'no signal'}: Bonferroni-adjusted p = ${sig3(r.signal.adjustedPValue)} vs α = ${sig3(r.signal.falseAlarm)}, set by ${r.signal.tests.find((x) => x.id === r.signal.strongest)?.label ?? r.signal.strongest}`);
   const s = r.amplitudeSignificance;
   if (s) {
     if (s.ttvZ !== null) row('claimed TTV significance', `${sig3(s.ttvZ)}σ`);
@@ -48,7 +57,7 @@ export function formatVetReport(r: VetResult): string {
 
   const imp = r.implied;
   if (!imp) {
-    lines.push('', 'Implied moon: none (no detectable signal to explain)');
+    lines.push('', 'Implied moon: none (no signal to explain)');
   } else {
     lines.push('', `Implied moon (${imp.mode}; ${imp.draws} Monte Carlo draws, seed ${imp.seed}, ${imp.orientation} orientation)`);
     if (imp.moonPeriodS) row('moon period', iv(imp.moonPeriodS, timeText));
@@ -66,6 +75,27 @@ export function formatVetReport(r: VetResult): string {
     lines.push(`  (${imp.note})`);
   }
 
+  const ex = r.exclusion;
+  if (ex) {
+    lines.push('', `What the data exclude (${ex.level * 100} % of ${ex.realizations} injected moons per cell detected, α = ${sig3(ex.falseAlarm)})`);
+    const js = ex.separationM.length <= 5 ? ex.separationM.map((_, j) => j) : [0, Math.round((ex.separationM.length - 1) / 4), Math.round((ex.separationM.length - 1) / 2), Math.round((3 * (ex.separationM.length - 1)) / 4), ex.separationM.length - 1];
+    for (const j of js) {
+      const lim = ex.upperLimitKg[j];
+      row(`moon at ${planetRadii(ex.separationM[j], rp)}`, lim === null ? 'nothing excluded up to the planet\'s mass' : `heavier than ${earthMasses(lim)} excluded`);
+    }
+    if (r.verdict !== 'no_signal') lines.push('  (with a signal present: what these errors could detect, not a limit on the moon that makes the signal)');
+  }
+
+  if (r.alternatives) {
+    lines.push('', 'Other explanations (most competitive first; ΔBIC = BIC(alternative) − BIC(moon), > 0 favours the moon)');
+    r.alternatives.forEach((alt, i) => {
+      lines.push(`  ${i + 1}. ${alt.title}${alt.bicDelta !== null ? `: ΔBIC ${sig3(alt.bicDelta)}` : ''}`);
+      for (const f of alt.favourMoon) lines.push(`      for the moon: ${f}`);
+      for (const f of alt.favourAlternative) lines.push(`      for this: ${f}`);
+      lines.push(`      would tell: ${alt.test}`);
+    });
+  }
+
   lines.push('', 'Where a moon can orbit');
   row('Hill radius', planetRadii(r.system.hillRadiusM, rp));
   row('stable limit prograde / retrograde', `${planetRadii(r.system.stableProgradeM, rp)} / ${planetRadii(r.system.stableRetrogradeM, rp)}`);
@@ -74,7 +104,9 @@ export function formatVetReport(r: VetResult): string {
 
   lines.push('', 'Checks');
   for (const c of r.checks) {
-    lines.push(`  [${c.status.toUpperCase()}] ${c.title}`);
+    // Without a signal the significance check's "fail" means "no signal", not a contradiction.
+    const label = c.id === 'significance' && c.status === 'fail' ? 'NO SIGNAL' : c.status.toUpperCase();
+    lines.push(`  [${label}] ${c.title}${c.id === 'significance' ? '' : ` (${c.grade})`}`);
     lines.push(`      ${c.detail}`);
     lines.push(`      source: ${c.source}`);
   }

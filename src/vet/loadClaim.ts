@@ -18,6 +18,8 @@
  *     duration: "6.2 h"                                                 # optional measured T14 (default: computed)
  *     orientation: isotropic                                            # or coplanar (Monte Carlo prior)
  *     draws: 4000                                                       # Monte Carlo draws
+ *     false_alarm: 0.01                                                 # false-alarm level of the signal detection (default 0.01)
+ *     companion: moon                                                   # or binary_planet (then the barycentre may lie outside the planet)
  *
  * Ranges (each refused value is reported with its range and the reason): amplitudes and their
  * uncertainties below a quarter of planet.period (uncertainties ≥ 1 ms); precision 0.1 ppm to
@@ -50,6 +52,8 @@ function readTableFile(path: string): string {
   return readFileSync(path, 'utf8');
 }
 const DEFAULT_DRAWS = 4000;
+/** Default false-alarm level of the signal detection (common practice for a claimed discovery, no source). */
+const DEFAULT_FALSE_ALARM = 0.01;
 
 export interface ParseClaimOptions {
   /** Folder against which `claim.table` is resolved (default: the working directory). */
@@ -61,7 +65,7 @@ export interface ParseClaimOptions {
 /** Keys of each block of a claim file (every one listed when an unknown key is met). */
 export const CLAIM_KEYS = {
   top: ['name', 'seed', 'star', 'planet', 'claim'],
-  claim: ['ttv', 'tdv', 'phase_offset', 'transits', 'table', 'time_standard', 'noise', 'precision', 'cadence', 'moon_dip', 'duration', 'orientation', 'draws'],
+  claim: ['ttv', 'tdv', 'phase_offset', 'transits', 'table', 'time_standard', 'noise', 'precision', 'cadence', 'moon_dip', 'duration', 'orientation', 'draws', 'false_alarm', 'companion'],
   amplitude: ['amplitude', 'uncertainty', 'kind'],
   phaseOffset: ['value', 'uncertainty'],
 } as const;
@@ -162,6 +166,8 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
     ? c.quantity('duration', 'time', { bare: [DAY_S / 24, 'hours'], min: MINUTE_S, max: halfPeriod, maxExclusive: true, rangeText: `must be a time of at least 1 min${Number.isFinite(halfPeriod) ? ` and shorter than half of planet.period (${days(halfPeriod)}): no transit lasts longer` : ''}` })
     : null;
   const orientation = c.choice('orientation', ['isotropic', 'coplanar'] as const, 'isotropic');
+  const falseAlarm = c.number('false_alarm', { default: DEFAULT_FALSE_ALARM, min: 1e-6, max: 0.5, rangeText: 'expected a false-alarm probability from 1e-6 to 0.5, e.g. 0.01' });
+  const companion = c.choice('companion', ['moon', 'binary_planet'] as const, 'moon');
   const draws = c.number('draws', { default: DEFAULT_DRAWS, integer: true, min: 200, max: 1_000_000, rangeText: 'expected a whole number of Monte Carlo draws from 200 to 1000000' });
 
   let table: TimingTable | null = null;
@@ -200,7 +206,7 @@ export function parseClaim(doc: unknown, source = 'claim', opts: ParseClaimOptio
   }
   c.rejectUnknown(CLAIM_KEYS.claim);
   if (problems.length > 0) throw new InputError(problems, source);
-  return { name, seed, star, planet, ttv, tdv, phaseOffset, moonDipDepth, precision, cadenceS, transits, durationS, table, orientation, draws, deprecations };
+  return { name, seed, star, planet, ttv, tdv, phaseOffset, moonDipDepth, precision, cadenceS, transits, durationS, table, orientation, falseAlarm, companion, draws, deprecations };
 }
 
 /** Parse claim YAML text; problems carry the line numbers of the YAML nodes. */

@@ -34,8 +34,8 @@ function bic(chiNoMoon: number, chiMoon: number, points: number, kNoMoon: number
   return { points, kNoMoon, kMoon, bicNoMoon, bicMoon, delta: bicNoMoon - bicMoon, frequencyPerEpoch: nu };
 }
 
-function periodogramSummary(epochs: Float64Array, values: Float64Array, errors: Float64Array): PeriodogramSummary {
-  const p = fastPeriodogram(epochs, values, errors);
+function periodogramSummary(epochs: Float64Array, values: Float64Array, errors: Float64Array, baseParameters: number): PeriodogramSummary {
+  const p = fastPeriodogram(epochs, values, errors, 10, baseParameters);
   return {
     frequency: Array.from(p.frequency),
     power: Array.from(p.power),
@@ -66,7 +66,7 @@ export function analyseTable(table: TimingTable): TableAnalysis {
   const nuTtv = bestCommonFrequency([ttvSeries]);
   const ttvAlone = fitSinusoidAt(ttvSeries, nuTtv);
   const bicTtv = bic(ttv.chiSquare, ttvAlone.chiSquare, n, 2, 5, nuTtv);
-  const periodogramTtv = periodogramSummary(epochs, ttvResid, timeErrS);
+  const periodogramTtv = periodogramSummary(epochs, ttvResid, timeErrS, 2);
 
   let tdvSummary: ChiSquareSummary | null = null;
   let jointSummary: ChiSquareSummary | null = null;
@@ -91,7 +91,7 @@ export function analyseTable(table: TimingTable): TableAnalysis {
     ttvFit = fitSinusoidAt(ttvSeries, nu);
     tdvFit = fitSinusoidAt(tdvSeries, nu);
     bicJoint = bic(ttv.chiSquare + tdv.chiSquare, ttvFit.chiSquare + tdvFit.chiSquare, 2 * n, 3, 8, nu);
-    periodogramTdv = periodogramSummary(epochs, tdvResid, table.durationErrS);
+    periodogramTdv = periodogramSummary(epochs, tdvResid, table.durationErrS, 1);
   }
   const residualChi = ttvFit.chiSquare + (tdvFit ? tdvFit.chiSquare : 0);
   const residualDof = tdvFit ? 2 * n - 8 : n - 5;
@@ -128,6 +128,7 @@ export function analyseTable(table: TimingTable): TableAnalysis {
       tdvS: tdvSeries ? Array.from(tdvSeries.values) : null,
       tdvErrS: tdvSeries ? Array.from(tdvSeries.errors) : null,
       tdvModelS: tdvFit ? Array.from(tdvFit.model) : null,
+      sinusoid: { frequencyPerEpoch: nu, ttvCosS: ttvFit.cosAmplitude, ttvSinS: ttvFit.sinAmplitude, tdvCosS: tdvFit ? tdvFit.cosAmplitude : null, tdvSinS: tdvFit ? tdvFit.sinAmplitude : null },
     },
   };
 }

@@ -5,12 +5,15 @@
  * fields inside; this is the one place that names them for the outside.
  */
 import type { RunsTest } from './runsTest.js';
+import type { SignalDecision, SignalTestId } from './signalDetection.js';
+import type { ExclusionMap } from './exclusionMap.js';
+import type { Alternative, AlternativeId } from './alternatives.js';
 import type {
-  AmplitudeSignificance, BicComparison, ChiSquareSummary, CheckId, CheckStatus, ImpliedMoonSummary, PeriodogramSummary,
+  AmplitudeSignificance, BicComparison, ChiSquareSummary, CheckGrade, CheckId, CheckStatus, ImpliedMoonSummary, PeriodogramSummary,
   QuantileSummary, SystemSummary, TableSignificance, TimingSeriesSummary, Verdict, VetResult,
 } from './vetTypes.js';
 
-export const VET_SCHEMA = 'moonsieve/vet/1';
+export const VET_SCHEMA = 'moonsieve/vet/2';
 
 export interface QuantilesJson {
   median: number | null;
@@ -116,6 +119,36 @@ export interface TimingSeriesJson {
   tdv_s: number[] | null;
   tdv_err_s: number[] | null;
   tdv_model_s: number[] | null;
+  sinusoid: { frequency_per_epoch: number; ttv_cos_s: number; ttv_sin_s: number; tdv_cos_s: number | null; tdv_sin_s: number | null };
+}
+
+export interface SignalJson {
+  false_alarm: number;
+  tests: Array<{ id: SignalTestId; label: string; p_value: number }>;
+  adjusted_p_value: number;
+  strongest_test: SignalTestId;
+  detected: boolean;
+}
+
+export interface ExclusionJson {
+  moon_separation_m: number[];
+  moon_mass_kg: number[];
+  /** [separation][mass]; null: not simulated (the signal is far below the errors; not excluded). */
+  detected_fraction: Array<Array<number | null>>;
+  upper_limit_moon_mass_kg: Array<number | null>;
+  realizations: number;
+  exclusion_level: number;
+  false_alarm: number;
+}
+
+export interface AlternativeJson {
+  id: AlternativeId;
+  title: string;
+  bic_delta: number | null;
+  favour_moon: string[];
+  favour_alternative: string[];
+  test: string;
+  source: string;
 }
 
 export interface VetJson {
@@ -124,7 +157,7 @@ export interface VetJson {
   input: 'amplitudes' | 'table';
   verdict: Verdict;
   reasons: string[];
-  checks: Array<{ id: CheckId; title: string; status: CheckStatus; detail: string; source: string }>;
+  checks: Array<{ id: CheckId; title: string; status: CheckStatus; grade: CheckGrade; severity: number; detail: string; source: string }>;
   cautions: string[];
   assumptions: string[];
   system: SystemJson;
@@ -133,6 +166,9 @@ export interface VetJson {
   amplitude_significance: AmplitudeSignificanceJson | null;
   implied: ImpliedMoonJson | null;
   series: TimingSeriesJson | null;
+  signal: SignalJson;
+  exclusion: ExclusionJson | null;
+  alternatives: AlternativeJson[] | null;
 }
 
 const quantiles = (q: QuantileSummary): QuantilesJson => ({ median: q.median, lo_1sigma: q.lo1, hi_1sigma: q.hi1, lo_2sigma: q.lo2, hi_2sigma: q.hi2 });
@@ -207,6 +243,29 @@ const system = (s: SystemSummary): SystemJson => ({
 
 const series = (t: TimingSeriesSummary): TimingSeriesJson => ({
   epochs: t.epochs, ttv_s: t.ttvS, ttv_err_s: t.ttvErrS, ttv_model_s: t.ttvModelS, tdv_s: t.tdvS, tdv_err_s: t.tdvErrS, tdv_model_s: t.tdvModelS,
+  sinusoid: { frequency_per_epoch: t.sinusoid.frequencyPerEpoch, ttv_cos_s: t.sinusoid.ttvCosS, ttv_sin_s: t.sinusoid.ttvSinS, tdv_cos_s: t.sinusoid.tdvCosS, tdv_sin_s: t.sinusoid.tdvSinS },
+});
+
+const signal = (d: SignalDecision): SignalJson => ({
+  false_alarm: d.falseAlarm,
+  tests: d.tests.map((t) => ({ id: t.id, label: t.label, p_value: t.pValue })),
+  adjusted_p_value: d.adjustedPValue,
+  strongest_test: d.strongest,
+  detected: d.detected,
+});
+
+const exclusion = (e: ExclusionMap): ExclusionJson => ({
+  moon_separation_m: e.separationM,
+  moon_mass_kg: e.massKg,
+  detected_fraction: e.detectedFraction,
+  upper_limit_moon_mass_kg: e.upperLimitKg,
+  realizations: e.realizations,
+  exclusion_level: e.level,
+  false_alarm: e.falseAlarm,
+});
+
+const alternative = (a: Alternative): AlternativeJson => ({
+  id: a.id, title: a.title, bic_delta: a.bicDelta, favour_moon: a.favourMoon, favour_alternative: a.favourAlternative, test: a.test, source: a.source,
 });
 
 /** The `vet --json` document of a result. */
@@ -217,7 +276,7 @@ export function vetToJson(r: VetResult): VetJson {
     input: r.input,
     verdict: r.verdict,
     reasons: r.reasons,
-    checks: r.checks.map((c) => ({ id: c.id, title: c.title, status: c.status, detail: c.detail, source: c.source })),
+    checks: r.checks.map((c) => ({ id: c.id, title: c.title, status: c.status, grade: c.grade, severity: c.strength, detail: c.detail, source: c.source })),
     cautions: r.cautions,
     assumptions: r.assumptions,
     system: system(r.system),
@@ -226,5 +285,8 @@ export function vetToJson(r: VetResult): VetJson {
     amplitude_significance: r.amplitudeSignificance && amplitudeSignificance(r.amplitudeSignificance),
     implied: r.implied && implied(r.implied),
     series: r.series && series(r.series),
+    signal: signal(r.signal),
+    exclusion: r.exclusion && exclusion(r.exclusion),
+    alternatives: r.alternatives && r.alternatives.map(alternative),
   };
 }

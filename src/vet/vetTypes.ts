@@ -1,16 +1,43 @@
 /** The result of vetting a claimed moon signal (`vetClaim`); every quantity SI. */
 import type { RunsTest } from './runsTest.js';
+import type { SignalDecision } from './signalDetection.js';
+import type { ExclusionMap } from './exclusionMap.js';
+
+/** Another explanation of a timing signal (alternatives.ts). */
+export type AlternativeId = 'perturbing_planet' | 'stellar_activity' | 'companion_star';
+
+export interface Alternative {
+  id: AlternativeId;
+  title: string;
+  /** BIC(alternative) − BIC(moon); > 0 favours the moon. null: not computable from amplitudes alone. */
+  bicDelta: number | null;
+  /** Features of the data that favour the moon over this alternative (with numbers). */
+  favourMoon: string[];
+  /** Features that favour this alternative. */
+  favourAlternative: string[];
+  /** What would tell them apart. */
+  test: string;
+  source: string;
+}
 
 export type CheckStatus = 'pass' | 'tension' | 'fail' | 'not tested';
 /**
- * 'no detectable signal': the timing shows no significant variation (or no claimed amplitude
- * reaches 3σ), so there is no moon to infer and the physical checks are not made.
+ * The verdict ladder: 'no_signal' (the timing is consistent with a linear ephemeris and constant
+ * duration at the false-alarm level, look-elsewhere counted: no moon is inferred), 'consistent'
+ * (a signal, explained by a physically allowed moon), 'tension' (a signal whose moon conflicts
+ * with a non-decisive check), 'implausible' (a decisive physical or observational contradiction).
  */
-export type Verdict = 'consistent with a moon' | 'in tension' | 'implausible' | 'no detectable signal';
+export type Verdict = 'no_signal' | 'consistent' | 'tension' | 'implausible';
+
+/** Decisive checks can make a claim implausible; non-decisive ones (priors, tolerances) only put it in tension. */
+export type CheckGrade = 'decisive' | 'non-decisive';
 
 export type CheckId =
   | 'significance'
   | 'stability'
+  | 'mass-vs-planet'
+  | 'barycentre'
+  | 'alternatives'
   | 'roche'
   | 'mass-ratio'
   | 'tidal-survival'
@@ -23,6 +50,9 @@ export interface VetCheck {
   id: CheckId;
   title: string;
   status: CheckStatus;
+  grade: CheckGrade;
+  /** How far past its limit the claim lies (bound most favourable to the claim / limit, ≥ 1 when violated); orders the reasons. */
+  strength: number;
   /** The numbers behind the status, in words. */
   detail: string;
   /** Where the threshold comes from. */
@@ -157,6 +187,8 @@ export interface TimingSeriesSummary {
   tdvS: number[] | null;
   tdvErrS: number[] | null;
   tdvModelS: number[] | null;
+  /** The fitted sinusoid (model = base + cos·cos 2πνE + sin·sin 2πνE), s; for continuous and folded curves. */
+  sinusoid: { frequencyPerEpoch: number; ttvCosS: number; ttvSinS: number; tdvCosS: number | null; tdvSinS: number | null };
 }
 
 export interface VetResult {
@@ -176,4 +208,10 @@ export interface VetResult {
   /** The implied moon; null when there is no detectable signal to explain. */
   implied: ImpliedMoonSummary | null;
   series: TimingSeriesSummary | null;
+  /** The detection rule's tests and decision (signalDetection.ts). */
+  signal: SignalDecision;
+  /** The moons the data exclude at 95 % (exclusionMap.ts); null when the data give no epochs or errors. */
+  exclusion: ExclusionMap | null;
+  /** Other explanations, most competitive first; null without a signal. */
+  alternatives: Alternative[] | null;
 }

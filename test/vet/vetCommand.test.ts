@@ -32,8 +32,8 @@ describe('moonsieve vet', () => {
     const html = join(dir, 'vet.html');
     const out = await run([demo, '--json', '--html', html]);
     const r = JSON.parse(out);
-    expect(['consistent with a moon', 'in tension', 'implausible']).toContain(r.verdict);
-    expect(r.schema).toBe('moonsieve/vet/1');
+    expect(['consistent', 'tension', 'implausible']).toContain(r.verdict);
+    expect(r.schema).toBe('moonsieve/vet/2');
     expect(r.implied.moon_separation_m.median).toBeGreaterThan(0);
     expect(r.table_significance.transits).toBe(13);
     expect(r.system.hill_radius_m).toBeGreaterThan(0);

@@ -51,11 +51,11 @@ describe('vet on extreme and malformed claims', () => {
   it('times exactly on a linear ephemeris: no detectable signal, no implied moon, no NaN in the text or JSON', async () => {
     const dir = claimDir(tableClaim, linear(12));
     const text = await run([join(dir, 'claim.yaml')]);
-    expect(text).toMatch(/VERDICT: NO DETECTABLE SIGNAL/);
+    expect(text).toMatch(/VERDICT: NO SIGNAL/);
     expect(text).toMatch(/Implied moon: none/);
     expect(text).not.toMatch(/NaN|Infinity|IMPLAUSIBLE/);
     const r = JSON.parse(await run([join(dir, 'claim.yaml'), '--json']));
-    expect(r.verdict).toBe('no detectable signal');
+    expect(r.verdict).toBe('no_signal');
     expect(r.implied).toBeNull();
     expect(nonFinitePaths(r)).toEqual([]);
     expect(r.checks.filter((c: { status: string }) => c.status === 'pass' || c.status === 'tension').map((c: { id: string }) => c.id)).toEqual(['residual-noise']);
@@ -64,8 +64,8 @@ describe('vet on extreme and malformed claims', () => {
   it('amplitudes below 3σ are no detectable signal, not a moon', async () => {
     const dir = claimDir('  ttv: {amplitude: 20 s, uncertainty: 10 s, kind: rms}\n  transits: 20\n');
     const r = JSON.parse(await run([join(dir, 'claim.yaml'), '--json']));
-    expect(r.verdict).toBe('no detectable signal');
-    expect(r.reasons[0]).toMatch(/^NO SIGNAL .*TTV 2\.00σ/);
+    expect(r.verdict).toBe('no_signal');
+    expect(r.reasons[0]).toMatch(/^NO SIGNAL .*TTV amplitude 2\.00σ/);
   });
 
   it('time_err of 1e308, 0, -1, NaN and Infinity are field errors naming the row; nothing is written', async () => {
@@ -84,7 +84,7 @@ describe('vet on extreme and malformed claims', () => {
     const lines = linear(10).trim().split('\n');
     const shuffled = [lines[0], ...lines.slice(1).reverse()].join('\n') + '\n';
     const r = JSON.parse(await run([join(claimDir(tableClaim, shuffled), 'claim.yaml'), '--json']));
-    expect(r.verdict).toBe('no detectable signal');
+    expect(r.verdict).toBe('no_signal');
     expect(r.assumptions.some((a: string) => /not in time order: they were sorted by time/.test(a))).toBe(true);
   });
 

@@ -75,7 +75,7 @@ const tableClaimArb = fc.record({
 
 function check(yaml: string, table?: string) {
   const claim = parseClaimText(yaml, 'property.yaml', table === undefined ? {} : { readText: () => table });
-  const r = vetClaim({ ...claim, draws: 200 });
+  const r = vetClaim({ ...claim, draws: 200 }, { exclusionGrid: { separations: 3, masses: 4, realizations: 4 } });
   expect(nonFinitePaths(r)).toEqual([]);
   const text = formatVetReport(r);
   expect(text).not.toMatch(/NaN|Infinity/);
