@@ -38,6 +38,15 @@
  * scenario has it) and the scenario's gaps and missed transits (every time
  * stamp of every window counts), which make real detection harder still.
  *
+ * A ground campaign (site, target and campaign: noise/observingPlan.ts): the
+ * time stamps are the plan's exposures, the calendar's observable stretches
+ * of each transit at each site, each with its own σ at its air mass. The
+ * model is then whitened (each row divided by σ_i/σ_ref), which turns the
+ * weighted test into the white one above (Kay 1998, §4.5, the generalised
+ * matched filter for known coloured noise, diagonal here), and the offset and
+ * slope are per transit and site. Weather is left out: the bound assumes
+ * every night clear (`notes` says so).
+ *
  * Models: the exact photodynamical light curve (lightCurve.ts) with a fixed
  * smearing tolerance of 1 ppm, the planet-only reference being the moonless
  * scenario (the planet at the barycentre). The Jacobian is taken by central
@@ -57,6 +66,8 @@ import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { normalCdf } from '../numeric/normal.js';
 import { chiSquareUpperQuantile } from '../numeric/noncentralChiSquare.js';
 import { remembered } from '../memo.js';
+import { hasCampaign, observingPlan } from '../noise/observingPlan.js';
+import { medianOfFinite as medianOf } from '../numeric/quantiles.js';
 
 /** Default number of angle sets averaged (see the file header): on the bench reference system 12 sets stay within 0.002 of 96 (bench/bound.ts), at ~0.8 ms a set. */
 export const DEFAULT_BOUND_ANGLES = 12;
@@ -74,7 +85,10 @@ export interface PlanetOnlyBasis {
   columns: number;
   /** Freedoms projected out (columns of J before orthonormalisation, degenerate ones dropped). */
   freedoms: string[];
+  /** Reference σ per exposure (relative flux): the white level, or with a campaign the median of the plan's. */
   sigma: number;
+  /** Whitening weight σ_ref/σ_i per row (all 1 without a ground campaign). */
+  weight: Float64Array;
 }
 
 export interface KnownTemplateBound {
@@ -142,11 +156,27 @@ function planetModel(base: LightCurveModel, sys: OrbitSystem, rp: number, u1: nu
   return { ...base, sys, rp, rm: 0, u1, u2, supersampleEverywhere: true };
 }
 
+/** Time stamps, epochs, groups for the per-window offsets and slopes, and per-row σ (null: one white level). */
+function boundSamples(s: Scenario): { timeS: Float64Array; epoch: Int32Array; group: Int32Array; groups: number; sigmaRow: Float64Array | null } {
+  const plan = observingPlan(s);
+  if (plan === null) {
+    const { timeS, epoch } = sampleWindows(transitWindows(s), s.instrument.cadenceS);
+    return { timeS, epoch, group: epoch, groups: transitWindows(s).length, sigmaRow: null };
+  }
+  // One offset and slope per (transit, site): each site calibrates its own baseline.
+  const sites = s.sky ? Math.max(1, s.sky.sites.length) : 1;
+  const group = new Int32Array(plan.timeS.length);
+  for (let i = 0; i < group.length; i++) group[i] = plan.epoch[i] * sites + plan.site[i];
+  return { timeS: plan.timeS, epoch: plan.epoch, group, groups: plan.epochs * sites, sigmaRow: plan.sigma };
+}
+
 function computeBasis(s0: Scenario): PlanetOnlyBasis {
   const s: Scenario = { ...s0, moon: null };
-  const { timeS, epoch } = sampleWindows(transitWindows(s), s.instrument.cadenceS);
+  const { timeS, epoch, group, groups, sigmaRow } = boundSamples(s);
   const n = timeS.length;
-  const sigma = whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS);
+  const sigma = sigmaRow === null ? whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS) : medianOf(sigmaRow);
+  const weight = new Float64Array(n).fill(1);
+  if (sigmaRow !== null) for (let i = 0; i < n; i++) weight[i] = sigmaRow[i] > 0 ? sigma / sigmaRow[i] : 0;
   const ws = new LightCurveWorkspace();
   const base = lightCurveModel(s, { tolerance: TOLERANCE });
   const flux = modelFlux(timeS, base, new Float64Array(n), ws);
@@ -157,11 +187,11 @@ function computeBasis(s0: Scenario): PlanetOnlyBasis {
   const plus = new Float64Array(n);
   const minus = new Float64Array(n);
   const col = new Float64Array(n);
-  const windows = transitWindows(s).length;
-  const q = new Float64Array((7 + 2 * windows) * n);
+  const q = new Float64Array((7 + 2 * groups) * n);
   const freedoms: string[] = [];
   let cols = 0;
   const add = (name: string, v: Float64Array): void => {
+    for (let i = 0; i < n; i++) v[i] *= weight[i];
     const before = cols;
     cols = appendColumn(q, cols, v, n);
     if (cols > before) freedoms.push(name);
@@ -213,15 +243,17 @@ function computeBasis(s0: Scenario): PlanetOnlyBasis {
   add('limb darkening u2', col);
   // Per window: a flux offset and a linear slope about the window's conjunction.
   const P = s.planet.periodS;
-  for (let w = 0; w < windows; w++) {
+  for (let g = 0; g < groups; g++) {
     col.fill(0);
-    for (let i = 0; i < n; i++) if (epoch[i] === w) col[i] = 1;
-    add(`offset of transit ${w}`, col);
+    let any = false;
+    for (let i = 0; i < n; i++) if (group[i] === g) { col[i] = 1; any = true; }
+    if (!any) continue;
+    add(`offset of window ${g}`, col);
     col.fill(0);
-    for (let i = 0; i < n; i++) if (epoch[i] === w) col[i] = (timeS[i] - w * P) / P;
-    add(`slope of transit ${w}`, col);
+    for (let i = 0; i < n; i++) if (group[i] === g) col[i] = (timeS[i] - epoch[i] * P) / P;
+    add(`slope of window ${g}`, col);
   }
-  return { timeS, epoch, flux, xb, q: q.slice(0, cols * n), columns: cols, freedoms, sigma };
+  return { timeS, epoch, flux, xb, q: q.slice(0, cols * n), columns: cols, freedoms, sigma, weight };
 }
 
 const BASIS_CACHE_SIZE = 8;
@@ -237,7 +269,7 @@ export function planetOnlyBasis(s: Scenario): PlanetOnlyBasis {
   const key = [
     star.radiusM, star.u1, star.u2, planet.radiusM, planet.periodS, planet.semiMajorAxisM, planet.eccentricity, planet.omegaRad,
     planet.inclinationRad, instrument.cadenceS, instrument.exposureS, instrument.noiseFraction, instrument.noiseTimescaleS,
-    observation.transits, observation.baselineS,
+    observation.transits, observation.baselineS, observation.t0BjdTdb, JSON.stringify(s.sky ?? null), JSON.stringify(instrument.ground ?? null),
   ].join(',');
   return remembered(basisCache, BASIS_CACHE_SIZE, key, () => computeBasis(s));
 }
@@ -255,9 +287,9 @@ function projectedNorm2(q: Float64Array, cols: number, n: number, d: Float64Arra
   return Math.max(0, total);
 }
 
-/** d[k] = a[k] − b[rows[k]]. */
-function subtractRows(a: Float64Array, b: Float64Array, rows: Int32Array, m: number, d: Float64Array): void {
-  for (let k = 0; k < m; k++) d[k] = a[k] - b[rows[k]];
+/** d[k] = (a[k] − b[rows[k]])·w[rows[k]] (the whitened difference). */
+function subtractRows(a: Float64Array, b: Float64Array, rows: Int32Array, m: number, w: Float64Array, d: Float64Array): void {
+  for (let k = 0; k < m; k++) d[k] = (a[k] - b[rows[k]]) * w[rows[k]];
 }
 
 /** The rows where the barycentre's sky X is within `reach` of the star's centre; returns their count. */
@@ -290,6 +322,10 @@ export function boundNotes(s: Scenario): string[] {
   const notes: string[] = [];
   const red = s.instrument.redNoise;
   if (red) notes.push(`the bound assumes white noise only: the scenario's red noise (${red.model === 'drw' ? 'damped random walk' : 'power law'}) is not in it`);
+  if (hasCampaign(s)) {
+    const c = s.sky?.constraints.clearFraction ?? 1;
+    if (c < 1) notes.push(`the bound counts every observable stretch of the campaign as if every night were clear: the scenario's weather (clear fraction ${c}) is not in it`);
+  }
   if (s.observation.missedFraction > 0 || s.observation.dutyCycle < 1) {
     notes.push('the bound counts every time stamp of every window: the scenario\'s missed transits and gaps are not in it');
   }
@@ -335,7 +371,7 @@ export function knownTemplateBound(s: Scenario, opts: { angles?: number; planetO
   for (let j = 0; j < k; j++) {
     const drawn: Scenario = { ...s, moon: { ...s.moon, ...boundAngles(s, j, k) } };
     modelFlux(t, { ...model, sys: orbitSystemFromScenario(drawn) }, withMoon, ws);
-    subtractRows(withMoon, flux, rows, m, d);
+    subtractRows(withMoon, flux, rows, m, basis.weight, d);
     snr[j] = Math.sqrt(projectedNorm2(q, columns, n, d, rows, m)) / sigma;
     p += normalCdf(snr[j] - threshold);
   }

@@ -189,3 +189,25 @@ describe('knownTemplateBound', () => {
     expect(() => knownTemplateBound({ ...s, moon: null })).toThrow(RangeError);
   });
 });
+
+describe('the bound on a ground campaign (issue 18: only what the sky allows)', () => {
+  it('counts only the calendar\'s observable stretches: never above the whole-transit bound of the same epochs, and below it here', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { withCampaignEpochs } = await import('../../src/noise/observingPlan.js');
+    const doc = parse(readFileSync(new URL('../../scenarios/demo-proposal.yaml', import.meta.url), 'utf8')) as Record<string, unknown>;
+    // A stated white level (the same σ for every exposure), so the comparison isolates which data count.
+    const instrument = { cadence: '2 min', exposure: '2 min', noise: '1500 ppm per 2 min' };
+    const { sweep: _w, budget: _b, ...base } = doc;
+    const site = withCampaignEpochs(parseScenario({ ...base, instrument }, 'site'));
+    const { site: _s, target: _t, campaign: _c, constraints: _k, ...noSky } = base;
+    const whole = parseScenario({ ...noSky, instrument, observation: { ...(noSky.observation as object), transits: site.observation.transits } }, 'whole');
+    const a = knownTemplateBound(site);
+    const b = knownTemplateBound(whole);
+    // Fisher information of a subset of the data, with more nuisance parameters, cannot exceed that of the
+    // whole (Kay 1993, Fundamentals of Statistical Signal Processing Vol. I, §3.7; common practice).
+    for (let j = 0; j < a.snr.length; j++) expect(a.snr[j]).toBeLessThanOrEqual(b.snr[j] * (1 + 1e-9));
+    // The demo campaign sees 15 of 53 transits, 2 of them whole: far less than every transit whole.
+    expect(a.snr.reduce((x, y) => x + y, 0)).toBeLessThan(0.8 * b.snr.reduce((x, y) => x + y, 0));
+    expect(a.notes.join(' ')).toMatch(/every night were clear/);
+  });
+});
