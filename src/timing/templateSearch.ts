@@ -11,9 +11,18 @@
  * nuisance parameters, Kay 1998 §7.7, Theorem 7.1). For one template d the
  * log-likelihood ratio after maximising over A ≥ 0 is max(0, z)²/2 with
  *   z = d̃ᵀ W r / sqrt(d̃ᵀ W d̃) / σ,   d̃ = d − J (JᵀWJ)⁻¹ JᵀW d,
- * r the residuals, J the planet-only model's freedoms; the bank statistic is
- * max_k z_k (monotone in the maximised likelihood ratio). The look-elsewhere
- * effect of the maximum is not modelled: the threshold is calibrated on the
+ * r the residuals, J the planet-only model's freedoms. Two bank statistics:
+ * - 'marginal' (default): the cell's moon has a known amplitude (its mass and
+ *   radius), so each template's likelihood ratio is exp(S_k z_k − S_k²/2), S_k
+ *   = sqrt(d̃ᵀWd̃)/σ its SNR, and the statistic is the log of their mean over
+ *   the bank, which samples the moon's unknown phase (and orientation)
+ *   uniformly as the realizations draw it: the likelihood ratio of the
+ *   phase-averaged alternative, most powerful on average over the phase
+ *   (Neyman–Pearson lemma for the mixture alternative; Kay 1998 §6.3–6.4, the
+ *   Bayesian approach to composite hypotheses);
+ * - 'max': max_k z_k, the GLRT with the amplitude free (≥ 0) and the phase
+ *   maximised over the bank (Kay 1998 §6.4).
+ * Neither models the look-elsewhere effect: the threshold is calibrated on the
  * no-moon realizations, like every other channel.
  *
  * Template: d = F_planet+moon − F_planet alone, both from the photodynamical
@@ -51,6 +60,7 @@ import { scenarioDurations, transitWindows } from '../photometry/transitWindows.
 import { buildTransitTemplate, templateFluxArray, templateGeometryFromScenario, type TemplateGeometry } from './transitTemplate.js';
 import type { GlobalTransitFit } from './globalTransitFit.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
+import { NOMINAL_SIGMA } from './timingSeries.js';
 
 /** Bins of the planned sample grid shared by a null class and every cell of it. */
 export interface TemplateLayout {
@@ -177,13 +187,20 @@ export interface TemplateBank {
   templates: number;
   /** Per template, sqrt(d̃ᵀ W d̃) (relative flux): its SNR is this / σ. */
   projectedNorm: Float64Array;
+  /** Per template, its SNR S_k = projectedNorm / σ at the instrument's white-noise σ. */
+  snr: Float64Array;
+  statistic: TemplateStatisticKind;
   /** Per template, the moon's phase, node and periapsis (rad). */
   phaseRad: Float64Array;
   nodeRad: Float64Array;
   periapsisRad: Float64Array;
 }
 
+export type TemplateStatisticKind = 'marginal' | 'max';
+
 export interface TemplateBankOptions {
+  /** The bank statistic (default 'marginal'; see the file comment). */
+  statistic?: TemplateStatisticKind;
   /** Phases in the bank (default: `defaultPhaseCount`). */
   phases?: number;
   /** Nodes (inclined orbit) and periapses (eccentric orbit) in the bank (default 4 each, 1 when irrelevant). */
@@ -267,14 +284,14 @@ function freedomColumns(geometry: TemplateGeometry, L: TemplateLayout, t: Float6
  * "twice is enough", Giraud et al. 2005, Numer. Math. 101, 87). A column whose remainder is below
  * 1e-9 of its norm is dependent on the others and dropped.
  */
-function orthonormalBasis(cols: Float64Array[], count: Float64Array): Float64Array[] {
+function orthonormalBasis(cols: Float64Array[], w: Float64Array): Float64Array[] {
   const basis: Float64Array[] = [];
   for (const c of cols) {
     const v = Float64Array.from(c);
-    const norm0 = Math.sqrt(wDot(v, v, count));
+    const norm0 = Math.sqrt(wDot(v, v, w));
     if (!(norm0 > 0)) continue;
-    for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(v, q, -wDot(q, v, count));
-    const norm = Math.sqrt(wDot(v, v, count));
+    for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(v, q, -wDot(q, v, w));
+    const norm = Math.sqrt(wDot(v, v, w));
     if (!(norm > 1e-9 * norm0)) continue;
     for (let i = 0; i < v.length; i++) v[i] /= norm;
     basis.push(v);
@@ -282,10 +299,17 @@ function orthonormalBasis(cols: Float64Array[], count: Float64Array): Float64Arr
   return basis;
 }
 
-function wDot(a: Float64Array, b: Float64Array, count: Float64Array): number {
+/** Σ a_i b_i w_i, w = 1/count (0 where count is 0). */
+function wDot(a: Float64Array, b: Float64Array, w: Float64Array): number {
   let s = 0;
-  for (let i = 0; i < a.length; i++) if (count[i] > 0) s += (a[i] * b[i]) / count[i];
+  for (let i = 0; i < a.length; i++) s += a[i] * b[i] * w[i];
   return s;
+}
+
+function inverseCounts(count: Float64Array): Float64Array {
+  const w = new Float64Array(count.length);
+  for (let i = 0; i < count.length; i++) w[i] = count[i] > 0 ? 1 / count[i] : 0;
+  return w;
 }
 
 function axpy(y: Float64Array, x: Float64Array, a: number): void {
@@ -309,7 +333,8 @@ export function buildTemplateBank(s: Scenario, L: TemplateLayout, o: TemplateBan
   const tolerance = Math.max(DEFAULT_SMEARING_TOLERANCE, 0.02 * sigma);
   const ws = new LightCurveWorkspace();
   const alone = modelFlux(timeS, lightCurveModel({ ...s, moon: null }, { tolerance }), new Float64Array(n), ws);
-  const basis = orthonormalBasis(freedomColumns(templateGeometryFromScenario(s), L, timeS, epoch), L.count);
+  const w = inverseCounts(L.count);
+  const basis = orthonormalBasis(freedomColumns(templateGeometryFromScenario(s), L, timeS, epoch), w);
   const total = nPhase * nNode * nPeri;
   const filters = new Float64Array(total * L.bins);
   const projectedNorm = new Float64Array(total);
@@ -330,35 +355,53 @@ export function buildTemplateBank(s: Scenario, L: TemplateLayout, o: TemplateBan
         modelFlux(timeS, lightCurveModel(sk, { tolerance }), flux, ws);
         for (let i = 0; i < n; i++) d[i] = flux[i] - alone[i];
         binSamples(L, timeS, epoch, d, binned);
-        for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(binned, q, -wDot(q, binned, L.count));
-        const norm = Math.sqrt(wDot(binned, binned, L.count));
+        for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(binned, q, -wDot(q, binned, w));
+        const norm = Math.sqrt(wDot(binned, binned, w));
         projectedNorm[k] = norm;
         phaseRad[k] = ph;
         nodeRad[k] = node;
         periapsisRad[k] = peri;
         const row = filters.subarray(k * L.bins, (k + 1) * L.bins);
-        if (norm > 0) for (let b = 0; b < L.bins; b++) row[b] = binned[b] / L.count[b] / norm;
+        if (norm > 0) for (let b = 0; b < L.bins; b++) row[b] = (binned[b] * w[b]) / norm;
       }
     }
   }
-  return { bins: L.bins, filters, templates: total, projectedNorm, phaseRad, nodeRad, periapsisRad };
+  const snr = new Float64Array(total);
+  const sigmaRef = sigma > 0 ? sigma : NOMINAL_SIGMA;
+  for (let j = 0; j < total; j++) snr[j] = projectedNorm[j] / sigmaRef;
+  const statistic = o.statistic ?? 'marginal';
+  if (statistic !== 'marginal' && statistic !== 'max') throw new RangeError(`statistic must be 'marginal' or 'max', got ${String(statistic)}`);
+  return { bins: L.bins, filters, templates: total, projectedNorm, snr, statistic, phaseRad, nodeRad, periapsisRad };
 }
 
 /**
- * The bank statistic of normalised binned residuals ρ (length bank.bins, at `offset` in `rho`):
- * max_k z_k, z_k = Σ_b g_kb ρ_b (see the file comment). −∞ for an empty bank.
+ * The bank statistic of normalised binned residuals ρ (length bank.bins, at `offset` in `rho`),
+ * z_k = Σ_b g_kb ρ_b: 'max' → max_k z_k; 'marginal' → ln mean_k exp(S_k z_k − S_k²/2), summed
+ * stably about its largest term (see the file comment). −∞ for an empty bank.
  */
 export function templateStatistic(bank: TemplateBank, rho: Float64Array, offset = 0): number {
   const B = bank.bins;
   const g = bank.filters;
+  const S = bank.snr;
+  const marginal = bank.statistic === 'marginal';
   let best = -Infinity;
+  let sum = 0;
   for (let k = 0; k < bank.templates; k++) {
     let z = 0;
     const base = k * B;
     for (let b = 0; b < B; b++) z += g[base + b] * rho[offset + b];
-    if (z > best) best = z;
+    const v = marginal ? S[k] * z - 0.5 * S[k] * S[k] : z;
+    if (!marginal) {
+      if (v > best) best = v;
+      continue;
+    }
+    // Running log-sum-exp: sum holds Σ exp(v − best).
+    if (v > best) {
+      sum = sum * Math.exp(best - v) + 1;
+      best = v;
+    } else sum += Math.exp(v - best);
   }
-  return best;
+  return marginal && bank.templates > 0 ? best + Math.log(sum / bank.templates) : best;
 }
 
 /** The statistic of every realization of a flat array of ρ (realization r at r·bins). */
