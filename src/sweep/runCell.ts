@@ -72,7 +72,7 @@ const nullCache = new Map<string, NullSet>();
 
 /**
  * The detection channels N planned transits allow: TTV needs N ≥ 3 (a linear ephemeris has 2 free
- * parameters), TDV N ≥ 2 (a mean duration has 1); the moon dip needs one transit.
+ * parameters), TDV N ≥ 2 (a mean duration has 1); the moon dip and the template bank need one transit.
  */
 export function channelsFor(transits: number): DetectionChannel[] {
   return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
