@@ -57,7 +57,7 @@ function mass50(masses: number[], p: number[]): number {
 
 export function benchEfficiency(realizations = 100): BenchMedian[] {
   const probe = parseScenario(systemDoc(0.1, 0.3, 1), 'efficiency');
-  const hillRp = hillRadius(probe.planet.semiMajorAxisM, probe.planet.eccentricity, probe.planet.massKg, probe.star.massKg) / probe.planet.radiusM;
+  const hillRp = hillRadius(probe.planet.semiMajorAxisM, probe.planet.massKg, probe.star.massKg) / probe.planet.radiusM;
   const grids: Record<string, number[]> = {
     '0.15': [0.15, 0.22, 0.3, 0.4, 0.5, 0.65, 0.8, 1.0],
     '0.30': [0.05, 0.08, 0.11, 0.15, 0.2, 0.26, 0.35, 0.5],

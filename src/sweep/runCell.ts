@@ -54,7 +54,9 @@ import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
-import { buildTemplateBank, templateStatistic, templateStatistics, type TemplateBank } from '../timing/templateSearch.js';
+import {
+  buildTemplateBank, freedomBasis, templateStatistic, templateStatistics, type FreedomBasis, type TemplateBank, type TemplateLayout,
+} from '../timing/templateSearch.js';
 import { assertObservable, observationSizeProblems, scenarioDurations } from '../photometry/transitWindows.js';
 import type { FieldProblem } from '../scenario/errors.js';
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
@@ -69,6 +71,22 @@ export { defaultNullRealizations };
 
 /** Per-worker cache of null sets computed here (worker-local state lives in sweep/, never in the numerical core). */
 const nullCache = new Map<string, NullSet>();
+
+/**
+ * Per-worker cache of each null class's template layout and planet-only freedoms (the same for every
+ * cell of the class: computed once, a result of pure functions, so it cannot change a result).
+ */
+const layoutCache = new Map<string, { layout: TemplateLayout; basis: FreedomBasis }>();
+
+function templateSetup(c: NullClass): { layout: TemplateLayout; basis: FreedomBasis } {
+  const hit = layoutCache.get(c.key);
+  if (hit) return hit;
+  const layout = nullTemplateLayout(c);
+  const entry = { layout, basis: freedomBasis(c.scenario, layout) };
+  if (layoutCache.size > 8) layoutCache.clear();
+  layoutCache.set(c.key, entry);
+  return entry;
+}
 
 /**
  * The detection channels N planned transits allow: TTV needs N ≥ 3 (a linear ephemeris has 2 free
@@ -229,8 +247,8 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   const exclude = 0.5 * scenarioDurations(s).t14S;
   const nullDip = dipScores(nulls.stacks, profile, exclude);
   // Template channel: this cell's bank (built once) on the stored no-moon residuals.
-  const layout = nullTemplateLayout(nullClass);
-  const bank: TemplateBank = buildTemplateBank(s, layout);
+  const { layout, basis } = templateSetup(nullClass);
+  const bank: TemplateBank = buildTemplateBank(s, layout, { basis });
   const nullTemplate = templateStatistics(bank, nulls.rho, nNull);
   // Only the channels the transit count allows are calibrated and combined (detectionForecast.ts,
   // "Few transits"): with 2 transits the TTV χ² has 0 dof, with 1 the TDV χ² too.

@@ -42,10 +42,12 @@
  * baseline offset and slope.
  *
  * Binning (speed): samples are summed in bins of G consecutive planned
- * samples per window (G·cadence ≈ the planet's ingress / 8); the template is
+ * samples per window (G·cadence ≈ the planet's ingress / 4); the template is
  * summed alike, so z above holds with W = diag(1/n_b) and R_b = Σ r_i. Its
- * only loss is the template's variation inside one bin (measured in
- * test/timing/templateSearch.test.ts). Under white noise each z_k is N(0, 1)
+ * only loss is the template's variation inside one bin: at most 1.2 % of a
+ * template's SNR at 2-min cadence and a 50-min ingress (measured in
+ * test/timing/templateSearch.test.ts; 0.4 % with bins of ingress / 8, at
+ * twice the cost). Under white noise each z_k is N(0, 1)
  * whatever the binning. Samples the realization did not observe (gaps,
  * missed transits) contribute nothing; the calibration on no-moon
  * realizations with the same gaps accounts for it.
@@ -78,7 +80,7 @@ export interface TemplateLayout {
 }
 
 /** Bin width as a fraction of the planet's ingress (see the file comment). */
-export const BIN_PER_INGRESS = 1 / 8;
+export const BIN_PER_INGRESS = 1 / 4;
 
 /**
  * The layout of a scenario's planned samples (the windows depend only on the planet: transitWindows.ts),
@@ -199,6 +201,8 @@ export interface TemplateBank {
 export type TemplateStatisticKind = 'marginal' | 'max';
 
 export interface TemplateBankOptions {
+  /** The planet-only freedoms' orthonormal basis on this layout (`freedomBasis`), when already built. */
+  basis?: FreedomBasis;
   /** The bank statistic (default 'marginal'; see the file comment). */
   statistic?: TemplateStatisticKind;
   /** Phases in the bank (default: `defaultPhaseCount`). */
@@ -208,18 +212,22 @@ export interface TemplateBankOptions {
   periapses?: number;
 }
 
+/** Spacing of the bank's phases: the moon's dip moves by at most this fraction of the stellar chord 2L between neighbours. */
+export const PHASE_STEP_PER_CHORD = 0.2;
+
 /**
- * Phases needed so the moon's dip moves by at most 1/10 of the stellar chord between neighbouring
- * templates: N_φ = ⌈2π·a/(0.2·L)⌉ (a the separation, L = sqrt(1 − b²) the half chord, stellar
- * radii; the dip's overlap with a shifted copy drops linearly with the shift), 12 ≤ N_φ ≤ 64.
- * A choice of this program (derived here), not a published rule.
+ * Phases needed so the moon's dip moves by at most PHASE_STEP_PER_CHORD of the stellar chord between
+ * neighbouring templates: N_φ = ⌈2π·a/(0.2·2L)⌉ (a the separation, L = sqrt(1 − b²) the half chord,
+ * stellar radii; the dip's overlap with a shifted copy drops linearly with the shift), 12 ≤ N_φ ≤ 48.
+ * A choice of this program (derived here), not a published rule; measured against twice as many
+ * phases in bench/efficiency.ts.
  */
 export function defaultPhaseCount(s: Scenario): number {
   if (!s.moon) return 1;
   const a = s.moon.separationM / s.star.radiusM;
   const b = Math.min(Math.abs(s.planet.impactParameter), 0.95);
   const L = Math.sqrt(1 - b * b);
-  return Math.max(12, Math.min(64, Math.ceil((2 * Math.PI * a) / (0.2 * L))));
+  return Math.max(12, Math.min(48, Math.ceil((2 * Math.PI * a) / (PHASE_STEP_PER_CHORD * 2 * L))));
 }
 
 /**
@@ -316,6 +324,19 @@ function axpy(y: Float64Array, x: Float64Array, a: number): void {
   for (let i = 0; i < y.length; i++) y[i] += a * x[i];
 }
 
+/** The planet-only freedoms of a layout, orthonormal in the W = diag(1/count) inner product, and W itself. */
+export interface FreedomBasis {
+  vectors: Float64Array[];
+  w: Float64Array;
+}
+
+/** The planet-only freedoms of scenario `s` (its moon ignored) on layout L: the same for every cell of a null class. */
+export function freedomBasis(s: Scenario, L: TemplateLayout): FreedomBasis {
+  const { timeS, epoch } = layoutSamples(L);
+  const w = inverseCounts(L.count);
+  return { vectors: orthonormalBasis(freedomColumns(templateGeometryFromScenario({ ...s, moon: null }), L, timeS, epoch), w), w };
+}
+
 /**
  * The bank of cell scenario `s` (with its moon) on layout `L` (the null class's: the cell's moonless
  * scenario). σ only sets the light curve's smearing tolerance, as in observeScenario.
@@ -333,8 +354,9 @@ export function buildTemplateBank(s: Scenario, L: TemplateLayout, o: TemplateBan
   const tolerance = Math.max(DEFAULT_SMEARING_TOLERANCE, 0.02 * sigma);
   const ws = new LightCurveWorkspace();
   const alone = modelFlux(timeS, lightCurveModel({ ...s, moon: null }, { tolerance }), new Float64Array(n), ws);
-  const w = inverseCounts(L.count);
-  const basis = orthonormalBasis(freedomColumns(templateGeometryFromScenario(s), L, timeS, epoch), w);
+  const fb = o.basis ?? freedomBasis(s, L);
+  const w = fb.w;
+  const basis = fb.vectors;
   const total = nPhase * nNode * nPeri;
   const filters = new Float64Array(total * L.bins);
   const projectedNorm = new Float64Array(total);

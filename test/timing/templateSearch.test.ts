@@ -80,13 +80,13 @@ describe('template bank', () => {
     expect(Math.abs(templateStatistic(bank, rho))).toBeLessThan(1e-6 * 50 * Math.sqrt(timeS.length));
   });
 
-  it('binning to ~ingress/8 loses under 1 % of the projected SNR against one sample per bin (measured: worst 0.4 % at 2-min cadence; the file comment\'s claim)', () => {
+  it('binning to ~ingress/4 loses under 2 % of the projected SNR against one sample per bin (measured: worst 1.2 % at 2-min cadence; the file comment\'s claim)', () => {
     const fast = parseScenario({ ...doc(), instrument: { cadence: '2 min', noise: '300 ppm per 1 h' } });
     const Lc = templateLayout({ ...fast, moon: null });
-    expect(Lc.samplesPerBin).toBe(3); // ingress ≈ 50 min: ⌊50/8/2⌋
+    expect(Lc.samplesPerBin).toBe(6); // ingress ≈ 50 min: ⌊50/4/2⌋
     const coarse = buildTemplateBank(fast, Lc, { statistic: 'max' });
     const fine = buildTemplateBank(fast, templateLayout({ ...fast, moon: null }, 1), { statistic: 'max' });
-    for (let k = 0; k < coarse.templates; k++) expect(coarse.projectedNorm[k]).toBeGreaterThan(0.99 * fine.projectedNorm[k]);
+    for (let k = 0; k < coarse.templates; k++) expect(coarse.projectedNorm[k]).toBeGreaterThan(0.98 * fine.projectedNorm[k]);
   });
 
   it('marginal statistic = ln mean_k exp(S_k z_k − S_k²/2) (by hand on a two-template bank); max statistic = max_k z_k', () => {
