@@ -96,6 +96,15 @@ export function channelsFor(transits: number): DetectionChannel[] {
   return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
 }
 
+/**
+ * Weights of the combined rule's p-values (timing/detection.ts): the template channel is the
+ * likelihood ratio of the whole light curve for the cell's moon (most powerful on average over its
+ * phase for white noise: templateSearch.ts), so it carries most of α; the summary channels keep a
+ * small share each, a guard against what the templates leave out (red noise, model mismatch).
+ * A choice of this program, normalised over the channels that exist.
+ */
+export const COMBINED_WEIGHTS = { template: 0.85, ttv: 0.05, tdv: 0.05, dip: 0.05 } as const;
+
 /** Grid cells parse a moon that touches its planet as a physical label, not an input error (parseScenario). */
 export const CELL_PARSE: ParseOptions = { moonContact: 'label' };
 
@@ -259,7 +268,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   // Every threshold is the order statistic of all n no-moon values; it rests on (n + 1)·α expected
   // exceedances, fewer than NULL_EXCEEDANCES is flagged.
   const limited = (nNull + 1) * alpha < NULL_EXCEEDANCES - 1e-9;
-  const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha);
+  const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha, COMBINED_WEIGHTS);
   const rho = new Float64Array(layout.bins);
 
   const counts: Record<DetectionChannel | 'combined', number> = { ttv: 0, tdv: 0, dip: 0, template: 0, combined: 0 };

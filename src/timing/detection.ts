@@ -11,16 +11,18 @@
  * - Per channel: detected when the statistic is strictly above that
  *   channel's threshold, the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of
  *   all n no-moon statistics (falseAlarmCalibration.ts).
- * - Combined: the minimum of the channels' empirical p-values, calibrated
- *   directly on the same no-moon set (a Monte Carlo test of the min-p
- *   statistic: Westfall & Young 1993, Resampling-Based Multiple Testing,
- *   §2.6 "minP"; the rank argument of Monte Carlo tests, Davison & Hinkley
- *   1997, Bootstrap Methods and their Application, ch. 4). Per channel c the
- *   score u_c is the fraction of no-moon statistics strictly below the
- *   realization's (for a no-moon realization itself: of the other n − 1, so
- *   that it is scored as a new realization would be); u_c = 1 − p_c, so
- *   M = max_c u_c is the min-p statistic, with ties among equal maxima broken
- *   by 1e-9·mean_c u_c (a secondary statistic; the order stays a valid test
+ * - Combined: the minimum of the channels' (weighted) empirical p-values,
+ *   calibrated directly on the same no-moon set (a Monte Carlo test of the
+ *   min-p statistic: Westfall & Young 1993, Resampling-Based Multiple
+ *   Testing, §2.6 "minP"; the rank argument of Monte Carlo tests, Davison &
+ *   Hinkley 1997, Bootstrap Methods and their Application, ch. 4, eq. 4.11
+ *   for p̂). Per channel c, with N the no-moon statistics it is compared to
+ *   (n; for a no-moon realization itself the other n − 1, so that it is
+ *   scored as a new realization would be) and B_c those strictly below it,
+ *   p̂_c = (N − B_c + 1)/(N + 1); the statistic is M = max_c w_c/p̂_c, i.e.
+ *   min_c p̂_c/w_c (weighted p-values: Genovese, Roeder & Wasserman 2006,
+ *   Biometrika 93, 509; equal weights by default), ties broken by
+ *   1e-9·Σ_c w_c B_c/N (a secondary statistic; the order stays a valid test
  *   statistic). The threshold is the order statistic x_(k) of the n no-moon
  *   M, so the combined false-alarm rate is α (up to the discreteness of k)
  *   whatever the correlation between channels; it replaces the Bonferroni
@@ -52,6 +54,8 @@ export interface DetectionThresholds {
     sorted: Partial<Record<DetectionChannel, Float64Array>>;
     /** Threshold on M (see the file comment). */
     threshold: number;
+    /** Channel weights, summing to 1 over the used channels. */
+    weights: ChannelWeights;
   };
 }
 
@@ -65,23 +69,26 @@ export interface DetectionDecision {
 
 const TIE_BREAK = 1e-9;
 
-/** M of statistics against sorted null sets: max_c u_c + 1e-9·mean_c u_c, u_c = #{null < v}/denominator. */
-function minPScore(stats: DetectionStatistics, sorted: Partial<Record<DetectionChannel, Float64Array>>, leaveOneOut: boolean): number {
+/** Channel weights of the combined rule (relative; normalised to sum 1 over the channels used). */
+export type ChannelWeights = Partial<Record<DetectionChannel, number>>;
+
+/** M of statistics against sorted null sets (see the file comment); weights sum to 1 over the used channels. */
+function minPScore(stats: DetectionStatistics, sorted: Partial<Record<DetectionChannel, Float64Array>>, weights: ChannelWeights, leaveOneOut: boolean): number {
   let max = 0;
   let sum = 0;
-  let m = 0;
   for (const ch of DETECTION_CHANNELS) {
     const s = sorted[ch];
     if (s === undefined) continue;
-    m++;
+    const w = weights[ch] ?? 0;
     const v = stats[ch];
     const n = s.length;
-    const den = leaveOneOut ? n - 1 : n;
-    const u = Number.isNaN(v) || den <= 0 ? 0 : lowerBound(s, 0, n, v) / den;
-    if (u > max) max = u;
-    sum += u;
+    const N = leaveOneOut ? n - 1 : n;
+    const below = Number.isNaN(v) ? 0 : Math.min(N, lowerBound(s, 0, n, v));
+    const score = (w * (N + 1)) / (N - below + 1);
+    if (score > max) max = score;
+    sum += (w * below) / Math.max(1, N);
   }
-  return m === 0 ? 0 : max + (TIE_BREAK * sum) / m;
+  return max + TIE_BREAK * sum;
 }
 
 /** Decide detection per channel and combined (see the file comment). Pure; never throws on NaN. */
@@ -93,7 +100,7 @@ export function decideDetection(stats: DetectionStatistics, thresholds: Detectio
     tdv: over(stats.tdv, thresholds.single.tdv),
     dip: over(stats.dip, thresholds.single.dip),
     template: over(stats.template, thresholds.single.template),
-    combined: minPScore(stats, thresholds.combined.sorted, false) > thresholds.combined.threshold,
+    combined: minPScore(stats, thresholds.combined.sorted, thresholds.combined.weights, false) > thresholds.combined.threshold,
   };
 }
 
@@ -126,7 +133,7 @@ export interface DetectionCalibration {
  * threshold is +∞ and nothing is detected).
  * @throws RangeError if no channel is given, arrays differ in length, or calibrateThreshold throws.
  */
-export function calibrateDetection(nullStats: NullStatistics, alpha: number): DetectionCalibration {
+export function calibrateDetection(nullStats: NullStatistics, alpha: number, weights: ChannelWeights = {}): DetectionCalibration {
   const channels = DETECTION_CHANNELS.filter((ch) => nullStats[ch] !== undefined);
   if (channels.length === 0) throw new RangeError('nullStats must hold at least one channel (ttv, tdv, dip or template)');
   const n = nullStats[channels[0]]!.length;
@@ -135,7 +142,17 @@ export function calibrateDetection(nullStats: NullStatistics, alpha: number): De
     if (len !== n) throw new RangeError(`nullStats.${ch} must have length ${n} like nullStats.${channels[0]}, got ${len}`);
   }
   const single: DetectionCalibration['single'] = {};
-  const thresholds: DetectionThresholds = { single: {}, combined: { sorted: {}, threshold: Infinity } };
+  // Weights: given ones (≥ 0, missing = 1), normalised over the used channels.
+  let wSum = 0;
+  for (const ch of channels) {
+    const w = weights[ch] ?? 1;
+    if (!(w >= 0) || !Number.isFinite(w)) throw new RangeError(`weights.${ch} must be a finite number ≥ 0, got ${w}`);
+    wSum += w;
+  }
+  if (!(wSum > 0)) throw new RangeError('weights must not all be 0 over the channels used');
+  const norm: ChannelWeights = {};
+  for (const ch of channels) norm[ch] = (weights[ch] ?? 1) / wSum;
+  const thresholds: DetectionThresholds = { single: {}, combined: { sorted: {}, threshold: Infinity, weights: norm } };
   for (const ch of channels) {
     single[ch] = calibrateThreshold(nullStats[ch]!, alpha, { method: 'orderStatistic', holdOut: false });
     thresholds.single[ch] = single[ch]!.threshold;
@@ -146,7 +163,7 @@ export function calibrateDetection(nullStats: NullStatistics, alpha: number): De
   const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
   for (let i = 0; i < n; i++) {
     for (const ch of channels) row[ch] = nullStats[ch]![i];
-    scores[i] = minPScore(row, thresholds.combined.sorted, true);
+    scores[i] = minPScore(row, thresholds.combined.sorted, norm, true);
   }
   const sortedScores = Float64Array.from(scores).sort();
   thresholds.combined.threshold = orderStatisticThresholdSorted(sortedScores, alpha);

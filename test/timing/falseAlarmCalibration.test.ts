@@ -146,15 +146,16 @@ describe('calibrateThreshold', () => {
 
 describe('decideDetection / calibrateDetection (min-p combined rule)', () => {
   const sorted = { ttv: Float64Array.from([0, 1, 2, 3]), dip: Float64Array.from([0, 1, 2, 3]) };
-  const thresholds = { single: { ttv: 10, tdv: 5, dip: 3, template: 2 }, combined: { sorted, threshold: 0.6 } };
+  // Equal weights 1/2: M = max_c (1/2)·(N + 1)/(N − B_c + 1) + 1e-9·Σ_c B_c/(2N), N = 4.
+  const thresholds = { single: { ttv: 10, tdv: 5, dip: 3, template: 2 }, combined: { sorted, threshold: 1.1, weights: { ttv: 0.5, dip: 0.5 } } };
   const none = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN };
 
   it('per channel: strictly above the α threshold; combined: max over channels of the fraction of no-moon values below (constructed cases, by hand)', () => {
-    // ttv 11 > 10; combined u_ttv = 4/4 = 1 > 0.6
+    // ttv 11 > 10; combined B = 4: 0.5·5/1 = 2.5 > 1.1
     expect(decideDetection({ ...none, ttv: 11, tdv: 1, dip: 0 }, thresholds)).toEqual({ ttv: true, tdv: false, dip: false, template: false, combined: true });
-    // ttv 2.5: u = 3/4 > 0.6 combined; no single
+    // ttv 2.5: B = 3: 0.5·5/2 = 1.25 > 1.1 combined; no single
     expect(decideDetection({ ...none, ttv: 2.5, dip: 0 }, thresholds).combined).toBe(true);
-    // ttv 1.5, dip 1.5: u = 2/4 = 0.5 (+ 1e-9·0.5) < 0.6
+    // ttv 1.5, dip 1.5: B = 2: 0.5·5/3 = 0.83 < 1.1
     expect(decideDetection({ ...none, ttv: 1.5, dip: 1.5 }, thresholds).combined).toBe(false);
     // NaN scores 0; equal to the threshold is not above it
     expect(decideDetection({ ...none, template: 2 }, thresholds)).toEqual({ ttv: false, tdv: false, dip: false, template: false, combined: false });
@@ -213,6 +214,13 @@ describe('decideDetection / calibrateDetection (min-p combined rule)', () => {
     expect(single / m).toBeGreaterThan(0.73);
     expect(combined / m).toBeGreaterThan(0.58);
     expect(combined / m).toBeLessThan(single / m);
+    // Weighted p-values (Genovese et al. 2006), weight 0.9 on the channel with the signal: it acts at ≈ 0.9·α,
+    // Φ(3 − z(1 − 0.009)) = Φ(3 − 2.366) = 0.737 (scipy.stats.norm), just below the single channel's 0.750.
+    const weighted = calibrateDetection({ ttv: nul[0], tdv: nul[1], template: nul[2] }, 0.01, { template: 0.9, ttv: 0.05, tdv: 0.05 });
+    let w = 0;
+    for (let i = 0; i < m; i++) if (decideDetection({ ttv: sig[0][i], tdv: sig[1][i], dip: NaN, template: sig[2][i] + 3 }, weighted.thresholds).combined) w++;
+    expect(w / m).toBeGreaterThan(0.71);
+    expect(w / m).toBeLessThanOrEqual(single / m + 0.01);
   });
 
   it('rejects no channels and misaligned arrays', () => {
