@@ -23,7 +23,7 @@ import { createRng } from '../noise/rng.js';
 import { RealizationWorkspace, runRealization } from '../timing/realization.js';
 import type { ResidualStack } from '../timing/residualStack.js';
 import { chiSquareSurvival } from '../numeric/noncentralChiSquare.js';
-import { templateLayout, templateResiduals, type TemplateLayout } from '../timing/templateSearch.js';
+import { ResidualScratch, templateLayout, templateResiduals, type TemplateLayout } from '../timing/templateSearch.js';
 import type { Observation } from '../noise/observe.js';
 import type { TimingRecovery } from '../timing/timingSeries.js';
 import { canonicalJson } from './canonicalJson.js';
@@ -59,8 +59,8 @@ export function nullTemplateLayout(c: NullClass): TemplateLayout {
 }
 
 /** ρ of one realization on layout L (templateSearch.ts), written at `out`. */
-export function realizationRho(L: TemplateLayout, observation: Observation, recovery: TimingRecovery, out?: Float64Array): Float64Array {
-  return templateResiduals(L, observation.timeS, observation.epoch, observation.flux, observation.sigma, recovery.global, out);
+export function realizationRho(L: TemplateLayout, observation: Observation, recovery: TimingRecovery, out?: Float64Array, scratch?: ResidualScratch): Float64Array {
+  return templateResiduals(L, observation.timeS, observation.epoch, observation.flux, observation.sigma, recovery.global, out, scratch);
 }
 
 /** What identifies (and suffices to compute) a null set. */
@@ -121,13 +121,14 @@ export function computeNullRange(c: NullClass, start: number, n: number, ws: Rea
   const stacks: ResidualStack[] = [];
   const L = nullTemplateLayout(c);
   const rho = new Float64Array(n * L.bins);
+  const scratch = new ResidualScratch();
   for (let k = 0; k < n; k++) {
     const rng = createRng((c.seed ^ NULL_SEED_SALT) >>> 0, c.id, start + k);
     const { record, observation, recovery } = runRealization(c.scenario, rng, { withMoon: false, workspace: ws });
     ttv[k] = chiSquareScore(record.ttvChi2, record.ttvDof);
     tdv[k] = chiSquareScore(record.tdvChi2, record.tdvDof);
     stacks.push(record.stack);
-    realizationRho(L, observation, recovery, rho.subarray(k * L.bins, (k + 1) * L.bins));
+    realizationRho(L, observation, recovery, rho.subarray(k * L.bins, (k + 1) * L.bins), scratch);
   }
   return packRange(start, ttv, tdv, stacks, rho, L.bins);
 }

@@ -55,7 +55,7 @@ import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
 import {
-  buildTemplateBank, freedomBasis, templateStatistic, templateStatistics, type FreedomBasis, type TemplateBank, type TemplateLayout,
+  buildTemplateBank, freedomBasis, ResidualScratch, templateStatistic, templateStatistics, type FreedomBasis, type TemplateBank, type TemplateLayout,
 } from '../timing/templateSearch.js';
 import { assertObservable, observationSizeProblems, scenarioDurations } from '../photometry/transitWindows.js';
 import type { FieldProblem } from '../scenario/errors.js';
@@ -270,6 +270,8 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   const limited = (nNull + 1) * alpha < NULL_EXCEEDANCES - 1e-9;
   const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha, COMBINED_WEIGHTS);
   const rho = new Float64Array(layout.bins);
+  const rhoScratch = new ResidualScratch();
+  const z = new Float64Array(bank.templates);
 
   const counts: Record<DetectionChannel | 'combined', number> = { ttv: 0, tdv: 0, dip: 0, template: 0, combined: 0 };
   const ttvRms: number[] = [];
@@ -288,7 +290,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
         ttv: chiSquareScore(record.ttvChi2, record.ttvDof),
         tdv: chiSquareScore(record.tdvChi2, record.tdvDof),
         dip: Number.isFinite(dip.snr) ? dip.snr : 0,
-        template: templateStatistic(bank, realizationRho(layout, observation, recovery, rho)),
+        template: templateStatistic(bank, realizationRho(layout, observation, recovery, rho, rhoScratch), 0, z),
       },
       calibration.thresholds,
     );
