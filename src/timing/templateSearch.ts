@@ -242,9 +242,16 @@ export interface TemplateBankOptions {
 export const PHASE_STEP_PER_CHORD = 0.2;
 
 /**
+ * Most phases in a bank: the cost (bank build and the pass over the no-moon residuals) grows with
+ * them, and wide orbits, whose dip needs the most, are detected by their timing, which varies smoothly
+ * with the phase. Chosen for the 2-minute sweep budget (bench/efficiency.ts measures the efficiency).
+ */
+export const MAX_PHASES = 32;
+
+/**
  * Phases needed so the moon's dip moves by at most PHASE_STEP_PER_CHORD of the stellar chord between
  * neighbouring templates: N_φ = ⌈2π·a/(0.2·2L)⌉ (a the separation, L = sqrt(1 − b²) the half chord,
- * stellar radii; the dip's overlap with a shifted copy drops linearly with the shift), 12 ≤ N_φ ≤ 48.
+ * stellar radii; the dip's overlap with a shifted copy drops linearly with the shift), 12 ≤ N_φ ≤ MAX_PHASES.
  * A choice of this program (derived here), not a published rule; measured against twice as many
  * phases in bench/efficiency.ts.
  */
@@ -253,7 +260,7 @@ export function defaultPhaseCount(s: Scenario): number {
   const a = s.moon.separationM / s.star.radiusM;
   const b = Math.min(Math.abs(s.planet.impactParameter), 0.95);
   const L = Math.sqrt(1 - b * b);
-  return Math.max(12, Math.min(48, Math.ceil((2 * Math.PI * a) / (PHASE_STEP_PER_CHORD * 2 * L))));
+  return Math.max(12, Math.min(MAX_PHASES, Math.ceil((2 * Math.PI * a) / (PHASE_STEP_PER_CHORD * 2 * L))));
 }
 
 /**
