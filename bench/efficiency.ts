@@ -56,7 +56,7 @@ function mass50(masses: number[], p: number[]): number {
 }
 
 export function benchEfficiency(realizations = 100): BenchMedian[] {
-  const probe = parseScenario(systemDoc(0.1, 0.3, 1), 'efficiency');
+  const probe = parseScenario(systemDoc(0.1, 1, 20), 'efficiency');
   const hillRp = hillRadius(probe.planet.semiMajorAxisM, probe.planet.massKg, probe.star.massKg) / probe.planet.radiusM;
   const grids: Record<string, number[]> = {
     '0.15': [0.15, 0.22, 0.3, 0.4, 0.5, 0.65, 0.8, 1.0],
@@ -92,7 +92,7 @@ export function benchEfficiency(realizations = 100): BenchMedian[] {
     });
     rows.push({ label: `stand-in bound at ${sepText} Hill (masses ${masses.join(', ')} M⊕): ${bound.map((x) => x.toFixed(2)).join(' ')}`, median: mb, unit: 'M⊕', repeats: 1, summary: '50 % mass' });
     rows.push(row('template channel', tpl));
-    rows.push(row('combined (min-p) rule', comb));
+    rows.push(row('combined (weighted min-p) rule', comb));
   }
   rows.push({ label: `cells whose stand-in bound exceeds 0.99, and of them detected (combined) below 0.9: ${strongLow} of ${strong}`, median: strongLow, unit: 'cells', repeats: 1 });
   rows.push({ label: `false-alarm rate in force at α = 1 %, mean [95 % Beta interval]: ${inForce}`, median: 0.01, unit: 'α', repeats: 1, summary: 'requested' });
