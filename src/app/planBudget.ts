@@ -33,6 +33,8 @@ import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
 } from '../budget/budgetTypes.js';
 import { minTransitsFor, resolveBudgetTarget } from '../budget/budgetSpec.js';
+import { defaultNullRealizations, NULL_EXCEEDANCES } from '../sweep/nullSet.js';
+import { rateInForce } from '../timing/falseAlarmCalibration.js';
 import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlong, type ValuePrecision } from '../budget/budgetForecast.js';
 import { habitablePopulation, spreadEvenly } from '../budget/habitableTargets.js';
 import { evaluateMoon, evaluatePopulation, type MonteCarloSettings } from '../budget/monteCarloPoint.js';
@@ -41,8 +43,6 @@ import { formatQuantity, quantityScenario, pct, solvedQuantity, type SolvedQuant
 import { isStable, PHOTOCENTRIC_LIMIT, targetMoonInfo, withTargetMoon } from '../budget/targetMoon.js';
 import { budgetObservability, siteNote, wholeToSky } from '../budget/nightsBudget.js';
 
-/** Channels the Monte Carlo's combined rule splits α over (Bonferroni; src/timing/detection.ts). */
-const COMBINED_CHANNELS = 3;
 /** Forecast search limit when extrapolating beyond --max-transits. */
 const FORECAST_TRANSITS_LIMIT = 10000;
 
@@ -83,7 +83,7 @@ function withoutSkyBlocks(doc: Record<string, unknown>): Record<string, unknown>
 }
 
 interface Context {
-  t: ResolvedBudgetTarget;
+  t: ResolvedBudgetTarget & { nullRealizations: number };
   base: Scenario;
   q: SolvedQuantity;
   mc: MonteCarloSettings;
@@ -110,13 +110,14 @@ export function planBudget(scenario: Scenario | string, target: BudgetTarget = {
 }
 
 function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanBudgetOptions, t0: number): BudgetResult {
-  const t = resolveBudgetTarget(doc, target, source);
+  const spec = resolveBudgetTarget(doc, target, source);
   const withSky = parseScenario(withoutBlocks(doc), source);
   // The Monte Carlo and the forecast simulate consecutive whole transits (with a campaign the sweep would
   // observe only the calendar's epochs instead: noise/observingPlan.ts); the calendar then turns the count
   // they need into epochs, nights and calendar time (budget/nightsBudget.ts).
   const clean = withoutSkyBlocks(withoutBlocks(doc));
   const base = withSky.sky ? parseScenario(clean, source) : withSky;
+  const t = { ...spec, nullRealizations: spec.nullRealizations ?? defaultNullRealizations(base.detection.falseAlarm, spec.realizations) };
   assertObservable(base, source);
   const q = solvedQuantity(t.solve, clean, base, t.maxTransits, t.channel);
   if (q.solve === 'transits') {
@@ -235,7 +236,7 @@ function planSingle(ctx: Context, clean: Record<string, unknown>, source: string
   if (!moon.forecast_regime_ok) {
     why.push(`the moon's own dip is large for its mass ((R_S/R_P)²/(M_S/M_P) = ${moon.photocentric_ratio.toPrecision(2)} ≥ ${PHOTOCENTRIC_LIMIT}): its photocentric TTV (Szabó et al. 2006) partly cancels the barycentric TTV the forecast assumes, so the forecast is only a first guess`);
   }
-  if (t.channel === 'combined') why.push('for the combined channel the forecast is the joint TTV + TDV χ² test; the Monte Carlo combined rule is the Bonferroni union of the TTV, TDV and moon-dip tests');
+  if (t.channel === 'combined') why.push('for the combined channel the forecast is the joint TTV + TDV χ² test; the Monte Carlo combined rule is the min-p rule over the TTV, TDV, moon-dip and template tests, calibrated at α on the no-moon realizations');
   why.push(...observationCaveats(ctx));
   const forecast: BudgetForecastCurve = { probability: fc, applies: t.channel !== 'dip' && moon.forecast_regime_ok && observationCaveats(ctx).length === 0, index: fcIndex, why, seconds: (performance.now() - tf) / 1000 };
   const part = { targetMoon: moon, habitable: null, forecast };
@@ -484,29 +485,22 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
 }
 
 /**
- * What the finite no-moon calibration means for the thresholds. The
- * threshold is the type-7 sample quantile at 1 − α_ch of n_cal no-moon
- * statistics, i.e. (interpolated) order statistic h = (n_cal − 1)(1 − α_ch) + 1;
- * the k-th of n iid continuous values is exceeded with probability
- * (n + 1 − k)/(n + 1) on average (David & Nagaraja 2003, Order Statistics,
- * 3rd ed., §2.5: F(X_(k)) ~ Beta(k, n + 1 − k)), so the expected false-alarm
- * rate per channel is about (1 + (n_cal − 1) α_ch)/(n_cal + 1): above α_ch by
- * about 1/(n_cal + 1).
+ * The note on the false-alarm calibration: every threshold (each channel at α, and the combined
+ * min-p rule at α: timing/detection.ts) is the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of all n
+ * no-moon realizations of the evaluated value, whose exceedance probability is Beta(n + 1 − k, k)
+ * (David & Nagaraja 2003, Order Statistics, 3rd ed., §2.2): its mean and 95 % interval are stated,
+ * and a count below 25/α (fewer than 25 expected exceedances) is flagged with the count that fixes it.
  */
 function nullCountNotes(ctx: Context, evaluations: BudgetEvaluation[]): string[] {
   const alpha = ctx.base.detection.falseAlarm;
-  const nCal = Math.ceil(ctx.t.nullRealizations / 2);
-  const combined = ctx.t.channel === 'combined';
-  const perChannel = combined ? alpha / COMBINED_CHANNELS : alpha;
-  const effective = (1 + (nCal - 1) * perChannel) / (nCal + 1);
-  const effectiveTest = combined ? Math.min(1, COMBINED_CHANNELS * effective) : effective;
+  const n = ctx.t.nullRealizations;
+  const r = rateInForce(n, alpha);
   const measured = evaluations.map((e) => e.falseAlarmMeasured).filter((x): x is number => x !== null && Number.isFinite(x));
-  const mText = measured.length > 0 ? `; the combined rule's false-alarm rate measured on the held-out half: ${Math.min(...measured).toFixed(3)}–${Math.max(...measured).toFixed(3)}` : '';
-  const suggest = Math.ceil(20 / perChannel);
-  const text = `false-alarm thresholds come from ${ctx.t.nullRealizations} no-moon realizations per value (${nCal} calibrate, the rest check), at ${perChannel.toPrecision(2)} per ${combined ? 'channel (α/3, Bonferroni)' : 'test'}: ${(perChannel * nCal).toPrecision(2)} expected exceedances. ` +
-    `Order statistics put the expected false-alarm rate at about ${effective.toPrecision(2)} per ${combined ? 'channel' : 'test'}${combined ? ` (≤ ${effectiveTest.toPrecision(2)} combined)` : ''} rather than the requested ${perChannel.toPrecision(2)}${combined ? ` (${alpha} combined)` : ''}`;
-  if (effective > 1.25 * perChannel) {
-    return [`${text}, so the detection probabilities, and the budget, are optimistic; --no-moon-realizations ${suggest} brings it within ~10 % of the request, at a proportional cost${mText}`];
+  const mText = measured.length > 0 ? `; the combined rule fires on ${Math.min(...measured).toFixed(3)}–${Math.max(...measured).toFixed(3)} of them (each scored against the others)` : '';
+  const text = `false-alarm thresholds come from all ${n} no-moon realizations per value (${ctx.t.channel === 'combined' ? 'each channel and the combined min-p rule' : 'the test'} at α = ${alpha}): ` +
+    `the rate in force is ${r.mean.toPrecision(2)} on average, 95 % between ${r.lower.toPrecision(2)} and ${r.upper.toPrecision(2)} (Beta distribution of the order statistic), resting on ${r.exceedances} expected exceedances`;
+  if (r.exceedances < NULL_EXCEEDANCES) {
+    return [`${text}: fewer than ${NULL_EXCEEDANCES}, so the rate a value is judged at may be well off α; --no-moon-realizations ${Math.ceil(NULL_EXCEEDANCES / alpha)} fixes it, at a proportional cost${mText}`];
   }
   return [`${text}${mText}`];
 }

@@ -30,14 +30,12 @@ export const DEFAULT_BUDGET_REALIZATIONS = 100;
 /** Moon realizations per target moon in habitable mode (many moons per evaluation). */
 export const DEFAULT_HABITABLE_REALIZATIONS = 40;
 /**
- * No-moon realizations per evaluated value. Half calibrate the thresholds and
- * half measure the false-alarm rate (src/timing/detection.ts). With 200
- * calibration values the expected false-alarm rate exceeds the requested one
- * by about 1/201 per channel (order statistics; see nullCountNotes in
- * planBudget.ts); the answer states the expected and the measured rate, and
- * --no-moon-realizations buys a sharper one at a proportional cost.
+ * No-moon realizations per evaluated value: null here means the sweep's default,
+ * ⌈25/α⌉ (and at least R and 200; sweep/nullSet.ts), resolved by planBudget once
+ * α is known, so every threshold rests on ~25 expected exceedances and its rate
+ * in force is within ±40 % (95 %) of α; all of them calibrate (timing/detection.ts).
  */
-export const DEFAULT_BUDGET_NULL_REALIZATIONS = 400;
+export const DEFAULT_BUDGET_NULL_REALIZATIONS = null;
 export const DEFAULT_MAX_TRANSITS = 50;
 /** The TTV excess against a linear ephemeris needs at least 3 transits (N − 2 degrees of freedom). */
 export const MIN_BUDGET_TRANSITS = 3;
@@ -268,7 +266,7 @@ export function resolveBudgetTarget(doc: unknown, target: BudgetTarget = {}, sou
   // `null_realizations` is the old name of `no_moon_realizations`, accepted for one release (planBudget notes it).
   b.raw('null_realizations');
   const nullKey = !b.has('no_moon_realizations') && b.has('null_realizations') ? 'null_realizations' : 'no_moon_realizations';
-  const nullRealizations = pick('nullRealizations', nullKey, (v) => isInt(v, 4, 1_000_000), NULL_TEXT, (s) => readInt(s, 4, 1_000_000, NULL_TEXT), DEFAULT_BUDGET_NULL_REALIZATIONS);
+  const nullRealizations = pick('nullRealizations', nullKey, (v) => isInt(v, 4, 1_000_000), NULL_TEXT, (s) => readInt(s, 4, 1_000_000, NULL_TEXT) as number | null, DEFAULT_BUDGET_NULL_REALIZATIONS as number | null);
   const maxTransits = pick('maxTransits', 'max_transits', (v) => isInt(v, 1, MAX_BUDGET_TRANSITS), MAX_TRANSITS_TEXT, (s) => readInt(s, 1, MAX_BUDGET_TRANSITS, MAX_TRANSITS_TEXT), DEFAULT_MAX_TRANSITS);
   const forecastOnly = pick('forecastOnly', 'forecast_only', (v) => typeof v === 'boolean', 'expected true or false', (s) => readBool(s) ?? false, false);
 

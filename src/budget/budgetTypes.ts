@@ -72,7 +72,8 @@ export interface ResolvedBudgetTarget {
   solve: BudgetSolve;
   channel: BudgetChannel;
   realizations: number;
-  nullRealizations: number;
+  /** null: the default ⌈25/α⌉ (at least R and 200), resolved once α is known (planBudget). */
+  nullRealizations: number | null;
   maxTransits: number;
   forecastOnly: boolean;
   habitable: HabitableTarget | null;
@@ -94,7 +95,7 @@ export interface BudgetEvaluation {
   passed: boolean;
   /** Probabilities of every channel (single moon only). */
   channels: Record<string, number> | null;
-  /** Measured false-alarm rate of the combined rule on the held-out no-moon realizations. */
+  /** Fraction of the no-moon realizations (each scored against the others) on which the combined rule fires. */
   falseAlarmMeasured: number | null;
   realizations: number;
   nullRealizations: number;

@@ -29,7 +29,7 @@ type ChannelProbabilities<C extends string> = {
  * checkpoint and output alike): every number may be null. The fields after
  * `skipped_reason` are present only in a simulated cell (`simulated: true`).
  */
-export interface CellResult extends Partial<ChannelProbabilities<'ttv' | 'tdv' | 'dip' | 'combined'>> {
+export interface CellResult extends Partial<ChannelProbabilities<'ttv' | 'tdv' | 'dip' | 'template' | 'combined'>> {
   /** Row-major cell index over the sweep axes. */
   index: number;
   /** The cell's value on each axis, SI. */
@@ -84,7 +84,7 @@ export interface CellResult extends Partial<ChannelProbabilities<'ttv' | 'tdv' |
   realizations?: number;
   /** No-moon realizations that calibrated the thresholds. */
   no_moon_realizations?: number;
-  /** The channels combined by the Bonferroni rule, space-separated ("ttv tdv dip"). */
+  /** The channels combined by the weighted min-p rule, space-separated ("ttv tdv dip template"). */
   channels_used?: string;
   /** Realizations in which every transit was lost (gaps, missed transits). */
   no_transit_observed?: number;
@@ -100,10 +100,22 @@ export interface CellResult extends Partial<ChannelProbabilities<'ttv' | 'tdv' |
   median_transits_fitted?: number | null;
   /** The requested false-alarm probability per channel. */
   false_alarm?: number;
-  /** Whether too few no-moon realizations forced the interpolated quantile instead of the order-statistic bound. */
+  /** Whether the no-moon set gives fewer than 25 expected exceedances at α ((n + 1)·α < 25, nullSet.ts). */
   calibration_limited?: boolean;
-  /** False-alarm rate of the combined rule measured on the held-out no-moon realizations. */
+  /** Fraction of the no-moon realizations the combined rule flags (in-sample: they set its threshold). */
   false_alarm_measured_combined?: number | null;
+  /** Mean of the combined rule's false-alarm rate in force: Beta(n + 1 − k, k) over the calibration draw (David & Nagaraja 2003). */
+  false_alarm_in_force?: number | null;
+  /** 2.5 % point of that Beta distribution. */
+  false_alarm_in_force_lo?: number | null;
+  /** 97.5 % point of that Beta distribution. */
+  false_alarm_in_force_hi?: number | null;
+  /** Templates in the cell's photodynamical bank (phases × orientations). */
+  template_bank_size?: number;
+  /** Calibrated threshold of the template statistic (phase-marginalised likelihood ratio). */
+  threshold_template?: number | null;
+  /** Fraction of no-moon realizations the template channel alone flags. */
+  false_alarm_measured_template?: number | null;
   /** Calibrated threshold of the TTV statistic (−log10 p), null when the channel does not exist. */
   threshold_ttv?: number | null;
   /** Calibrated threshold of the TDV statistic (−log10 p), null when the channel does not exist. */

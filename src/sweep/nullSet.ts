@@ -23,14 +23,24 @@ import { createRng } from '../noise/rng.js';
 import { RealizationWorkspace, runRealization } from '../timing/realization.js';
 import type { ResidualStack } from '../timing/residualStack.js';
 import { chiSquareSurvival } from '../numeric/noncentralChiSquare.js';
+import { ResidualScratch, templateLayout, templateResiduals, type TemplateLayout } from '../timing/templateSearch.js';
+import type { Observation } from '../noise/observe.js';
+import type { TimingRecovery } from '../timing/timingSeries.js';
 import { canonicalJson } from './canonicalJson.js';
 
 /** A seed distinct from the moon realizations' seed for the same scenario seed. */
 export const NULL_SEED_SALT = 0x6e756c6c; // "null"
 
-/** Default number of no-moon calibration realizations: enough for ~10 exceedances at α (and ≥ 200). */
+/** Expected no-moon exceedances a threshold at α should rest on (issue 17: ≥ ~25, so its rate in force is known to ±40 % at 95 %). */
+export const NULL_EXCEEDANCES = 25;
+
+/**
+ * Default number of no-moon calibration realizations: ⌈25/α⌉ (each threshold at α, single or
+ * combined, rests on ~25 expected exceedances: the Beta(25, n − 24) rate in force has a relative
+ * standard deviation of 1/√25 = 20 %), at least R and 200.
+ */
 export function defaultNullRealizations(falseAlarm: number, realizations: number): number {
-  return Math.max(realizations, 200, Math.ceil(10 / falseAlarm));
+  return Math.max(realizations, 200, Math.ceil(NULL_EXCEEDANCES / falseAlarm - 1e-9));
 }
 
 /** The calibration statistics of a null class, per realization, with its residual stacks. */
@@ -38,6 +48,19 @@ export interface NullSet {
   ttv: Float64Array;
   tdv: Float64Array;
   stacks: ResidualStack[];
+  /** Template channel: normalised binned residuals ρ of every realization (r at r·bins), and the layout's bins. */
+  rho: Float64Array;
+  rhoBins: number;
+}
+
+/** The template channel's bins of a null class (the moonless scenario's planned samples). */
+export function nullTemplateLayout(c: NullClass): TemplateLayout {
+  return templateLayout(c.scenario);
+}
+
+/** ρ of one realization on layout L (templateSearch.ts), written at `out`. */
+export function realizationRho(L: TemplateLayout, observation: Observation, recovery: TimingRecovery, out?: Float64Array, scratch?: ResidualScratch): Float64Array {
+  return templateResiduals(L, observation.timeS, observation.epoch, observation.flux, observation.sigma, recovery.global, out, scratch);
 }
 
 /** What identifies (and suffices to compute) a null set. */
@@ -68,6 +91,9 @@ export interface PackedNullRange {
   binOffset: Float64Array;
   sum: Float64Array;
   count: Float64Array;
+  /** ρ of realization k at [k·rhoBins, (k + 1)·rhoBins). */
+  rho: Float64Array;
+  rhoBins: number;
 }
 
 /** −log10 of a χ² survival probability (floored at 1e-300); 0 when not measured. */
@@ -93,17 +119,21 @@ export function computeNullRange(c: NullClass, start: number, n: number, ws: Rea
   const ttv = new Float64Array(n);
   const tdv = new Float64Array(n);
   const stacks: ResidualStack[] = [];
+  const L = nullTemplateLayout(c);
+  const rho = new Float64Array(n * L.bins);
+  const scratch = new ResidualScratch();
   for (let k = 0; k < n; k++) {
     const rng = createRng((c.seed ^ NULL_SEED_SALT) >>> 0, c.id, start + k);
-    const { record } = runRealization(c.scenario, rng, { withMoon: false, workspace: ws });
+    const { record, observation, recovery } = runRealization(c.scenario, rng, { withMoon: false, workspace: ws });
     ttv[k] = chiSquareScore(record.ttvChi2, record.ttvDof);
     tdv[k] = chiSquareScore(record.tdvChi2, record.tdvDof);
     stacks.push(record.stack);
+    realizationRho(L, observation, recovery, rho.subarray(k * L.bins, (k + 1) * L.bins), scratch);
   }
-  return packRange(start, ttv, tdv, stacks);
+  return packRange(start, ttv, tdv, stacks, rho, L.bins);
 }
 
-function packRange(start: number, ttv: Float64Array, tdv: Float64Array, stacks: readonly ResidualStack[]): PackedNullRange {
+function packRange(start: number, ttv: Float64Array, tdv: Float64Array, stacks: readonly ResidualStack[], rho: Float64Array, rhoBins: number): PackedNullRange {
   const n = stacks.length;
   const binOffset = new Float64Array(n + 1);
   for (let k = 0; k < n; k++) binOffset[k + 1] = binOffset[k] + stacks[k].sum.length;
@@ -111,7 +141,7 @@ function packRange(start: number, ttv: Float64Array, tdv: Float64Array, stacks: 
   const out: PackedNullRange = {
     start, n, ttv, tdv,
     x0S: new Float64Array(n), binS: new Float64Array(n), sigma: new Float64Array(n), binOffset,
-    sum: new Float64Array(bins), count: new Float64Array(bins),
+    sum: new Float64Array(bins), count: new Float64Array(bins), rho, rhoBins,
   };
   for (let k = 0; k < n; k++) {
     const st = stacks[k];
@@ -126,7 +156,7 @@ function packRange(start: number, ttv: Float64Array, tdv: Float64Array, stacks: 
 
 /** The buffers of a packed range, for a postMessage transfer list. */
 export function packedBuffers(p: PackedNullRange): ArrayBuffer[] {
-  const arrays = [p.ttv, p.tdv, p.x0S, p.binS, p.sigma, p.binOffset, p.sum, p.count];
+  const arrays = [p.ttv, p.tdv, p.x0S, p.binS, p.sigma, p.binOffset, p.sum, p.count, p.rho];
   const out: ArrayBuffer[] = [];
   for (const a of arrays) if (a.buffer instanceof ArrayBuffer && !out.includes(a.buffer)) out.push(a.buffer);
   return out;
@@ -147,11 +177,13 @@ export function joinNullRanges(ranges: readonly PackedNullRange[], total: number
     bins += r.binOffset[r.n];
   }
   if (next !== total) throw new RangeError(`null-set ranges cover ${next} realizations, expected ${total}`);
+  const rhoBins = sorted.length > 0 ? sorted[0].rhoBins : 0;
+  for (const r of sorted) if (r.rhoBins !== rhoBins) throw new RangeError(`null-set ranges disagree on the template bins: ${r.rhoBins} and ${rhoBins}`);
   const alloc = (len: number): Float64Array => (shared ? new Float64Array(new SharedArrayBuffer(len * 8)) : new Float64Array(len));
   const out: PackedNullRange = {
     start: 0, n: total,
     ttv: alloc(total), tdv: alloc(total), x0S: alloc(total), binS: alloc(total), sigma: alloc(total),
-    binOffset: alloc(total + 1), sum: alloc(bins), count: alloc(bins),
+    binOffset: alloc(total + 1), sum: alloc(bins), count: alloc(bins), rho: alloc(total * rhoBins), rhoBins,
   };
   let binAt = 0;
   for (const r of sorted) {
@@ -159,6 +191,7 @@ export function joinNullRanges(ranges: readonly PackedNullRange[], total: number
     for (let k = 0; k < r.n; k++) out.binOffset[r.start + k + 1] = binAt + r.binOffset[k + 1];
     out.sum.set(r.sum, binAt);
     out.count.set(r.count, binAt);
+    out.rho.set(r.rho, r.start * rhoBins);
     binAt += r.binOffset[r.n];
   }
   return out;
@@ -172,7 +205,7 @@ export function unpackNullSet(p: PackedNullRange): NullSet {
     const b = p.binOffset[k + 1];
     stacks.push({ x0S: p.x0S[k], binS: p.binS[k], sigma: p.sigma[k], sum: p.sum.subarray(a, b), count: p.count.subarray(a, b) });
   }
-  return { ttv: p.ttv, tdv: p.tdv, stacks };
+  return { ttv: p.ttv, tdv: p.tdv, stacks, rho: p.rho, rhoBins: p.rhoBins };
 }
 
 /** The whole null set of class `c`, computed here (the fallback when none was provided). */

@@ -19,24 +19,29 @@
  *   ttv: −log10 p of the TTV χ² against a linear ephemeris (N − 2 dof);
  *   tdv: −log10 p of the TDV χ² against a constant (N − 1 dof);
  *   dip: matched-filter SNR of the stacked moon dip (orbital sampling effect),
- *        for this cell's moon separation, outside the planet's own transit.
+ *        for this cell's moon separation, outside the planet's own transit;
+ *   template: the largest matched-filter SNR over a bank of exact
+ *        photodynamical planet+moon templates of this cell's moon (phases,
+ *        orientations), in the residuals of the global planet-only fit with its
+ *        freedoms projected out (timing/templateSearch.ts). Its bank is built
+ *        once per cell and applied to the stored no-moon residuals.
  * p-values are used instead of raw χ² so that realizations with a different
  * number of fitted transits (gaps) share one calibrated threshold.
  * With fewer than 3 planned transits the TTV channel does not exist (0 dof),
  * with 1 neither does TDV: their p_* are null, the combined rule is the
- * Bonferroni union of the channels that exist (`channels_used`, and why in
- * `channels_note`). A realization in which every transit was lost to missed
+ * min-p rule over the channels that exist (`channels_used`, and why in
+ * `channels_note`; timing/detection.ts). A realization in which every transit was lost to missed
  * transits or gaps measured nothing: it is a non-detection in every channel,
  * and the cell counts such realizations in `no_transit_observed`.
  *
- * Thresholds are the conservative order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉,
- * of the calibration half of the no-moon statistics, whose exceedance
- * probability under the null is at most α (a distribution-free bound; e.g.
- * David & Nagaraja 2003, Order Statistics, §7.2): an interpolated quantile
- * would let the false-alarm rate exceed the requested one when the null set
- * is small. The other half measures the false-alarm rate actually reached.
- * With too few no-moon realizations for that bound ((n + 1)·α/3 < 1) the
- * interpolated (type 7) quantile is used and the cell says `calibration_limited`.
+ * Thresholds are the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of all n
+ * no-moon statistics (no split half), and the combined rule's threshold the
+ * same order statistic of the no-moon min-p scores (timing/detection.ts). The
+ * exceedance probability in force is Beta(n + 1 − k, k) distributed (David &
+ * Nagaraja 2003, Order Statistics, §2.2): the cell reports its mean and 95 %
+ * interval (`false_alarm_in_force`, `_lo`, `_hi`). With fewer than 25 expected
+ * exceedances ((n + 1)·α < 25, nullSet.ts) the cell says `calibration_limited`;
+ * with (n + 1)·α < 1 no threshold exists and nothing is detected.
  */
 import { withCampaignEpochs } from '../noise/observingPlan.js';
 import type { Scenario } from '../scenario/types.js';
@@ -45,16 +50,20 @@ import { computeLimits, moonPlacement, type LimitsJson } from '../limits/compute
 import { missingChannelSummary } from '../physics/detectionForecast.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
 import { createRng } from '../noise/rng.js';
-import { RealizationWorkspace, runRealization, type RealizationRecord } from '../timing/realization.js';
+import { RealizationWorkspace, runRealization } from '../timing/realization.js';
 import { stackedDipSnr, type ResidualStack } from '../timing/residualStack.js';
 import { foldedMoonDip, oseQuadrature } from '../timing/moonDipStack.js';
 import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionCalibration, type DetectionChannel } from '../timing/detection.js';
 import { wilsonInterval } from '../timing/falseAlarmCalibration.js';
+import {
+  buildTemplateBank, freedomBasis, ResidualScratch, templateStatistic, templateStatistics, type FreedomBasis, type TemplateBank, type TemplateLayout,
+} from '../timing/templateSearch.js';
 import { assertObservable, observationSizeProblems, scenarioDurations } from '../photometry/transitWindows.js';
 import type { FieldProblem } from '../scenario/errors.js';
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import {
   chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
+  nullTemplateLayout, realizationRho, NULL_EXCEEDANCES,
   type NullClass, type NullSet, type PackedNullRange,
 } from './nullSet.js';
 import { medianOfFinite } from '../numeric/quantiles.js';
@@ -66,12 +75,37 @@ export { defaultNullRealizations };
 const nullCache = new Map<string, NullSet>();
 
 /**
+ * Per-worker cache of each null class's template layout and planet-only freedoms (the same for every
+ * cell of the class: computed once, a result of pure functions, so it cannot change a result).
+ */
+const layoutCache = new Map<string, { layout: TemplateLayout; basis: FreedomBasis }>();
+
+function templateSetup(c: NullClass): { layout: TemplateLayout; basis: FreedomBasis } {
+  const hit = layoutCache.get(c.key);
+  if (hit) return hit;
+  const layout = nullTemplateLayout(c);
+  const entry = { layout, basis: freedomBasis(c.scenario, layout) };
+  if (layoutCache.size > 8) layoutCache.clear();
+  layoutCache.set(c.key, entry);
+  return entry;
+}
+
+/**
  * The detection channels N planned transits allow: TTV needs N ≥ 3 (a linear ephemeris has 2 free
- * parameters), TDV N ≥ 2 (a mean duration has 1); the moon dip needs one transit.
+ * parameters), TDV N ≥ 2 (a mean duration has 1); the moon dip and the template bank need one transit.
  */
 export function channelsFor(transits: number): DetectionChannel[] {
   return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
 }
+
+/**
+ * Weights of the combined rule's p-values (timing/detection.ts): the template channel is the
+ * likelihood ratio of the whole light curve for the cell's moon (most powerful on average over its
+ * phase for white noise: templateSearch.ts), so it carries most of α; the summary channels keep a
+ * small share each, a guard against what the templates leave out (red noise, model mismatch).
+ * A choice of this program, normalised over the channels that exist.
+ */
+export const COMBINED_WEIGHTS = { template: 0.85, ttv: 0.05, tdv: 0.05, dip: 0.05 } as const;
 
 /** Grid cells parse a moon that touches its planet as a physical label, not an input error (applyAxes.ts). */
 export { CELL_PARSE };
@@ -229,27 +263,32 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   const profile = dipProfile(s, nulls.stacks[0]);
   const exclude = 0.5 * scenarioDurations(s).t14S;
   const nullDip = dipScores(nulls.stacks, profile, exclude);
+  // Template channel: this cell's bank (built once) on the stored no-moon residuals.
+  const { layout, basis } = templateSetup(nullClass);
+  const bank: TemplateBank = buildTemplateBank(s, layout, { basis });
+  const nullTemplate = templateStatistics(bank, nulls.rho, nNull);
   // Only the channels the transit count allows are calibrated and combined (detectionForecast.ts,
   // "Few transits"): with 2 transits the TTV χ² has 0 dof, with 1 the TDV χ² too.
   const channels = channelsFor(s.observation.transits);
-  const nullStats: Partial<Record<DetectionChannel, Float64Array>> = { dip: nullDip };
+  const nullStats: Partial<Record<DetectionChannel, Float64Array>> = { dip: nullDip, template: nullTemplate };
   if (channels.includes('ttv')) nullStats.ttv = nulls.ttv;
   if (channels.includes('tdv')) nullStats.tdv = nulls.tdv;
-  // The distribution-free order statistic needs (n + 1)·α/m ≥ 1 calibration realizations (n the
-  // calibration half, m the channels of the combined rule); with fewer, fall back to the
-  // interpolated quantile and say so in the cell.
-  const nCalibration = Math.ceil(nulls.ttv.length / 2);
-  const limited = (nCalibration + 1) * (alpha / channels.length) < 1;
-  const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha, { method: limited ? 'type7' : 'orderStatistic' });
+  // Every threshold is the order statistic of all n no-moon values; it rests on (n + 1)·α expected
+  // exceedances, fewer than NULL_EXCEEDANCES is flagged.
+  const limited = (nNull + 1) * alpha < NULL_EXCEEDANCES - 1e-9;
+  const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha, COMBINED_WEIGHTS);
+  const rho = new Float64Array(layout.bins);
+  const rhoScratch = new ResidualScratch();
+  const z = new Float64Array(bank.templates);
 
-  const counts: Record<DetectionChannel | 'combined', number> = { ttv: 0, tdv: 0, dip: 0, combined: 0 };
+  const counts: Record<DetectionChannel | 'combined', number> = { ttv: 0, tdv: 0, dip: 0, template: 0, combined: 0 };
   const ttvRms: number[] = [];
   const tdvRms: number[] = [];
   const dipDepth: number[] = [];
   const fitted: number[] = [];
   let nothingObserved = 0;
   for (let r = 0; r < R; r++) {
-    const { record } = runRealization(s, createRng(ctx.seed, task.index, r), { workspace: ws }) as { record: RealizationRecord };
+    const { record, observation, recovery } = runRealization(s, createRng(ctx.seed, task.index, r), { workspace: ws });
     // A realization that lost every transit measured nothing: a non-detection in every channel
     // (its statistics are NaN or 0, never above a threshold), counted in no_transit_observed.
     if (record.noTransitObserved) nothingObserved++;
@@ -259,6 +298,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
         ttv: chiSquareScore(record.ttvChi2, record.ttvDof),
         tdv: chiSquareScore(record.tdvChi2, record.tdvDof),
         dip: Number.isFinite(dip.snr) ? dip.snr : 0,
+        template: templateStatistic(bank, realizationRho(layout, observation, recovery, rho, rhoScratch), 0, z),
       },
       calibration.thresholds,
     );
@@ -271,7 +311,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   }
   const prob: Record<string, unknown> = {};
   for (const ch of [...DETECTION_CHANNELS, 'combined'] as const) {
-    const exists = ch === 'combined' || channels.includes(ch);
+    const exists = ch === 'combined' || ch === 'template' || channels.includes(ch);
     const w = wilsonInterval(counts[ch], R);
     prob[`pdet_${ch}`] = exists ? w.estimate : null;
     prob[`pdet_${ch}_lo`] = exists ? w.lower : null;
@@ -286,6 +326,11 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
     fa[`threshold_${ch}`] = c ? c.threshold : null;
     fa[`false_alarm_measured_${ch}`] = c ? c.measuredAlpha : null;
   }
+  // Rate of the thresholds in force (the same order statistic for every channel and the combined rule).
+  fa.false_alarm_in_force = calibration.falseAlarmInForce;
+  fa.false_alarm_in_force_lo = calibration.falseAlarmInForceLower;
+  fa.false_alarm_in_force_hi = calibration.falseAlarmInForceUpper;
+  fa.template_bank_size = bank.templates;
   return {
     ...base,
     simulated: true,

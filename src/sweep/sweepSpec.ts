@@ -4,7 +4,7 @@
  * `instrument.ground.aperture`; the third axis is drawn as small multiples), the realizations per cell and whether physically
  * unstable cells are simulated (and, optionally, `no_moon_realizations`: the
  * no-moon realizations that calibrate the false alarms, ≥ 20; by default
- * max(R, 200, ⌈10/α⌉)). A scenario with a moon and no sweep block
+ * max(R, 200, ⌈25/α⌉)). A scenario with a moon and no sweep block
  * (or a block without `axes`) gets the default grid: moon mass, log-spaced
  * from 0.05 to 2 Earth masses, × moon separation from the fluid Roche limit
  * to the stable limit, 20 × 20.

@@ -1,66 +1,106 @@
 /**
  * The detection decision for one simulated realization.
  *
- * Three channels, each a scalar statistic where larger means more
- * moon-like (suggested: `ttv` = TTV χ² excess or periodogram peak power,
- * `tdv` = TDV χ² excess, `dip` = stacked moon-dip SNR; the decision does not
- * care which, as long as the thresholds were calibrated on the same
- * statistic from no-moon simulations of the same scenario).
+ * Four channels, each a scalar statistic where larger means more moon-like
+ * (`ttv` = −log10 p of the TTV χ², `tdv` = −log10 p of the TDV χ², `dip` =
+ * stacked moon-dip SNR, `template` = the photodynamical template bank's
+ * matched-filter maximum, templateSearch.ts); the decision does not care
+ * which, as long as the thresholds were calibrated on the same statistic from
+ * no-moon simulations of the same scenario.
  *
  * - Per channel: detected when the statistic is strictly above that
- *   channel's threshold calibrated at false-alarm rate α.
- * - Combined: detected when **any** used channel is above its threshold
- *   calibrated at α/m, m the number of channels used (Bonferroni 1936, Pubbl.
- *   R. Ist. Sup. Sci. Econ. Commer. Firenze 8, 3; the union bound
- *   Pr(any null exceedance) ≤ Σ α/m = α). This holds whatever the correlation
- *   between channels and is conservative when they are correlated; the
- *   measured combined false-alarm rate on the validation half is reported so
- *   the conservatism can be seen. (We chose Bonferroni over a calibrated max
- *   statistic because it needs no joint standardisation of the channels.)
+ *   channel's threshold, the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of
+ *   all n no-moon statistics (falseAlarmCalibration.ts).
+ * - Combined: the minimum of the channels' (weighted) empirical p-values,
+ *   calibrated directly on the same no-moon set (a Monte Carlo test of the
+ *   min-p statistic: Westfall & Young 1993, Resampling-Based Multiple
+ *   Testing, §2.6 "minP"; the rank argument of Monte Carlo tests, Davison &
+ *   Hinkley 1997, Bootstrap Methods and their Application, ch. 4, eq. 4.11
+ *   for p̂). Per channel c, with N the no-moon statistics it is compared to
+ *   (n; for a no-moon realization itself the other n − 1, so that it is
+ *   scored as a new realization would be) and B_c those strictly below it,
+ *   p̂_c = (N − B_c + 1)/(N + 1); the statistic is M = max_c w_c/p̂_c, i.e.
+ *   min_c p̂_c/w_c (weighted p-values: Genovese, Roeder & Wasserman 2006,
+ *   Biometrika 93, 509; equal weights by default), ties broken by
+ *   1e-9·Σ_c w_c B_c/N (a secondary statistic; the order stays a valid test
+ *   statistic). The threshold is the order statistic x_(k) of the n no-moon
+ *   M, so the combined false-alarm rate is α (up to the discreteness of k)
+ *   whatever the correlation between channels; it replaces the Bonferroni
+ *   union at α/m, which was conservative when channels correlate and could
+ *   make "combined" weaker than one channel alone. When all channels carry
+ *   the same information the combined rule equals each channel's.
  * - A channel whose statistic is NaN (not measured, or its fit failed) or
- *   whose threshold is absent is not detected; a NaN statistic is never
- *   counted as a detection.
+ *   whose calibration is absent is not detected and scores u = 0.
  */
 import {
   calibrateThreshold,
-  wilsonInterval,
-  Z_95,
-  type CalibrationOptions,
+  orderStatisticThresholdSorted,
+  rateInForce,
   type ThresholdCalibration,
 } from './falseAlarmCalibration.js';
+import { lowerBound } from '../numeric/lowerBound.js';
 
-export const DETECTION_CHANNELS = ['ttv', 'tdv', 'dip'] as const;
+export const DETECTION_CHANNELS = ['ttv', 'tdv', 'dip', 'template'] as const;
 export type DetectionChannel = (typeof DETECTION_CHANNELS)[number];
 
 /** Per-channel statistics of one realization (NaN = not available). */
 export type DetectionStatistics = Record<DetectionChannel, number>;
 
-/** Thresholds: `single` at α per channel, `combined` at α/m per channel; absent = channel unused. */
+/** Thresholds: `single` at α per channel (absent = channel unused) and the combined min-p rule. */
 export interface DetectionThresholds {
   single: Partial<Record<DetectionChannel, number>>;
-  combined: Partial<Record<DetectionChannel, number>>;
+  combined: {
+    /** The no-moon statistics of each used channel, ascending. */
+    sorted: Partial<Record<DetectionChannel, Float64Array>>;
+    /** Threshold on M (see the file comment). */
+    threshold: number;
+    /** Channel weights, summing to 1 over the used channels. */
+    weights: ChannelWeights;
+  };
 }
 
 export interface DetectionDecision {
   ttv: boolean;
   tdv: boolean;
   dip: boolean;
+  template: boolean;
   combined: boolean;
+}
+
+const TIE_BREAK = 1e-9;
+
+/** Channel weights of the combined rule (relative; normalised to sum 1 over the channels used). */
+export type ChannelWeights = Partial<Record<DetectionChannel, number>>;
+
+/** M of statistics against sorted null sets (see the file comment); weights sum to 1 over the used channels. */
+function minPScore(stats: DetectionStatistics, sorted: Partial<Record<DetectionChannel, Float64Array>>, weights: ChannelWeights, leaveOneOut: boolean): number {
+  let max = 0;
+  let sum = 0;
+  for (const ch of DETECTION_CHANNELS) {
+    const s = sorted[ch];
+    if (s === undefined) continue;
+    const w = weights[ch] ?? 0;
+    const v = stats[ch];
+    const n = s.length;
+    const N = leaveOneOut ? n - 1 : n;
+    const below = Number.isNaN(v) ? 0 : Math.min(N, lowerBound(s, 0, n, v));
+    const score = (w * (N + 1)) / (N - below + 1);
+    if (score > max) max = score;
+    sum += (w * below) / Math.max(1, N);
+  }
+  return max + TIE_BREAK * sum;
 }
 
 /** Decide detection per channel and combined (see the file comment). Pure; never throws on NaN. */
 export function decideDetection(stats: DetectionStatistics, thresholds: DetectionThresholds): DetectionDecision {
   const over = (value: number, threshold: number | undefined): boolean =>
     threshold !== undefined && !Number.isNaN(threshold) && value > threshold;
-  let combined = false;
-  for (const ch of DETECTION_CHANNELS) {
-    if (over(stats[ch], thresholds.combined[ch])) combined = true;
-  }
   return {
     ttv: over(stats.ttv, thresholds.single.ttv),
     tdv: over(stats.tdv, thresholds.single.tdv),
     dip: over(stats.dip, thresholds.single.dip),
-    combined,
+    template: over(stats.template, thresholds.single.template),
+    combined: minPScore(stats, thresholds.combined.sorted, thresholds.combined.weights, false) > thresholds.combined.threshold,
   };
 }
 
@@ -69,68 +109,76 @@ export type NullStatistics = Partial<Record<DetectionChannel, Float64Array>>;
 
 export interface DetectionCalibration {
   thresholds: DetectionThresholds;
-  /** Calibration details per used channel, at α (single) and α/m (combined). */
+  /** Calibration details per used channel, at α. */
   single: Partial<Record<DetectionChannel, ThresholdCalibration>>;
-  combined: Partial<Record<DetectionChannel, ThresholdCalibration>>;
-  /** Channels used (m = channels.length). */
+  /** Channels used. */
   channels: DetectionChannel[];
   requestedAlpha: number;
-  /** Fraction of validation realizations where the combined rule fires, with its Wilson interval. */
+  /** No-moon realizations the thresholds rest on (all of them). */
+  calibrationCount: number;
+  /**
+   * Exceedance probability of the thresholds in force (every threshold is the same order statistic
+   * of n no-moon values): its mean (n + 1 − k)/(n + 1) and central 95 % interval of Beta(n + 1 − k, k).
+   */
+  falseAlarmInForce: number;
+  falseAlarmInForceLower: number;
+  falseAlarmInForceUpper: number;
+  /** Fraction of the no-moon realizations (each scored against the others) where the combined rule fires. */
   measuredCombinedAlpha: number;
-  measuredCombinedAlphaLower: number;
-  measuredCombinedAlphaUpper: number;
 }
 
 /**
- * Calibrate single-channel (α) and Bonferroni combined (α/m) thresholds on null statistics,
- * and measure the combined rule's false-alarm rate on the validation half (odd indices, or the
- * whole set when options.holdOut is false).
+ * Calibrate single-channel thresholds (α each) and the combined min-p rule (α) on all the null
+ * statistics (distribution-free order statistic; with too few realizations for it, k > n, the
+ * threshold is +∞ and nothing is detected).
  * @throws RangeError if no channel is given, arrays differ in length, or calibrateThreshold throws.
  */
-export function calibrateDetection(
-  nullStats: NullStatistics,
-  alpha: number,
-  options: CalibrationOptions = {},
-): DetectionCalibration {
+export function calibrateDetection(nullStats: NullStatistics, alpha: number, weights: ChannelWeights = {}): DetectionCalibration {
   const channels = DETECTION_CHANNELS.filter((ch) => nullStats[ch] !== undefined);
-  if (channels.length === 0) throw new RangeError('nullStats must hold at least one channel (ttv, tdv or dip)');
+  if (channels.length === 0) throw new RangeError('nullStats must hold at least one channel (ttv, tdv, dip or template)');
   const n = nullStats[channels[0]]!.length;
   for (const ch of channels) {
     const len = nullStats[ch]!.length;
     if (len !== n) throw new RangeError(`nullStats.${ch} must have length ${n} like nullStats.${channels[0]}, got ${len}`);
   }
-  const m = channels.length;
-  const thresholds: DetectionThresholds = { single: {}, combined: {} };
   const single: DetectionCalibration['single'] = {};
-  const combined: DetectionCalibration['combined'] = {};
+  // Weights: given ones (≥ 0, missing = 1), normalised over the used channels.
+  let wSum = 0;
   for (const ch of channels) {
-    single[ch] = calibrateThreshold(nullStats[ch]!, alpha, options);
-    combined[ch] = calibrateThreshold(nullStats[ch]!, alpha / m, options);
+    const w = weights[ch] ?? 1;
+    if (!(w >= 0) || !Number.isFinite(w)) throw new RangeError(`weights.${ch} must be a finite number ≥ 0, got ${w}`);
+    wSum += w;
+  }
+  if (!(wSum > 0)) throw new RangeError('weights must not all be 0 over the channels used');
+  const norm: ChannelWeights = {};
+  for (const ch of channels) norm[ch] = (weights[ch] ?? 1) / wSum;
+  const thresholds: DetectionThresholds = { single: {}, combined: { sorted: {}, threshold: Infinity, weights: norm } };
+  for (const ch of channels) {
+    single[ch] = calibrateThreshold(nullStats[ch]!, alpha, { method: 'orderStatistic', holdOut: false });
     thresholds.single[ch] = single[ch]!.threshold;
-    thresholds.combined[ch] = combined[ch]!.threshold;
+    thresholds.combined.sorted[ch] = Float64Array.from(nullStats[ch]!).sort();
   }
-  // Combined rule on the validation realizations (same parity split as calibrateThreshold).
-  const holdOut = options.holdOut ?? true;
+  // M of every no-moon realization, scored against the other n − 1.
+  const scores = new Float64Array(n);
+  const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
+  for (let i = 0; i < n; i++) {
+    for (const ch of channels) row[ch] = nullStats[ch]![i];
+    scores[i] = minPScore(row, thresholds.combined.sorted, norm, true);
+  }
+  const sortedScores = Float64Array.from(scores).sort();
+  thresholds.combined.threshold = orderStatisticThresholdSorted(sortedScores, alpha);
   let fired = 0;
-  let count = 0;
-  for (let i = holdOut ? 1 : 0; i < n; i += holdOut ? 2 : 1) {
-    count++;
-    for (const ch of channels) {
-      if (nullStats[ch]![i] > thresholds.combined[ch]!) {
-        fired++;
-        break;
-      }
-    }
-  }
-  const measured = wilsonInterval(fired, count, options.z ?? Z_95);
+  for (let i = 0; i < n; i++) if (scores[i] > thresholds.combined.threshold) fired++;
+  const inForce = rateInForce(n, alpha);
   return {
     thresholds,
     single,
-    combined,
     channels: [...channels],
     requestedAlpha: alpha,
-    measuredCombinedAlpha: measured.estimate,
-    measuredCombinedAlphaLower: measured.lower,
-    measuredCombinedAlphaUpper: measured.upper,
+    calibrationCount: n,
+    falseAlarmInForce: inForce.mean,
+    falseAlarmInForceLower: inForce.lower,
+    falseAlarmInForceUpper: inForce.upper,
+    measuredCombinedAlpha: fired / n,
   };
 }

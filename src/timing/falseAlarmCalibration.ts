@@ -28,6 +28,7 @@
  *   centre (k + z²/2)/(n + z²), half-width z·sqrt(k(n − k)/n + z²/4)/(n + z²).
  */
 import { quantileSortedType7 } from '../numeric/quantiles.js';
+import { betaQuantile } from '../numeric/betaDistribution.js';
 
 /** z for a two-sided 95 % interval, Φ⁻¹(0.975) = 1.959963984540054 (scipy.stats.norm.ppf(0.975)). */
 export const Z_95 = 1.959963984540054;
@@ -70,10 +71,40 @@ export function orderStatisticThresholdSorted(sorted: Float64Array, alpha: numbe
   const n = sorted.length;
   if (n === 0 || !(alpha > 0 && alpha < 1)) return NaN;
   // Guard the ceiling against rounding just above an integer, e.g. (n+1)(1−α) = 95.00000000000001.
-  const kReal = (n + 1) * (1 - alpha);
-  const k = Math.ceil(kReal - 1e-9 * kReal);
+  const k = orderStatisticRank(n, alpha);
   if (k > n) return Infinity;
   return sorted[Math.max(1, k) - 1];
+}
+
+/** The order-statistic rank k = ⌈(n + 1)(1 − α)⌉ (guarded against rounding just above an integer). */
+export function orderStatisticRank(n: number, alpha: number): number {
+  const kReal = (n + 1) * (1 - alpha);
+  return Math.ceil(kReal - 1e-9 * kReal);
+}
+
+/** The false-alarm rate in force of a threshold and its central 95 % interval. */
+export interface RateInForce {
+  mean: number;
+  lower: number;
+  upper: number;
+  /** Expected no-moon exceedances the threshold rests on, n + 1 − k. */
+  exceedances: number;
+}
+
+/**
+ * The false-alarm rate in force of the order-statistic threshold x_(k), k = ⌈(n + 1)(1 − α)⌉, of n
+ * exchangeable continuous no-moon statistics: the exceedance probability 1 − F(x_(k)) is distributed
+ * as the (n + 1 − k)-th of n uniform order statistics, Beta(n + 1 − k, k) (David & Nagaraja 2003,
+ * Order Statistics, 3rd ed., §2.2, eq. 2.2.1 with U = 1 − F), mean (n + 1 − k)/(n + 1); the interval
+ * holds its 2.5 % and 97.5 % quantiles. k > n (too few realizations): the threshold is +∞, rate 0.
+ */
+export function rateInForce(n: number, alpha: number): RateInForce {
+  if (!(Number.isInteger(n) && n >= 1)) throw new RangeError(`n must be an integer ≥ 1, got ${n}`);
+  if (!(alpha > 0 && alpha < 1)) throw new RangeError(`alpha must be in (0, 1), got ${alpha}`);
+  const k = Math.max(1, orderStatisticRank(n, alpha));
+  if (k > n) return { mean: 0, lower: 0, upper: 0, exceedances: 0 };
+  const a = n + 1 - k;
+  return { mean: a / (n + 1), lower: betaQuantile(0.025, a, k), upper: betaQuantile(0.975, a, k), exceedances: a };
 }
 
 /** Number of statistics strictly above the threshold (NaN statistics never count). */

@@ -41,7 +41,7 @@ describe('planBudget with Monte Carlo', () => {
     const l = computeLimits(parseScenario(d));
     expect(l.forecast_regime_ok).toBe(true); // photocentric ratio ≪ 0.2: the forecast applies
     const fcast = planDoc(d, { ...quick, forecastOnly: true });
-    // 400 no-moon realizations: enough for the distribution-free threshold at α/3 (runCell.ts).
+    // 400 no-moon realizations: a threshold on fewer than the default 25/α (a test of the search, not of the rate).
     const r = planDoc(d, { ...quick, realizations: 60, nullRealizations: 400 });
     expect(fcast.answer.reached).toBe(true);
     expect(r.answer.reached).toBe(true);

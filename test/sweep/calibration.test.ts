@@ -211,9 +211,9 @@ describe('no_moon_realizations in the sweep block and the meta', () => {
     const plain = { ...TINY, sweep: noNull };
     expect(parseSweepSpec(plain, base).nullRealizations).toBeNull();
     const r = await sweepDoc(plain, { quiet: true, env: {}, runner: fake, out: join(tmp, 'plain') });
-    // α = 0.05, R = 3: max(3, 200, ⌈10/0.05⌉) = 200 (computed from the scenario's values).
+    // α = 0.05, R = 3: max(3, 200, ⌈25/0.05⌉) = 500 (computed from the scenario's values).
     expect(r.meta.no_moon_realizations).toBe(defaultNullRealizations(0.05, 3));
-    expect(r.meta.no_moon_realizations).toBe(200);
+    expect(r.meta.no_moon_realizations).toBe(500);
     for (const bad of [19, 20.5, 'many']) {
       let err: unknown;
       try {

@@ -39,9 +39,9 @@ const ctx = (realizations: number, nullRealizations: number, forecastOnly = fals
 
 describe('few transits', () => {
   it('channels: TTV needs 3 transits, TDV 2, the dip 1 (N − 2 and N − 1 degrees of freedom, Seber & Lee 2003 §2.4)', () => {
-    expect(channelsFor(1)).toEqual(['dip']);
-    expect(channelsFor(2)).toEqual(['tdv', 'dip']);
-    expect(channelsFor(3)).toEqual(['ttv', 'tdv', 'dip']);
+    expect(channelsFor(1)).toEqual(['dip', 'template']);
+    expect(channelsFor(2)).toEqual(['tdv', 'dip', 'template']);
+    expect(channelsFor(3)).toEqual(['ttv', 'tdv', 'dip', 'template']);
   });
 
   it('computeLimits with 2 transits: no TTV forecast, a TDV forecast, and the reason in the assumptions', () => {
@@ -61,7 +61,7 @@ describe('few transits', () => {
     expect(r.pdet_ttv).toBeNull();
     expect(typeof r.pdet_tdv).toBe('number');
     expect(typeof r.pdet_combined).toBe('number');
-    expect(r.channels_used).toBe('tdv dip');
+    expect(r.channels_used).toBe('tdv dip template');
     expect(String(r.channels_note)).toMatch(/no TTV channel with 2 transits/);
     const f = runCell({ index: 0, coords: [], scenario: cellOf(doc({ transits: 2 })) }, ctx(6, 40, true));
     expect(f.pdet_forecast_ttv).toBeNull();

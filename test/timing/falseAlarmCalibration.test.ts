@@ -144,37 +144,83 @@ describe('calibrateThreshold', () => {
   });
 });
 
-describe('decideDetection / calibrateDetection (Bonferroni combined channel)', () => {
-  const thresholds = { single: { ttv: 10, tdv: 5, dip: 3 }, combined: { ttv: 12, tdv: 6, dip: 4 } };
+describe('decideDetection / calibrateDetection (min-p combined rule)', () => {
+  const sorted = { ttv: Float64Array.from([0, 1, 2, 3]), dip: Float64Array.from([0, 1, 2, 3]) };
+  // Equal weights 1/2: M = max_c (1/2)·(N + 1)/(N − B_c + 1) + 1e-9·Σ_c B_c/(2N), N = 4.
+  const thresholds = { single: { ttv: 10, tdv: 5, dip: 3, template: 2 }, combined: { sorted, threshold: 1.1, weights: { ttv: 0.5, dip: 0.5 } } };
+  const none = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN };
 
-  it('per channel: strictly above the α threshold; combined: any channel above its α/m threshold (constructed cases)', () => {
-    expect(decideDetection({ ttv: 11, tdv: 1, dip: 0 }, thresholds)).toEqual({ ttv: true, tdv: false, dip: false, combined: false });
-    expect(decideDetection({ ttv: 12.5, tdv: 1, dip: 0 }, thresholds)).toEqual({ ttv: true, tdv: false, dip: false, combined: true });
-    expect(decideDetection({ ttv: 10, tdv: 5, dip: 3 }, thresholds)).toEqual({ ttv: false, tdv: false, dip: false, combined: false });
-    expect(decideDetection({ ttv: NaN, tdv: NaN, dip: 4.5 }, thresholds)).toEqual({ ttv: false, tdv: false, dip: true, combined: true });
-    expect(decideDetection({ ttv: 100, tdv: 0, dip: 0 }, { single: { tdv: 5 }, combined: { tdv: 6 } }).combined).toBe(false);
+  it('per channel: strictly above the α threshold; combined: max over channels of the fraction of no-moon values below (constructed cases, by hand)', () => {
+    // ttv 11 > 10; combined B = 4: 0.5·5/1 = 2.5 > 1.1
+    expect(decideDetection({ ...none, ttv: 11, tdv: 1, dip: 0 }, thresholds)).toEqual({ ttv: true, tdv: false, dip: false, template: false, combined: true });
+    // ttv 2.5: B = 3: 0.5·5/2 = 1.25 > 1.1 combined; no single
+    expect(decideDetection({ ...none, ttv: 2.5, dip: 0 }, thresholds).combined).toBe(true);
+    // ttv 1.5, dip 1.5: B = 2: 0.5·5/3 = 0.83 < 1.1
+    expect(decideDetection({ ...none, ttv: 1.5, dip: 1.5 }, thresholds).combined).toBe(false);
+    // NaN scores 0; equal to the threshold is not above it
+    expect(decideDetection({ ...none, template: 2 }, thresholds)).toEqual({ ttv: false, tdv: false, dip: false, template: false, combined: false });
   });
 
-  it('independent channels: combined false-alarm rate ≈ 1 − (1 − α/3)³ = 0.0492 for α = 0.05; identical channels: ≈ α/3 (Bonferroni conservatism; Monte Carlo, 4σ)', () => {
-    const n = 40000;
-    const a = new Float64Array(n);
-    const b = new Float64Array(n);
-    const c = new Float64Array(n);
-    createRng(31, 0, 0).fillNormal(a);
-    createRng(31, 1, 0).fillNormal(b);
-    createRng(31, 2, 0).fillNormal(c);
-    const indep = calibrateDetection({ ttv: a, tdv: b, dip: c }, 0.05);
-    const expectIndep = 1 - (1 - 0.05 / 3) ** 3;
-    const se = (p: number): number => Math.sqrt((p * (1 - p)) / (n / 2));
-    expect(Math.abs(indep.measuredCombinedAlpha - expectIndep)).toBeLessThan(4 * se(expectIndep) + 0.002);
-    expect(indep.channels).toEqual(['ttv', 'tdv', 'dip']);
-    expect(indep.combined.ttv!.requestedAlpha).toBeCloseTo(0.05 / 3, 15);
-    const same = calibrateDetection({ ttv: a, tdv: a, dip: a }, 0.05);
-    expect(Math.abs(same.measuredCombinedAlpha - 0.05 / 3)).toBeLessThan(4 * se(0.05 / 3) + 0.002);
-    // two channels only: m = 2
-    const two = calibrateDetection({ ttv: a, dip: c }, 0.05);
-    expect(two.combined.dip!.requestedAlpha).toBeCloseTo(0.025, 15);
-    expect(two.thresholds.single.tdv).toBeUndefined();
+  it('independent and identical channels: the combined rate in force is α on fresh no-moon draws (Monte Carlo, 4σ), and identical channels decide exactly as one channel', () => {
+    const n = 4000;
+    const m = 40000;
+    const draw = (seed: number, len: number): Float64Array => {
+      const a = new Float64Array(len);
+      createRng(31, seed, 0).fillNormal(a);
+      return a;
+    };
+    const [a, b, c, d] = [draw(0, n), draw(1, n), draw(2, n), draw(3, n)];
+    const alpha = 0.05;
+    const indep = calibrateDetection({ ttv: a, tdv: b, dip: c, template: d }, alpha);
+    expect(indep.channels).toEqual(['ttv', 'tdv', 'dip', 'template']);
+    // Rate in force: (n + 1 − k)/(n + 1), k = ⌈4001·0.95⌉ = 3801 → 200/4001 (David & Nagaraja 2003, §2.2)
+    expect(indep.falseAlarmInForce).toBeCloseTo(200 / 4001, 12);
+    const [fa, fb, fc, fd] = [draw(10, m), draw(11, m), draw(12, m), draw(13, m)];
+    let fired = 0;
+    let firedSame = 0;
+    let agree = 0;
+    const same = calibrateDetection({ ttv: a, tdv: a, dip: a, template: a }, alpha);
+    for (let i = 0; i < m; i++) {
+      if (decideDetection({ ttv: fa[i], tdv: fb[i], dip: fc[i], template: fd[i] }, indep.thresholds).combined) fired++;
+      const dec = decideDetection({ ttv: fa[i], tdv: fa[i], dip: fa[i], template: fa[i] }, same.thresholds);
+      if (dec.combined) firedSame++;
+      if (dec.combined === dec.ttv) agree++;
+    }
+    // Expected rate: the Beta mean 200/4001 ≈ 0.04999; sd ≈ sqrt(α/m) ⊕ the threshold's own spread sqrt(α/n) ≈ 0.0036
+    const sd = Math.sqrt((alpha * (1 - alpha)) / m + (alpha * (1 - alpha)) / n);
+    expect(Math.abs(fired / m - alpha)).toBeLessThan(4 * sd);
+    expect(Math.abs(firedSame / m - alpha)).toBeLessThan(4 * sd);
+    // Identical channels: min-p equals the single channel (no Bonferroni loss), up to the rank ties at the threshold.
+    expect(agree / m).toBeGreaterThan(0.999);
+  });
+
+  it('a channel with all the signal: the combined rule keeps most of its power (independent noise channels, min-p vs Bonferroni; Monte Carlo)', () => {
+    const n = 4000;
+    const rng = createRng(32, 0, 0);
+    const nul = [0, 1, 2].map(() => { const x = new Float64Array(n); rng.fillNormal(x); return x; });
+    const cal = calibrateDetection({ ttv: nul[0], tdv: nul[1], template: nul[2] }, 0.01);
+    const m = 20000;
+    const sig = [0, 1, 2].map(() => { const x = new Float64Array(m); rng.fillNormal(x); return x; });
+    let single = 0;
+    let combined = 0;
+    for (let i = 0; i < m; i++) {
+      const st = { ttv: sig[0][i], tdv: sig[1][i], dip: NaN, template: sig[2][i] + 3 };
+      const dec = decideDetection(st, cal.thresholds);
+      if (dec.template) single++;
+      if (dec.combined) combined++;
+    }
+    // Normal shift 3 at α = 1 %: Φ(3 − 2.326) = 0.750 single; min-p over 3 independent channels ≈ Φ(3 − z(1 − 0.00334)) = Φ(0.287) = 0.613
+    // (Šidák 1967, JASA 62, 626: per-channel level 1 − 0.99^(1/3) = 0.00334); common practice for the numbers.
+    expect(single / m).toBeGreaterThan(0.73);
+    expect(combined / m).toBeGreaterThan(0.58);
+    expect(combined / m).toBeLessThan(single / m);
+    // Weighted p-values (Genovese et al. 2006), weight 0.9 on the channel with the signal: it acts at ≈ 0.9·α,
+    // Φ(3 − z(1 − 0.009)) = Φ(3 − 2.366) = 0.737 (scipy.stats.norm), just below the single channel's 0.750.
+    const weighted = calibrateDetection({ ttv: nul[0], tdv: nul[1], template: nul[2] }, 0.01, { template: 0.9, ttv: 0.05, tdv: 0.05 });
+    let w = 0;
+    for (let i = 0; i < m; i++) if (decideDetection({ ttv: sig[0][i], tdv: sig[1][i], dip: NaN, template: sig[2][i] + 3 }, weighted.thresholds).combined) w++;
+    expect(w / m).toBeGreaterThan(0.71);
+    expect(w / m).toBeLessThanOrEqual(single / m + 0.01);
   });
 
   it('rejects no channels and misaligned arrays', () => {

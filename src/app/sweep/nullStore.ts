@@ -8,8 +8,9 @@
  * seeded by (seed, class, realization) alone, so a chunk read back is the
  * same numbers a fresh computation gives (the results stay byte-identical).
  *
- * File: little-endian float64 values [n, bins, ttv(n), tdv(n), x0S(n),
- * binS(n), sigma(n), binOffset(n + 1), sum(bins), count(bins)], then the
+ * File: little-endian float64 values [n, bins, rhoBins, ttv(n), tdv(n), x0S(n),
+ * binS(n), sigma(n), binOffset(n + 1), sum(bins), count(bins),
+ * rho(n·rhoBins)], then the
  * SHA-256 of the class key's hash and those bytes; written atomically. A file
  * whose length or digest does not match is ignored (its range is recomputed).
  */
@@ -38,11 +39,12 @@ function digest(hash: string, payload: Uint8Array): Buffer {
 function encode(hash: string, r: PackedNullRange): Buffer {
   const n = r.n;
   const bins = r.binOffset[n];
-  const out = new Float64Array(2 + 5 * n + (n + 1) + 2 * bins);
+  const out = new Float64Array(3 + 5 * n + (n + 1) + 2 * bins + n * r.rhoBins);
   out[0] = n;
   out[1] = bins;
-  let at = 2;
-  for (const a of [r.ttv, r.tdv, r.x0S, r.binS, r.sigma, r.binOffset, r.sum, r.count]) {
+  out[2] = r.rhoBins;
+  let at = 3;
+  for (const a of [r.ttv, r.tdv, r.x0S, r.binS, r.sigma, r.binOffset, r.sum, r.count, r.rho]) {
     out.set(a, at);
     at += a.length;
   }
@@ -58,8 +60,10 @@ function decode(hash: string, file: Buffer, start: number): PackedNullRange | nu
   new Uint8Array(all.buffer).set(buf);
   const n = all[0];
   const bins = all[1];
-  if (!Number.isInteger(n) || !Number.isInteger(bins) || n < 1 || bins < 0 || all.length !== 2 + 5 * n + (n + 1) + 2 * bins) return null;
-  let at = 2;
+  const rhoBins = all[2];
+  if (!Number.isInteger(n) || !Number.isInteger(bins) || !Number.isInteger(rhoBins) || n < 1 || bins < 0 || rhoBins < 0) return null;
+  if (all.length !== 3 + 5 * n + (n + 1) + 2 * bins + n * rhoBins) return null;
+  let at = 3;
   const take = (len: number): Float64Array => {
     const a = all.slice(at, at + len);
     at += len;
@@ -68,6 +72,7 @@ function decode(hash: string, file: Buffer, start: number): PackedNullRange | nu
   const r: PackedNullRange = {
     start, n,
     ttv: take(n), tdv: take(n), x0S: take(n), binS: take(n), sigma: take(n), binOffset: take(n + 1), sum: take(bins), count: take(bins),
+    rho: take(n * rhoBins), rhoBins,
   };
   return r.binOffset[n] === bins ? r : null;
 }

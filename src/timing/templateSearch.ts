@@ -1,0 +1,501 @@
+/**
+ * The `template` detection channel: a bank of exact photodynamical
+ * planet+moon templates searched in the residuals of the planet-only fit.
+ *
+ * Method: the generalised likelihood ratio test for a signal of known shape
+ * and unknown amplitude A ≥ 0 in white Gaussian noise, maximised over a bank
+ * of shapes (Kay 1998, Fundamentals of Statistical Signal Processing Vol. II:
+ * Detection Theory, §7.6 matched filter, §6.4–6.5 GLRT with unknown
+ * parameters; the nuisance parameters of the planet-only model are removed by
+ * projecting them out of each template, the GLRT for the linear model with
+ * nuisance parameters, Kay 1998 §7.7, Theorem 7.1). For one template d the
+ * log-likelihood ratio after maximising over A ≥ 0 is max(0, z)²/2 with
+ *   z = d̃ᵀ W r / sqrt(d̃ᵀ W d̃) / σ,   d̃ = d − J (JᵀWJ)⁻¹ JᵀW d,
+ * r the residuals, J the planet-only model's freedoms. Two bank statistics:
+ * - 'marginal' (default): the cell's moon has a known amplitude (its mass and
+ *   radius), so each template's likelihood ratio is exp(S_k z_k − S_k²/2), S_k
+ *   = sqrt(d̃ᵀWd̃)/σ its SNR, and the statistic is the log of their mean over
+ *   the bank, which samples the moon's unknown phase (and orientation)
+ *   uniformly as the realizations draw it: the likelihood ratio of the
+ *   phase-averaged alternative, most powerful on average over the phase
+ *   (Neyman–Pearson lemma for the mixture alternative; Kay 1998 §6.3–6.4, the
+ *   Bayesian approach to composite hypotheses);
+ * - 'max': max_k z_k, the GLRT with the amplitude free (≥ 0) and the phase
+ *   maximised over the bank (Kay 1998 §6.4).
+ * Neither models the look-elsewhere effect: the threshold is calibrated on the
+ * no-moon realizations, like every other channel.
+ *
+ * Template: d = F_planet+moon − F_planet alone, both from the photodynamical
+ * light curve (photometry/lightCurve.ts) on the planned sample grid: the moon's
+ * own dip and the planet's displacement about the barycentre together, for the
+ * cell's moon (mass, radius, separation) at phases 2πj/N_φ (and nodes or
+ * periapses when the orbit is inclined or eccentric: the angles a realization
+ * draws, timing/realization.ts). The bank does not search the separation: it
+ * is the cell's (the hypothesis the cell tests, as for the known-template
+ * bound); a search over unknown separations would pay a larger look-elsewhere
+ * price, which this channel does not include.
+ *
+ * Freedoms projected out (J): the mid-time offset and the period (∂F/∂t and
+ * n·∂F/∂t), the radius ratio, impact parameter, duration scale (stellar
+ * density) and both limb-darkening coefficients (finite differences of the
+ * planet-only template, timing/transitTemplate.ts), and per transit window a
+ * baseline offset and slope.
+ *
+ * Binning (speed): samples are summed in bins of G consecutive planned
+ * samples per window (G·cadence ≈ the planet's ingress / 4); the template is
+ * taken per bin as the exact flux averaged over the bin's span (one exposure
+ * of G cadences at the bin's mean time, times its n_b samples: the short
+ * gaps between exposures are neglected), so z above holds with
+ * W = diag(1/n_b) and R_b = Σ r_i. Its
+ * only loss is the template's variation inside one bin: at most 1.2 % of a
+ * template's SNR at 2-min cadence and a 50-min ingress (measured in
+ * test/timing/templateSearch.test.ts; 0.4 % with bins of ingress / 8, at
+ * twice the cost). Under white noise each z_k is N(0, 1)
+ * whatever the binning. Samples the realization did not observe (gaps,
+ * missed transits) contribute nothing; the calibration on no-moon
+ * realizations with the same gaps accounts for it.
+ *
+ * Cost: the bank (templates, projections) is built once per cell; each
+ * realization costs one pass over its samples (binning) and a dot product per
+ * template over the bins.
+ */
+import type { Scenario } from '../scenario/types.js';
+import { lightCurveModel, LightCurveWorkspace, modelFlux, DEFAULT_SMEARING_TOLERANCE } from '../photometry/lightCurve.js';
+import { scenarioDurations, transitWindows } from '../photometry/transitWindows.js';
+import { buildTransitTemplate, templateFluxArray, templateGeometryFromScenario, type TemplateGeometry } from './transitTemplate.js';
+import type { GlobalTransitFit } from './globalTransitFit.js';
+import { whiteNoiseSigma } from '../noise/whiteNoise.js';
+import { NOMINAL_SIGMA } from './timingSeries.js';
+
+/** Bins of the planned sample grid shared by a null class and every cell of it. */
+export interface TemplateLayout {
+  cadenceS: number;
+  periodS: number;
+  /** Planned samples per bin (the last bin of a window may hold fewer). */
+  samplesPerBin: number;
+  /** Per window (index = epoch): first and last planned grid index k (t = k·cadence), first bin. */
+  k0: Int32Array;
+  k1: Int32Array;
+  binStart: Int32Array;
+  bins: number;
+  /** Planned samples per bin. */
+  count: Float64Array;
+}
+
+/** Bin width as a fraction of the planet's ingress (see the file comment). */
+export const BIN_PER_INGRESS = 1 / 4;
+
+/**
+ * The layout of a scenario's planned samples (the windows depend only on the planet: transitWindows.ts),
+ * with `samplesPerBin` = max(1, ⌊ingress·BIN_PER_INGRESS / cadence⌋) unless given.
+ */
+export function templateLayout(s: Scenario, samplesPerBin?: number): TemplateLayout {
+  const cad = s.instrument.cadenceS;
+  const d = scenarioDurations(s);
+  const ingress = d.ingressS > 0 ? d.ingressS : d.t14S / 2;
+  const G = samplesPerBin ?? Math.max(1, Math.floor((ingress * BIN_PER_INGRESS) / cad));
+  if (!(Number.isInteger(G) && G >= 1)) throw new RangeError(`samplesPerBin must be an integer ≥ 1, got ${G}`);
+  const windows = transitWindows(s);
+  const n = windows.length;
+  const k0 = new Int32Array(n);
+  const k1 = new Int32Array(n);
+  const binStart = new Int32Array(n + 1);
+  let last = -Infinity;
+  for (let e = 0; e < n; e++) {
+    const w = windows[e];
+    // As sampleWindows: a grid point on the cut between two windows belongs to the earlier one.
+    const a = Math.max(Math.ceil(w.startS / cad), last + 1);
+    const b = Math.floor(w.endS / cad);
+    k0[e] = a;
+    k1[e] = b;
+    binStart[e + 1] = binStart[e] + (b >= a ? Math.ceil((b - a + 1) / G) : 0);
+    last = Math.max(last, b);
+  }
+  const bins = binStart[n];
+  const count = new Float64Array(bins);
+  for (let e = 0; e < n; e++) for (let k = k0[e]; k <= k1[e]; k++) count[binStart[e] + Math.floor((k - k0[e]) / G)] += 1;
+  return { cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count };
+}
+
+/** Bin of the sample at time t (s) of window `epoch`, or −1 outside the planned grid. */
+function binOf(L: TemplateLayout, t: number, epoch: number): number {
+  if (!(epoch >= 0 && epoch < L.k0.length)) return -1;
+  const k = Math.round(t / L.cadenceS);
+  if (k < L.k0[epoch] || k > L.k1[epoch]) return -1;
+  return L.binStart[epoch] + Math.floor((k - L.k0[epoch]) / L.samplesPerBin);
+}
+
+/** out[b] = Σ values[i] over the samples i of bin b (zero-filled first); samples off the grid are skipped. */
+export function binSamples(L: TemplateLayout, timeS: Float64Array, epoch: Int32Array, values: Float64Array, out: Float64Array): Float64Array {
+  out.fill(0);
+  for (let i = 0; i < timeS.length; i++) {
+    const b = binOf(L, timeS[i], epoch[i]);
+    if (b >= 0) out[b] += values[i];
+  }
+  return out;
+}
+
+/** Per bin: the mean time of its planned samples, and the span (G − 1)·cadence + exposure of a full bin. */
+function binCentres(L: TemplateLayout, exposureS: number): { centreS: Float64Array; spanS: number } {
+  const centreS = new Float64Array(L.bins);
+  for (let e = 0; e < L.k0.length; e++) {
+    for (let k = L.k0[e]; k <= L.k1[e]; k++) centreS[L.binStart[e] + Math.floor((k - L.k0[e]) / L.samplesPerBin)] += k * L.cadenceS;
+  }
+  for (let b = 0; b < L.bins; b++) centreS[b] /= L.count[b];
+  return { centreS, spanS: (L.samplesPerBin - 1) * L.cadenceS + exposureS };
+}
+
+/** Times and epochs of every planned sample of the layout. */
+export function layoutSamples(L: TemplateLayout): { timeS: Float64Array; epoch: Int32Array } {
+  let n = 0;
+  for (let e = 0; e < L.k0.length; e++) n += Math.max(0, L.k1[e] - L.k0[e] + 1);
+  const timeS = new Float64Array(n);
+  const epoch = new Int32Array(n);
+  let i = 0;
+  for (let e = 0; e < L.k0.length; e++) {
+    for (let k = L.k0[e]; k <= L.k1[e]; k++, i++) {
+      timeS[i] = k * L.cadenceS;
+      epoch[i] = e;
+    }
+  }
+  return { timeS, epoch };
+}
+
+/** Per-sample scratch of templateResiduals, reused from one realization to the next (grown on demand; not shared between threads). */
+export class ResidualScratch {
+  private x = new Float64Array(0);
+  private model = new Float64Array(0);
+  arrays(n: number): { x: Float64Array; model: Float64Array } {
+    if (this.x.length < n) {
+      this.x = new Float64Array(Math.max(n, Math.ceil(1.25 * this.x.length)));
+      this.model = new Float64Array(this.x.length);
+    }
+    return { x: this.x.subarray(0, n), model: this.model.subarray(0, n) };
+  }
+}
+
+/**
+ * Normalised binned residuals ρ_b = Σ_{i∈b} (flux_i − m_i)/σ of one realization, m the global
+ * planet-only fit f0·T(t − nP − Δt) (globalTransitFit.ts). With no global fit (nothing observed) ρ = 0.
+ */
+export function templateResiduals(
+  L: TemplateLayout,
+  timeS: Float64Array,
+  epoch: Int32Array,
+  flux: Float64Array,
+  sigma: number,
+  global: GlobalTransitFit | null,
+  out: Float64Array = new Float64Array(L.bins),
+  scratch: ResidualScratch = new ResidualScratch(),
+): Float64Array {
+  out.fill(0);
+  if (global === null || !(sigma > 0)) return out;
+  const n = timeS.length;
+  const { x, model } = scratch.arrays(n);
+  for (let i = 0; i < n; i++) x[i] = timeS[i] - epoch[i] * L.periodS - global.offsetS;
+  templateFluxArray(global.template, x, n, model);
+  accumulateResiduals(L, timeS, epoch, flux, model, global.baseline, 1 / sigma, out);
+  return out;
+}
+
+function accumulateResiduals(
+  L: TemplateLayout, timeS: Float64Array, epoch: Int32Array, flux: Float64Array, model: Float64Array, f0: number, invSigma: number, out: Float64Array,
+): void {
+  for (let i = 0; i < timeS.length; i++) {
+    const b = binOf(L, timeS[i], epoch[i]);
+    if (b >= 0) out[b] += (flux[i] - f0 * model[i]) * invSigma;
+  }
+}
+
+/** A cell's bank: unit matched filters over the bins, one per template. */
+export interface TemplateBank {
+  bins: number;
+  /** Filters g_k (row k = bins [k·bins, (k+1)·bins)): z_k = Σ_b g_kb ρ_b. */
+  filters: Float64Array;
+  templates: number;
+  /** Per template, sqrt(d̃ᵀ W d̃) (relative flux): its SNR is this / σ. */
+  projectedNorm: Float64Array;
+  /** Per template, its SNR S_k = projectedNorm / σ at the instrument's white-noise σ. */
+  snr: Float64Array;
+  statistic: TemplateStatisticKind;
+  /** Per template, the moon's phase, node and periapsis (rad). */
+  phaseRad: Float64Array;
+  nodeRad: Float64Array;
+  periapsisRad: Float64Array;
+}
+
+export type TemplateStatisticKind = 'marginal' | 'max';
+
+export interface TemplateBankOptions {
+  /** The planet-only freedoms' orthonormal basis on this layout (`freedomBasis`), when already built. */
+  basis?: FreedomBasis;
+  /** The bank statistic (default 'marginal'; see the file comment). */
+  statistic?: TemplateStatisticKind;
+  /** Phases in the bank (default: `defaultPhaseCount`). */
+  phases?: number;
+  /** Nodes (inclined orbit) and periapses (eccentric orbit) in the bank (default 4 each, 1 when irrelevant). */
+  nodes?: number;
+  periapses?: number;
+}
+
+/** Spacing of the bank's phases: the moon's dip moves by at most this fraction of the stellar chord 2L between neighbours. */
+export const PHASE_STEP_PER_CHORD = 0.2;
+
+/**
+ * Most phases in a bank: the cost (bank build and the pass over the no-moon residuals) grows with
+ * them, and wide orbits, whose dip needs the most, are detected by their timing, which varies smoothly
+ * with the phase. Chosen for the 2-minute sweep budget (bench/efficiency.ts measures the efficiency).
+ */
+export const MAX_PHASES = 32;
+
+/**
+ * Phases needed so the moon's dip moves by at most PHASE_STEP_PER_CHORD of the stellar chord between
+ * neighbouring templates: N_φ = ⌈2π·a/(0.2·2L)⌉ (a the separation, L = sqrt(1 − b²) the half chord,
+ * stellar radii; the dip's overlap with a shifted copy drops linearly with the shift), 12 ≤ N_φ ≤ MAX_PHASES.
+ * A choice of this program (derived here), not a published rule. Measured on bench/efficiency.ts's
+ * system at 0.15 Hill radii: half this step moved the 50 % minimum detectable mass from 1.57× to
+ * 1.53× the stand-in bound, within the Monte Carlo noise, at up to twice the cost.
+ */
+export function defaultPhaseCount(s: Scenario): number {
+  if (!s.moon) return 1;
+  const a = s.moon.separationM / s.star.radiusM;
+  const b = Math.min(Math.abs(s.planet.impactParameter), 0.95);
+  const L = Math.sqrt(1 - b * b);
+  return Math.max(12, Math.min(MAX_PHASES, Math.ceil((2 * Math.PI * a) / (PHASE_STEP_PER_CHORD * 2 * L))));
+}
+
+/**
+ * The planet-only freedoms J, binned (columns of length L.bins, row-major by column): see the file
+ * comment. Derivatives of the template by central differences (step 1e-3 of p, 1e-2 in b, u1, u2,
+ * 1e-3 in the duration scale; a 1-s time shift).
+ */
+function freedomColumns(geometry: TemplateGeometry, L: TemplateLayout, t: Float64Array, epoch: Int32Array): Float64Array[] {
+  const n = t.length;
+  const x = new Float64Array(n);
+  for (let i = 0; i < n; i++) x[i] = t[i] - epoch[i] * L.periodS;
+  const evalAt = (g: TemplateGeometry, shiftS: number): Float64Array => {
+    const tpl = buildTransitTemplate(g, { stepsPerT14: 2000 });
+    const xs = new Float64Array(n);
+    for (let i = 0; i < n; i++) xs[i] = x[i] - shiftS;
+    const out = new Float64Array(n);
+    templateFluxArray(tpl, xs, n, out);
+    return out;
+  };
+  const diff = (plus: Float64Array, minus: Float64Array, h: number): Float64Array => {
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) out[i] = (plus[i] - minus[i]) / h;
+    return out;
+  };
+  const g0 = { ...geometry, timeScale: 1 };
+  const cols: Float64Array[] = [];
+  const dt = diff(evalAt(g0, 1), evalAt(g0, -1), 2);
+  cols.push(dt);
+  const dP = new Float64Array(n);
+  for (let i = 0; i < n; i++) dP[i] = epoch[i] * dt[i];
+  cols.push(dP);
+  const p = g0.radiusRatio;
+  cols.push(diff(evalAt({ ...g0, radiusRatio: p * 1.001 }, 0), evalAt({ ...g0, radiusRatio: p * 0.999 }, 0), 0.002 * p));
+  const b = g0.impactParameter;
+  const hb = 0.01;
+  const bLo = Math.max(0, b - hb);
+  const bHi = Math.min(b + hb, 0.99 * (1 + p));
+  if (bHi > bLo) cols.push(diff(evalAt({ ...g0, impactParameter: bHi }, 0), evalAt({ ...g0, impactParameter: bLo }, 0), bHi - bLo));
+  cols.push(diff(evalAt({ ...g0, timeScale: 1.001 }, 0), evalAt({ ...g0, timeScale: 0.999 }, 0), 0.002));
+  cols.push(diff(evalAt({ ...g0, u1: g0.u1 + 0.01 }, 0), evalAt({ ...g0, u1: g0.u1 - 0.01 }, 0), 0.02));
+  cols.push(diff(evalAt({ ...g0, u2: g0.u2 + 0.01 }, 0), evalAt({ ...g0, u2: g0.u2 - 0.01 }, 0), 0.02));
+  const binned = cols.map((c) => binSamples(L, t, epoch, c, new Float64Array(L.bins)));
+  // Per window: baseline offset and slope (sums of 1 and of x/T14 over the bin's samples).
+  const scale = 1 / Math.max(1, L.cadenceS * (L.k1[0] - L.k0[0] + 1));
+  for (let e = 0; e < L.k0.length; e++) {
+    const off = new Float64Array(L.bins);
+    const slope = new Float64Array(L.bins);
+    for (let i = 0; i < n; i++) {
+      if (epoch[i] !== e) continue;
+      const bin = binOf(L, t[i], e);
+      off[bin] += 1;
+      slope[bin] += x[i] * scale;
+    }
+    binned.push(off, slope);
+  }
+  return binned;
+}
+
+/**
+ * Orthonormal basis (in the W = diag(1/count) inner product) of the columns, by modified
+ * Gram–Schmidt applied twice (Golub & Van Loan 2013, Matrix Computations, 4th ed., §5.2.8–5.2.9;
+ * "twice is enough", Giraud et al. 2005, Numer. Math. 101, 87). A column whose remainder is below
+ * 1e-9 of its norm is dependent on the others and dropped.
+ */
+function orthonormalBasis(cols: Float64Array[], w: Float64Array): Float64Array[] {
+  const basis: Float64Array[] = [];
+  for (const c of cols) {
+    const v = Float64Array.from(c);
+    const norm0 = Math.sqrt(wDot(v, v, w));
+    if (!(norm0 > 0)) continue;
+    for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(v, q, -wDot(q, v, w));
+    const norm = Math.sqrt(wDot(v, v, w));
+    if (!(norm > 1e-9 * norm0)) continue;
+    for (let i = 0; i < v.length; i++) v[i] /= norm;
+    basis.push(v);
+  }
+  return basis;
+}
+
+/** Σ a_i b_i w_i, w = 1/count (0 where count is 0). */
+function wDot(a: Float64Array, b: Float64Array, w: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += a[i] * b[i] * w[i];
+  return s;
+}
+
+function inverseCounts(count: Float64Array): Float64Array {
+  const w = new Float64Array(count.length);
+  for (let i = 0; i < count.length; i++) w[i] = count[i] > 0 ? 1 / count[i] : 0;
+  return w;
+}
+
+function axpy(y: Float64Array, x: Float64Array, a: number): void {
+  for (let i = 0; i < y.length; i++) y[i] += a * x[i];
+}
+
+/** The planet-only freedoms of a layout, orthonormal in the W = diag(1/count) inner product, and W itself. */
+export interface FreedomBasis {
+  vectors: Float64Array[];
+  w: Float64Array;
+}
+
+/** The planet-only freedoms of scenario `s` (its moon ignored) on layout L: the same for every cell of a null class. */
+export function freedomBasis(s: Scenario, L: TemplateLayout): FreedomBasis {
+  const { timeS, epoch } = layoutSamples(L);
+  const w = inverseCounts(L.count);
+  return { vectors: orthonormalBasis(freedomColumns(templateGeometryFromScenario({ ...s, moon: null }), L, timeS, epoch), w), w };
+}
+
+/**
+ * The bank of cell scenario `s` (with its moon) on layout `L` (the null class's: the cell's moonless
+ * scenario). σ only sets the light curve's smearing tolerance, as in observeScenario.
+ * @throws RangeError when the scenario has no moon.
+ */
+export function buildTemplateBank(s: Scenario, L: TemplateLayout, o: TemplateBankOptions = {}): TemplateBank {
+  const moon = s.moon;
+  if (!moon) throw new RangeError('buildTemplateBank: the scenario has no moon');
+  const nPhase = o.phases ?? defaultPhaseCount(s);
+  const nNode = moon.inclinationRad > 0 ? (o.nodes ?? 4) : 1;
+  const nPeri = moon.eccentricity > 0 ? (o.periapses ?? 4) : 1;
+  // Templates per bin: the exact flux averaged over the bin's span (one exposure of G cadences at the
+  // bin's mean time, times its sample count), the gaps between exposures neglected (see the file comment).
+  const { centreS, spanS } = binCentres(L, s.instrument.exposureS);
+  const n = L.bins;
+  const binned = new Float64Array(n);
+  const sigma = whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS);
+  const tolerance = Math.max(DEFAULT_SMEARING_TOLERANCE, 0.02 * sigma);
+  const ws = new LightCurveWorkspace();
+  const asBins = (x: Scenario): Scenario => ({ ...x, instrument: { ...x.instrument, exposureS: spanS } });
+  const alone = modelFlux(centreS, lightCurveModel(asBins({ ...s, moon: null }), { tolerance }), new Float64Array(n), ws);
+  const fb = o.basis ?? freedomBasis(s, L);
+  const w = fb.w;
+  const basis = fb.vectors;
+  const total = nPhase * nNode * nPeri;
+  const filters = new Float64Array(total * L.bins);
+  const projectedNorm = new Float64Array(total);
+  const phaseRad = new Float64Array(total);
+  const nodeRad = new Float64Array(total);
+  const periapsisRad = new Float64Array(total);
+  const flux = new Float64Array(n);
+  let k = 0;
+  for (let ip = 0; ip < nPhase; ip++) {
+    for (let inode = 0; inode < nNode; inode++) {
+      for (let iperi = 0; iperi < nPeri; iperi++, k++) {
+        const ph = (2 * Math.PI * ip) / nPhase;
+        const node = nNode > 1 ? (2 * Math.PI * inode) / nNode : moon.nodeRad;
+        const peri = nPeri > 1 ? (2 * Math.PI * iperi) / nPeri : moon.periapsisRad;
+        const sk: Scenario = { ...s, moon: { ...moon, phaseRad: ph, nodeRad: node, periapsisRad: peri } };
+        modelFlux(centreS, lightCurveModel(asBins(sk), { tolerance }), flux, ws);
+        for (let b = 0; b < n; b++) binned[b] = (flux[b] - alone[b]) * L.count[b];
+        for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(binned, q, -wDot(q, binned, w));
+        const norm = Math.sqrt(wDot(binned, binned, w));
+        projectedNorm[k] = norm;
+        phaseRad[k] = ph;
+        nodeRad[k] = node;
+        periapsisRad[k] = peri;
+        const row = filters.subarray(k * L.bins, (k + 1) * L.bins);
+        if (norm > 0) for (let b = 0; b < L.bins; b++) row[b] = (binned[b] * w[b]) / norm;
+      }
+    }
+  }
+  const snr = new Float64Array(total);
+  const sigmaRef = sigma > 0 ? sigma : NOMINAL_SIGMA;
+  for (let j = 0; j < total; j++) snr[j] = projectedNorm[j] / sigmaRef;
+  const statistic = o.statistic ?? 'marginal';
+  if (statistic !== 'marginal' && statistic !== 'max') throw new RangeError(`statistic must be 'marginal' or 'max', got ${String(statistic)}`);
+  return { bins: L.bins, filters, templates: total, projectedNorm, snr, statistic, phaseRad, nodeRad, periapsisRad };
+}
+
+/**
+ * The bank statistic of normalised binned residuals ρ (length bank.bins, at `offset` in `rho`),
+ * z_k = Σ_b g_kb ρ_b: 'max' → max_k z_k; 'marginal' → ln mean_k exp(S_k z_k − S_k²/2), summed
+ * stably about its largest term (see the file comment). −∞ for an empty bank.
+ */
+export function templateStatistic(bank: TemplateBank, rho: Float64Array, offset = 0, z: Float64Array = new Float64Array(bank.templates)): number {
+  const S = bank.snr;
+  const marginal = bank.statistic === 'marginal';
+  filterOutputs(bank.filters, bank.templates, bank.bins, rho, offset, z);
+  let best = -Infinity;
+  let sum = 0;
+  for (let k = 0; k < bank.templates; k++) {
+    const v = marginal ? S[k] * z[k] - 0.5 * S[k] * S[k] : z[k];
+    if (!marginal) {
+      if (v > best) best = v;
+      continue;
+    }
+    // Running log-sum-exp: sum holds Σ exp(v − best).
+    if (v > best) {
+      sum = sum * Math.exp(best - v) + 1;
+      best = v;
+    } else sum += Math.exp(v - best);
+  }
+  return marginal && bank.templates > 0 ? best + Math.log(sum / bank.templates) : best;
+}
+
+/**
+ * z[k] = Σ_b g[k·B + b]·ρ[offset + b] for k < T: four templates per pass over ρ (a quarter of the
+ * loads of ρ and of the loop overhead; the sums are the same products added in the same order).
+ */
+function filterOutputs(g: Float64Array, T: number, B: number, rho: Float64Array, offset: number, z: Float64Array): void {
+  let k = 0;
+  for (; k + 4 <= T; k += 4) {
+    const a0 = k * B;
+    const a1 = a0 + B;
+    const a2 = a1 + B;
+    const a3 = a2 + B;
+    let z0 = 0;
+    let z1 = 0;
+    let z2 = 0;
+    let z3 = 0;
+    for (let b = 0; b < B; b++) {
+      const x = rho[offset + b];
+      z0 += g[a0 + b] * x;
+      z1 += g[a1 + b] * x;
+      z2 += g[a2 + b] * x;
+      z3 += g[a3 + b] * x;
+    }
+    z[k] = z0;
+    z[k + 1] = z1;
+    z[k + 2] = z2;
+    z[k + 3] = z3;
+  }
+  for (; k < T; k++) {
+    const a = k * B;
+    let s = 0;
+    for (let b = 0; b < B; b++) s += g[a + b] * rho[offset + b];
+    z[k] = s;
+  }
+}
+
+/** The statistic of every realization of a flat array of ρ (realization r at r·bins). */
+export function templateStatistics(bank: TemplateBank, rhoFlat: Float64Array, count: number): Float64Array {
+  const out = new Float64Array(count);
+  const z = new Float64Array(bank.templates);
+  for (let r = 0; r < count; r++) out[r] = templateStatistic(bank, rhoFlat, r * bank.bins, z);
+  return out;
+}
