@@ -40,16 +40,23 @@
  * survival function at that threshold.
  *
  * Combined: the Monte Carlo's decision rule (timing/detection.ts) forecast
- * for the channels modelled here. Each of the m channels the Monte Carlo
- * combines (TTV, TDV and the moon dip; `combinedChannels`) is tested at the
- * level `combinedChannelAlpha(α, m)`, and a detection in any of them counts:
+ * for the channels modelled here, the timing channels. The Monte Carlo joins
+ * TTV, TDV, the moon dip and the photodynamical template channel by a
+ * weighted min-p rule (COMBINED_RULE_WEIGHTS); to first order that tests
+ * channel c at α·w_c/Σw over the channels that exist (weighted Bonferroni,
+ * Genovese, Roeder & Wasserman 2006, Biometrika 93, 509; the rule calibrated
+ * on no-moon realizations is a little less conservative), so each timing
+ * channel is tested at `timingChannelAlpha(α, N)`, and a detection in either counts:
  *   P = 1 − Π (1 − P_ch)      over TTV and TDV,
  * independent channels (under white noise the fitted mid-time and duration
  * of a symmetric transit are uncorrelated: Carter et al. 2008, ApJ 689, 499,
  * §3, their Fisher matrix). In mode 2 the product is formed at each signal
- * phase φ (TTV and TDV share it) and then averaged. The moon-dip channel is
- * not forecast: its share of the combined probability is missing, so the
- * combined forecast is a lower estimate where the dip carries the signal.
+ * phase φ (TTV and TDV share it) and then averaged. The moon-dip and
+ * template channels are not forecast here: their share of the combined
+ * probability is missing, so the combined forecast is a lower estimate, and
+ * the template channel usually carries most of the signal. Its ideal, the
+ * known-template bound (`pdet_bound`, timing/knownTemplateBound.ts), is the
+ * upper estimate: the Monte Carlo's combined probability lies between them.
  *
  * Few transits. A channel exists only with at least one degree of freedom
  * left after its fit (a χ² with 0 dof is identically 0 and carries no
@@ -81,7 +88,7 @@ export interface DetectionForecastInput {
   falseAlarm: number;
   /** Optional alias frequency ν of the TTV/TDV signal, cycles per epoch in [0, ½] (mode 2). */
   aliasFrequencyPerEpoch?: number;
-  /** Channels the Monte Carlo's combined rule joins, m (default: the timing channels N allows, plus the moon dip). */
+  /** Channels the combined rule joins at α/m each (Bonferroni); default: the Monte Carlo's weighted rule (`timingChannelAlpha`). */
   combinedChannels?: number;
 }
 
@@ -136,6 +143,22 @@ export function missingChannelNotes(n: number): string[] {
  */
 export type CombinationRule = 'bonferroni' | 'sidak';
 export const MONTE_CARLO_COMBINATION: CombinationRule = 'bonferroni';
+
+/**
+ * Weights of the Monte Carlo's combined rule (timing/detection.ts, applied in sweep/runCell.ts): the
+ * template channel is the likelihood ratio of the whole light curve for the cell's moon (most powerful
+ * on average over its phase for white noise: timing/templateSearch.ts), so it carries most of α; the
+ * summary channels keep a small share each, a guard against what the templates leave out (red noise,
+ * model mismatch). A choice of this program, normalised over the channels that exist.
+ */
+export const COMBINED_RULE_WEIGHTS = { template: 0.85, ttv: 0.05, tdv: 0.05, dip: 0.05 } as const;
+
+/** Level at which the combined rule tests each timing channel to first order: α·w/Σw over the channels N transits allow. */
+export function timingChannelAlpha(alpha: number, nTransits: number): number {
+  const w = COMBINED_RULE_WEIGHTS;
+  const total = w.template + w.dip + (nTransits >= 2 ? w.tdv : 0) + (nTransits >= 3 ? w.ttv : 0);
+  return (alpha * w.ttv) / total;
+}
 
 /** Per-channel false-alarm level of the combined rule over m channels. */
 export function combinedChannelAlpha(alpha: number, m: number, rule: CombinationRule = MONTE_CARLO_COMBINATION): number {
@@ -241,8 +264,7 @@ export function forecastDetection(input: DetectionForecastInput): DetectionForec
   const nu = input.aliasFrequencyPerEpoch;
   if (nu !== undefined && !(nu >= 0 && nu <= 0.5)) throw new RangeError(`aliasFrequencyPerEpoch must be in [0, 0.5]; got ${nu}`);
   if (n < 2) return { ttv: null, tdv: null, joint: null, combined: null, notes: missingChannelNotes(n) };
-  const m = input.combinedChannels ?? (n >= 3 ? 3 : 2);
-  const level = combinedChannelAlpha(falseAlarm, m);
+  const level = input.combinedChannels !== undefined ? combinedChannelAlpha(falseAlarm, input.combinedChannels) : timingChannelAlpha(falseAlarm, n);
   if (nu !== undefined) {
     // TTV s = A(cosφ·u + sinφ·v), residual after the line; TDV s = −B(cosφ·v − sinφ·u), residual after the mean.
     const rt = residualProducts(n, nu, true);

@@ -47,7 +47,7 @@ import { withCampaignEpochs } from '../noise/observingPlan.js';
 import type { Scenario } from '../scenario/types.js';
 import { CELL_PARSE, withoutMoon } from './applyAxes.js';
 import { computeLimits, moonPlacement, type LimitsJson } from '../limits/computeLimits.js';
-import { missingChannelSummary } from '../physics/detectionForecast.js';
+import { COMBINED_RULE_WEIGHTS, missingChannelSummary } from '../physics/detectionForecast.js';
 import { barycentreSkyVelocity } from '../physics/timingSignals.js';
 import { createRng } from '../noise/rng.js';
 import { RealizationWorkspace, runRealization } from '../timing/realization.js';
@@ -98,14 +98,8 @@ export function channelsFor(transits: number): DetectionChannel[] {
   return DETECTION_CHANNELS.filter((ch) => (ch === 'ttv' ? transits >= 3 : ch === 'tdv' ? transits >= 2 : true));
 }
 
-/**
- * Weights of the combined rule's p-values (timing/detection.ts): the template channel is the
- * likelihood ratio of the whole light curve for the cell's moon (most powerful on average over its
- * phase for white noise: templateSearch.ts), so it carries most of α; the summary channels keep a
- * small share each, a guard against what the templates leave out (red noise, model mismatch).
- * A choice of this program, normalised over the channels that exist.
- */
-export const COMBINED_WEIGHTS = { template: 0.85, ttv: 0.05, tdv: 0.05, dip: 0.05 } as const;
+/** Weights of the combined rule's p-values (physics/detectionForecast.ts says why; the forecast uses the same). */
+export const COMBINED_WEIGHTS = COMBINED_RULE_WEIGHTS;
 
 /** Grid cells parse a moon that touches its planet as a physical label, not an input error (applyAxes.ts). */
 export { CELL_PARSE };

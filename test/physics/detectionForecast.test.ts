@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { mulberry32 } from '../helpers/mulberry32.js';
-import { anyOfIndependent, combinedChannelAlpha, forecastDetection } from '../../src/physics/detectionForecast.js';
+import { anyOfIndependent, combinedChannelAlpha, forecastDetection, timingChannelAlpha } from '../../src/physics/detectionForecast.js';
 import { chiSquareUpperQuantile } from '../../src/numeric/noncentralChiSquare.js';
 
 
@@ -61,7 +61,8 @@ describe('forecastDetection', () => {
   it('given ν = 0.36875 (Earth–Moon alias): phase-averaged forecast matches a seeded Monte Carlo within 4 binomial σ', () => {
     const trials = 20_000;
     const inp = { nTransits: 15, sigmaTcS: 60, sigmaDurS: 90, ttvRmsS: 60, tdvRmsS: 70, falseAlarm: 0.01 };
-    const f = forecastDetection({ ...inp, aliasFrequencyPerEpoch: 0.36875 });
+    // combinedChannels: 3 asks for the rule the simulation below applies (each channel at α/3).
+    const f = forecastDetection({ ...inp, aliasFrequencyPerEpoch: 0.36875, combinedChannels: 3 });
     const mc = simulate(15, 0.36875, 60, 70, 60, 90, 0.01, trials, 7);
     for (const key of ['ttv', 'tdv', 'joint'] as const) {
       const p = f[key]!.probability;
@@ -77,6 +78,12 @@ describe('forecastDetection', () => {
     expect(combinedChannelAlpha(0.05, 3, 'sidak')).toBeCloseTo(0.016952427508441503, 14); // 1 − 0.95^(1/3), by hand
     expect(anyOfIndependent([0.5, 0.5])).toBeCloseTo(0.75, 15); // by hand
     expect(anyOfIndependent([])).toBe(0);
+  });
+  it('the Monte Carlo\'s weighted rule tests each timing channel at α·w/Σw over the channels that exist', () => {
+    // By hand from the weights (template 0.85, TTV, TDV, dip 0.05 each; Genovese, Roeder & Wasserman 2006).
+    expect(timingChannelAlpha(0.01, 10)).toBeCloseTo(0.0005, 15);
+    expect(timingChannelAlpha(0.01, 2)).toBeCloseTo((0.01 * 0.05) / 0.95, 15); // no TTV channel
+    expect(timingChannelAlpha(0.01, 1)).toBeCloseTo((0.01 * 0.05) / 0.9, 15);
   });
 
   it('given a low alias frequency ν = 0.07 (signal largely absorbed by the ephemeris) the same holds', () => {
