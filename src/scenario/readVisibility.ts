@@ -23,8 +23,9 @@ export type UtcDateParser = (value: unknown, endOfDay: boolean) => number | null
 
 /** Read `visibility` from the top-level reader; null when the block is absent. */
 export function readVisibility(top: FieldReader, campaignStartUtcS: number | null, parseUtcDate: UtcDateParser): VisibilitySpec | null {
-  const present = top.has('visibility') && top.raw('visibility') !== null;
-  const r = new FieldReader(present ? top.raw('visibility') : {}, 'visibility', top.problems);
+  const block = top.raw('visibility');
+  const present = block !== undefined && block !== null;
+  const r = new FieldReader(present ? block : {}, 'visibility', top.problems);
   const name = r.string('name', 'space');
   const onS = r.field('on', { required: present });
   const offS = r.field('off');
@@ -56,10 +57,14 @@ export function readVisibility(top: FieldReader, campaignStartUtcS: number | nul
  * campaign's start, the same way.
  */
 function readReference(r: FieldReader, campaignStartUtcS: number | null, present: boolean, parseUtcDate: UtcDateParser): number {
-  const raw = r.has('start') ? r.raw('start') : undefined;
+  const raw = r.raw('start');
   if (raw === undefined || raw === null) {
     if (!present) return Number.NaN;
-    if (campaignStartUtcS === null || !Number.isFinite(campaignStartUtcS)) return Number.NaN; // the campaign's own problem says why
+    if (campaignStartUtcS === null) {
+      r.problem('start', raw, 'required without a campaign start: a BJD_TDB in days (2461041.5) or a date "2027-01-01"');
+      return Number.NaN;
+    }
+    if (!Number.isFinite(campaignStartUtcS)) return Number.NaN; // the campaign's own problem says why
     return JD_J2000 + (campaignStartUtcS + ttMinusUtcS(campaignStartUtcS)) / DAY_S;
   }
   if (typeof raw === 'number') {
