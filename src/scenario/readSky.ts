@@ -139,7 +139,8 @@ export function parseSexagesimal(text: string, unit: 'hours' | 'degrees'): numbe
     ? /^([+-]?)(\d{1,3})h\s*(\d{1,2})m\s*(?:(\d{1,2}(?:\.\d*)?)s)?$/.exec(t)
     : /^([+-]?)(\d{1,3})[d°]\s*(\d{1,2})['m′]\s*(?:(\d{1,2}(?:\.\d*)?)(?:["s″]|''))?$/.exec(t);
   const m = colon ?? letters;
-  if (!m) return /^[+-]?\d+\s*[:hd°]/.test(t) || /^[+-]?\d+ \d+/.test(t) ? null : undefined;
+  // Sexagesimal-looking ("12:3", "12d 3", "8h"), not a quantity with a unit ("120 deg", "8 hourangle").
+  if (!m) return /^[+-]?\d+\s*(?::|[hd°]\s*(?:\d|$))/.test(t) || /^[+-]?\d+ \d+/.test(t) ? null : undefined;
   const [, sign, a, b, c] = m;
   const mins = Number(b);
   const secs = c === undefined ? 0 : Number(c);
