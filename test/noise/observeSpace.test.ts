@@ -17,6 +17,7 @@ import { createRng } from '../../src/noise/rng.js';
 import { transitCalendar } from '../../src/sky/calendar.js';
 import { runRealization } from '../../src/timing/realization.js';
 import type { Scenario } from '../../src/scenario/types.js';
+import { knownTemplateBound } from '../../src/timing/knownTemplateBound.js';
 
 const DAY = 86400;
 const demo = readFileSync(new URL('../../scenarios/demo-space.yaml', import.meta.url), 'utf8');
@@ -87,5 +88,17 @@ describe('a space instrument\'s observing plan', () => {
     const r1 = runRealization(s, createRng(s.seed, 3, 1));
     const r2 = runRealization(clone, createRng(s.seed, 3, 1));
     expect(JSON.stringify(r1)).toBe(JSON.stringify(r2));
+  });
+
+  it('the known-template bound uses the same exposures: the gaps of the pattern lower its SNR against an always-visible instrument', () => {
+    const always = parseScenarioText(demo.replace(/^visibility:\n(?: {2}.*\n)+/m, 'visibility: {on: 95 min}\n'), 'always');
+    const mean = (x: Float64Array) => x.reduce((a, b) => a + b, 0) / x.length;
+    const gapped = mean(knownTemplateBound(s, { angles: 8 }).snr);
+    const whole = mean(knownTemplateBound(always, { angles: 8 }).snr);
+    expect(Number.isFinite(gapped)).toBe(true);
+    // Fewer exposures (about 19 % of the windows' time) can only lower a matched-filter SNR, which adds in
+    // quadrature over exposures (e.g. Kay 1998, Fundamentals of Statistical Signal Processing II, §4.3).
+    expect(gapped).toBeLessThan(whole);
+    expect(gapped).toBeGreaterThan(0);
   });
 });
