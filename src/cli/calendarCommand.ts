@@ -5,6 +5,7 @@ import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
 import { InputError } from '../scenario/errors.js';
 import { SITE_CALENDAR_ONLY } from '../scenario/readSky.js';
+import { VISIBILITY_CALENDAR_ONLY } from '../scenario/readVisibility.js';
 import { transitCalendar, type CalendarCounts, type CalendarResult } from '../sky/calendar.js';
 import { renderTable, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
@@ -26,7 +27,7 @@ export function registerCalendar(program: Command, io: CliIo): void {
       }
       const scenario = loadScenario(scenarioPath);
       // Odd but legal inputs as note: lines, except the one saying that only this command reads the site.
-      const own = scenario.cautions?.filter((c) => c.message !== SITE_CALENDAR_ONLY);
+      const own = scenario.cautions?.filter((c) => c.message !== SITE_CALENDAR_ONLY && c.message !== VISIBILITY_CALENDAR_ONLY);
       io.err(formatCautions(own ? Object.defineProperty({ ...scenario }, 'cautions', { value: own }) : scenario));
       const cal = transitCalendar(scenario, scenarioPath);
       if (opts.out !== undefined) writeFileAtomic(opts.out, renderTable(opts.out, calendarColumns(cal), calendarMeta(cal)));

@@ -18,6 +18,9 @@ const JD_J2000 = 2451545.0;
 const FIRST_JD = 2441317.5;
 const LAST_JD = 2488069.5;
 
+/** The caution a scenario with a visibility pattern carries (as SITE_CALENDAR_ONLY for a site). */
+export const VISIBILITY_CALENDAR_ONLY = 'with campaign, sweep and simulate observe only the visible parts of the campaign\'s transits (the campaign\'s transits replace observation.transits; the stated noise, no weather); limits and the budget\'s Monte Carlo still assume every transit is observed whole (the budget turns its count into visits)';
+
 /** A date reader (readSky's `parseUtcDate`, passed in to keep the two files free of an import cycle). */
 export type UtcDateParser = (value: unknown, endOfDay: boolean) => number | null;
 
