@@ -12,6 +12,8 @@ import { FieldReader } from './fieldReader.js';
 import { ttMinusUtcS } from '../sky/timeScales.js';
 import type { VisibilitySpec } from './types.js';
 
+/** Shortest cycle (on + off, block + gap) allowed, s (common practice, no source: below a minute no cadence resolves it). */
+const MIN_CYCLE_S = 60;
 /** JD of J2000.0 (2000-01-01T12:00:00 TT), days. */
 const JD_J2000 = 2451545.0;
 /** BJD_TDB range of `visibility.start` as a number: 1972-01-01 to 2100-01-01 (JD 2441317.5 to 2488069.5). */
@@ -39,6 +41,9 @@ export function readVisibility(top: FieldReader, campaignStartUtcS: number | nul
   r.rejectUnknown();
   if (!present) return null;
   if (!blockGiven && r.has('gap') && r.raw('gap') !== null) r.problem('gap', r.raw('gap'), 'a gap between blocks needs visibility.block (the length of a block)');
+  // Each cycle at least a minute long: shorter ones are below any cadence, and they bound the number of stretches a window holds.
+  if (offS > 0 && onS + offS < MIN_CYCLE_S) r.problem('off', r.raw('off'), `on + off must be at least ${MIN_CYCLE_S / 60} minute (a cycle shorter than an exposure is not a schedule)`);
+  if (blockGiven && gapS > 0 && blockS + gapS < MIN_CYCLE_S) r.problem('gap', r.raw('gap'), `block + gap must be at least ${MIN_CYCLE_S / 60} minute`);
   if (top.has('site') && top.raw('site') !== null) {
     top.problem('site', '(given)', 'a site and visibility exclude each other: drop `site` for a space instrument, or drop `visibility` for a ground one');
   }

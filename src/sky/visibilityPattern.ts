@@ -19,7 +19,7 @@ import type { VisibilitySpec } from '../scenario/types.js';
 type Interval = [number, number];
 
 /** Most visible stretches one window may hold (bounds the work of a very short cycle). */
-export const MAX_STRETCHES_PER_WINDOW = 100_000;
+export const MAX_STRETCHES_PER_WINDOW = 100_000; // the reader's 1-minute cycles give at most ~30 000 in a 20-day window
 
 /** The stretches [kT, kT + on] (k integer) that meet [a, b], cut to it; the whole window when off = 0. */
 function periodicOn(a: number, b: number, on: number, off: number): Interval[] {
@@ -67,7 +67,12 @@ export function visibleStretches(v: VisibilitySpec, originBjdTdb: number, a: num
   return seen.map(([x, y]) => [x - shift, y - shift] as Interval);
 }
 
-/** The long-run visible fraction of the pattern: on/(on + off), times block/(block + gap) with blocks. */
+/**
+ * The long-run visible fraction of the pattern: on/(on + off), times
+ * block/(block + gap) with blocks; with blocks it is exact when the two
+ * cycles are incommensurate and approximate otherwise (both start at the
+ * reference, so a block may hold a part-cycle more or less).
+ */
 export function visibleFraction(v: VisibilitySpec): number {
   const orbit = v.onS / (v.onS + v.offS);
   return v.blockS === null ? orbit : orbit * (v.blockS / (v.blockS + v.gapS));

@@ -130,6 +130,7 @@ describe('bad visibility input', () => {
     ['unknown key', 'visibility.of', base('{on: 55 min, of: 40 min}')],
     ['gap without block', 'visibility.gap', base('{on: 55 min, gap: 3 d}')],
     ['block without gap', 'visibility.gap', base('{on: 55 min, block: 3 d}')],
+    ['a cycle shorter than a minute', 'visibility.off', base('{on: 20 s, off: 20 s}')],
     ['malformed start', 'visibility.start', base('{on: 55 min, start: soon}')],
     ['with a site', 'site', base('{on: 55 min}', 'site: {latitude: -30 deg, longitude: -70 deg}\n')],
     ['with constraints', 'constraints', base('{on: 55 min}', 'constraints: {airmass: 2}\n')],
