@@ -1,7 +1,8 @@
 /**
  * The calendar a sweep page shows: every usable epoch of the base scenario's
  * campaign (src/budget/nightsBudget.ts with no count), when the scenario
- * gives site, target and campaign; null otherwise.
+ * gives site, target and campaign (or a space instrument's visibility and
+ * campaign); null otherwise.
  */
 import { nightsPlan, type NightsPlan } from '../budget/nightsBudget.js';
 import { parseScenario } from '../scenario/parseScenario.js';
@@ -13,6 +14,7 @@ export function campaignCalendar(scenarioDoc: unknown): NightsPlan | null {
   delete doc.budget;
   const s = parseScenario(doc, 'scenario');
   const sky = s.sky;
-  if (!sky || sky.sites.length === 0 || !sky.target || !sky.campaign) return null;
+  if (!sky || !sky.campaign) return null;
+  if (!sky.visibility && (sky.sites.length === 0 || !sky.target)) return null;
   return nightsPlan(s, null);
 }

@@ -142,7 +142,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   if (part.evaluations.length > 0) ctx.notes.push(...nullCountNotes(ctx, part.evaluations));
   // With a site, the count becomes nights, hours on sky and calendar time (src/budget/nightsBudget.ts).
   const observability = budgetObservability(withSky, part.answer.reached ? part.answer.transits : null, source);
-  const notes = withSky.sky && withSky.sky.sites.length > 0 ? [siteNote(observability), ...ctx.notes] : ctx.notes;
+  const notes = withSky.sky && (withSky.sky.sites.length > 0 || withSky.sky.visibility) ? [siteNote(observability), ...ctx.notes] : ctx.notes;
   const answer = observability.plan && part.answer.reached ? { ...part.answer, statement: `${part.answer.statement} ${wholeToSky(observability.plan)}` } : part.answer;
   return {
     scenario: base.name,

@@ -55,13 +55,14 @@ export function perYearLines(p: NightsPlan): string[] {
 export function formatObservability(o: Observability): string[] {
   if (!o.plan) return ['', 'Observability', `  ${o.statement}`];
   const p = o.plan;
-  const lines = ['', `Observing calendar (${p.sites.join(', ')}; clear nights ${Math.round(100 * p.clear_fraction)} % of the time)`, `  ${o.statement}`];
+  const head = p.visits ? `${p.sites[0]}, visibility pattern, no weather` : `${p.sites.join(', ')}; clear nights ${Math.round(100 * p.clear_fraction)} % of the time`;
+  const lines = ['', `Observing calendar (${head})`, `  ${o.statement}`];
   if (p.transits_needed !== null && p.needed_length_s !== null) {
     lines.push(
       '',
       `  transits needed         ${p.transits_needed} whole-transit equivalents`,
       `  epochs to book          ${p.epochs_booked} (${p.expected_whole_equivalent.toFixed(1)} equivalents and ${p.expected_whole_transits.toFixed(1)} whole transits expected after weather)`,
-      `  nights                  ${p.nights}`,
+      `  ${p.visits ? 'visits ' : 'nights '}                 ${p.nights}`,
       `  hours on sky            ${(p.on_sky_s / HOUR_S).toFixed(1)} h (${(p.in_transit_s / HOUR_S).toFixed(1)} h in transit, ${(p.baseline_s / HOUR_S).toFixed(1)} h of baselines)`,
       `  calendar time           ${(p.needed_length_s / 86400).toFixed(0)} days from ${p.campaign_start_utc.slice(0, 10)}, to ${p.needed_end_utc!.slice(0, 10)}${p.campaign_sufficient ? '' : ' (beyond the campaign as given)'}`,
       `  chance of the count     ${p.probability_enough === null ? '-' : p.probability_enough.toFixed(2)} with these bookings; ${p.confident_length_s === null ? 'a 90 % chance is not reached' : `90 % after ${(p.confident_length_s / 86400).toFixed(0)} days, to ${p.confident_end_utc!.slice(0, 10)}`}`,

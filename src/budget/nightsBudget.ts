@@ -36,6 +36,7 @@ import { transitCalendar, observableIntervals, BOOKING_SIGMAS, type CalendarResu
 import { EpochSky } from '../sky/skyPosition.js';
 import { altitudeForAirmass } from '../sky/airmass.js';
 import { isoUtc, utcSFromDate } from '../sky/timeScales.js';
+import { visibleStretches } from '../sky/visibilityPattern.js';
 import type { Scenario, SiteSpec } from '../scenario/types.js';
 
 const DEG = Math.PI / 180;
@@ -108,6 +109,8 @@ export interface SeasonPoint {
 export interface NightsPlan {
   /** Whole-transit equivalents needed (null: book every usable epoch of the campaign). */
   transits_needed: number | null;
+  /** A space instrument (scenario `visibility`): its bookings are visits, one per epoch, with no weather; `nights` counts them. */
+  visits: boolean;
   clear_fraction: number;
   sites: string[];
   campaign_start_utc: string;
@@ -187,7 +190,8 @@ export function nightOf(utcS: number, longitudeRad: number): string {
 
 interface RowInfo {
   row: CalendarTransit;
-  site: SiteSpec;
+  /** The ground site; null for a space instrument. */
+  site: SiteSpec | null;
   iv: Interval[];
   t1: number;
   t4: number;
@@ -246,7 +250,7 @@ function epochsOf(cal: CalendarResult, s: Scenario, c: number, beyond: boolean):
     const t1 = parseUtc(row.transit_start_utc);
     const t4 = parseUtc(row.transit_end_utc);
     const iv: Interval[] = row.observable_intervals_utc.map(([a, b]) => [parseUtc(a), parseUtc(b)]);
-    const info: RowInfo = { row, site: siteByName.get(row.site)!, iv, t1, t4, ramps: rampCoverage(iv, t1, t4, cal.ingress_duration_s) };
+    const info: RowInfo = { row, site: siteByName.get(row.site) ?? null, iv, t1, t4, ramps: rampCoverage(iv, t1, t4, cal.ingress_duration_s) };
     const list = byEpoch.get(row.epoch) ?? [];
     list.push(info);
     byEpoch.set(row.epoch, list);
@@ -284,6 +288,7 @@ class SumDistribution {
 
 function bookingsOf(e: EpochInfo, s: Scenario): NightBooking[] {
   const sky = s.sky!;
+  const v = sky.visibility ?? null;
   const sunLimit = sky.constraints.sunAltitudeRad;
   const minAlt = altitudeForAirmass(sky.constraints.airmass) * DEG;
   const out: NightBooking[] = [];
@@ -293,10 +298,22 @@ function bookingsOf(e: EpochInfo, s: Scenario): NightBooking[] {
     const a = parseUtc(r.row.book_start_utc);
     const b = parseUtc(r.row.book_end_utc);
     // With the calendar's own stretches: a sliver of a minute or so can fall between the samples of the longer window.
-    const iv = union([...observableIntervals(new EpochSky(a, b, sky.target!), r.site, a, b, sunLimit, minAlt), ...r.iv]);
+    let iv: Interval[];
+    let nights: Set<string>;
+    if (v || !r.site) {
+      // A space instrument: the pattern's visible stretches of the window (offsets from the mid-time, as
+      // its calendar; sky/visibilityPattern.ts); one visit, labelled by the UTC date of its first stretch.
+      const mid = 0.5 * (r.t1 + r.t4);
+      const seen = v ? visibleStretches(v, r.row.mid_time_bjd_tdb, a - mid, b - mid).map(([x, y]) => [x + mid, y + mid] as Interval) : [];
+      iv = union([...seen, ...r.iv]);
+      nights = new Set([isoUtc(iv[0][0]).slice(0, 10)]);
+    } else {
+      iv = union([...observableIntervals(new EpochSky(a, b, sky.target!), r.site, a, b, sunLimit, minAlt), ...r.iv]);
+      const site = r.site;
+      nights = new Set(iv.map(([x, y]) => nightOf(0.5 * (x + y), site.longitudeRad)));
+    }
     const onSky = overlap(iv, a, b);
     const inTransit = overlap(iv, r.t1, r.t4);
-    const nights = new Set(iv.map(([x, y]) => nightOf(0.5 * (x + y), r.site.longitudeRad)));
     out.push({
       epoch: e.epoch,
       site: r.row.site,
@@ -363,7 +380,9 @@ export function nightsPlan(s: Scenario, needed: number | null, source = 'scenari
     return { expectedAt, confidentAt };
   };
   let reach = enough(epochs);
-  const neverRises = cal.notes.filter((n) => n.includes('never reaches air mass')).length === cal.sites.length;
+  const space = !!sky.visibility;
+  const unit = space ? 'visits' : 'nights';
+  const neverRises = !space && cal.notes.filter((n) => n.includes('never reaches air mass')).length === cal.sites.length;
   while (need !== null && need > 0 && (reach.expectedAt === null || reach.confidentAt === null) && !neverRises && extendedTo - end < MAX_EXTENSION_YEARS * YEAR_S) {
     const next = extendedTo + Math.max(YEAR_S, 4 * s.planet.periodS);
     const more = epochsOf(transitCalendar(withCampaign(s, extendedTo, next), source), s, c, true).filter((e) => e.epoch > (epochs.length ? epochs[epochs.length - 1].epoch : -Infinity));
@@ -398,7 +417,7 @@ export function nightsPlan(s: Scenario, needed: number | null, source = 'scenari
   const season: SeasonPoint[] = epochs.flatMap((e) => e.rows.map((r) => ({
     epoch: e.epoch, site: r.row.site, mid_time_utc: r.row.mid_time_utc, transit_coverage: r.row.transit_coverage, whole_equivalent: r.ramps.equivalent, beyond_campaign: e.beyond,
   })));
-  const nights = new Set(bookings.flatMap((b) => b.night.split(', ').map((n) => `${b.site}|${n}`))).size;
+  const nights = space ? bookings.length : new Set(bookings.flatMap((b) => b.night.split(', ').map((n) => `${b.site}|${n}`))).size;
   const onSky = bookings.reduce((x, b) => x + b.on_sky_s, 0);
   const inTransit = bookings.reduce((x, b) => x + b.in_transit_s, 0);
   const expectedBooked = bookedEpochs.reduce((x, e) => x + e.expected, 0);
@@ -410,21 +429,21 @@ export function nightsPlan(s: Scenario, needed: number | null, source = 'scenari
     expected_whole_equivalent: campaignExpected,
   };
   const sufficient = need === null || campaignExpected >= need - 1e-9;
-  const siteText = cal.sites.length === 1 ? cal.sites[0].name : `the network (${cal.sites.map((x) => x.name).join(', ')})`;
+  const siteText = space ? `${cal.sites[0].name} (its visibility pattern)` : cal.sites.length === 1 ? cal.sites[0].name : `the network (${cal.sites.map((x) => x.name).join(', ')})`;
   const campaignText = `${isoUtc(start).slice(0, 10)} to ${endDate(end)}`;
-  const holds = `The campaign ${campaignText} holds ${inCampaign} transits, ${campaignInfo.usable} of them with some ingress or egress observable from ${siteText} (${campaignInfo.full} whole); with clear nights ${Math.round(100 * c)} % of the time that is ${f1(campaignExpected)} whole-transit equivalents expected.`;
+  const holds = `The campaign ${campaignText} holds ${inCampaign} transits, ${campaignInfo.usable} of them with some ingress or egress observable from ${siteText} (${campaignInfo.full} whole); ${space ? 'with no weather' : `with clear nights ${Math.round(100 * c)} % of the time`} that is ${f1(campaignExpected)} whole-transit equivalents expected.`;
   let statement: string;
   if (need === null) {
-    statement = `${holds} Booking every one of them: ${bookedEpochs.length} epochs, ${nights} nights, ${f1(onSky / HOUR_S)} h on sky.`;
+    statement = `${holds} Booking every one of them: ${bookedEpochs.length} epochs, ${nights} ${unit}, ${f1(onSky / HOUR_S)} h on sky.`;
   } else if (neededEnd === null) {
     statement = neverRises
       ? `${holds} The target never rises high enough at ${siteText}: no campaign length gives the ${need} transits needed.`
-      : `${holds} ${need} are needed, and even ${MAX_EXTENSION_YEARS} years beyond the campaign's end do not give them: this site and target cannot deliver the budget.`;
+      : `${holds} ${need} are needed, and even ${MAX_EXTENSION_YEARS} years beyond the campaign's end do not give them: this ${space ? 'visibility pattern' : 'site and target'} cannot deliver the budget.`;
   } else {
     const length = neededEnd - start;
     const head = sufficient
-      ? `${holds} ${need} are needed: book ${bookedEpochs.length} epochs (${nights} nights, ${f1(onSky / HOUR_S)} h on sky including ${f1((onSky - inTransit) / HOUR_S)} h of baselines), the first ${days(length)} of the campaign.`
-      : `${holds} That is not enough: ${need} are needed, which takes a campaign of ${days(length)}, to ${endDate(neededEnd)} (the calendar extended forward): ${bookedEpochs.length} epochs, ${nights} nights, ${f1(onSky / HOUR_S)} h on sky including ${f1((onSky - inTransit) / HOUR_S)} h of baselines.`;
+      ? `${holds} ${need} are needed: book ${bookedEpochs.length} epochs (${nights} ${unit}, ${f1(onSky / HOUR_S)} h on sky including ${f1((onSky - inTransit) / HOUR_S)} h of baselines), the first ${days(length)} of the campaign.`
+      : `${holds} That is not enough: ${need} are needed, which takes a campaign of ${days(length)}, to ${endDate(neededEnd)} (the calendar extended forward): ${bookedEpochs.length} epochs, ${nights} ${unit}, ${f1(onSky / HOUR_S)} h on sky including ${f1((onSky - inTransit) / HOUR_S)} h of baselines.`;
     const odds = probabilityEnough !== null ? ` Those bookings deliver the ${need} with probability ${probabilityEnough.toFixed(2)}` : '';
     const conf = confidentEnd !== null ? `; a ${Math.round(100 * PLAN_CONFIDENCE)} % chance needs ${days(confidentEnd - start)}${confidentEnd > end ? ', beyond the campaign as given' : ''}.` : `; a ${Math.round(100 * PLAN_CONFIDENCE)} % chance is not reached within ${MAX_EXTENSION_YEARS} years beyond the campaign.`;
     statement = head + odds + conf;
@@ -433,6 +452,7 @@ export function nightsPlan(s: Scenario, needed: number | null, source = 'scenari
   if (extendedTo > end) notes.push(`the calendar was extended forward from ${endDate(end)} to ${endDate(extendedTo)} to find the campaign length that holds the count`);
   return {
     transits_needed: need,
+    visits: space,
     clear_fraction: c,
     sites: cal.sites.map((x) => x.name),
     campaign_start_utc: isoUtc(start),
@@ -457,11 +477,13 @@ export function nightsPlan(s: Scenario, needed: number | null, source = 'scenari
     season,
     extended_by_s: extendedTo - end,
     statement,
-    counting_rule: `a partly observed transit counts as (ingress fraction + egress fraction) / 2 of a whole one: the share of the mid-time information it carries (Carter et al. 2008, ApJ 689, 499: for a trapezoid transit it lies in the ingress and egress); a transit seen whole counts 1, one whole ramp ½, the middle alone 0; the count is reached when the expected sum after weather (clear fraction ${c} per night and site) reaches it`,
+    counting_rule: `a partly observed transit counts as (ingress fraction + egress fraction) / 2 of a whole one: the share of the mid-time information it carries (Carter et al. 2008, ApJ 689, 499: for a trapezoid transit it lies in the ingress and egress); a transit seen whole counts 1, one whole ramp ½, the middle alone 0; the count is reached when the expected sum ${space ? '(no weather for a space instrument)' : `after weather (clear fraction ${c} per night and site)`} reaches it`,
     notes,
     assumptions: [
       `the needed count comes from simulating whole transits; a partial transit is counted by its timing information only: it adds nothing to the duration (TDV) channel unless both ramps are seen, and it needs the shape from the global fit and a stretch of out-of-transit flux to normalise it, which short or missing baselines weaken`,
-      `weather: each night at each site is clear with probability ${c}, independently of other nights and sites; no seasonal weather, no technical losses, no overheads (acquisition, focus, calibration) in the hours`,
+      space
+        ? 'space: the visibility pattern is taken as exact and periodic on BJD_TDB; no Earth, Sun or Moon avoidance angles, no South Atlantic Anomaly, no momentum dumps, downlinks, safe modes or slews; a visit is one epoch\'s booking window, its hours the visible time in it'
+        : `weather: each night at each site is clear with probability ${c}, independently of other nights and sites; no seasonal weather, no technical losses, no overheads (acquisition, focus, calibration) in the hours`,
       `the booked windows are the observable parts of first contact − baseline − ${BOOKING_SIGMAS}σ to last contact + baseline + ${BOOKING_SIGMAS}σ of the ephemeris; the hours count that time only`,
       'the epochs are taken in date order from the campaign start: skipping the poorest epochs would save hours but lengthen the calendar',
       'the booked epochs are not consecutive: a moon\'s TTV is sampled at the epochs the sky allows, which changes its aliasing from that of consecutive transits',
@@ -484,7 +506,8 @@ export const WHOLE_TRANSITS_ASSUMED = 'No site, target and campaign given: every
 export function budgetObservability(s: Scenario, needed: number | null, source = 'scenario'): Observability {
   const sky = s.sky;
   const given = sky ? [sky.sites.length > 0 ? 'site' : '', sky.target ? 'target' : '', sky.campaign ? 'campaign' : ''].filter((x) => x) : [];
-  if (!sky || given.length < 3) {
+  const spaceReady = !!sky?.visibility && !!sky.campaign;
+  if (!sky || (given.length < 3 && !spaceReady)) {
     const missing = ['site', 'target', 'campaign'].filter((x) => !given.includes(x));
     const partial = given.length > 0 ? ` (the scenario gives ${given.join(' and ')} but not ${missing.join(' or ')}, so no calendar is computed)` : '';
     return { assumes_every_transit_whole: true, statement: WHOLE_TRANSITS_ASSUMED.replace('given:', `given${partial}:`), plan: null };
@@ -495,6 +518,7 @@ export function budgetObservability(s: Scenario, needed: number | null, source =
 
 /** The budget's note on the site while the simulation itself still observes whole transits (the scenario's caution, reworded for the budget). */
 export function siteNote(o: Observability): string {
+  if (o.plan?.visits) return 'visibility: the Monte Carlo simulates whole transits; the visibility pattern turns the count it needs into the epochs, visits and calendar time below';
   return o.plan
     ? 'site: the Monte Carlo simulates whole transits at the noise budget\'s fixed air mass; the site turns the count it needs into the epochs, nights and calendar time below'
     : 'site: given, but without target and campaign no calendar is computed: the budget assumes every transit is observed whole';
@@ -502,7 +526,7 @@ export function siteNote(o: Observability): string {
 
 /** The sentence after a budget's answer that turns its whole, consecutive transits into what the sky allows. */
 export function wholeToSky(p: NightsPlan): string {
-  const where = p.sites.length === 1 ? p.sites[0] : 'the network';
-  if (p.needed_length_s === null) return `Those hours assume whole, consecutive transits: from ${where} the sky does not allow them (see the observing calendar).`;
-  return `Those hours assume whole, consecutive transits; from ${where} the sky allows them as ${p.epochs_booked} epochs, ${p.nights} nights and ${(p.on_sky_s / HOUR_S).toFixed(1)} h on sky over ${(p.needed_length_s / DAY_S).toFixed(0)} days (the observing calendar below).`;
+  const where = p.visits ? `${p.sites[0]}'s visibility pattern` : p.sites.length === 1 ? p.sites[0] : 'the network';
+  if (p.needed_length_s === null) return `Those hours assume whole, consecutive transits: from ${where} the ${p.visits ? 'pattern' : 'sky'} does not allow them (see the observing calendar).`;
+  return `Those hours assume whole, consecutive transits; from ${where} ${p.visits ? 'the pattern' : 'the sky'} allows them as ${p.epochs_booked} epochs, ${p.nights} ${p.visits ? 'visits' : 'nights'} and ${(p.on_sky_s / HOUR_S).toFixed(1)} h on sky over ${(p.needed_length_s / DAY_S).toFixed(0)} days (the observing calendar below).`;
 }

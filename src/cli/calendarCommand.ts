@@ -5,6 +5,7 @@ import { loadScenario } from '../scenario/loadScenario.js';
 import { formatCautions } from '../scenario/parseScenario.js';
 import { InputError } from '../scenario/errors.js';
 import { SITE_CALENDAR_ONLY } from '../scenario/readSky.js';
+import { VISIBILITY_CALENDAR_ONLY } from '../scenario/readVisibility.js';
 import { transitCalendar, type CalendarCounts, type CalendarResult } from '../sky/calendar.js';
 import { renderTable, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
@@ -14,8 +15,8 @@ import type { CliIo } from './cliIo.js';
 export function registerCalendar(program: Command, io: CliIo): void {
   program
     .command('calendar')
-    .description('every transit of the campaign at the scenario\'s site(s): which are observable, when (UTC and BJD_TDB), how much of each transit and its baselines, air mass')
-    .argument('<scenario>', 'scenario YAML file with site, target and campaign blocks')
+    .description('every transit of the campaign at the scenario\'s site(s) or for its space instrument\'s visibility pattern: which are observable, when (UTC and BJD_TDB), how much of each transit and its baselines, air mass')
+    .argument('<scenario>', 'scenario YAML file with site, target and campaign blocks (or visibility and campaign)')
     .option('--out <file>', 'write the table as ECSV (.ecsv) or CSV (.csv)')
     .option('--json', 'print JSON ({"schema": "moonsieve/calendar/1", "transits": [...]}) instead of the table')
     .action((scenarioPath: string, opts: { out?: string; json?: boolean }) => {
@@ -26,7 +27,7 @@ export function registerCalendar(program: Command, io: CliIo): void {
       }
       const scenario = loadScenario(scenarioPath);
       // Odd but legal inputs as note: lines, except the one saying that only this command reads the site.
-      const own = scenario.cautions?.filter((c) => c.message !== SITE_CALENDAR_ONLY);
+      const own = scenario.cautions?.filter((c) => c.message !== SITE_CALENDAR_ONLY && c.message !== VISIBILITY_CALENDAR_ONLY);
       io.err(formatCautions(own ? Object.defineProperty({ ...scenario }, 'cautions', { value: own }) : scenario));
       const cal = transitCalendar(scenario, scenarioPath);
       if (opts.out !== undefined) writeFileAtomic(opts.out, renderTable(opts.out, calendarColumns(cal), calendarMeta(cal)));
@@ -69,12 +70,13 @@ function calendarMeta(cal: CalendarResult): Record<string, unknown> {
   return {
     schema: cal.schema,
     scenario: cal.scenario,
-    time_standard: 'mid_time_bjd_tdb: BJD_TDB; *_utc: UTC, ISO 8601',
+    time_standard: cal.visibility ? 'mid_time_bjd_tdb and the visibility pattern: BJD_TDB; *_utc: UTC, ISO 8601' : 'mid_time_bjd_tdb: BJD_TDB; *_utc: UTC, ISO 8601',
     transit_duration_s: cal.transit_duration_s,
     baseline_s: cal.baseline_s,
     campaign: cal.campaign,
     constraints: cal.constraints,
     target: cal.target,
+    visibility: cal.visibility,
     sites: cal.sites.map((s) => ({ name: s.name, latitude_deg: s.latitude_deg, longitude_deg: s.longitude_deg, altitude_m: s.altitude_m })),
     notes: cal.notes,
     assumptions: cal.assumptions,
@@ -95,7 +97,14 @@ export function formatCalendar(cal: CalendarResult): string {
   const lines: string[] = [];
   const h = (s: number) => `${(s / 3600).toFixed(2)} h`;
   lines.push(`${cal.scenario}: transit calendar from ${cal.campaign.start_utc.slice(0, 16).replace('T', ' ')} to ${cal.campaign.end_utc.slice(0, 16).replace('T', ' ')} UTC`);
-  lines.push(`  transit ${h(cal.transit_duration_s)} (first to last contact), baselines ${h(cal.baseline_s)} each side; observable: Sun below ${cal.constraints.sun_altitude_deg.toFixed(1)}°, air mass ≤ ${cal.constraints.airmass} (altitude ≥ ${cal.constraints.min_target_altitude_deg.toFixed(1)}°)`);
+  const c = cal.constraints;
+  const v = cal.visibility;
+  const observable = c
+    ? `Sun below ${c.sun_altitude_deg.toFixed(1)}°, air mass ≤ ${c.airmass} (altitude ≥ ${c.min_target_altitude_deg.toFixed(1)}°)`
+    : v
+      ? `${v.name} visible ${(v.on_s / 60).toPrecision(3)} min of every ${((v.on_s + v.off_s) / 60).toPrecision(3)} min${v.block_s !== null ? `, in blocks of ${(v.block_s / 86400).toPrecision(3)} d every ${((v.block_s + v.gap_s) / 86400).toPrecision(3)} d` : ''} (BJD_TDB from ${v.start_bjd_tdb.toFixed(5)}; ${Math.round(100 * v.visible_fraction)} % of the time)`
+      : 'as stated';
+  lines.push(`  transit ${h(cal.transit_duration_s)} (first to last contact), baselines ${h(cal.baseline_s)} each side; observable: ${observable}`);
   lines.push('');
   const siteW = Math.max(4, ...cal.sites.map((s) => s.name.length));
   lines.push(`${'epoch'.padStart(5)}  ${'site'.padEnd(siteW)}  ${'mid-time UTC'.padEnd(16)}  ${'BJD_TDB'.padEnd(13)}  ${'±1σ'.padStart(6)}  observable UTC  cover  base -/+    air mass s/m/e  class`);
@@ -108,8 +117,9 @@ export function formatCalendar(cal: CalendarResult): string {
     );
   }
   lines.push('');
-  for (const s of cal.sites) lines.push(countsLine(s.name, s.counts, cal.constraints.clear_fraction));
-  if (cal.sites.length > 1) lines.push(countsLine('network (any site)', cal.network_counts, cal.constraints.clear_fraction));
+  const clear = c ? c.clear_fraction : 1;
+  for (const s of cal.sites) lines.push(countsLine(s.name, s.counts, clear));
+  if (cal.sites.length > 1) lines.push(countsLine('network (any site)', cal.network_counts, clear));
   for (const n of cal.notes) lines.push(`note: ${n}`);
   lines.push('', 'What this leaves out:');
   for (const a of cal.assumptions) lines.push(`  - ${a}`);

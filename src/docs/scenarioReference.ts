@@ -21,6 +21,7 @@ const SECTIONS: Array<{ key: string; title: string; intro: string }> = [
   { key: 'site', title: '`site` (optional)', intro: 'Where the telescope is, for `moonsieve calendar`. A list of sites, each with a `name`, makes a network: a transit counts as seen where any site sees it.' },
   { key: 'target', title: '`target` (optional)', intro: 'The star\'s ICRS (J2000) position: degrees, or sexagesimal text (RA in hours, Dec in degrees). Proper motion is not modelled.' },
   { key: 'campaign', title: '`campaign` (optional)', intro: 'When the target is watched, in UTC. `moonsieve calendar` needs `site`, `target` and `campaign`.' },
+  { key: 'visibility', title: '`visibility` (optional)', intro: 'A space instrument\'s periodic visibility of the target, instead of `site` and `constraints` (not with them): visible for `on`, hidden for `off`, from `start` on the BJD_TDB axis, optionally only inside observing blocks. With `campaign` (a `target` is optional), `moonsieve calendar`, sweep, simulate and budget observe only the visible parts of each transit, at the stated noise, without weather. Not modelled: Earth, Sun and Moon avoidance angles, the South Atlantic Anomaly, momentum dumps and downlinks (fold them into `on`/`off`).' },
   { key: 'constraints', title: '`constraints` (optional)', intro: 'When the target counts as observable: the Sun below `sun_altitude` and the target\'s air mass at most `airmass` (so above the horizon).' },
 ];
 

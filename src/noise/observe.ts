@@ -111,7 +111,7 @@ function observeCampaign(s: Scenario, plan: ObservingPlan, rng: Rng | null, ws: 
   }
   if (s.instrument.redNoise) {
     // Each site its own atmosphere: an independent red-noise series per site, on its own time stamps.
-    const sites = s.sky!.sites.length;
+    const sites = Math.max(1, s.sky!.sites.length); // a space instrument: one series
     for (let j = 0; j < sites; j++) addSiteRedNoise(fullFlux, plan, j, s.instrument.cadenceS, s.instrument.redNoise, rng);
   }
   let keep = gapMask(nEpochs, plan.timeS, plan.epoch, rng);

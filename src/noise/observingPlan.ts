@@ -21,12 +21,13 @@
  * it once per class of cells: it is remembered (memo.ts) under the JSON of
  * the fields it reads; the result is never written to.
  *
- * Space instruments: the calendar (sky/calendar.ts) has no periodic
- * visibility pattern yet (on for a stated time, off for a stated time, as
- * for a low orbit, and observing blocks), so a plan exists only for ground
- * sites; a space scenario without site keeps every transit window whole
- * (observation.duty_cycle and missed_fraction approximate such losses as
- * random gaps). To add: the pattern in the calendar, then its stretches here.
+ * Space instruments (scenario `visibility`, no site): the exposures are
+ * those inside the visible stretches of the pattern (sky/visibilityPattern.ts,
+ * the same as `moonsieve calendar`), on the BJD_TDB axis, which is the
+ * simulation's own (offsets from each transit's mid-time); every exposure has
+ * the instrument's stated noise, no air mass (NaN) and no weather (one
+ * "site", index 0, and one night per transit, never drawn: clear_fraction is
+ * 1 since constraints are not allowed with visibility).
  *
  * Left out (what the model does not know): one extinction coefficient per
  * band (groundAirmass.ts), no Moon or sky-brightness change over the night,
@@ -58,11 +59,12 @@ export interface ObservingPlan {
   /** Exposures, in time order (ties: site order): mid-exposure time, s since the simulation's t0. */
   timeS: Float64Array;
   epoch: Int32Array;
-  /** Index of the site in `scenario.sky.sites`. */
+  /** Index of the site in `scenario.sky.sites` (0 for a space instrument). */
   site: Int32Array;
   /** Index of the (site, night) in the weather draws, 0 … nights − 1, in order of first exposure. */
   night: Int32Array;
   nights: number;
+  /** Air mass of each exposure; NaN for a space instrument. */
   airmass: Float64Array;
   /** White noise per exposure (relative flux). */
   sigma: Float64Array;
@@ -72,15 +74,17 @@ export interface ObservingPlan {
   transitsSeenPerSite: number[];
 }
 
-/** Whether the scenario asks for a simulated ground campaign: a site, a target and a campaign. */
+/** Whether the scenario asks for a simulated campaign: a site, a target and a campaign, or a space instrument's visibility and a campaign. */
 export function hasCampaign(s: Scenario): boolean {
-  return !!s.sky && s.sky.sites.length > 0 && s.sky.target !== null && s.sky.campaign !== null;
+  if (!s.sky || s.sky.campaign === null) return false;
+  if (s.sky.visibility) return true;
+  return s.sky.sites.length > 0 && s.sky.target !== null;
 }
 
 const PLAN_MEMO = new Map<string, ObservingPlan>();
 const PLAN_MEMO_SIZE = 4;
 
-/** The observing plan of a scenario with site, target and campaign (see the file header); null without them. */
+/** The observing plan of a scenario with site, target and campaign, or visibility and campaign (see the file header); null without them. */
 export function observingPlan(s: Scenario): ObservingPlan | null {
   if (!hasCampaign(s)) return null;
   // Every input of computePlan (the transit's shape: scenarioDurations' arguments); not
@@ -116,29 +120,37 @@ function computePlan(s: Scenario): ObservingPlan {
   const stated = ground ? NaN : whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, exp);
   const first = obs.epochs.length > 0 ? obs.epochs[0].epoch : 0;
   const samples: Sample[] = [];
-  const seen = obs.sites.map(() => 0);
+  // One list of stretches per site, or one for a space instrument.
+  const observers = obs.visibility ? 1 : obs.sites.length;
+  const seen = new Array<number>(observers).fill(0);
   for (const e of obs.epochs) {
     const k = e.epoch - first;
     const centre = k * P;
-    obs.sites.forEach((site, j) => {
+    for (let j = 0; j < observers; j++) {
+      const site = obs.visibility ? null : obs.sites[j];
       let inTransit = false;
-      const lonS = (site.longitudeRad / (2 * Math.PI)) * DAY_S;
+      const lonS = site ? (site.longitudeRad / (2 * Math.PI)) * DAY_S : 0;
       for (const [x, y] of e.intervals[j]) {
         const k0 = Math.ceil((centre + x) / cad);
         const k1 = Math.floor((centre + y) / cad);
         for (let g = k0; g <= k1; g++) {
           const t = g * cad;
           const off = t - centre;
+          if (Math.abs(off) < obs.halfT14S) inTransit = true;
+          if (site === null || e.sky === null) {
+            // Space: no air mass, the stated noise, no weather (one "night" per transit, never drawn).
+            samples.push({ t, epoch: k, site: 0, nightKey: `space:${k}`, airmass: NaN, sigma: stated });
+            continue;
+          }
           const utc = e.midUtcS + off;
           const X = airmassKastenYoung(e.sky.targetAltitude(utc, site) / DEG);
-          if (Math.abs(off) < obs.halfT14S) inTransit = true;
           // Local mean solar time from J2000.0 (12:00 UTC): a night is one local noon-to-noon day.
           const night = Math.floor((utc + lonS) / DAY_S);
           samples.push({ t, epoch: k, site: j, nightKey: `${j}:${night}`, airmass: X, sigma: ground ? groundSigmaAtAirmass(ground, exp, cad, X, site.altitudeM) : stated });
         }
       }
       if (inTransit) seen[j]++;
-    });
+    }
   }
   samples.sort((a, b) => a.t - b.t || a.site - b.site);
   const n = samples.length;

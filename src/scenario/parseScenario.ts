@@ -19,6 +19,7 @@ import { isPhysicalQuadratic, uFromQ } from '../photometry/kippingLimbDarkening.
 import { InputError, type FieldProblem } from './errors.js';
 import { FieldReader } from './fieldReader.js';
 import { readSky, SITE_CALENDAR_ONLY } from './readSky.js';
+import { VISIBILITY_CALENDAR_ONLY } from './readVisibility.js';
 import { formatNumber, parseQuantity, splitNumberUnit, writtenUnit } from './units.js';
 import { bandZeroPointPhotons, groundNoiseBudget } from '../noise/groundBudget.js';
 import type {
@@ -97,6 +98,7 @@ export function parseScenario(doc: unknown, source = 'scenario', options: ParseO
   const scenario: Scenario = { name, seed, star, planet, moon, instrument, observation, detection };
   if (sky) scenario.sky = sky;
   if (sky && sky.sites.length > 0) cautions.push({ path: 'site', message: SITE_CALENDAR_ONLY });
+  if (sky?.visibility && sky.campaign) cautions.push({ path: 'visibility', message: VISIBILITY_CALENDAR_ONLY });
   // Not enumerable: the cautions are messages, not part of the model, so they stay out of the
   // canonical JSON that seeds and identifies the no-moon sets (sweep/nullSet.ts) and out of copies.
   Object.defineProperty(scenario, 'cautions', { value: cautions, enumerable: false, writable: true, configurable: true });

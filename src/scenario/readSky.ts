@@ -11,6 +11,7 @@ import type { FieldProblem } from './errors.js';
 import { FieldReader } from './fieldReader.js';
 import { scenarioField, type ScenarioField } from './fields.js';
 import type { CampaignSpec, ConstraintsSpec, SiteSpec, SkySpec, TargetSpec } from './types.js';
+import { readVisibility } from './readVisibility.js';
 
 const DEG = Math.PI / 180;
 /** J2000.0 in UTC as Unix ms, 2000-01-01T12:00:00Z (the zero of CampaignSpec). */
@@ -45,13 +46,14 @@ export const SITE_CALENDAR_ONLY = 'with target and campaign, sweep and simulate 
  * Returns undefined when none of the blocks nor errors were given.
  */
 export function readSky(top: FieldReader, periodErrorS: number, t0ErrorS: number): SkySpec | undefined {
-  const given = ['site', 'target', 'campaign', 'constraints'].some((k) => top.has(k)) || periodErrorS > 0 || t0ErrorS > 0;
+  const given = ['site', 'target', 'campaign', 'constraints', 'visibility'].some((k) => top.has(k)) || periodErrorS > 0 || t0ErrorS > 0;
   const sites = readSites(top);
   const target = readTarget(new FieldReader(top.raw('target'), 'target', top.problems), top.has('target'));
   const campaign = readCampaign(new FieldReader(top.raw('campaign'), 'campaign', top.problems), top.has('campaign'));
   const constraints = readConstraints(new FieldReader(top.raw('constraints'), 'constraints', top.problems));
+  const visibility = readVisibility(top, campaign ? campaign.startUtcS : null, parseUtcDate);
   if (!given) return undefined;
-  return { sites, target, campaign, constraints, t0ErrorS: Number.isFinite(t0ErrorS) ? t0ErrorS : 0, periodErrorS: Number.isFinite(periodErrorS) ? periodErrorS : 0 };
+  return { sites, target, campaign, constraints, visibility, t0ErrorS: Number.isFinite(t0ErrorS) ? t0ErrorS : 0, periodErrorS: Number.isFinite(periodErrorS) ? periodErrorS : 0 };
 }
 
 function readSites(top: FieldReader): SiteSpec[] {
@@ -137,7 +139,8 @@ export function parseSexagesimal(text: string, unit: 'hours' | 'degrees'): numbe
     ? /^([+-]?)(\d{1,3})h\s*(\d{1,2})m\s*(?:(\d{1,2}(?:\.\d*)?)s)?$/.exec(t)
     : /^([+-]?)(\d{1,3})[d°]\s*(\d{1,2})['m′]\s*(?:(\d{1,2}(?:\.\d*)?)(?:["s″]|''))?$/.exec(t);
   const m = colon ?? letters;
-  if (!m) return /^[+-]?\d+\s*[:hd°]/.test(t) || /^[+-]?\d+ \d+/.test(t) ? null : undefined;
+  // Sexagesimal-looking ("12:3", "12d 3", "8h"), not a quantity with a unit ("120 deg", "8 hourangle").
+  if (!m) return /^[+-]?\d+\s*(?::|[hd°]\s*(?:\d|$))/.test(t) || /^[+-]?\d+ \d+/.test(t) ? null : undefined;
   const [, sign, a, b, c] = m;
   const mins = Number(b);
   const secs = c === undefined ? 0 : Number(c);

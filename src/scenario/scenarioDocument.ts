@@ -109,7 +109,13 @@ export function scenarioToDocument(s: Scenario): ScenarioDocument {
     if (target) doc.target = { ra: si(target.raRad, 'rad'), dec: si(target.decRad, 'rad') };
     // Dates as the Date values a YAML timestamp gives (read to the millisecond).
     if (campaign) doc.campaign = { start: new Date(J2000_UNIX_MS + campaign.startUtcS * 1e3), end: new Date(J2000_UNIX_MS + campaign.endUtcS * 1e3) };
-    doc.constraints = { sun_altitude: si(constraints.sunAltitudeRad, 'rad'), airmass: constraints.airmass, clear_fraction: constraints.clearFraction };
+    const v = s.sky.visibility;
+    if (v) {
+      // A space instrument: its pattern instead of constraints (which visibility excludes).
+      doc.visibility = { name: v.name, on: si(v.onS, 's'), off: si(v.offS, 's'), start: v.referenceBjdTdb, ...(v.blockS !== null ? { block: si(v.blockS, 's'), gap: si(v.gapS, 's') } : {}) };
+    } else {
+      doc.constraints = { sun_altitude: si(constraints.sunAltitudeRad, 'rad'), airmass: constraints.airmass, clear_fraction: constraints.clearFraction };
+    }
   }
   // The planet's orbit: the impact parameter, else the inclination, whichever reads back to both.
   for (const orbit of [{ impact_parameter: planet.impactParameter }, { inclination: si(planet.inclinationRad, 'rad') }]) {

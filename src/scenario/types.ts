@@ -225,6 +225,29 @@ export interface ConstraintsSpec {
 }
 
 /**
+ * A space instrument's periodic visibility (the optional `visibility` block):
+ * the target is visible for `onS`, then hidden for `offS`, repeating from the
+ * reference instant (as for a low orbit), and, when `blockS` is set, only
+ * inside observing blocks of `blockS` separated by `gapS` (the instrument
+ * stares at the target for a block, then is away), the blocks repeating from
+ * the same reference. Times on the BJD_TDB axis.
+ */
+export interface VisibilitySpec {
+  /** Name of the instrument in tables. */
+  name: string;
+  /** Visible part of each cycle, s (> 0). */
+  onS: number;
+  /** Hidden part of each cycle, s (≥ 0; 0: always visible inside a block). */
+  offS: number;
+  /** Start of a visible part and of a block, BJD_TDB (days). */
+  referenceBjdTdb: number;
+  /** Length of an observing block, s; null: no blocks (the pattern runs through the whole campaign). */
+  blockS: number | null;
+  /** Time between blocks, s (0 without blocks). */
+  gapS: number;
+}
+
+/**
  * Where and when (the optional `site`, `target`, `campaign`, `constraints`
  * blocks) and the ephemeris uncertainties (`observation.t0_error`,
  * `planet.period_error`). Present on a Scenario only when one of them was given.
@@ -235,6 +258,8 @@ export interface SkySpec {
   target: TargetSpec | null;
   campaign: CampaignSpec | null;
   constraints: ConstraintsSpec;
+  /** A space instrument's visibility pattern (instead of sites, constraints and weather); absent or null for a ground campaign. */
+  visibility?: VisibilitySpec | null;
   /** 1σ uncertainty of t0, s (0 when not given). */
   t0ErrorS: number;
   /** 1σ uncertainty of the period, s (0 when not given). */

@@ -14,7 +14,8 @@
 import { DAY_S } from '../physics/constants.js';
 import { scenarioDurations } from '../physics/transitDuration.js';
 import { InputError } from '../scenario/errors.js';
-import type { Scenario, SiteSpec } from '../scenario/types.js';
+import type { Scenario, SiteSpec, TargetSpec, VisibilitySpec } from '../scenario/types.js';
+import { visibleFraction, visibleStretches } from './visibilityPattern.js';
 import { requireCalendarBlocks } from '../scenario/requireSky.js';
 import { airmassKastenYoung, altitudeForAirmass } from './airmass.js';
 import { bjdTdbToUtc } from './barycentric.js';
@@ -98,9 +99,14 @@ export interface CalendarResult {
   ingress_duration_s: number;
   baseline_s: number;
   campaign: { start_utc: string; end_utc: string };
-  constraints: { sun_altitude_deg: number; airmass: number; min_target_altitude_deg: number; clear_fraction: number };
-  sites: Array<{ name: string; latitude_deg: number; longitude_deg: number; altitude_m: number; counts: CalendarCounts }>;
-  target: { ra_deg: number; dec_deg: number };
+  /** The ground limits; null for a space instrument (its visibility pattern instead). */
+  constraints: { sun_altitude_deg: number; airmass: number; min_target_altitude_deg: number; clear_fraction: number } | null;
+  /** The ground sites; for a space instrument one entry, its name, with null position. */
+  sites: Array<{ name: string; latitude_deg: number | null; longitude_deg: number | null; altitude_m: number | null; counts: CalendarCounts }>;
+  /** The target's position; null when a space scenario gives none. */
+  target: { ra_deg: number; dec_deg: number } | null;
+  /** A space instrument's visibility pattern; null for ground sites. */
+  visibility: CalendarVisibility | null;
   /** Counts over the whole network (only with more than one site; else equal to the one site's). */
   network_counts: CalendarCounts;
   notes: string[];
@@ -108,6 +114,18 @@ export interface CalendarResult {
   transits: CalendarTransit[];
   /** One entry per epoch when there is more than one site, else empty. */
   network: NetworkTransit[];
+}
+
+/** A space instrument's visibility pattern as the calendar states it. */
+export interface CalendarVisibility {
+  name: string;
+  on_s: number;
+  off_s: number;
+  start_bjd_tdb: number;
+  block_s: number | null;
+  gap_s: number;
+  /** Long-run visible fraction of the pattern. */
+  visible_fraction: number;
 }
 
 type Interval = [number, number];
@@ -215,6 +233,7 @@ function counts(rows: ReadonlyArray<{ class: TransitClass }>, expectedFull: numb
  * `campaign` blocks (an InputError names the missing ones).
  */
 export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResult {
+  if (s.sky?.visibility) return spaceCalendar(s, s.sky.visibility, source);
   const sky = s.sky;
   requireCalendarBlocks(sky, source);
   const { target, campaign, constraints, sites } = sky;
@@ -334,6 +353,7 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
     constraints: { sun_altitude_deg: sunLimit / DEG, airmass: constraints.airmass, min_target_altitude_deg: minAltDeg, clear_fraction: clear },
     sites: sites.map((site, k) => ({ name: site.name, latitude_deg: site.latitudeRad / DEG, longitude_deg: site.longitudeRad / DEG, altitude_m: site.altitudeM, counts: siteCounts[k] })),
     target: { ra_deg: target.raRad / DEG, dec_deg: target.decRad / DEG },
+    visibility: null,
     network_counts: counts(netRows, expectedNetwork),
     notes,
     assumptions: [
@@ -344,5 +364,111 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
     ],
     transits: rows,
     network,
+  };
+}
+
+/**
+ * Geocentric UTC (s since J2000.0) of a BJD_TDB: with a target, through the
+ * barycentric light time (barycentric.ts); without one, JD_TDB taken as the
+ * BJD (the light time, up to ±8.3 min, left out) and TDB as TT.
+ */
+export function approximateUtcOfBjd(bjdTdb: number, target: TargetSpec | null): number {
+  if (target) return bjdTdbToUtc(bjdTdb, target, null);
+  const tt = (bjdTdb - JD_J2000) * DAY_S;
+  return tt - ttMinusUtcS(tt - ttMinusUtcS(tt));
+}
+
+/**
+ * The calendar of a space instrument (scenario `visibility`): the same
+ * transits as a ground calendar, each transit's observable part being the
+ * visible stretches of the pattern (visibilityPattern.ts) on the BJD_TDB
+ * axis; no air mass, no weather.
+ */
+function spaceCalendar(s: Scenario, v: VisibilitySpec, source: string): CalendarResult {
+  const sky = s.sky!;
+  const campaign = sky.campaign;
+  if (!campaign) throw new InputError([{ path: 'campaign', value: undefined, allowed: 'required by calendar with visibility: add e.g. campaign: {start: 2027-01-01, end: 2028-12-31}' }], source);
+  const target = sky.target;
+  const dur = scenarioDurations(s);
+  const t14 = dur.t14S;
+  if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): a calendar needs a transit' }], source);
+  const half = t14 / 2;
+  const givenBaseline = s.observation.baselineS;
+  const baseline = calendarBaselineS(s, t14);
+  const periodD = s.planet.periodS / DAY_S;
+  const t0 = s.observation.t0BjdTdb;
+  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
+  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
+    throw new InputError([{ path: 'campaign', value: `${isoUtc(campaign.startUtcS)} to ${isoUtc(campaign.endUtcS)}`, allowed: `holds about ${nHi - nLo + 1} transits of the ${formatDays(periodD)}-day period; a calendar lists at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
+  }
+  const rows: CalendarTransit[] = [];
+  for (let n = nLo; n <= nHi; n++) {
+    const midBjd = t0 + n * periodD;
+    const mid = approximateUtcOfBjd(midBjd, target);
+    if (mid < campaign.startUtcS || mid > campaign.endUtcS) continue;
+    // Offsets from the mid-time, s: the same on the BJD_TDB and UTC axes within a window (≤ 2 s over ±5 h; observableWindows.ts).
+    const iv = visibleStretches(v, midBjd, -half - baseline, half + baseline);
+    const { coverage, cls } = classify(iv, -half, half);
+    let main: Interval | null = null;
+    let best = -1;
+    for (const w of iv) {
+      const score = overlap([w], -half, half) * 1e6 + (w[1] - w[0]) * 1e-6;
+      if (score > best) {
+        best = score;
+        main = w;
+      }
+    }
+    const sigma = Math.sqrt(sky.t0ErrorS ** 2 + n * n * sky.periodErrorS ** 2);
+    const at = (off: number) => isoUtc(mid + off);
+    rows.push({
+      site: v.name,
+      epoch: n,
+      mid_time_bjd_tdb: midBjd,
+      mid_time_utc: at(0),
+      mid_time_sigma_s: sigma,
+      transit_start_utc: at(-half),
+      transit_end_utc: at(half),
+      book_start_utc: at(-half - baseline - BOOKING_SIGMAS * sigma),
+      book_end_utc: at(half + baseline + BOOKING_SIGMAS * sigma),
+      observable_start_utc: main ? at(main[0]) : null,
+      observable_end_utc: main ? at(main[1]) : null,
+      observable_duration_s: overlap(iv, -half - baseline, half + baseline),
+      observable_intervals_utc: iv.map(([x, y]) => [at(x), at(y)]),
+      transit_coverage: coverage,
+      baseline_before_coverage: baseline > 0 ? overlap(iv, -half - baseline, -half) / baseline : null,
+      baseline_after_coverage: baseline > 0 ? overlap(iv, half, half + baseline) / baseline : null,
+      airmass_start: null,
+      airmass_middle: null,
+      airmass_end: null,
+      class: cls,
+    });
+  }
+  const notes: string[] = [];
+  if (rows.length === 0) notes.push('no transit mid-time falls inside the campaign');
+  if (baseline < givenBaseline) notes.push(`the baseline of ${formatDays(givenBaseline / DAY_S)} d is cut to ${formatDays(baseline / DAY_S)} d on each side (at most half the period less half the transit, and 10 days)`);
+  const c = counts(rows, rows.filter((r) => r.class === 'full').length);
+  return {
+    schema: 'moonsieve/calendar/1',
+    scenario: s.name,
+    transit_duration_s: t14,
+    ingress_duration_s: Math.min(dur.ingressS, half),
+    baseline_s: baseline,
+    campaign: { start_utc: isoUtc(campaign.startUtcS), end_utc: isoUtc(campaign.endUtcS) },
+    constraints: null,
+    sites: [{ name: v.name, latitude_deg: null, longitude_deg: null, altitude_m: null, counts: c }],
+    target: target ? { ra_deg: target.raRad / DEG, dec_deg: target.decRad / DEG } : null,
+    visibility: { name: v.name, on_s: v.onS, off_s: v.offS, start_bjd_tdb: v.referenceBjdTdb, block_s: v.blockS, gap_s: v.gapS, visible_fraction: visibleFraction(v) },
+    network_counts: c,
+    notes,
+    assumptions: [
+      'observable = inside the stated visibility pattern (visible for on, hidden for off, inside observing blocks when given), strictly periodic on the BJD_TDB axis: no Earth, Sun or Moon avoidance angles, no South Atlantic Anomaly, no momentum dumps or downlinks unless folded into on/off',
+      'no weather and no air mass: every visible stretch is observed, at the instrument\'s stated noise',
+      'mid-times are the barycentre ephemeris t0 + nP: the moon\'s TTV (minutes at most) is not added; the booking window adds 3σ of the ephemeris uncertainty on each side',
+      target
+        ? 'UTC times are geocentric (the spacecraft\'s own light time, seconds at most in Earth orbit or at L2, is left out)'
+        : 'no target given: UTC times take BJD_TDB as the geocentric time (off by up to ±8.3 min, the light time to the barycentre); the pattern and coverages are on BJD_TDB and are exact',
+    ],
+    transits: rows,
+    network: [],
   };
 }

@@ -8,14 +8,19 @@
  * The epoch's `EpochSky` is returned with it, so that a caller can evaluate
  * the target's altitude (air mass) at each exposure.
  *
+ * A space instrument (scenario `visibility`) has no site: each epoch then
+ * holds one list of stretches, the visible ones of its pattern on the
+ * BJD_TDB axis (visibilityPattern.ts), the same as its calendar, and no sky.
+ *
  * Pure: a function of the Scenario alone.
  */
 import { scenarioDurations } from '../physics/transitDuration.js';
 import { requireCalendarBlocks } from '../scenario/requireSky.js';
-import type { Scenario, SiteSpec } from '../scenario/types.js';
+import type { Scenario, SiteSpec, VisibilitySpec } from '../scenario/types.js';
+import { visibleStretches } from './visibilityPattern.js';
 import { altitudeForAirmass } from './airmass.js';
 import { bjdTdbToUtc } from './barycentric.js';
-import { calendarBaselineS, campaignEpochRange, MAX_CALENDAR_TRANSITS, observableIntervals } from './calendar.js';
+import { approximateUtcOfBjd, calendarBaselineS, campaignEpochRange, MAX_CALENDAR_TRANSITS, observableIntervals } from './calendar.js';
 import { EpochSky } from './skyPosition.js';
 import { DAY_S } from '../physics/constants.js';
 import { InputError } from '../scenario/errors.js';
@@ -27,13 +32,17 @@ export interface EpochObservability {
   epoch: number;
   /** Geocentric UTC of the mid-time, s since J2000.0 (calendar.ts time axis). */
   midUtcS: number;
-  sky: EpochSky;
-  /** Per site (in the scenario's order): observable stretches [start, end], s from midUtcS, in time order. */
+  /** The epoch's sky (air mass at each exposure); null for a space instrument. */
+  sky: EpochSky | null;
+  /** Per site (in the scenario's order; one list for a space instrument): observable stretches [start, end], s from midUtcS, in time order. */
   intervals: Array<Array<[number, number]>>;
 }
 
 export interface CampaignObservability {
+  /** The ground sites; empty for a space instrument. */
   sites: SiteSpec[];
+  /** The space instrument's pattern; null for ground sites. */
+  visibility: VisibilitySpec | null;
   /** Every epoch whose mid-time falls inside the campaign, in order (those with nothing observable included). */
   epochs: EpochObservability[];
   /** Half of first-to-last contact, s, and the baseline on each side used for the windows, s. */
@@ -46,6 +55,7 @@ export interface CampaignObservability {
  * the scenario's site, target and campaign (InputError naming the missing ones).
  */
 export function campaignObservability(s: Scenario, source = 'scenario'): CampaignObservability {
+  if (s.sky?.visibility) return spaceObservability(s, s.sky.visibility, source);
   const sky = s.sky;
   requireCalendarBlocks(sky, source);
   const { target, campaign, constraints, sites } = sky;
@@ -72,5 +82,29 @@ export function campaignObservability(s: Scenario, source = 'scenario'): Campaig
     );
     epochs.push({ epoch: n, midUtcS: mid, sky: epochSky, intervals });
   }
-  return { sites, epochs, halfT14S: half, baselineS: baseline };
+  return { sites, visibility: null, epochs, halfT14S: half, baselineS: baseline };
+}
+
+/** A space instrument's visible stretches of every transit of the campaign (see the header); needs the campaign. */
+function spaceObservability(s: Scenario, v: VisibilitySpec, source: string): CampaignObservability {
+  const campaign = s.sky!.campaign;
+  if (!campaign) throw new InputError([{ path: 'campaign', value: undefined, allowed: 'required with visibility: add e.g. campaign: {start: 2027-01-01, end: 2028-12-31}' }], source);
+  const t14 = scenarioDurations(s).t14S;
+  if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): an observing campaign needs a transit' }], source);
+  const half = t14 / 2;
+  const baseline = calendarBaselineS(s, t14);
+  const periodD = s.planet.periodS / DAY_S;
+  const t0 = s.observation.t0BjdTdb;
+  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
+  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
+    throw new InputError([{ path: 'campaign', value: undefined, allowed: `holds about ${nHi - nLo + 1} transits; at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
+  }
+  const epochs: EpochObservability[] = [];
+  for (let n = nLo; n <= nHi; n++) {
+    const midBjd = t0 + n * periodD;
+    const mid = approximateUtcOfBjd(midBjd, s.sky!.target);
+    if (mid < campaign.startUtcS || mid > campaign.endUtcS) continue;
+    epochs.push({ epoch: n, midUtcS: mid, sky: null, intervals: [visibleStretches(v, midBjd, -half - baseline, half + baseline)] });
+  }
+  return { sites: [], visibility: v, epochs, halfT14S: half, baselineS: baseline };
 }

@@ -23,6 +23,7 @@ const demo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).path
 const claim = new URL('../../scenarios/demo-claim.yaml', import.meta.url).pathname;
 const tiny = new URL('../cluster/tiny-array.yaml', import.meta.url).pathname;
 const calendarDemo = new URL('../../scenarios/demo-calendar.yaml', import.meta.url).pathname;
+const spaceDemo = new URL('../../scenarios/demo-space.yaml', import.meta.url).pathname;
 const vocabulary = readFileSync(new URL('../../docs/vocabulary.md', import.meta.url), 'utf8');
 /** Names in the first column of the table under "## Names" in docs/vocabulary.md: | `name` | … */
 const NAMES = new Set([...vocabulary.slice(vocabulary.indexOf('\n## Names\n')).matchAll(/^\| `([a-z0-9_]+)` \|/gm)].map((m) => m[1]));
@@ -57,6 +58,8 @@ beforeAll(async () => {
     .replace(/^target: .*$/m, 'target: {ra: "08:41:12.5", dec: "+75:00:00"}');
   writeFileSync(join(dir, 'never.yaml'), oneSite);
   add('calendar', 'calendar never rises', await json(['calendar', join(dir, 'never.yaml'), '--json']));
+  // A space instrument's visibility pattern (no site, constraints null, no air mass).
+  add('calendar', 'calendar space visibility', await json(['calendar', spaceDemo, '--json']));
   // Claimed amplitudes (an invented system), both and TTV alone: the other branches of the vet document.
   const amplitudes = (block: string) => `name: invented amplitudes
 seed: 11
