@@ -53,7 +53,10 @@ export interface NullSet {
   rhoBins: number;
 }
 
-/** The template channel's bins of a null class (the moonless scenario's planned samples). */
+/**
+ * The template channel's bins of a null class (the moonless scenario's planned samples; with a ground
+ * campaign, the campaign's epochs and the plan's exposures, as runRealization observes: templateLayout).
+ */
 export function nullTemplateLayout(c: NullClass): TemplateLayout {
   return templateLayout(c.scenario);
 }

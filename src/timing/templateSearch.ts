@@ -55,6 +55,21 @@
  * missed transits) contribute nothing; the calibration on no-moon
  * realizations with the same gaps accounts for it.
  *
+ * Ground campaign (noise/observingPlan.ts): the epochs are the campaign's
+ * transits (`withCampaignEpochs`, as the realizations), and the bins hold the
+ * plan's exposures, not the whole planned grid: per epoch the grid indices
+ * k = round(t/cadence) of its exposures are cut into bins of G as above,
+ * `count` is the exposures per bin (two sites at the same time add), bins
+ * without an exposure are dropped, and a bin's time is the mean of its
+ * exposures. So the templates, their projections and their SNR S_k count only
+ * exposures the calendar allows; nights lost to weather (drawn per
+ * realization) stay gaps, left to the calibration. One σ (the observation's
+ * rms σ) weights every exposure, although a ground budget gives each its own
+ * (air mass): the matched filter is then not the optimal one for those
+ * weights, but the threshold, calibrated on no-moon realizations with the
+ * same per-exposure noise, keeps the false-alarm rate exact; only power is
+ * lost.
+ *
  * Cost: the bank (templates, projections) is built once per cell; each
  * realization costs one pass over its samples (binning) and a dot product per
  * template over the bins.
@@ -66,6 +81,7 @@ import { buildTransitTemplate, templateFluxArray, templateGeometryFromScenario, 
 import type { GlobalTransitFit } from './globalTransitFit.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { NOMINAL_SIGMA } from './timingSeries.js';
+import { observingPlan, withCampaignEpochs, type ObservingPlan } from '../noise/observingPlan.js';
 
 /** Bins of the planned sample grid shared by a null class and every cell of it. */
 export interface TemplateLayout {
@@ -73,13 +89,21 @@ export interface TemplateLayout {
   periodS: number;
   /** Planned samples per bin (the last bin of a window may hold fewer). */
   samplesPerBin: number;
-  /** Per window (index = epoch): first and last planned grid index k (t = k·cadence), first bin. */
+  /** Per window (index = epoch): first and last grid index k (t = k·cadence), first raw bin. */
   k0: Int32Array;
   k1: Int32Array;
   binStart: Int32Array;
   bins: number;
-  /** Planned samples per bin. */
+  /** Planned samples (with a campaign: the plan's exposures) per bin. */
   count: Float64Array;
+  /** Scale of the per-window baseline slope (s): the first window's planned width. */
+  slopeScaleS: number;
+  /**
+   * With a ground campaign: raw bin → kept bin (−1 for a raw bin with no exposure), and the plan's
+   * exposures (time s, epoch). Null without a campaign (every raw bin of the planned grid is kept).
+   */
+  rawToBin: Int32Array | null;
+  exposures: { timeS: Float64Array; epoch: Int32Array } | null;
 }
 
 /** Bin width as a fraction of the planet's ingress (see the file comment). */
@@ -87,14 +111,19 @@ export const BIN_PER_INGRESS = 1 / 4;
 
 /**
  * The layout of a scenario's planned samples (the windows depend only on the planet: transitWindows.ts),
- * with `samplesPerBin` = max(1, ⌊ingress·BIN_PER_INGRESS / cadence⌋) unless given.
+ * with `samplesPerBin` = max(1, ⌊ingress·BIN_PER_INGRESS / cadence⌋) unless given. With a ground
+ * campaign (noise/observingPlan.ts) the epochs are the campaign's transits (`withCampaignEpochs`, as
+ * the realizations) and the bins hold the plan's exposures only (see the file comment).
  */
-export function templateLayout(s: Scenario, samplesPerBin?: number): TemplateLayout {
+export function templateLayout(given: Scenario, samplesPerBin?: number): TemplateLayout {
+  const s = withCampaignEpochs(given);
   const cad = s.instrument.cadenceS;
   const d = scenarioDurations(s);
   const ingress = d.ingressS > 0 ? d.ingressS : d.t14S / 2;
   const G = samplesPerBin ?? Math.max(1, Math.floor((ingress * BIN_PER_INGRESS) / cad));
   if (!(Number.isInteger(G) && G >= 1)) throw new RangeError(`samplesPerBin must be an integer ≥ 1, got ${G}`);
+  const plan = observingPlan(s);
+  if (plan !== null) return planLayout(s, plan, G);
   const windows = transitWindows(s);
   const n = windows.length;
   const k0 = new Int32Array(n);
@@ -114,15 +143,59 @@ export function templateLayout(s: Scenario, samplesPerBin?: number): TemplateLay
   const bins = binStart[n];
   const count = new Float64Array(bins);
   for (let e = 0; e < n; e++) for (let k = k0[e]; k <= k1[e]; k++) count[binStart[e] + Math.floor((k - k0[e]) / G)] += 1;
-  return { cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count };
+  const slopeScaleS = n > 0 ? cad * (k1[0] - k0[0] + 1) : 0;
+  return { cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count, slopeScaleS, rawToBin: null, exposures: null };
 }
 
-/** Bin of the sample at time t (s) of window `epoch`, or −1 outside the planned grid. */
+/**
+ * The layout of a ground campaign's plan: per epoch the range of grid indices k = round(t/cadence)
+ * of its exposures, raw bins of G grid points as on the planned grid, `count` the exposures per bin
+ * (two sites at the same time add), and only bins holding an exposure kept.
+ */
+function planLayout(s: Scenario, plan: ObservingPlan, G: number): TemplateLayout {
+  const cad = s.instrument.cadenceS;
+  const n = plan.epochs;
+  const k0 = new Int32Array(n).fill(0);
+  const k1 = new Int32Array(n).fill(-1);
+  const seen = new Uint8Array(n);
+  for (let i = 0; i < plan.timeS.length; i++) {
+    const e = plan.epoch[i];
+    const k = Math.round(plan.timeS[i] / cad);
+    if (!seen[e]) {
+      seen[e] = 1;
+      k0[e] = k;
+      k1[e] = k;
+    } else {
+      if (k < k0[e]) k0[e] = k;
+      if (k > k1[e]) k1[e] = k;
+    }
+  }
+  const binStart = new Int32Array(n + 1);
+  for (let e = 0; e < n; e++) binStart[e + 1] = binStart[e] + (k1[e] >= k0[e] ? Math.ceil((k1[e] - k0[e] + 1) / G) : 0);
+  const raw = binStart[n];
+  const rawCount = new Float64Array(raw);
+  for (let i = 0; i < plan.timeS.length; i++) {
+    const e = plan.epoch[i];
+    rawCount[binStart[e] + Math.floor((Math.round(plan.timeS[i] / cad) - k0[e]) / G)] += 1;
+  }
+  const rawToBin = new Int32Array(raw);
+  let bins = 0;
+  for (let r = 0; r < raw; r++) rawToBin[r] = rawCount[r] > 0 ? bins++ : -1;
+  const count = new Float64Array(bins);
+  for (let r = 0; r < raw; r++) if (rawToBin[r] >= 0) count[rawToBin[r]] = rawCount[r];
+  return {
+    cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count,
+    slopeScaleS: 2 * plan.halfWindowS, rawToBin, exposures: { timeS: plan.timeS, epoch: plan.epoch },
+  };
+}
+
+/** Bin of the sample at time t (s) of window `epoch`, or −1 outside the layout (planned grid, or the plan's exposures). */
 function binOf(L: TemplateLayout, t: number, epoch: number): number {
   if (!(epoch >= 0 && epoch < L.k0.length)) return -1;
   const k = Math.round(t / L.cadenceS);
   if (k < L.k0[epoch] || k > L.k1[epoch]) return -1;
-  return L.binStart[epoch] + Math.floor((k - L.k0[epoch]) / L.samplesPerBin);
+  const raw = L.binStart[epoch] + Math.floor((k - L.k0[epoch]) / L.samplesPerBin);
+  return L.rawToBin === null ? raw : L.rawToBin[raw];
 }
 
 /** out[b] = Σ values[i] over the samples i of bin b (zero-filled first); samples off the grid are skipped. */
@@ -135,18 +208,23 @@ export function binSamples(L: TemplateLayout, timeS: Float64Array, epoch: Int32A
   return out;
 }
 
-/** Per bin: the mean time of its planned samples, and the span (G − 1)·cadence + exposure of a full bin. */
+/** Per bin: the mean time of its planned samples (or exposures), and the span (G − 1)·cadence + exposure of a full bin. */
 function binCentres(L: TemplateLayout, exposureS: number): { centreS: Float64Array; spanS: number } {
   const centreS = new Float64Array(L.bins);
-  for (let e = 0; e < L.k0.length; e++) {
-    for (let k = L.k0[e]; k <= L.k1[e]; k++) centreS[L.binStart[e] + Math.floor((k - L.k0[e]) / L.samplesPerBin)] += k * L.cadenceS;
+  if (L.exposures !== null) {
+    binSamples(L, L.exposures.timeS, L.exposures.epoch, L.exposures.timeS, centreS);
+  } else {
+    for (let e = 0; e < L.k0.length; e++) {
+      for (let k = L.k0[e]; k <= L.k1[e]; k++) centreS[L.binStart[e] + Math.floor((k - L.k0[e]) / L.samplesPerBin)] += k * L.cadenceS;
+    }
   }
   for (let b = 0; b < L.bins; b++) centreS[b] /= L.count[b];
   return { centreS, spanS: (L.samplesPerBin - 1) * L.cadenceS + exposureS };
 }
 
-/** Times and epochs of every planned sample of the layout. */
+/** Times and epochs of every planned sample of the layout (with a campaign: the plan's exposures). */
 export function layoutSamples(L: TemplateLayout): { timeS: Float64Array; epoch: Int32Array } {
+  if (L.exposures !== null) return { timeS: Float64Array.from(L.exposures.timeS), epoch: Int32Array.from(L.exposures.epoch) };
   let n = 0;
   for (let e = 0; e < L.k0.length; e++) n += Math.max(0, L.k1[e] - L.k0[e] + 1);
   const timeS = new Float64Array(n);
@@ -305,7 +383,7 @@ function freedomColumns(geometry: TemplateGeometry, L: TemplateLayout, t: Float6
   cols.push(diff(evalAt({ ...g0, u2: g0.u2 + 0.01 }, 0), evalAt({ ...g0, u2: g0.u2 - 0.01 }, 0), 0.02));
   const binned = cols.map((c) => binSamples(L, t, epoch, c, new Float64Array(L.bins)));
   // Per window: baseline offset and slope (sums of 1 and of x/T14 over the bin's samples).
-  const scale = 1 / Math.max(1, L.cadenceS * (L.k1[0] - L.k0[0] + 1));
+  const scale = 1 / Math.max(1, L.slopeScaleS);
   for (let e = 0; e < L.k0.length; e++) {
     const off = new Float64Array(L.bins);
     const slope = new Float64Array(L.bins);
