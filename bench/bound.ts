@@ -84,6 +84,14 @@ async function efficiencyRows(): Promise<BenchMedian[]> {
         median: e.ratio ?? NaN, unit: '×', repeats: 1, summary: 'one sweep',
       });
     });
+    // Issue 17's second goal: no cell whose bound exceeds 0.99 detected (combined rule) below 0.9.
+    const strong = res.results.filter((c) => typeof c.pdet_bound === 'number' && c.pdet_bound > 0.99 && typeof c.pdet_combined === 'number');
+    const low = strong.filter((c) => (c.pdet_combined as number) < 0.9);
+    const worst = strong.reduce((m, c) => Math.min(m, c.pdet_combined as number), 1);
+    rows.push({
+      label: `  cells with pdet_bound > 0.99: ${strong.length}; of them pdet_combined < 0.9: ${low.length} (lowest pdet_combined ${worst.toFixed(2)})`,
+      median: low.length, unit: 'cells', repeats: 1, summary: 'one sweep',
+    });
     return rows;
   } finally {
     rmSync(out, { recursive: true, force: true });

@@ -7,7 +7,8 @@ import { parse } from 'yaml';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import { createRng } from '../../src/noise/rng.js';
 import {
-  binSamples, buildTemplateBank, layoutSamples, templateLayout, templateStatistic, type TemplateBank,
+  binSamples, buildTemplateBank, defaultPhaseCount, layoutSamples, MAX_REFINED_PHASES, MIN_NEIGHBOUR_CORRELATION, neighbourCorrelation,
+  templateLayout, templateStatistic, type TemplateBank,
 } from '../../src/timing/templateSearch.js';
 import { buildTransitTemplate, templateFluxArray, templateGeometryFromScenario } from '../../src/timing/transitTemplate.js';
 
@@ -102,3 +103,30 @@ describe('template bank', () => {
   });
 });
 
+
+describe('phase refinement of the bank', () => {
+  it('a close orbit doubles its phases until neighbouring templates correlate at MIN_NEIGHBOUR_CORRELATION; the rule\'s count alone does not (a choice of this program, templateSearch.ts)', () => {
+    const close = parseScenario(doc({ separation: '5 Rp', transits: 4 }));
+    const L = templateLayout({ ...close, moon: null });
+    const n0 = defaultPhaseCount(close);
+    const first = buildTemplateBank(close, L, { phases: n0 });
+    const refined = buildTemplateBank(close, L);
+    const c0 = neighbourCorrelation(first, L, 1);
+    const c1 = neighbourCorrelation(refined, L, 1);
+    expect(c0).toBeLessThan(MIN_NEIGHBOUR_CORRELATION);
+    expect(refined.templates).toBeGreaterThan(n0);
+    // doublings of the rule's count, up to the cap
+    expect(Number.isInteger(Math.log2(refined.templates / n0))).toBe(true);
+    expect(refined.templates).toBeLessThanOrEqual(MAX_REFINED_PHASES);
+    if (refined.templates < MAX_REFINED_PHASES) expect(c1).toBeGreaterThanOrEqual(MIN_NEIGHBOUR_CORRELATION);
+    // the refined bank holds the first one's templates (every other phase), unchanged
+    const ratio = refined.templates / n0;
+    for (let k = 0; k < n0; k++) expect(refined.projectedNorm[k * ratio]).toBeCloseTo(first.projectedNorm[k], 15);
+  });
+
+  it('given phases are kept as given', () => {
+    const close = parseScenario(doc({ separation: '5 Rp' }));
+    const L = templateLayout({ ...close, moon: null });
+    expect(buildTemplateBank(close, L, { phases: 7 }).templates).toBe(7);
+  });
+});
