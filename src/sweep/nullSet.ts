@@ -63,7 +63,8 @@ export function nullTemplateLayout(c: NullClass): TemplateLayout {
 
 /** ρ of one realization on layout L (templateSearch.ts), written at `out`. */
 export function realizationRho(L: TemplateLayout, observation: Observation, recovery: TimingRecovery, out?: Float64Array, scratch?: ResidualScratch): Float64Array {
-  return templateResiduals(L, observation.timeS, observation.epoch, observation.flux, observation.sigma, recovery.global, out, scratch);
+  // Each point's own σ (a ground budget) whitens the residuals when the layout weighs its exposures.
+  return templateResiduals(L, observation.timeS, observation.epoch, observation.flux, observation.sigma, recovery.global, out, scratch, observation.sigmaPoint);
 }
 
 /** What identifies (and suffices to compute) a null set. */

@@ -46,7 +46,7 @@
  * taken per bin as the exact flux averaged over the bin's span (one exposure
  * of G cadences at the bin's mean time, times its n_b samples: the short
  * gaps between exposures are neglected), so z above holds with
- * W = diag(1/n_b) and R_b = Σ r_i. Its
+ * W = diag(1/n_b) and R_b = Σ r_i (weighted sums on a ground campaign, below). Its
  * only loss is the template's variation inside one bin: at most 1.2 % of a
  * template's SNR at 2-min cadence and a 50-min ingress (measured in
  * test/timing/templateSearch.test.ts; 0.4 % with bins of ingress / 8, at
@@ -63,12 +63,17 @@
  * without an exposure are dropped, and a bin's time is the mean of its
  * exposures. So the templates, their projections and their SNR S_k count only
  * exposures the calendar allows; nights lost to weather (drawn per
- * realization) stay gaps, left to the calibration. One σ (the observation's
- * rms σ) weights every exposure, although a ground budget gives each its own
- * (air mass): the matched filter is then not the optimal one for those
- * weights, but the threshold, calibrated on no-moon realizations with the
- * same per-exposure noise, keeps the false-alarm rate exact; only power is
- * lost.
+ * realization) stay gaps, left to the calibration. A ground budget gives
+ * each exposure its own σ_i (air mass, site): each then weighs
+ * v_i = (σ_ref/σ_i)² (σ_ref the median of the plan's σ, as the known-template
+ * bound), the bins carry Σv_i (`count`) and Σ v_i r_i/σ_ref (ρ), the
+ * freedoms and templates are binned with the same weights and the bank's
+ * inner product is W = diag(1/Σv_i): the generalised matched filter for
+ * known diagonal noise covariance (Kay 1998, Fundamentals of Statistical
+ * Signal Processing Vol. II, §4.5), the same whitening as the bound's, so a
+ * template's SNR matches the bound's (test/timing/templateSearchCampaign.test.ts).
+ * Under white noise each z_k stays N(0, 1); the threshold is calibrated on
+ * no-moon realizations as before.
  *
  * Cost: the bank (templates, projections) is built once per cell; each
  * realization costs one pass over its samples (binning) and a dot product per
@@ -82,6 +87,7 @@ import type { GlobalTransitFit } from './globalTransitFit.js';
 import { whiteNoiseSigma } from '../noise/whiteNoise.js';
 import { NOMINAL_SIGMA } from './timingSeries.js';
 import { observingPlan, withCampaignEpochs, type ObservingPlan } from '../noise/observingPlan.js';
+import { medianOfFinite } from '../numeric/quantiles.js';
 
 /** Bins of the planned sample grid shared by a null class and every cell of it. */
 export interface TemplateLayout {
@@ -94,8 +100,14 @@ export interface TemplateLayout {
   k1: Int32Array;
   binStart: Int32Array;
   bins: number;
-  /** Planned samples (with a campaign: the plan's exposures) per bin. */
+  /**
+   * Per bin: Σ v_i over its planned samples (with a campaign: the plan's exposures), v_i = (σ_ref/σ_i)²
+   * the exposure's weight (1 for every sample unless a ground budget gives each exposure its own σ_i):
+   * the variance of the bin's ρ under white noise, and the inverse of the bank's inner-product weight.
+   */
   count: Float64Array;
+  /** σ_ref (relative flux): ρ is in units of it and the bank's SNRs are ‖d̃‖/σ_ref. */
+  sigmaRef: number;
   /** Scale of the per-window baseline slope (s): the first window's planned width. */
   slopeScaleS: number;
   /**
@@ -104,6 +116,8 @@ export interface TemplateLayout {
    */
   rawToBin: Int32Array | null;
   exposures: { timeS: Float64Array; epoch: Int32Array } | null;
+  /** Per plan exposure (aligned with `exposures`), its weight v_i = (σ_ref/σ_i)²; null when every weight is 1. */
+  exposureWeight: Float64Array | null;
 }
 
 /** Bin width as a fraction of the planet's ingress (see the file comment). */
@@ -144,7 +158,11 @@ export function templateLayout(given: Scenario, samplesPerBin?: number): Templat
   const count = new Float64Array(bins);
   for (let e = 0; e < n; e++) for (let k = k0[e]; k <= k1[e]; k++) count[binStart[e] + Math.floor((k - k0[e]) / G)] += 1;
   const slopeScaleS = n > 0 ? cad * (k1[0] - k0[0] + 1) : 0;
-  return { cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count, slopeScaleS, rawToBin: null, exposures: null };
+  const sigmaRef = whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS);
+  return {
+    cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count, sigmaRef, slopeScaleS,
+    rawToBin: null, exposures: null, exposureWeight: null,
+  };
 }
 
 /**
@@ -173,19 +191,26 @@ function planLayout(s: Scenario, plan: ObservingPlan, G: number): TemplateLayout
   const binStart = new Int32Array(n + 1);
   for (let e = 0; e < n; e++) binStart[e + 1] = binStart[e] + (k1[e] >= k0[e] ? Math.ceil((k1[e] - k0[e] + 1) / G) : 0);
   const raw = binStart[n];
+  // Each exposure weighs v_i = (σ_ref/σ_i)², σ_ref the median of the plan's σ (as the known-template bound).
+  const sigmaRef = plan.sigma.length > 0 ? medianOfFinite(plan.sigma) : whiteNoiseSigma(s.instrument.noiseFraction, s.instrument.noiseTimescaleS, s.instrument.exposureS);
+  const exposureWeight = plan.sigmaVaries ? new Float64Array(plan.timeS.length) : null;
+  if (exposureWeight !== null) for (let i = 0; i < exposureWeight.length; i++) exposureWeight[i] = plan.sigma[i] > 0 ? (sigmaRef / plan.sigma[i]) ** 2 : 0;
   const rawCount = new Float64Array(raw);
+  const rawExposures = new Int32Array(raw);
   for (let i = 0; i < plan.timeS.length; i++) {
     const e = plan.epoch[i];
-    rawCount[binStart[e] + Math.floor((Math.round(plan.timeS[i] / cad) - k0[e]) / G)] += 1;
+    const r = binStart[e] + Math.floor((Math.round(plan.timeS[i] / cad) - k0[e]) / G);
+    rawCount[r] += exposureWeight === null ? 1 : exposureWeight[i];
+    rawExposures[r] += 1;
   }
   const rawToBin = new Int32Array(raw);
   let bins = 0;
-  for (let r = 0; r < raw; r++) rawToBin[r] = rawCount[r] > 0 ? bins++ : -1;
+  for (let r = 0; r < raw; r++) rawToBin[r] = rawExposures[r] > 0 && rawCount[r] > 0 ? bins++ : -1;
   const count = new Float64Array(bins);
   for (let r = 0; r < raw; r++) if (rawToBin[r] >= 0) count[rawToBin[r]] = rawCount[r];
   return {
-    cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count,
-    slopeScaleS: 2 * plan.halfWindowS, rawToBin, exposures: { timeS: plan.timeS, epoch: plan.epoch },
+    cadenceS: cad, periodS: s.planet.periodS, samplesPerBin: G, k0, k1, binStart: binStart.subarray(0, n), bins, count, sigmaRef,
+    slopeScaleS: 2 * plan.halfWindowS, rawToBin, exposures: { timeS: plan.timeS, epoch: plan.epoch }, exposureWeight,
   };
 }
 
@@ -198,21 +223,28 @@ function binOf(L: TemplateLayout, t: number, epoch: number): number {
   return L.rawToBin === null ? raw : L.rawToBin[raw];
 }
 
-/** out[b] = Σ values[i] over the samples i of bin b (zero-filled first); samples off the grid are skipped. */
-export function binSamples(L: TemplateLayout, timeS: Float64Array, epoch: Int32Array, values: Float64Array, out: Float64Array): Float64Array {
+/**
+ * out[b] = Σ values[i]·weight[i] over the samples i of bin b (zero-filled first; weight 1 when null);
+ * samples off the grid are skipped.
+ */
+export function binSamples(L: TemplateLayout, timeS: Float64Array, epoch: Int32Array, values: Float64Array, out: Float64Array, weight: Float64Array | null = null): Float64Array {
   out.fill(0);
   for (let i = 0; i < timeS.length; i++) {
     const b = binOf(L, timeS[i], epoch[i]);
-    if (b >= 0) out[b] += values[i];
+    if (b >= 0) out[b] += weight === null ? values[i] : values[i] * weight[i];
   }
   return out;
 }
 
-/** Per bin: the mean time of its planned samples (or exposures), and the span (G − 1)·cadence + exposure of a full bin. */
+/**
+ * Per bin: the mean time of its planned samples (or exposures, weighted by v_i: the weighted sum of a
+ * template linear across the bin is its value there times Σv_i), and the span (G − 1)·cadence + exposure
+ * of a full bin.
+ */
 function binCentres(L: TemplateLayout, exposureS: number): { centreS: Float64Array; spanS: number } {
   const centreS = new Float64Array(L.bins);
   if (L.exposures !== null) {
-    binSamples(L, L.exposures.timeS, L.exposures.epoch, L.exposures.timeS, centreS);
+    binSamples(L, L.exposures.timeS, L.exposures.epoch, L.exposures.timeS, centreS, L.exposureWeight);
   } else {
     for (let e = 0; e < L.k0.length; e++) {
       for (let k = L.k0[e]; k <= L.k1[e]; k++) centreS[L.binStart[e] + Math.floor((k - L.k0[e]) / L.samplesPerBin)] += k * L.cadenceS;
@@ -255,6 +287,10 @@ export class ResidualScratch {
 /**
  * Normalised binned residuals ρ_b = Σ_{i∈b} (flux_i − m_i)/σ of one realization, m the global
  * planet-only fit f0·T(t − nP − Δt) (globalTransitFit.ts). With no global fit (nothing observed) ρ = 0.
+ * With each point's own σ_i (`sigmaPoint`, a ground budget's air mass) on a layout that weighs its
+ * exposures (`exposureWeight`): ρ_b = Σ_{i∈b} v_i (flux_i − m_i)/σ_ref = Σ σ_ref (flux_i − m_i)/σ_i²,
+ * the generalised matched filter's whitening (Kay 1998, Fundamentals of Statistical Signal Processing
+ * Vol. II, §4.5, diagonal noise covariance), whose variance under white noise is the bin's Σv_i.
  */
 export function templateResiduals(
   L: TemplateLayout,
@@ -265,6 +301,7 @@ export function templateResiduals(
   global: GlobalTransitFit | null,
   out: Float64Array = new Float64Array(L.bins),
   scratch: ResidualScratch = new ResidualScratch(),
+  sigmaPoint: Float64Array | null = null,
 ): Float64Array {
   out.fill(0);
   if (global === null || !(sigma > 0)) return out;
@@ -272,7 +309,8 @@ export function templateResiduals(
   const { x, model } = scratch.arrays(n);
   for (let i = 0; i < n; i++) x[i] = timeS[i] - epoch[i] * L.periodS - global.offsetS;
   templateFluxArray(global.template, x, n, model);
-  accumulateResiduals(L, timeS, epoch, flux, model, global.baseline, 1 / sigma, out);
+  if (sigmaPoint !== null && L.exposureWeight !== null && L.sigmaRef > 0) accumulateWeighted(L, timeS, epoch, flux, model, global.baseline, sigmaPoint, L.sigmaRef, out);
+  else accumulateResiduals(L, timeS, epoch, flux, model, global.baseline, 1 / sigma, out);
   return out;
 }
 
@@ -282,6 +320,17 @@ function accumulateResiduals(
   for (let i = 0; i < timeS.length; i++) {
     const b = binOf(L, timeS[i], epoch[i]);
     if (b >= 0) out[b] += (flux[i] - f0 * model[i]) * invSigma;
+  }
+}
+
+/** ρ_b += σ_ref (flux_i − f0·m_i)/σ_i² (points with σ_i ≤ 0 or not finite carry no weight). */
+function accumulateWeighted(
+  L: TemplateLayout, timeS: Float64Array, epoch: Int32Array, flux: Float64Array, model: Float64Array, f0: number, sigmaPoint: Float64Array, sigmaRef: number, out: Float64Array,
+): void {
+  for (let i = 0; i < timeS.length; i++) {
+    const b = binOf(L, timeS[i], epoch[i]);
+    const si = sigmaPoint[i];
+    if (b >= 0 && si > 0 && Number.isFinite(si)) out[b] += ((flux[i] - f0 * model[i]) * sigmaRef) / (si * si);
   }
 }
 
@@ -386,8 +435,10 @@ function freedomColumns(geometry: TemplateGeometry, L: TemplateLayout, t: Float6
   cols.push(diff(evalAt({ ...g0, timeScale: 1.001 }, 0), evalAt({ ...g0, timeScale: 0.999 }, 0), 0.002));
   cols.push(diff(evalAt({ ...g0, u1: g0.u1 + 0.01 }, 0), evalAt({ ...g0, u1: g0.u1 - 0.01 }, 0), 0.02));
   cols.push(diff(evalAt({ ...g0, u2: g0.u2 + 0.01 }, 0), evalAt({ ...g0, u2: g0.u2 - 0.01 }, 0), 0.02));
-  const binned = cols.map((c) => binSamples(L, t, epoch, c, new Float64Array(L.bins)));
-  // Per window: baseline offset and slope (sums of 1 and of x/T14 over the bin's samples).
+  // Weighted sums over each bin's samples (v_i: the layout's exposure weights, aligned with t).
+  const v = L.exposureWeight;
+  const binned = cols.map((c) => binSamples(L, t, epoch, c, new Float64Array(L.bins), v));
+  // Per window: baseline offset and slope (sums of v_i and of v_i·x/T14 over the bin's samples).
   const scale = 1 / Math.max(1, L.slopeScaleS);
   for (let e = 0; e < L.k0.length; e++) {
     const off = new Float64Array(L.bins);
@@ -395,8 +446,10 @@ function freedomColumns(geometry: TemplateGeometry, L: TemplateLayout, t: Float6
     for (let i = 0; i < n; i++) {
       if (epoch[i] !== e) continue;
       const bin = binOf(L, t[i], e);
-      off[bin] += 1;
-      slope[bin] += x[i] * scale;
+      if (bin < 0) continue;
+      const vi = v === null ? 1 : v[i];
+      off[bin] += vi;
+      slope[bin] += x[i] * scale * vi;
     }
     binned.push(off, slope);
   }
@@ -576,7 +629,7 @@ function bankOf(ctx: BankContext, s: Scenario, L: TemplateLayout, nPhase: number
     }
   }
   const snr = new Float64Array(total);
-  const sigmaRef = sigma > 0 ? sigma : NOMINAL_SIGMA;
+  const sigmaRef = L.sigmaRef > 0 ? L.sigmaRef : sigma > 0 ? sigma : NOMINAL_SIGMA;
   for (let j = 0; j < total; j++) snr[j] = projectedNorm[j] / sigmaRef;
   const statistic = o.statistic ?? 'marginal';
   if (statistic !== 'marginal' && statistic !== 'max') throw new RangeError(`statistic must be 'marginal' or 'max', got ${String(statistic)}`);
