@@ -43,13 +43,13 @@ export function valuePrecision(l: LimitsJson): ValuePrecision {
 /**
  * Forecast detection probability of `channel`: TTV, TDV, or for `combined`
  * the joint χ²_TTV + χ²_TDV test (a stand-in: the Monte Carlo's combined rule
- * is a Bonferroni union of the TTV, TDV and dip tests). Null for the dip
- * channel (no analytic forecast), for a channel the transit count does not
+ * is a Bonferroni union of the TTV, TDV and dip tests). Null for the dip and
+ * template channels (no analytic forecast), for a channel the transit count does not
  * allow (TTV below 3 transits, TDV and combined below 2; detectionForecast.ts),
  * or without a finite precision.
  */
 export function forecastProbability(channel: BudgetChannel, sig: MoonSignal, p: ValuePrecision): number | null {
-  if (channel === 'dip' || !(p.transits >= 1)) return null;
+  if (channel === 'dip' || channel === 'template' || !(p.transits >= 1)) return null;
   if (!(p.sigmaTcS > 0 && p.sigmaDurS > 0) || !Number.isFinite(p.sigmaTcS + p.sigmaDurS)) return null;
   const f = forecastDetection({
     nTransits: p.transits,

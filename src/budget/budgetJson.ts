@@ -20,7 +20,7 @@ export interface BudgetEvaluationJson {
   probability_hi: number;
   passed: boolean;
   /** Detection probability per channel (single moon only). */
-  pdet: { combined: number | null; ttv: number | null; tdv: number | null; dip: number | null } | null;
+  pdet: { combined: number | null; ttv: number | null; tdv: number | null; dip: number | null; template: number | null } | null;
   false_alarm_measured_combined: number | null;
   realizations: number;
   no_moon_realizations: number;
@@ -122,7 +122,7 @@ function evaluation(e: BudgetEvaluation): BudgetEvaluationJson {
     probability_lo: e.lower,
     probability_hi: e.upper,
     passed: e.passed,
-    pdet: e.channels && { combined: channel(e.channels, 'combined'), ttv: channel(e.channels, 'ttv'), tdv: channel(e.channels, 'tdv'), dip: channel(e.channels, 'dip') },
+    pdet: e.channels && { combined: channel(e.channels, 'combined'), ttv: channel(e.channels, 'ttv'), tdv: channel(e.channels, 'tdv'), dip: channel(e.channels, 'dip'), template: channel(e.channels, 'template') },
     false_alarm_measured_combined: e.falseAlarmMeasured,
     realizations: e.realizations,
     no_moon_realizations: e.nullRealizations,

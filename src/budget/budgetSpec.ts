@@ -8,7 +8,7 @@
  *   budget:
  *     probability: 0.9            # or "90 %"
  *     solve: transits             # transits | cadence | noise
- *     channel: combined           # combined | ttv | tdv | dip
+ *     channel: combined           # combined | ttv | tdv | dip | template
  *     moon_mass: 0.6 Mearth       # target moon (default: the scenario's moon)
  *     moon_separation: 18 Rp      # length, "N Rp" or "f hill"
  *     realizations: 100

@@ -11,8 +11,8 @@ export type BudgetSolve = 'transits' | 'cadence' | 'noise';
 export const BUDGET_SOLVES: readonly BudgetSolve[] = ['transits', 'cadence', 'noise'];
 
 /** Which detection decision must reach the probability (as in the sweep's cells). */
-export type BudgetChannel = 'combined' | 'ttv' | 'tdv' | 'dip';
-export const BUDGET_CHANNELS: readonly BudgetChannel[] = ['combined', 'ttv', 'tdv', 'dip'];
+export type BudgetChannel = 'combined' | 'ttv' | 'tdv' | 'dip' | 'template';
+export const BUDGET_CHANNELS: readonly BudgetChannel[] = ['combined', 'ttv', 'tdv', 'dip', 'template'];
 
 /** A population of target moons instead of one (`--habitable`). */
 export interface HabitableTarget {

@@ -43,7 +43,7 @@ export function evaluateMoon(scenario: Scenario, index: number, value: number, m
   const r = runBudgetCell(scenario, 0, value, m);
   const p = num(r[`pdet_${m.channel}`]);
   const channels: Record<string, number> = {};
-  for (const ch of ['combined', 'ttv', 'tdv', 'dip'] as const) channels[ch] = num(r[`pdet_${ch}`]);
+  for (const ch of ['combined', 'ttv', 'tdv', 'dip', 'template'] as const) channels[ch] = num(r[`pdet_${ch}`]);
   return {
     index,
     value,

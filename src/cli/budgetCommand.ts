@@ -19,7 +19,7 @@ export function registerBudget(program: Command, io: CliIo): void {
     .option('--moon-separation <sep>', 'target moon separation: a length, "18 Rp" or "0.2 hill" (default: the scenario\'s moon)')
     .option('--probability <p>', 'detection probability to reach, e.g. 0.9 or "90 %" (default 0.9)')
     .option('--solve <what>', 'transits | cadence | noise (default transits; the old value precision is accepted in this release)')
-    .option('--channel <ch>', 'combined | ttv | tdv | dip (default combined)')
+    .option('--channel <ch>', 'combined | ttv | tdv | dip | template (default combined)')
     .option('--realizations <n>', 'moon realizations per Monte Carlo evaluation (default 100; 40 per moon with --habitable)')
     .option('--no-moon-realizations <n>', 'no-moon realizations calibrating the false-alarm thresholds per evaluation (default 400)')
     .option('--null-realizations <n>', 'deprecated spelling of --no-moon-realizations (accepted in this release only)')

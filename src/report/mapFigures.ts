@@ -174,7 +174,7 @@ function hoverMatrix(meta: SweepMeta, a: Axes2, p: Panel): string[][] {
       ];
       if (fo && cellProbability(c, 'combined', true, meta.simulate_unstable) === null) lines.push(`not forecast (${String(c.placement ?? '')}): the Monte Carlo would not simulate it`);
       else if (fo) lines.push(`forecast combined ${pct(num(c, 'pdet_forecast_combined'))}, TTV ${pct(num(c, 'pdet_forecast_ttv'))}, TDV ${pct(num(c, 'pdet_forecast_tdv'))}; joint χ² ${pct(num(c, 'pdet_forecast_joint'))}`);
-      else if (c.simulated === true) lines.push(`combined ${pct(num(c, 'pdet_combined'))} [${pct(num(c, 'pdet_combined_lo'))}, ${pct(num(c, 'pdet_combined_hi'))}]; TTV ${pct(num(c, 'pdet_ttv'))}, TDV ${pct(num(c, 'pdet_tdv'))}, dip ${pct(num(c, 'pdet_dip'))}`);
+      else if (c.simulated === true) lines.push(`combined ${pct(num(c, 'pdet_combined'))} [${pct(num(c, 'pdet_combined_lo'))}, ${pct(num(c, 'pdet_combined_hi'))}]; TTV ${pct(num(c, 'pdet_ttv'))}, TDV ${pct(num(c, 'pdet_tdv'))}, dip ${pct(num(c, 'pdet_dip'))}, template ${pct(num(c, 'pdet_template'))}`);
       else lines.push(`not simulated (${String(c.skipped_reason ?? '')})`);
       if (num(c, 'pdet_bound') !== null) lines.push(`bound (best possible analysis) ${pct(num(c, 'pdet_bound'))}`);
       return lines.map(escapeHtml).join('<br>');

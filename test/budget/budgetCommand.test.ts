@@ -53,6 +53,15 @@ describe('moonsieve budget (CLI)', () => {
     expect((bad.error as InputError).message).toContain('--no-moon-realizations: got "2"');
   });
 
+  it('--channel template is offered: the template channel exists from 1 transit and has no analytic forecast (budgetSpec.ts minTransitsFor, budgetForecast.ts; common practice, no source)', async () => {
+    const r = await run([demo, '--forecast-only', '--json', '--quiet', '--channel', 'template']);
+    expect(r.error).toBeNull();
+    const j = JSON.parse(r.out);
+    expect(j.channel).toBe('template');
+    expect(j.quantity.values[0]).toBe(1);
+    for (const p of j.forecast.probability) expect(p).toBeNull();
+  });
+
   it('a target moon the scenario refuses names the flag', async () => {
     const r = await run([demo, '--forecast-only', '--moon-separation', '1 Rp']);
     expect(r.error).toBeInstanceOf(InputError);
