@@ -531,7 +531,7 @@ export function buildTemplateBank(s: Scenario, L: TemplateLayout, o: TemplateBan
  * Phases are refined (doubled) while the SNR-weighted correlation of phase-neighbouring templates,
  *   C = Σ_k ⟨d̃_k, d̃_k+1⟩_W / Σ_k ‖d̃_k‖_W ‖d̃_k+1‖_W   (k cyclic in phase, per node and periapsis),
  * is below this. A choice of this program (not a published rule), measured with an ideal test
- * (Gaussian residuals, signals at 256 phases; bench/efficiency notes) on bench/boundReference.ts's
+ * (Gaussian residuals, signals at 256 phases; `node dist/bench/run.js bank-phases`, bench/bankPhases.ts) on bench/boundReference.ts's
  * system at 0.15 Hill radii: the geometric rule's 12 phases had C ≈ 0.36 and a 50 % minimum
  * detectable mass 9 % above the converged one (1.43 against 1.31 M⊕), 16 phases (C ≈ 0.44) 5 %, 24
  * (C ≈ 0.63) 1 %; with 32 and 48 phases (C ≈ 0.73 and 0.83) the power no longer changed within the
