@@ -536,7 +536,8 @@ export function buildTemplateBank(s: Scenario, L: TemplateLayout, o: TemplateBan
  * detectable mass 9 % above the converged one (1.43 against 1.31 M⊕), 16 phases (C ≈ 0.44) 5 %, 24
  * (C ≈ 0.63) 1 %; with 32 and 48 phases (C ≈ 0.73 and 0.83) the power no longer changed within the
  * Monte Carlo noise (1.306 and 1.309 M⊕, 3000 signal and 5000 no-moon draws each). That converged
- * mass is 1.58× the known-template bound's 0.83 M⊕ there (1.37× at 0.30 and 1.39× at 0.45 Hill radii):
+ * mass is about 1.6× the known-template bound's 0.83 M⊕ there (1.56–1.61× depending on the draws and
+ * the masses interpolated between; about 1.4× at 0.30 and 1.3× at 0.45 Hill radii, bench bank-phases):
  * the price of not knowing the moon's phase, which the bound takes as known. The marginal statistic
  * with the cell's amplitude is the most powerful test on average over a uniform phase (Neyman–Pearson
  * lemma for the mixture alternative), so no analysis of these data reaches the bound's line there
