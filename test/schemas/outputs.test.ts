@@ -134,6 +134,10 @@ describe('JSON outputs and their schemas', () => {
 });
 
 describe('docs/vocabulary.md: one table of names', () => {
+  it('names each key once (one meaning per name; merged edits must not leave two rows for a key)', () => {
+    const keys = [...vocabulary.slice(vocabulary.indexOf('\n## Names\n')).matchAll(/^\| `([a-z0-9_]+)` \|/gm)].map((m) => m[1]);
+    expect(keys.filter((k, i) => keys.indexOf(k) !== i)).toEqual([]);
+  });
   it('lists every property name of every shipped schema', () => {
     const files = readdirSync(new URL('../../schemas/', import.meta.url)).filter((f) => f.endsWith('.schema.json'));
     expect(files.map((f) => f.replace('.schema.json', '')).sort()).toEqual([...SCHEMAS].sort());
