@@ -1,0 +1,82 @@
+/** `moonsieve rank SCENARIO LIST`: a planet list ranked by the smallest moon each could reveal, and the cost of the scenario's target moon. */
+import type { Command } from 'commander';
+import { join } from 'node:path';
+import { rankList, writeRankOutputs } from '../app/rankList.js';
+import { defaultOutDir } from '../app/defaultOutDir.js';
+import { checkOutputDir } from '../io/outputPaths.js';
+import { resolveShard } from '../sweep/shard.js';
+import { DEFAULT_RANK_SETTINGS } from '../rank/rankPlanet.js';
+import type { RankJson } from '../rank/rankJson.js';
+import { InputError } from '../scenario/errors.js';
+import { M_EARTH_KG, HOUR_S } from '../physics/constants.js';
+import type { CliIo } from './cliIo.js';
+
+interface RankOpts {
+  out?: string;
+  shard?: string;
+  calendar?: boolean;
+  json?: boolean;
+  top?: string;
+  probability?: string;
+}
+
+export function registerRank(program: Command, io: CliIo): void {
+  program
+    .command('rank')
+    .description('rank a list of planets (CSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json and rank.ecsv')
+    .argument('<scenario>', 'scenario YAML: instrument, observation, detection, the target moon, and optionally site, campaign and constraints, shared by every planet')
+    .argument('<list>', 'planet list, CSV (docs/rank.md names the columns); `#` lines are comments')
+    .option('--out <dir>', 'output folder (default reports/<scenario name>-rank/)')
+    .option('--shard <K/N>', 'rank only the rows with index mod N = K−1 (default from SLURM_ARRAY_TASK_ID/COUNT); join with `moonsieve merge`')
+    .option('--no-calendar', 'skip the campaign calendar and nights (faster; every transit assumed observed)')
+    .option('--probability <p>', 'detection probability the target moon\'s transit count is solved for', String(DEFAULT_RANK_SETTINGS.probability))
+    .option('--top <n>', 'rows of the ranking printed on screen', '20')
+    .option('--json', 'print rank.json instead of the table')
+    .action((scenarioPath: string, listPath: string, opts: RankOpts) => {
+      const top = Number(opts.top);
+      if (!Number.isSafeInteger(top) || top < 0) throw new InputError([{ path: '--top', value: opts.top, allowed: 'a whole number ≥ 0' }]);
+      const probability = Number(opts.probability);
+      if (!(probability > 0 && probability < 1)) throw new InputError([{ path: '--probability', value: opts.probability, allowed: 'a probability between 0 and 1, e.g. 0.9' }]);
+      const shard = resolveShard(opts.shard, process.env);
+      const started = performance.now();
+      const r = rankList(scenarioPath, listPath, { shard, settings: { probability, calendar: opts.calendar !== false } });
+      const out = opts.out ?? `${defaultOutDir(r.scenario)}-rank`;
+      checkOutputDir('--out', out);
+      writeRankOutputs(out, r);
+      const seconds = (performance.now() - started) / 1000;
+      if (opts.json) io.out(JSON.stringify(r, null, 2) + '\n');
+      else io.out(formatRank(r, top));
+      for (const s of r.skipped) io.err(`skipped row ${s.row} (line ${s.line}${s.name ? `, ${s.name}` : ''}): ${s.problems.join('; ')}\n`);
+      io.err(`ranked ${r.planets_ranked} planets in ${seconds.toFixed(1)} s (${((1000 * seconds) / Math.max(1, r.planets_ranked)).toFixed(1)} ms per planet)\n`);
+      io.err(`wrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\n`);
+      if (shard) io.err(`when every shard is done: moonsieve merge <the ${shard.n} shard folders> --out <dir>\n`);
+    });
+}
+
+const me = (kg: number | null) => (kg === null ? '–' : (kg / M_EARTH_KG).toPrecision(3));
+
+/** The screen table: the first `top` planets, then the skipped rows and what the forecast leaves out. */
+export function formatRank(r: RankJson, top: number): string {
+  const lines: string[] = [];
+  lines.push(`${r.scenario}: ${r.planets_ranked} of ${r.planets_in_list} planets ranked${r.shard ? ` (shard ${r.shard})` : ''}, ${r.skipped.length} rows skipped`);
+  lines.push(`minimum moon mass (Mearth) whose forecast reaches pdet ${r.pdet_threshold}, at ${r.separations_hill.join(', ')} Hill radii; cost of the target moon at probability ${r.transits_probability}`);
+  lines.push('');
+  const head = ['rank', 'name'.padEnd(18), ...r.separations_hill.map((f) => `${f} RH`.padStart(8)), 'transits'.padStart(8), 'campaign'.padStart(8), 'nights'.padStart(6), 'hours'.padStart(7), ' HZ moon'];
+  lines.push(head.join(' '));
+  for (const p of r.planets.slice(0, top)) {
+    lines.push([
+      String(p.rank).padStart(4),
+      p.name.slice(0, 18).padEnd(18),
+      ...p.min_moon_mass_kg.map((m) => me(m).padStart(8)),
+      (p.target_transits_needed === null ? '>max' : String(p.target_transits_needed)).padStart(8),
+      (p.campaign_expected_whole_transits === null ? '–' : p.campaign_expected_whole_transits.toFixed(1)).padStart(8),
+      (p.nights === null ? '–' : String(p.nights)).padStart(6),
+      (p.on_sky_s === null ? '–' : (p.on_sky_s / HOUR_S).toFixed(1)).padStart(7),
+      p.habitable_moon_in_reach ? ' yes' : (p.target_habitability ?? ' –').padStart(8),
+    ].join(' '));
+  }
+  if (r.planets.length > top) lines.push(`… ${r.planets.length - top} more in rank.json / rank.ecsv`);
+  lines.push('', 'What this leaves out:');
+  for (const a of r.assumptions) lines.push(`  - ${a}`);
+  return lines.join('\n') + '\n';
+}
