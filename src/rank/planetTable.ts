@@ -11,8 +11,9 @@
  * Missing planet mass: from the planet radius by inverting the mean
  * mass–radius relation of Chen & Kipping (2017, ApJ 834, 17, eq. 2, Table 1)
  * in its Terran and Neptunian regimes, where the radius rises with the mass;
- * in the Jovian regime (slope −0.044) the radius says almost nothing about the
- * mass, so such a row needs its mass and is skipped without it. Missing planet
+ * a radius the Jovian regime (slope −0.044) also reaches (from about 1.01 R_J
+ * up) says almost nothing about the mass, so such a row needs its mass and is
+ * skipped without it. Missing planet
  * radius: the same relation forward (`mass_radius: chen_kipping_2017`). Either
  * way the row is flagged (`mass_from_radius`, `radius_from_mass`).
  */
@@ -118,16 +119,22 @@ export function readPlanetTable(text: string, source = 'planet list'): PlanetTab
   return { header, rows, lines };
 }
 
-/** Planet mass from radius: Chen & Kipping (2017, eq. 2, Table 1) inverted in the Terran and Neptunian regimes; NaN elsewhere. */
+/**
+ * Planet mass from radius: Chen & Kipping (2017, eq. 2, Table 1) inverted in the
+ * Terran and Neptunian regimes. The Jovian branch (slope −0.044) spans radii from
+ * its top at 0.414 M_J (about 1.28 R_J) down to its end at 0.08 M☉ (about
+ * 1.01 R_J), so a radius at or above that end is met by two masses (or, in the
+ * branch, by a range of them): NaN there, and for a radius that is not positive.
+ */
 export function chenKippingMassFromRadius(radiusM: number): number {
   if (!(radiusM > 0)) return Number.NaN;
   const c = chenKippingIntercepts();
   const y = Math.log10(radiusM / R_EARTH_M);
   const t1 = Math.log10(CHEN_KIPPING_TRANSITIONS_KG.terranNeptunian / M_EARTH_KG);
-  const t2 = Math.log10(CHEN_KIPPING_TRANSITIONS_KG.neptunianJovian / M_EARTH_KG);
+  const t3 = Math.log10(CHEN_KIPPING_TRANSITIONS_KG.jovianStellar / M_EARTH_KG);
   const y1 = c[0] + CHEN_KIPPING_SLOPES[0] * t1;
-  const y2 = c[1] + CHEN_KIPPING_SLOPES[1] * t2;
-  if (y >= y2) return Number.NaN;
+  const y3 = c[2] + CHEN_KIPPING_SLOPES[2] * t3;
+  if (y >= y3) return Number.NaN;
   const j = y < y1 ? 0 : 1;
   return M_EARTH_KG * 10 ** ((y - c[j]) / CHEN_KIPPING_SLOPES[j]);
 }
@@ -214,7 +221,7 @@ export function rowDocument(baseDoc: ScenarioDocument, row: Record<string, strin
       planet.mass = `${m / M_JUP_KG} Mjup`;
       flags.push('mass_from_radius');
     } else {
-      problems.push({ path: `${where}: planet_mass_mjup`, value: undefined, allowed: `needed for a planet of ${radius} Rjup: above the Neptunian–Jovian transition of Chen & Kipping (2017) the radius does not fix the mass` });
+      problems.push({ path: `${where}: planet_mass_mjup`, value: undefined, allowed: `needed for a planet of ${radius} Rjup: from about 1.01 Rjup up, Chen & Kipping (2017) give more than one mass for a radius` });
     }
   } else if (mass !== null && radius === null) {
     delete planet.radius;

@@ -92,69 +92,63 @@ export function pdetAt(base: ScenarioDocument, massKg: number, fHill: number, de
 
 /** The root finder stops when the forecast is within this of RANK_PDET (0.2 percentage points; about 0.3 % in mass). */
 export const RANK_PDET_TOLERANCE = 2e-3;
-/** Step of the bracket walk in moon mass. */
-const BRACKET_FACTOR = 8;
+/** Largest step of the search in log moon mass (a factor 8). */
+const MAX_LOG_STEP = Math.log(8);
+const logit = (p: number): number => {
+  const q = Math.min(1 - 1e-12, Math.max(1e-12, p));
+  return Math.log(q / (1 - q));
+};
 
 /**
  * Smallest moon mass at `fHill` whose forecast reaches RANK_PDET. The TTV and
  * TDV amplitudes rise with the moon mass (Kipping 2009a), so the probability
- * does: the mass is bracketed by steps of ×8 from `guessKg`, then found by
- * regula falsi with the Illinois modification (Dowell & Jarratt 1971, BIT 11,
- * 168) in log mass until the forecast is within RANK_PDET_TOLERANCE of
- * RANK_PDET (bisection if it has not converged in 40 steps). Null with a note
- * when no mass below the planet's (or the range's top) reaches it.
+ * does. Secant steps on logit(pdet) against log mass from `guessKg` (at most
+ * ×8 per step), kept inside the bracket once one is found, with bisection when
+ * a secant step leaves it (a safeguarded secant, e.g. Press et al. 2007,
+ * Numerical Recipes, 3rd ed., §9.2–9.3), until the forecast is within
+ * RANK_PDET_TOLERANCE of RANK_PDET. Null with a note when no mass below the
+ * planet's (or the range's top) reaches it.
  */
 export function minDetectableMass(base: ScenarioDocument, s: Scenario, fHill: number, densityKgM3: number, guessKg = M_EARTH_KG): { massKg: number | null; note: string | null; evaluations: number } {
   const xMin = Math.log(RANK_MASS_RANGE_KG[0]);
   const xMax = Math.log(Math.min(RANK_MASS_RANGE_KG[1], s.planet.massKg));
   let evaluations = 0;
-  const g = (x: number): number | null => {
+  const prob = (x: number): number | null => {
     evaluations++;
-    const p = pdetAt(base, Math.exp(x), fHill, densityKgM3, s.name).pdet;
-    return p === null ? null : p - RANK_PDET;
+    return pdetAt(base, Math.exp(x), fHill, densityKgM3, s.name).pdet;
   };
-  let x = Math.min(xMax, Math.max(xMin, Math.log(guessKg)));
-  let fx = g(x);
-  if (fx === null) return { massKg: null, note: 'no forecast', evaluations };
-  const step = Math.log(BRACKET_FACTOR);
-  let lo: number, flo: number, hi: number, fhi: number;
-  if (fx >= 0) {
-    hi = x; fhi = fx;
-    for (;;) {
-      if (hi <= xMin) return { massKg: Math.exp(xMin), note: null, evaluations };
-      lo = Math.max(xMin, hi - step);
-      flo = g(lo) ?? -RANK_PDET;
-      if (flo < 0) break;
-      hi = lo; fhi = flo;
-    }
-  } else {
-    lo = x; flo = fx;
-    for (;;) {
-      if (lo >= xMax) return { massKg: null, note: 'not detectable below the planet mass', evaluations };
-      hi = Math.min(xMax, lo + step);
-      fhi = g(hi) ?? -RANK_PDET;
-      if (fhi >= 0) break;
-      lo = hi; flo = fhi;
-    }
-  }
-  if (fhi < RANK_PDET_TOLERANCE) return { massKg: Math.exp(hi), note: null, evaluations };
-  let side = 0;
+  let x0 = Math.min(xMax, Math.max(xMin, Math.log(guessKg)));
+  const p0 = prob(x0);
+  if (p0 === null) return { massKg: null, note: 'no forecast', evaluations };
+  if (Math.abs(p0 - RANK_PDET) < RANK_PDET_TOLERANCE) return { massKg: Math.exp(x0), note: null, evaluations };
+  let f0 = logit(p0) - logit(RANK_PDET);
+  let lo = f0 < 0 ? x0 : -Infinity;
+  let hi = f0 >= 0 ? x0 : Infinity;
+  let x1 = Math.min(xMax, Math.max(xMin, x0 + (f0 < 0 ? 0.5 : -0.5)));
   for (let i = 0; i < 60; i++) {
-    const m = i < 40 ? hi - (fhi * (hi - lo)) / (fhi - flo) : 0.5 * (lo + hi);
-    const fm = g(m) ?? -RANK_PDET;
-    if (fm >= 0) {
-      hi = m; fhi = fm;
-      if (fm < RANK_PDET_TOLERANCE) break;
-      if (side === 1) flo /= 2;
-      side = 1;
-    } else {
-      lo = m; flo = fm;
-      if (side === -1) fhi /= 2;
-      side = -1;
+    if (x1 === x0) {
+      // At an end of the range with the root beyond it.
+      if (f0 < 0) return { massKg: null, note: 'not detectable below the planet mass', evaluations };
+      return { massKg: Math.exp(xMin), note: null, evaluations };
     }
-    if (hi - lo < 1e-9) break;
+    const p1 = prob(x1) ?? 0; // no forecast above (a moon touching its planet): not detected
+    if (Math.abs(p1 - RANK_PDET) < RANK_PDET_TOLERANCE) return { massKg: Math.exp(x1), note: null, evaluations };
+    const f1 = logit(p1) - logit(RANK_PDET);
+    if (f1 < 0) lo = Math.max(lo, x1);
+    else hi = Math.min(hi, x1);
+    let x2 = f1 !== f0 ? x1 - (f1 * (x1 - x0)) / (f1 - f0) : x1 + (f1 < 0 ? MAX_LOG_STEP : -MAX_LOG_STEP);
+    if (!Number.isFinite(x2)) x2 = x1 + (f1 < 0 ? MAX_LOG_STEP : -MAX_LOG_STEP);
+    x2 = Math.min(x1 + MAX_LOG_STEP, Math.max(x1 - MAX_LOG_STEP, x2));
+    if (Number.isFinite(lo) && Number.isFinite(hi)) {
+      if (!(x2 > lo && x2 < hi)) x2 = 0.5 * (lo + hi);
+      if (hi - lo < 1e-6) return { massKg: Math.exp(hi), note: null, evaluations };
+    }
+    x2 = Math.min(xMax, Math.max(xMin, x2));
+    x0 = x1;
+    f0 = f1;
+    x1 = x2;
   }
-  return { massKg: Math.exp(hi), note: null, evaluations };
+  return { massKg: Number.isFinite(hi) ? Math.exp(hi) : null, note: Number.isFinite(hi) ? null : 'no convergence', evaluations };
 }
 
 export interface RankSettings {
@@ -182,7 +176,7 @@ export function rankPlanet(s: Scenario, row: number, flags: readonly string[], s
       const m = minDetectableMass(base, s, f, density, guess);
       r.min_mass_kg = m.massKg;
       // The TTV amplitude grows about as the separation (Kipping 2009a): the next separation starts below.
-      if (m.massKg !== null) guess = m.massKg / 1.5;
+      if (m.massKg !== null) guess = m.massKg / 1.6;
       r.note = m.note;
     }
     reach.push(r);
