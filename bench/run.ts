@@ -15,6 +15,7 @@ import { benchEfficiency } from './efficiency.js';
 import { threadScaling } from './threadScaling.js';
 import { benchLimitsStart, benchWorkerStart } from './workerStart.js';
 import { benchBound } from './bound.js';
+import { benchRank } from './rank.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -116,6 +117,7 @@ async function main(): Promise<void> {
     ['calendar', () => benchCalendar()],
     ['startup', async () => [...benchLimitsStart(), ...(await benchWorkerStart(referenceSweepDoc(20)))]],
     ['bound', () => benchBound()],
+    ['rank', () => benchRank()],
     ['small-sweep', () => smallSweepSection()],
     ['efficiency', () => benchEfficiency()],
     ['sweep', () => sweepSection(process.argv.includes('--full'))],
