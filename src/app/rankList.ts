@@ -15,13 +15,29 @@ import { buildRankJson, planetToJson, skippedToJson, RANK_SCHEMA, type RankJson,
 import { inShard, type Shard } from '../sweep/shard.js';
 import { toEcsv, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
+import { planBudget } from './planBudget.js';
+import { DEFAULT_MAX_TRANSITS } from '../budget/budgetSpec.js';
+import type { Scenario } from '../scenario/types.js';
 
 export interface RankOptions {
   shard?: Shard | null;
   settings?: RankSettings;
   /** Called after each ranked planet (progress). */
   onPlanet?: (done: number, total: number) => void;
+  /** Monte Carlo confirmation of the target moon's transits for the top `confirm` planets (0: none; not with a shard). */
+  confirm?: number;
+  /** Moon realizations per Monte Carlo evaluation of the confirmation. */
+  confirmRealizations?: number;
+  /** No-moon realizations of the confirmation (default: budget's, from the false-alarm probability). */
+  confirmNoMoonRealizations?: number;
+  /** Called after each confirmed planet with its wall time, s (the cost per planet). */
+  onConfirm?: (name: string, seconds: number, done: number, total: number) => void;
 }
+
+/** Default moon realizations per evaluation of the confirmation (budget's default is 100: this is a first check). */
+export const DEFAULT_CONFIRM_REALIZATIONS = 40;
+/** Planets confirmed by default in an unsharded run. */
+export const DEFAULT_CONFIRM = 3;
 
 function readText(path: string, what: string): string {
   try {
@@ -61,7 +77,46 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
     throw new InputError(rows.flatMap((r) => r.problems).slice(0, 20), `${listSource}: no row could be ranked`);
   }
   const name = typeof doc.name === 'string' ? doc.name : 'scenario';
-  return buildRankJson(name, shard, rows.length, ranked, skipped, settings.probability);
+  const result = buildRankJson(name, shard, rows.length, ranked, skipped, settings.probability);
+  const confirm = o.confirm ?? 0;
+  if (confirm > 0) {
+    if (shard !== null) throw new InputError([{ path: '--confirm', value: confirm, allowed: 'the Monte Carlo confirms the top of the whole list: run it without --shard (or --confirm 0 with a shard)' }]);
+    const byRow = new Map(rows.map((r) => [r.row, r.scenario]));
+    confirmTop(result, byRow, confirm, settings.probability, o);
+  }
+  return result;
+}
+
+/**
+ * The Monte Carlo tier for the first `n` ranked planets whose target moon can
+ * orbit and whose forecast needs at most DEFAULT_MAX_TRANSITS transits:
+ * `budget`'s search (planBudget: forecast bracket, Monte Carlo bisection with
+ * Wilson intervals) for the fewest transits reaching `probability`. Writes the
+ * mc_* keys of those planets in place; seeded by the scenario's seed as
+ * `budget` is, so the answer does not depend on the run.
+ */
+function confirmTop(r: RankJson, byRow: Map<number, Scenario | null>, n: number, probability: number, o: RankOptions): void {
+  // Planets whose forecast needs more transits than budget's default range are left out: the search would only say "not reached".
+  const picked = r.planets.filter((p) => p.target_transits_needed !== null && p.target_transits_needed <= DEFAULT_MAX_TRANSITS).slice(0, n);
+  let done = 0;
+  for (const p of picked) {
+    const s = byRow.get(p.row);
+    if (!s) continue;
+    const t0 = performance.now();
+    const b = planBudget(s, { probability, realizations: o.confirmRealizations ?? DEFAULT_CONFIRM_REALIZATIONS, nullRealizations: o.confirmNoMoonRealizations });
+    const at = b.answer.at;
+    p.mc_transits_needed = b.answer.reached ? b.answer.transits : null;
+    p.mc_pdet = at ? at.probability : null;
+    p.mc_pdet_lower = at ? at.lower : null;
+    p.mc_pdet_upper = at ? at.upper : null;
+    p.mc_realizations = b.realizations;
+    if (!b.answer.reached) p.notes = [...p.notes, `Monte Carlo confirmation: ${b.answer.statement}`];
+    const plan = b.observability.plan;
+    p.mc_nights = b.answer.reached && plan && plan.needed_length_s !== null ? plan.nights : null;
+    p.mc_on_sky_s = b.answer.reached && plan && plan.needed_length_s !== null ? plan.on_sky_s : null;
+    o.onConfirm?.(p.name, (performance.now() - t0) / 1000, ++done, picked.length);
+  }
+  r.mc_confirmed = done;
 }
 
 export function rankList(scenarioPath: string, listPath: string, o: RankOptions = {}): RankJson {
@@ -102,6 +157,9 @@ export function rankColumns(r: RankJson): TableColumn[] {
     flt('nights', undefined, 'nights (or visits) to book for the target moon', (x) => x.nights),
     flt('on_sky_s', 's', 'hours on sky for the target moon', (x) => x.on_sky_s),
     str('in_habitable_zone', 'planet inside the Kopparapu et al. (2013) habitable zone', (x) => (x.in_habitable_zone === null ? '' : String(x.in_habitable_zone))),
+    flt('mc_transits_needed', undefined, 'Monte Carlo (budget) transits for the target moon (nan: not confirmed or not reached)', (x) => x.mc_transits_needed),
+    flt('mc_pdet', undefined, 'Monte Carlo detection probability at that count', (x) => x.mc_pdet),
+    flt('mc_nights', undefined, 'nights for the Monte Carlo count', (x) => x.mc_nights),
     { name: 'habitable_moon_in_reach', datatype: 'bool', description: 'target moon temperate, stable and within the campaign', values: p.map((x) => x.habitable_moon_in_reach) },
   ];
 }
@@ -112,6 +170,7 @@ export function rankEcsv(r: RankJson): string {
     scenario: r.scenario,
     shard: r.shard,
     planets_in_list: r.planets_in_list,
+    mc_confirmed: r.mc_confirmed,
     skipped_rows: r.skipped.map((s) => s.row),
     separations_hill: r.separations_hill,
     assumptions: r.assumptions,

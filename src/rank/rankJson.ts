@@ -41,6 +41,14 @@ export interface RankedPlanetJson {
   on_sky_s: number | null;
   needed_length_s: number | null;
   habitable_moon_in_reach: boolean;
+  /** Monte Carlo confirmation (`budget`'s search) of the target moon's transits; null when not run for this planet. */
+  mc_transits_needed: number | null;
+  mc_pdet: number | null;
+  mc_pdet_lower: number | null;
+  mc_pdet_upper: number | null;
+  mc_realizations: number | null;
+  mc_nights: number | null;
+  mc_on_sky_s: number | null;
   notes: string[];
 }
 
@@ -61,6 +69,8 @@ export interface RankJson {
   separations_hill: number[];
   pdet_threshold: number;
   transits_probability: number;
+  /** How many of the top planets the Monte Carlo confirmed (0: none). */
+  mc_confirmed: number;
   skipped: SkippedRowJson[];
   assumptions: string[];
   planets: RankedPlanetJson[];
@@ -68,7 +78,7 @@ export interface RankJson {
 
 export const RANK_ASSUMPTIONS: readonly string[] = [
   `minimum moon mass: the smallest moon whose analytic forecast (computeLimits' pdet_forecast_combined, as \`moonsieve limits\` gives it) reaches ${RANK_PDET} at each separation; a white-noise forecast of the timing channels (TTV, TDV), a lower estimate of what a full analysis (moon dip, template search) reaches; red noise, gaps and the photocentric TTV of large moons are left out (see \`moonsieve limits\` on one planet and \`moonsieve sweep\` for the Monte Carlo)`,
-  'target moon cost: the fewest transits whose joint TTV+TDV forecast reaches the stated probability, as `moonsieve budget --forecast-only` finds it; nights and hours on sky from the campaign calendar of the scenario\'s site(s) and each row\'s coordinates, as `moonsieve budget` plans them; no Monte Carlo confirmation is run by `rank`',
+  'target moon cost: the fewest transits whose joint TTV+TDV forecast reaches the stated probability, as `moonsieve budget --forecast-only` finds it; nights and hours on sky from the campaign calendar of the scenario\'s site(s) and each row\'s coordinates, as `moonsieve budget` plans them; the Monte Carlo confirmation (mc_* keys, `budget`\'s search with its realizations) is run only for the top planets (`mc_confirmed`), and only its answer, not the forecast, includes the moon dip and the Monte Carlo\'s combined rule',
   'the rank: smallest minimum moon mass over the separations first, then fewest transits for the target moon, then name; it carries the forecast\'s model error (no interval is given)',
   'habitable moon in reach: the target moon is temperate by its energy budget (a flux budget is a first screen, not a climate model), stably placed, and needs no more transits than the campaign is expected to deliver whole (or than the scenario\'s transit count without a campaign)',
   'rows without a planet mass take it from the radius by inverting the mean Chen & Kipping (2017) relation (flag mass_from_radius): that relation has a wide scatter (about 15 % in radius for Neptunes), so such masses are rough',
@@ -105,6 +115,13 @@ export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
     on_sky_s: p.on_sky_s,
     needed_length_s: p.needed_length_s,
     habitable_moon_in_reach: p.habitable_moon_in_reach,
+    mc_transits_needed: null,
+    mc_pdet: null,
+    mc_pdet_lower: null,
+    mc_pdet_upper: null,
+    mc_realizations: null,
+    mc_nights: null,
+    mc_on_sky_s: null,
     notes: p.notes,
   };
 }
@@ -136,6 +153,7 @@ export function buildRankJson(scenario: string, shard: Shard | null, planetsInLi
     separations_hill: [...RANK_SEPARATIONS_HILL],
     pdet_threshold: RANK_PDET,
     transits_probability: transitsProbability,
+    mc_confirmed: 0,
     skipped: [...skipped].sort((a, b) => a.row - b.row),
     assumptions: [...RANK_ASSUMPTIONS],
     planets: sorted,

@@ -189,8 +189,13 @@ export function rankPlanet(s: Scenario, row: number, flags: readonly string[], s
 
   let needed: number | null = null;
   let habitability: string | null = null;
-  if (s.moon && !s.moon.touchesPlanet) {
+  const stable = l.moon_placement !== null && l.moon_placement.length === 1 && l.moon_placement[0] === 'stable';
+  if (s.moon && stable) {
     needed = forecastTransitsNeeded('combined', moonSignal(l), valuePrecision(l), settings.probability, MIN_BUDGET_TRANSITS, MAX_BUDGET_TRANSITS);
+    habitability = l.energy_budget?.verdict ?? null;
+  } else if (s.moon) {
+    // As budget does: a moon that cannot orbit there is not costed.
+    notes.push(`the target moon cannot orbit this planet (${(l.moon_placement ?? []).join('; ')}): no cost given`);
     habitability = l.energy_budget?.verdict ?? null;
   }
   let campaign: { transits: number; full: number; expected_whole: number } | null = null;
@@ -212,7 +217,6 @@ export function rankPlanet(s: Scenario, row: number, flags: readonly string[], s
   } else if (settings.calendar) {
     notes.push('no site (or visibility), target and campaign: no calendar; every transit assumed observed whole');
   }
-  const stable = l.moon_placement !== null && l.moon_placement.length === 1 && l.moon_placement[0] === 'stable';
   const available = campaign ? campaign.expected_whole : s.observation.transits;
   const inReach = habitability === 'temperate' && stable && needed !== null && needed <= available;
   return {
