@@ -70,7 +70,8 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
   for (const r of mine) {
     if (r.scenario === null) skipped.push(skippedToJson(r.row, r.line, r.name, r.problems));
     else ranked.push(planetToJson(rankPlanet(r.scenario, r.row, r.flags, settings), 0));
-    o.onPlanet?.(++done, mine.length);
+    done++;
+    o.onPlanet?.(done, mine.length);
   }
   if (shard === null && rows.length > 0 && ranked.length === 0) {
     // Nothing to rank: every row is bad, which is most likely a problem of the whole input.
@@ -114,7 +115,8 @@ function confirmTop(r: RankJson, byRow: Map<number, Scenario | null>, n: number,
     const plan = b.observability.plan;
     p.mc_nights = b.answer.reached && plan && plan.needed_length_s !== null ? plan.nights : null;
     p.mc_on_sky_s = b.answer.reached && plan && plan.needed_length_s !== null ? plan.on_sky_s : null;
-    o.onConfirm?.(p.name, (performance.now() - t0) / 1000, ++done, picked.length);
+    done++;
+    o.onConfirm?.(p.name, (performance.now() - t0) / 1000, done, picked.length);
   }
   r.mc_confirmed = done;
 }

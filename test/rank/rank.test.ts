@@ -136,3 +136,20 @@ describe('rank: the demo list and the mass–radius inversion', () => {
     expect(chenKippingMassFromRadius(chenKippingRadius(2000 * M_EARTH_KG))).toBeNaN();
   });
 });
+
+describe('rank: the Monte Carlo tier', () => {
+  it('confirms the top planet: the Monte Carlo needs no more transits than the forecast (a lower estimate), and its pdet interval reaches the target', () => {
+    const text = demoPlanetCsv(7);
+    const r = rankListText(baseDoc, text, 'list.csv', { settings: { probability: 0.9, calendar: false }, confirm: 1, confirmRealizations: 20, confirmNoMoonRealizations: 200 });
+    expect(r.mc_confirmed).toBe(1);
+    const top = r.planets.find((p) => p.mc_realizations !== null)!;
+    expect(top.target_transits_needed).not.toBeNull();
+    // Source: the forecast covers the TTV and TDV channels only (computeLimits' assumptions), the Monte Carlo adds the
+    // moon dip and the template search, so its count is at most the forecast's (common practice, no source).
+    expect(top.mc_transits_needed).not.toBeNull();
+    expect(top.mc_transits_needed!).toBeLessThanOrEqual(top.target_transits_needed!);
+    expect(top.mc_pdet_upper!).toBeGreaterThanOrEqual(0.9);
+    expect(r.planets.filter((p) => p.mc_realizations !== null)).toHaveLength(1);
+    expect(() => rankListText(baseDoc, text, 'list.csv', { shard: { k: 1, n: 2 }, confirm: 1 })).toThrow(/--confirm/);
+  }, 120_000);
+});
