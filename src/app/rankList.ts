@@ -15,6 +15,7 @@ import { buildRankJson, planetToJson, skippedToJson, RANK_SCHEMA, type RankJson,
 import { inShard, type Shard } from '../sweep/shard.js';
 import { toEcsv, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
+import { renderRankPage } from '../report/rankPage.js';
 import { planBudget } from './planBudget.js';
 import { DEFAULT_MAX_TRANSITS } from '../budget/budgetSpec.js';
 import type { Scenario } from '../scenario/types.js';
@@ -179,11 +180,12 @@ export function rankEcsv(r: RankJson): string {
   });
 }
 
-export const RANK_FILES = ['rank.json', 'rank.ecsv'] as const;
+export const RANK_FILES = ['rank.json', 'rank.ecsv', 'rank.html'] as const;
 
 export function writeRankOutputs(dir: string, r: RankJson): void {
   writeFileAtomic(join(dir, 'rank.json'), JSON.stringify(r, null, 2) + '\n');
   writeFileAtomic(join(dir, 'rank.ecsv'), rankEcsv(r));
+  writeFileAtomic(join(dir, 'rank.html'), renderRankPage(r));
 }
 
 /** Join shard outputs (folders holding rank.json) into the whole list's result. */

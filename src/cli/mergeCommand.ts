@@ -22,7 +22,7 @@ export function registerMerge(program: Command, io: CliIo): void {
         const out = opts.out ?? `${defaultOutDir(r.scenario)}-rank`;
         checkOutputDir('--out', out);
         writeRankOutputs(out, r);
-        io.out(`${r.scenario}: merged ${dirs.length} rank folders, ${r.planets_ranked} of ${r.planets_in_list} planets ranked\nwrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\n`);
+        io.out(`${r.scenario}: merged ${dirs.length} rank folders, ${r.planets_ranked} of ${r.planets_in_list} planets ranked\nwrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\nwrote ${join(out, 'rank.html')}\n`);
         return;
       }
       const res = mergeShards(dirs, opts.out, { force: opts.force === true });

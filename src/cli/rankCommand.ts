@@ -32,7 +32,7 @@ function wholeNumber(option: string, text: string | undefined, min: number): num
 export function registerRank(program: Command, io: CliIo): void {
   program
     .command('rank')
-    .description('rank a list of planets (CSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json and rank.ecsv')
+    .description('rank a list of planets (CSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json, rank.ecsv and rank.html')
     .argument('<scenario>', 'scenario YAML: instrument, observation, detection, the target moon, and optionally site, campaign and constraints, shared by every planet')
     .argument('<list>', 'planet list, CSV (docs/rank.md names the columns); `#` lines are comments')
     .option('--out <dir>', 'output folder (default reports/<scenario name>-rank/)')
@@ -76,7 +76,7 @@ export function registerRank(program: Command, io: CliIo): void {
       for (const s of r.skipped) io.err(`skipped row ${s.row} (line ${s.line}${s.name ? `, ${s.name}` : ''}): ${s.problems.join('; ')}\n`);
       io.err(`forecast tier: ${r.planets_ranked} planets in ${forecastS.toFixed(1)} s (${((1000 * forecastS) / Math.max(1, r.planets_ranked)).toFixed(1)} ms per planet)\n`);
       if (r.mc_confirmed > 0) io.err(`Monte Carlo tier: ${r.mc_confirmed} planets in ${((ended - forecastDone) / 1000).toFixed(1)} s (${((ended - forecastDone) / 1000 / r.mc_confirmed).toFixed(1)} s per planet at ${confirmRealizations} realizations per evaluation)\n`);
-      io.err(`wrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\n`);
+      io.err(`wrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\nwrote ${join(out, 'rank.html')}\n`);
       if (shard) io.err(`when every shard is done: moonsieve merge <the ${shard.n} shard folders> --out <dir>\n`);
     });
 }

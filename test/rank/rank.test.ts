@@ -15,6 +15,7 @@ import { rankPlanet, RANK_PDET, RANK_PDET_TOLERANCE } from '../../src/rank/rankP
 import { demoPlanetCsv } from '../../src/rank/demoPlanets.js';
 import { rankListText, mergeRankOutputs, writeRankOutputs, rankEcsv } from '../../src/app/rankList.js';
 import { chenKippingRadius } from '../../src/physics/massRadius.js';
+import { renderRankPage } from '../../src/report/rankPage.js';
 import { M_EARTH_KG } from '../../src/physics/constants.js';
 
 const root = new URL('../../', import.meta.url).pathname;
@@ -84,6 +85,10 @@ describe('rank: bad rows', () => {
     expect(byRow.get(6)).toMatch(/row 6: planet\.impact_parameter/);
     expect(byRow.get(7)).toMatch(/row 7: planet_mass_mjup/);
     expect(r.skipped.find((s) => s.row === 3)!.line).toBe(4);
+    // The page lists the ranked planets and each skipped row with its problem, escaped.
+    const page = renderRankPage(r);
+    expect(page).toContain('<td>Tovren h <small>(radius_from_mass)</small></td>');
+    expect(page).toContain('<li>row 5 (line 6, Tovren e): row 5: impact_parameter: got &quot;abc&quot;; a finite number</li>');
   });
 
   it('a missing required column is an error of the whole input: exit 2, one line per column, nothing written', async () => {
@@ -116,6 +121,7 @@ describe('rank: shards', () => {
       const merged = mergeRankOutputs(dirs.reverse());
       expect(JSON.stringify(merged, null, 2)).toBe(readFileSync(join(dir, 'whole', 'rank.json'), 'utf8').trimEnd());
       expect(rankEcsv(merged)).toBe(readFileSync(join(dir, 'whole', 'rank.ecsv'), 'utf8'));
+      expect(renderRankPage(merged)).toBe(readFileSync(join(dir, 'whole', 'rank.html'), 'utf8'));
     }
     expect(() => mergeRankOutputs([join(dir, 's1of2')])).toThrow(/every shard of one run exactly once/);
   }, 120_000);
