@@ -127,6 +127,30 @@ describe('rank: shards', () => {
   }, 120_000);
 });
 
+describe('rank: the command line', () => {
+  it('`rank --shard` twice and `merge` write the same three files as one `rank --confirm 0`', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-rank-'));
+    const list = join(dir, 'list.csv');
+    writeFileSync(list, demoPlanetCsv(5, 3));
+    const ok = async (args: string[]) => {
+      const res = await run(args);
+      expect(res.code, res.err).toBe(0);
+      return res;
+    };
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'whole'), '--confirm', '0', '--no-calendar']);
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'a'), '--shard', '1/2', '--no-calendar']);
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'b'), '--shard', '2/2', '--no-calendar']);
+    const m = await ok(['merge', join(dir, 'b'), join(dir, 'a'), '--out', join(dir, 'merged')]);
+    expect(m.out).toMatch(/merged 2 rank folders, 5 of 5 planets ranked/);
+    for (const f of ['rank.json', 'rank.ecsv', 'rank.html']) {
+      expect(readFileSync(join(dir, 'merged', f), 'utf8'), f).toBe(readFileSync(join(dir, 'whole', f), 'utf8'));
+    }
+    const bad = await run(['rank', scenarioPath, list, '--out', join(dir, 'c'), '--shard', '1/2', '--confirm', '2']);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/--confirm: got 2; the Monte Carlo confirms the top of the whole list/);
+  }, 120_000);
+});
+
 describe('rank: the demo list and the mass–radius inversion', () => {
   it('scenarios/demo-planets.csv is the seeded generator\'s output (npm run demo:planets)', () => {
     expect(readFileSync(join(root, 'scenarios/demo-planets.csv'), 'utf8')).toBe(demoPlanetCsv(300));
