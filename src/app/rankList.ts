@@ -79,7 +79,8 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
     throw new InputError(rows.flatMap((r) => r.problems).slice(0, 20), `${listSource}: no row could be ranked`);
   }
   const name = typeof doc.name === 'string' ? doc.name : 'scenario';
-  const result = buildRankJson(name, shard, rows.length, ranked, skipped, settings.probability);
+  const notes = table.unknown.length ? [`columns not read (not planet-list columns, see docs/rank.md): ${table.unknown.join(', ')}`] : [];
+  const result = buildRankJson(name, shard, rows.length, ranked, skipped, settings.probability, notes);
   const confirm = o.confirm ?? 0;
   if (confirm > 0) {
     if (shard !== null) throw new InputError([{ path: '--confirm', value: confirm, allowed: 'the Monte Carlo confirms the top of the whole list: run it without --shard (or --confirm 0 with a shard)' }]);
@@ -213,7 +214,7 @@ export function mergeRankOutputs(dirs: readonly string[]): RankJson {
     }
   }
   if (problems.length) throw new InputError(problems);
-  return buildRankJson(first.scenario, null, first.planets_in_list, docs.flatMap((d) => d.planets), docs.flatMap((d) => d.skipped), first.transits_probability);
+  return buildRankJson(first.scenario, null, first.planets_in_list, docs.flatMap((d) => d.planets), docs.flatMap((d) => d.skipped), first.transits_probability, first.notes);
 }
 
 export { RANK_SEPARATIONS_HILL };

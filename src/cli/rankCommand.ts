@@ -73,6 +73,7 @@ export function registerRank(program: Command, io: CliIo): void {
       const forecastS = ((forecastDone || ended) - started) / 1000;
       if (opts.json) io.out(JSON.stringify(r, null, 2) + '\n');
       else io.out(formatRank(r, top));
+      for (const n of r.notes) io.err(`note: ${n}\n`);
       for (const s of r.skipped) io.err(`skipped row ${s.row} (line ${s.line}${s.name ? `, ${s.name}` : ''}): ${s.problems.join('; ')}\n`);
       io.err(`forecast tier: ${r.planets_ranked} planets in ${forecastS.toFixed(1)} s (${((1000 * forecastS) / Math.max(1, r.planets_ranked)).toFixed(1)} ms per planet)\n`);
       if (r.mc_confirmed > 0) io.err(`Monte Carlo tier: ${r.mc_confirmed} planets in ${((ended - forecastDone) / 1000).toFixed(1)} s (${((ended - forecastDone) / 1000 / r.mc_confirmed).toFixed(1)} s per planet at ${confirmRealizations} realizations per evaluation)\n`);

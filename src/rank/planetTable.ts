@@ -31,7 +31,7 @@ export interface PlanetColumn {
   meaning: string;
 }
 
-/** The columns, in the order the docs list them. Any other column is ignored (and named in a note). */
+/** The columns, in the order the docs list them. Any other column is ignored (and named in the output's notes). */
 export const PLANET_COLUMNS: readonly PlanetColumn[] = [
   { name: 'name', required: true, meaning: 'planet name, unique in the list' },
   { name: 'star_mass_msun', required: true, meaning: 'stellar mass, solar masses' },
@@ -60,6 +60,8 @@ export interface PlanetTableText {
   rows: Array<Record<string, string>>;
   /** 1-based line numbers in the file of each row (the header is line 1 unless comments precede it). */
   lines: number[];
+  /** Header columns that are not planet-list columns (ignored). */
+  unknown: string[];
 }
 
 /** Split one CSV line (RFC 4180 quoting, no newlines inside quotes). */
@@ -116,7 +118,8 @@ export function readPlanetTable(text: string, source = 'planet list'): PlanetTab
     seen.add(h);
   }
   if (problems.length) throw new InputError(problems);
-  return { header, rows, lines };
+  const known = new Set(PLANET_COLUMNS.map((c) => c.name));
+  return { header, rows, lines, unknown: header.filter((h) => !known.has(h)) };
 }
 
 /**

@@ -72,6 +72,8 @@ export interface RankJson {
   /** How many of the top planets the Monte Carlo confirmed (0: none). */
   mc_confirmed: number;
   skipped: SkippedRowJson[];
+  /** Things about the list the user should know (ignored columns). */
+  notes: string[];
   assumptions: string[];
   planets: RankedPlanetJson[];
 }
@@ -142,7 +144,7 @@ function compareJson(a: RankedPlanetJson, b: RankedPlanetJson): number {
 }
 
 /** The document of ranked planets and skipped rows (ranks 1…n in order). */
-export function buildRankJson(scenario: string, shard: Shard | null, planetsInList: number, planets: readonly RankedPlanetJson[], skipped: readonly SkippedRowJson[], transitsProbability: number): RankJson {
+export function buildRankJson(scenario: string, shard: Shard | null, planetsInList: number, planets: readonly RankedPlanetJson[], skipped: readonly SkippedRowJson[], transitsProbability: number, notes: readonly string[] = []): RankJson {
   const sorted = [...planets].sort(compareJson).map((p, i) => ({ ...p, rank: i + 1 }));
   return {
     schema: RANK_SCHEMA,
@@ -155,6 +157,7 @@ export function buildRankJson(scenario: string, shard: Shard | null, planetsInLi
     transits_probability: transitsProbability,
     mc_confirmed: 0,
     skipped: [...skipped].sort((a, b) => a.row - b.row),
+    notes: [...notes],
     assumptions: [...RANK_ASSUMPTIONS],
     planets: sorted,
   };

@@ -91,6 +91,18 @@ describe('rank: bad rows', () => {
     expect(page).toContain('<li>row 5 (line 6, Tovren e): row 5: impact_parameter: got &quot;abc&quot;; a finite number</li>');
   });
 
+  it('a stated noise replaces the ground budget for its row; a column the list does not know is named in the notes', () => {
+    const text = `${HEADER},noise_ppm_per_hour,colour\n${GOOD},,red\n${GOOD.replace('Tovren b', 'Tovren q')},50,blue\n`;
+    const rows = planetRows(baseDoc, readPlanetTable(text));
+    expect(rows.map((r) => r.problems)).toEqual([[], []]);
+    expect(rows[0].scenario!.instrument.ground).toBeTruthy();
+    expect(rows[1].scenario!.instrument.ground ?? null).toBeNull();
+    // Source: white noise scaled by √t (the scenario's `noise` field): 50 ppm per hour is 50·√(3600/120) ppm per 2-min exposure.
+    expect(rows[1].scenario!.instrument.noiseFraction * Math.sqrt(rows[1].scenario!.instrument.noiseTimescaleS / 120)).toBeCloseTo(50e-6 * Math.sqrt(30), 12);
+    const r = rankListText(baseDoc, text, 'list.csv', { settings: noCalendar });
+    expect(r.notes).toEqual(['columns not read (not planet-list columns, see docs/rank.md): colour']);
+  });
+
   it('a missing required column is an error of the whole input: exit 2, one line per column, nothing written', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'ms-rank-'));
     const list = join(dir, 'list.csv');
