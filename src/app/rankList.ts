@@ -17,6 +17,7 @@ import { toEcsv, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderRankPage } from '../report/rankPage.js';
 import { planBudget } from './planBudget.js';
+import { boundMinMasses } from '../rank/rankBound.js';
 import { DEFAULT_MAX_TRANSITS } from '../budget/budgetSpec.js';
 import type { Scenario } from '../scenario/types.js';
 
@@ -31,6 +32,8 @@ export interface RankOptions {
   confirmRealizations?: number;
   /** No-moon realizations of the confirmation (default: budget's, from the false-alarm probability). */
   confirmNoMoonRealizations?: number;
+  /** Known-template bound at every separation for the top `bound` planets (0: none; not with a shard). */
+  bound?: number;
   /** Called after each confirmed planet with its wall time, s (the cost per planet). */
   onConfirm?: (name: string, seconds: number, done: number, total: number) => void;
 }
@@ -39,6 +42,8 @@ export interface RankOptions {
 export const DEFAULT_CONFIRM_REALIZATIONS = 40;
 /** Planets confirmed by default in an unsharded run. */
 export const DEFAULT_CONFIRM = 3;
+/** Planets given the known-template bound by default in an unsharded run. */
+export const DEFAULT_BOUND = 10;
 
 function readText(path: string, what: string): string {
   try {
@@ -81,6 +86,22 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
   const name = typeof doc.name === 'string' ? doc.name : 'scenario';
   const notes = table.unknown.length ? [`columns not read (not planet-list columns, see docs/rank.md): ${table.unknown.join(', ')}`] : [];
   const result = buildRankJson(name, shard, rows.length, ranked, skipped, settings.probability, notes);
+  const bound = o.bound ?? 0;
+  if (bound > 0) {
+    if (shard !== null) throw new InputError([{ path: '--bound', value: bound, allowed: 'the bound is computed for the top of the whole list: run it without --shard (or --bound 0 with a shard)' }]);
+    const byRow = new Map(rows.map((r) => [r.row, r.scenario]));
+    for (const p of result.planets.slice(0, bound)) {
+      const s = byRow.get(p.row);
+      if (!s) continue;
+      const allowed = p.min_moon_mass_notes.map((n) => n !== 'inside Roche limit' && n !== 'beyond stable limit');
+      p.bound_min_moon_mass_kg = boundMinMasses(s, allowed, p.min_moon_mass_kg);
+      const above = separationsAbove(p);
+      if (above.length) {
+        p.notes = [...p.notes, `the known-template bound needs a heavier moon than the timing forecast at ${above.join(', ')} Hill radii: the two models disagree for this planet (the bound should detect at least what the forecast does); trust neither there without the Monte Carlo`];
+      }
+      result.bound_computed++;
+    }
+  }
   const confirm = o.confirm ?? 0;
   if (confirm > 0) {
     if (shard !== null) throw new InputError([{ path: '--confirm', value: confirm, allowed: 'the Monte Carlo confirms the top of the whole list: run it without --shard (or --confirm 0 with a shard)' }]);
@@ -88,6 +109,16 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
     confirmTop(result, byRow, confirm, settings.probability, o);
   }
   return result;
+}
+
+/** Separations (Hill radii) where the bound's mass exceeds the forecast's by more than the search tolerance. */
+function separationsAbove(p: RankedPlanetJson): number[] {
+  const out: number[] = [];
+  p.min_moon_mass_kg.forEach((m, k) => {
+    const b = p.bound_min_moon_mass_kg?.[k] ?? null;
+    if (m !== null && b !== null && b > 1.01 * m) out.push(RANK_SEPARATIONS_HILL[k]);
+  });
+  return out;
 }
 
 /**
@@ -152,6 +183,7 @@ export function rankColumns(r: RankJson): TableColumn[] {
     ...r.separations_hill.map((f, k) => flt(sepName(f), 'kg', `smallest moon at ${f} Hill radii whose forecast reaches pdet ${r.pdet_threshold} (nan: see rank.json notes)`, (x) => x.min_moon_mass_kg[k])),
     flt('best_min_moon_mass_kg', 'kg', 'smallest of those', (x) => x.best_min_moon_mass_kg),
     flt('best_separation_hill', undefined, 'separation of the smallest, Hill radii', (x) => x.best_separation_hill),
+    flt('bound_best_min_moon_mass_kg', 'kg', 'smallest moon the known-template bound detects at any of the separations (nan: not computed)', (x) => (x.bound_min_moon_mass_kg ? x.bound_min_moon_mass_kg.reduce<number | null>((a, m) => (m !== null && (a === null || m < a) ? m : a), null) : null)),
     flt('timing_precision_s', 's', 'per-transit mid-time precision (model Fisher bound)', (x) => x.timing_precision_s),
     flt('target_pdet_forecast_combined', undefined, 'forecast detection probability of the target moon with the scenario\'s transits', (x) => x.target_pdet_forecast_combined),
     flt('target_transits_needed', undefined, `transits for the target moon at probability ${r.transits_probability} (nan: more than the budget's maximum)`, (x) => x.target_transits_needed),
@@ -174,6 +206,7 @@ export function rankEcsv(r: RankJson): string {
     scenario: r.scenario,
     shard: r.shard,
     planets_in_list: r.planets_in_list,
+    bound_computed: r.bound_computed,
     mc_confirmed: r.mc_confirmed,
     skipped_rows: r.skipped.map((s) => s.row),
     separations_hill: r.separations_hill,

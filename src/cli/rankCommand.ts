@@ -1,7 +1,7 @@
 /** `moonsieve rank SCENARIO LIST`: a planet list ranked by the smallest moon each could reveal, and the cost of the scenario's target moon. */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankList, writeRankOutputs } from '../app/rankList.js';
+import { DEFAULT_BOUND, DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankList, writeRankOutputs } from '../app/rankList.js';
 import { defaultOutDir } from '../app/defaultOutDir.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 import { resolveShard } from '../sweep/shard.js';
@@ -21,6 +21,7 @@ interface RankOpts {
   confirm?: string;
   confirmRealizations?: string;
   confirmNoMoonRealizations?: string;
+  bound?: string;
 }
 
 function wholeNumber(option: string, text: string | undefined, min: number): number {
@@ -39,6 +40,7 @@ export function registerRank(program: Command, io: CliIo): void {
     .option('--shard <K/N>', 'rank only the rows with index mod N = K−1 (default from SLURM_ARRAY_TASK_ID/COUNT); join with `moonsieve merge`')
     .option('--no-calendar', 'skip the campaign calendar and nights (faster; every transit assumed observed)')
     .option('--probability <p>', 'detection probability the target moon\'s transit count is solved for', String(DEFAULT_RANK_SETTINGS.probability))
+    .option('--bound <n>', `known-template bound (the best any analysis can do) at every separation for the top N planets (default ${DEFAULT_BOUND}; 0 with --shard)`)
     .option('--confirm <n>', `Monte Carlo confirmation (budget's search) of the target moon's transits for the top N planets (default ${DEFAULT_CONFIRM}; 0 with --shard)`)
     .option('--confirm-realizations <n>', 'moon realizations per Monte Carlo evaluation of the confirmation', String(DEFAULT_CONFIRM_REALIZATIONS))
     .option('--confirm-no-moon-realizations <n>', 'no-moon realizations calibrating the confirmation\'s false-alarm thresholds (default: as budget, from detection.false_alarm)')
@@ -51,6 +53,7 @@ export function registerRank(program: Command, io: CliIo): void {
       const probability = Number(opts.probability);
       if (!(probability > 0 && probability < 1)) throw new InputError([{ path: '--probability', value: opts.probability, allowed: 'a probability between 0 and 1, e.g. 0.9' }]);
       const shard = resolveShard(opts.shard, process.env);
+      const bound = opts.bound === undefined ? (shard ? 0 : DEFAULT_BOUND) : wholeNumber('--bound', opts.bound, 0);
       const confirm = opts.confirm === undefined ? (shard ? 0 : DEFAULT_CONFIRM) : wholeNumber('--confirm', opts.confirm, 0);
       if (opts.out !== undefined) checkOutputDir('--out', opts.out);
       const started = performance.now();
@@ -59,6 +62,7 @@ export function registerRank(program: Command, io: CliIo): void {
         shard,
         settings: { probability, calendar: opts.calendar !== false },
         confirm,
+        bound,
         confirmRealizations,
         confirmNoMoonRealizations,
         onConfirm: (name, seconds, done, total) => {
@@ -75,7 +79,7 @@ export function registerRank(program: Command, io: CliIo): void {
       else io.out(formatRank(r, top));
       for (const n of r.notes) io.err(`note: ${n}\n`);
       for (const s of r.skipped) io.err(`skipped row ${s.row} (line ${s.line}${s.name ? `, ${s.name}` : ''}): ${s.problems.join('; ')}\n`);
-      io.err(`forecast tier: ${r.planets_ranked} planets in ${forecastS.toFixed(1)} s (${((1000 * forecastS) / Math.max(1, r.planets_ranked)).toFixed(1)} ms per planet)\n`);
+      io.err(`forecast tier${r.bound_computed ? ` (and the bound for the top ${r.bound_computed})` : ''}: ${r.planets_ranked} planets in ${forecastS.toFixed(1)} s (${((1000 * forecastS) / Math.max(1, r.planets_ranked)).toFixed(1)} ms per planet)\n`);
       if (r.mc_confirmed > 0) io.err(`Monte Carlo tier: ${r.mc_confirmed} planets in ${((ended - forecastDone) / 1000).toFixed(1)} s (${((ended - forecastDone) / 1000 / r.mc_confirmed).toFixed(1)} s per planet at ${confirmRealizations} realizations per evaluation)\n`);
       io.err(`wrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\nwrote ${join(out, 'rank.html')}\n`);
       if (shard) io.err(`when every shard is done: moonsieve merge <the ${shard.n} shard folders> --out <dir>\n`);

@@ -41,6 +41,8 @@ export interface RankedPlanetJson {
   on_sky_s: number | null;
   needed_length_s: number | null;
   habitable_moon_in_reach: boolean;
+  /** Known-template bound's smallest detectable moon per separation (the best any analysis can do); null when not computed for this planet. */
+  bound_min_moon_mass_kg: Array<number | null> | null;
   /** Monte Carlo confirmation (`budget`'s search) of the target moon's transits; null when not run for this planet. */
   mc_transits_needed: number | null;
   mc_pdet: number | null;
@@ -69,6 +71,8 @@ export interface RankJson {
   separations_hill: number[];
   pdet_threshold: number;
   transits_probability: number;
+  /** How many of the top planets have the known-template bound (0: none). */
+  bound_computed: number;
   /** How many of the top planets the Monte Carlo confirmed (0: none). */
   mc_confirmed: number;
   skipped: SkippedRowJson[];
@@ -81,6 +85,7 @@ export interface RankJson {
 export const RANK_ASSUMPTIONS: readonly string[] = [
   `minimum moon mass: the smallest moon whose analytic forecast (computeLimits' pdet_forecast_combined, as \`moonsieve limits\` gives it) reaches ${RANK_PDET} at each separation; a white-noise forecast of the timing channels (TTV, TDV), a lower estimate of what a full analysis (moon dip, template search) reaches; red noise, gaps and the photocentric TTV of large moons are left out (see \`moonsieve limits\` on one planet and \`moonsieve sweep\` for the Monte Carlo)`,
   'target moon cost: the fewest transits whose joint TTV+TDV forecast reaches the stated probability, as `moonsieve budget --forecast-only` finds it; nights and hours on sky from the campaign calendar of the scenario\'s site(s) and each row\'s coordinates, as `moonsieve budget` plans them; the Monte Carlo confirmation (mc_* keys, `budget`\'s search with its realizations) is run only for the top planets (`mc_confirmed`), and only its answer, not the forecast, includes the moon dip and the Monte Carlo\'s combined rule',
+  'known-template bound (bound_min_moon_mass_kg, top planets only): the smallest moon a matched filter that knows the moon\'s template detects with the same probability (Kay 1998), the best any analysis of the same white-noise light curve can do; the forecast is a lower estimate of the sensitivity, the bound an upper one',
   'the rank: smallest minimum moon mass over the separations first, then fewest transits for the target moon, then name; it carries the forecast\'s model error (no interval is given)',
   'habitable moon in reach: the target moon is temperate by its energy budget (a flux budget is a first screen, not a climate model), stably placed, and needs no more transits than the campaign is expected to deliver whole (or than the scenario\'s transit count without a campaign)',
   'rows without a planet mass take it from the radius by inverting the mean Chen & Kipping (2017) relation (flag mass_from_radius): that relation has a wide scatter (about 15 % in radius for Neptunes), so such masses are rough',
@@ -117,6 +122,7 @@ export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
     on_sky_s: p.on_sky_s,
     needed_length_s: p.needed_length_s,
     habitable_moon_in_reach: p.habitable_moon_in_reach,
+    bound_min_moon_mass_kg: null,
     mc_transits_needed: null,
     mc_pdet: null,
     mc_pdet_lower: null,
@@ -155,6 +161,7 @@ export function buildRankJson(scenario: string, shard: Shard | null, planetsInLi
     separations_hill: [...RANK_SEPARATIONS_HILL],
     pdet_threshold: RANK_PDET,
     transits_probability: transitsProbability,
+    bound_computed: 0,
     mc_confirmed: 0,
     skipped: [...skipped].sort((a, b) => a.row - b.row),
     notes: [...notes],

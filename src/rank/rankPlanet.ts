@@ -100,25 +100,26 @@ const logit = (p: number): number => {
 };
 
 /**
- * Smallest moon mass at `fHill` whose forecast reaches RANK_PDET. The TTV and
- * TDV amplitudes rise with the moon mass (Kipping 2009a), so the probability
- * does. Secant steps on logit(pdet) against log mass from `guessKg` (at most
- * ×8 per step), kept inside the bracket once one is found, with bisection when
- * a secant step leaves it (a safeguarded secant, e.g. Press et al. 2007,
- * Numerical Recipes, 3rd ed., §9.2–9.3), until the forecast is within
- * RANK_PDET_TOLERANCE of RANK_PDET. Null with a note when no mass below the
- * planet's (or the range's top) reaches it.
+ * Smallest mass at which `prob(massKg)` (a detection probability rising with
+ * the moon mass) reaches RANK_PDET, between RANK_MASS_RANGE_KG[0] and `topKg`.
+ * Secant steps on logit(prob) against log mass from `guessKg` (at most ×8
+ * per step), kept inside the bracket once one is found, with bisection when a
+ * secant step leaves it (a safeguarded secant, e.g. Press et al. 2007,
+ * Numerical Recipes, 3rd ed., §9.2–9.3), until the probability is within
+ * RANK_PDET_TOLERANCE of RANK_PDET. Null with a note when no mass up to
+ * `topKg` reaches it.
  */
-export function minDetectableMass(base: ScenarioDocument, s: Scenario, fHill: number, densityKgM3: number, guessKg = M_EARTH_KG): { massKg: number | null; note: string | null; evaluations: number } {
+export function solveMinMass(prob: (massKg: number) => number | null, topKg: number, guessKg: number): { massKg: number | null; note: string | null; evaluations: number } {
   const xMin = Math.log(RANK_MASS_RANGE_KG[0]);
-  const xMax = Math.log(Math.min(RANK_MASS_RANGE_KG[1], s.planet.massKg));
+  const xMax = Math.log(Math.min(RANK_MASS_RANGE_KG[1], topKg));
   let evaluations = 0;
-  const prob = (x: number): number | null => {
+  const p = (x: number): number | null => {
     evaluations++;
-    return pdetAt(base, Math.exp(x), fHill, densityKgM3, s.name).pdet;
+    const v = prob(Math.exp(x));
+    return v === null || Number.isNaN(v) ? null : v;
   };
   let x0 = Math.min(xMax, Math.max(xMin, Math.log(guessKg)));
-  const p0 = prob(x0);
+  const p0 = p(x0);
   if (p0 === null) return { massKg: null, note: 'no forecast', evaluations };
   if (Math.abs(p0 - RANK_PDET) < RANK_PDET_TOLERANCE) return { massKg: Math.exp(x0), note: null, evaluations };
   let f0 = logit(p0) - logit(RANK_PDET);
@@ -131,7 +132,7 @@ export function minDetectableMass(base: ScenarioDocument, s: Scenario, fHill: nu
       if (f0 < 0) return { massKg: null, note: 'not detectable below the planet mass', evaluations };
       return { massKg: Math.exp(xMin), note: null, evaluations };
     }
-    const p1 = prob(x1) ?? 0; // no forecast above (a moon touching its planet): not detected
+    const p1 = p(x1) ?? 0; // no probability above (a moon touching its planet): not detected
     if (Math.abs(p1 - RANK_PDET) < RANK_PDET_TOLERANCE) return { massKg: Math.exp(x1), note: null, evaluations };
     const f1 = logit(p1) - logit(RANK_PDET);
     if (f1 < 0) lo = Math.max(lo, x1);
@@ -149,6 +150,16 @@ export function minDetectableMass(base: ScenarioDocument, s: Scenario, fHill: nu
     x1 = x2;
   }
   return { massKg: Number.isFinite(hi) ? Math.exp(hi) : null, note: Number.isFinite(hi) ? null : 'no convergence', evaluations };
+}
+
+/** Smallest moon mass at `fHill` whose forecast (computeLimits' pdet_forecast_combined) reaches RANK_PDET (solveMinMass). */
+export function minDetectableMass(base: ScenarioDocument, s: Scenario, fHill: number, densityKgM3: number, guessKg = M_EARTH_KG): { massKg: number | null; note: string | null; evaluations: number } {
+  return solveMinMass((m) => pdetAt(base, m, fHill, densityKgM3, s.name).pdet, s.planet.massKg, guessKg);
+}
+
+/** The scenario with a moon of `massKg` at `fHill` Hill radii (the target moon's density and other elements). */
+export function moonScenario(base: ScenarioDocument, massKg: number, fHill: number, densityKgM3: number, label: string): Scenario {
+  return parseScenario(moonDocument(base, massKg, fHill, densityKgM3), label, CELL_PARSE);
 }
 
 export interface RankSettings {

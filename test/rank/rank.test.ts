@@ -11,7 +11,11 @@ import { main } from '../../src/cli/main.js';
 import { parseYamlWithLines } from '../../src/scenario/loadScenario.js';
 import type { ScenarioDocument } from '../../src/scenario/types.js';
 import { readPlanetTable, planetRows, chenKippingMassFromRadius } from '../../src/rank/planetTable.js';
-import { rankPlanet, RANK_PDET, RANK_PDET_TOLERANCE } from '../../src/rank/rankPlanet.js';
+import { rankPlanet, moonScenario, RANK_PDET, RANK_PDET_TOLERANCE } from '../../src/rank/rankPlanet.js';
+import { scenarioDocumentOf } from '../../src/scenario/scenarioDocument.js';
+import { knownTemplateBound } from '../../src/timing/knownTemplateBound.js';
+import { withoutMoon } from '../../src/sweep/applyAxes.js';
+import { scenarioMoonDensity } from '../../src/budget/targetMoon.js';
 import { demoPlanetCsv } from '../../src/rank/demoPlanets.js';
 import { rankListText, mergeRankOutputs, writeRankOutputs, rankEcsv } from '../../src/app/rankList.js';
 import { chenKippingRadius } from '../../src/physics/massRadius.js';
@@ -140,7 +144,7 @@ describe('rank: shards', () => {
 });
 
 describe('rank: the command line', () => {
-  it('`rank --shard` twice and `merge` write the same three files as one `rank --confirm 0`', async () => {
+  it('`rank --shard` twice and `merge` write the same three files as one `rank --confirm 0 --bound 0`', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'ms-rank-'));
     const list = join(dir, 'list.csv');
     writeFileSync(list, demoPlanetCsv(5, 3));
@@ -149,7 +153,7 @@ describe('rank: the command line', () => {
       expect(res.code, res.err).toBe(0);
       return res;
     };
-    await ok(['rank', scenarioPath, list, '--out', join(dir, 'whole'), '--confirm', '0', '--no-calendar']);
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'whole'), '--confirm', '0', '--bound', '0', '--no-calendar']);
     await ok(['rank', scenarioPath, list, '--out', join(dir, 'a'), '--shard', '1/2', '--no-calendar']);
     await ok(['rank', scenarioPath, list, '--out', join(dir, 'b'), '--shard', '2/2', '--no-calendar']);
     const m = await ok(['merge', join(dir, 'b'), join(dir, 'a'), '--out', join(dir, 'merged')]);
@@ -177,6 +181,28 @@ describe('rank: the demo list and the mass–radius inversion', () => {
     expect(chenKippingMassFromRadius(chenKippingRadius(200 * M_EARTH_KG))).toBeNaN(); // a radius the Jovian branch also reaches
     expect(chenKippingMassFromRadius(chenKippingRadius(2000 * M_EARTH_KG))).toBeNaN();
   });
+});
+
+describe('rank: the known-template bound', () => {
+  it('for the top planets, the bound\'s mass at each separation is where knownTemplateBound itself gives pdet 0.5; a disagreement with the forecast is said in the notes', () => {
+    const r = rankListText(baseDoc, demoPlanetCsv(6), 'list.csv', { settings: noCalendar, bound: 2 });
+    expect(r.bound_computed).toBe(2);
+    const rows = planetRows(baseDoc, readPlanetTable(demoPlanetCsv(6)));
+    for (const p of r.planets.slice(0, 2)) {
+      const s = rows.find((x) => x.row === p.row)!.scenario!;
+      const base = scenarioDocumentOf(s);
+      p.bound_min_moon_mass_kg!.forEach((b, k) => {
+        if (b === null) return;
+        const at = (m: number) => knownTemplateBound(moonScenario(base, m, r.separations_hill[k], scenarioMoonDensity(s), s.name), { planetOnly: withoutMoon(s) }).probability;
+        // Source: knownTemplateBound (src/timing/knownTemplateBound.ts, after Kay 1998) on the same planet and moon.
+        expect(Math.abs(at(b) - RANK_PDET)).toBeLessThan(RANK_PDET_TOLERANCE);
+        expect(at(b * 0.99)).toBeLessThan(RANK_PDET);
+      });
+      const above = p.min_moon_mass_kg.some((m, k) => m !== null && p.bound_min_moon_mass_kg![k] !== null && p.bound_min_moon_mass_kg![k]! > 1.01 * m);
+      expect(p.notes.some((n) => n.startsWith('the known-template bound needs a heavier moon')), p.name).toBe(above);
+    }
+    expect(r.planets.slice(2).every((p) => p.bound_min_moon_mass_kg === null)).toBe(true);
+  }, 120_000);
 });
 
 describe('rank: the Monte Carlo tier', () => {

@@ -83,7 +83,7 @@ ${block}
   // A ranked planet list (the invented demo list's first rows and a bad row), whole with a small Monte Carlo confirmation, and one shard.
   const list = readFileSync(rankList, 'utf8').split('\n').slice(0, 8).join('\n') + '\nBad-1 b,1,1,5800,10,V,0.5,0.9,-3,0.2,,,,10,10\n';
   writeFileSync(join(dir, 'list.csv'), list);
-  for (const [name, extra] of [['rank', ['--confirm', '1', '--confirm-realizations', '4', '--confirm-no-moon-realizations', '100']], ['rank-shard', ['--shard', '2/2']]] as Array<[string, string[]]>) {
+  for (const [name, extra] of [['rank', ['--bound', '2', '--confirm', '1', '--confirm-realizations', '4', '--confirm-no-moon-realizations', '100']], ['rank-shard', ['--shard', '2/2']]] as Array<[string, string[]]>) {
     const r = await run(['rank', rankDemo, join(dir, 'list.csv'), '--out', join(dir, name), ...extra]);
     if (r.code !== 0) throw new Error(`rank ${name}: ${r.err}`);
     add('rank', `${name}/rank.json`, readFileSync(join(dir, name, 'rank.json'), 'utf8'));
