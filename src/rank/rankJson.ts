@@ -88,6 +88,7 @@ export const RANK_ASSUMPTIONS: readonly string[] = [
   'known-template bound (bound_min_moon_mass_kg, top planets only): the smallest moon a matched filter that knows the moon\'s template detects with the same probability (Kay 1998), the best any analysis of the same white-noise light curve can do; the forecast is a lower estimate of the sensitivity, the bound an upper one',
   'the rank: smallest minimum moon mass over the separations first, then fewest transits for the target moon, then name; it carries the forecast\'s model error (no interval is given)',
   'habitable moon in reach: the target moon is temperate by its energy budget (a flux budget is a first screen, not a climate model), stably placed, and needs no more transits than the campaign is expected to deliver whole (or than the scenario\'s transit count without a campaign)',
+  'every row shares the scenario\'s other values: limb darkening, stellar age, albedos, tidal parameters, eccentricity, instrument and observation; a star whose limb darkening differs much from the scenario\'s gets a slightly wrong timing precision',
   'rows without a planet mass take it from the radius by inverting the mean Chen & Kipping (2017) relation (flag mass_from_radius): that relation has a wide scatter (about 15 % in radius for Neptunes), so such masses are rough',
 ];
 
