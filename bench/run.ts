@@ -16,6 +16,7 @@ import { threadScaling } from './threadScaling.js';
 import { benchLimitsStart, benchWorkerStart } from './workerStart.js';
 import { benchBound } from './bound.js';
 import { benchBankPhases } from './bankPhases.js';
+import { benchRank } from './rank.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -118,6 +119,7 @@ async function main(): Promise<void> {
     ['startup', async () => [...benchLimitsStart(), ...(await benchWorkerStart(referenceSweepDoc(20)))]],
     ['bound', () => benchBound()],
     ['bank-phases', () => benchBankPhases()],
+    ['rank', () => benchRank()],
     ['small-sweep', () => smallSweepSection()],
     ['efficiency', () => benchEfficiency()],
     ['sweep', () => sweepSection(process.argv.includes('--full'))],

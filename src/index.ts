@@ -89,3 +89,8 @@ export { sunAltitudeDeg, targetAltitudeDeg } from './sky/skyPosition.js';
 export { airmassKastenYoung } from './sky/airmass.js';
 export { utcToBjdTdb, bjdTdbToUtc } from './sky/barycentric.js';
 export { sunCrossings } from './sky/twilight.js';
+export { rankList, rankListText, mergeRankOutputs, writeRankOutputs, rankEcsv } from './app/rankList.js';
+export { rankPlanet, minDetectableMass, RANK_SEPARATIONS_HILL, RANK_PDET, type PlanetRank } from './rank/rankPlanet.js';
+export { readPlanetTable, planetRows, PLANET_COLUMNS, chenKippingMassFromRadius, type PlanetRow } from './rank/planetTable.js';
+export { RANK_SCHEMA, type RankJson, type RankedPlanetJson } from './rank/rankJson.js';
+export { renderRankPage } from './report/rankPage.js';

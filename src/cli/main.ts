@@ -14,6 +14,7 @@ import { registerMerge } from './mergeCommand.js';
 import { registerReport } from './reportCommand.js';
 import { registerBudget } from './budgetCommand.js';
 import { registerCalendar } from './calendarCommand.js';
+import { registerRank } from './rankCommand.js';
 import { SweepInterruptedError } from '../app/sweep/interrupted.js';
 import { VERSION } from '../version.js';
 
@@ -43,6 +44,7 @@ export function buildProgram(io: CliIo): Command {
   registerVet(program, io);
   registerBudget(program, io);
   registerCalendar(program, io);
+  registerRank(program, io);
   return program;
 }
 

@@ -28,7 +28,7 @@ const LAYERS: { name: string; prefixes: string[] }[] = [
   // studies: pure functions that combine the stages for one question: the
   // analytic limits, the parts of a sweep (grid, axes, one cell, calibration
   // set, result types), of a budget search and of vetting a claim
-  { name: 'studies', prefixes: ['limits/', 'sweep/', 'budget/', 'vet/'] },
+  { name: 'studies', prefixes: ['limits/', 'sweep/', 'budget/', 'vet/', 'rank/'] },
   // renderers: ECSV/JSON/HTML text from results; pure functions of results
   { name: 'renderers', prefixes: ['io/ecsv.ts', 'report/'] },
   // application: the orchestrations, the only place besides the CLI that touches files

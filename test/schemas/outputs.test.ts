@@ -3,7 +3,7 @@
  * and every key it uses listed in the table of names (docs/vocabulary.md), so
  * the code speaks no other names: limits, vet and budget --json (forecast-only
  * and a small Monte Carlo), and a sweep's cells.json, summary.json and run.json
- * (Monte Carlo and forecast-only, a shard and the merge of the shards), and calendar --json.
+ * (Monte Carlo and forecast-only, a shard and the merge of the shards), calendar --json, and rank's rank.json.
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
@@ -24,11 +24,13 @@ const claim = new URL('../../scenarios/demo-claim.yaml', import.meta.url).pathna
 const tiny = new URL('../cluster/tiny-array.yaml', import.meta.url).pathname;
 const calendarDemo = new URL('../../scenarios/demo-calendar.yaml', import.meta.url).pathname;
 const spaceDemo = new URL('../../scenarios/demo-space.yaml', import.meta.url).pathname;
+const rankDemo = new URL('../../scenarios/demo-rank.yaml', import.meta.url).pathname;
+const rankList = new URL('../../scenarios/demo-planets.csv', import.meta.url).pathname;
 const vocabulary = readFileSync(new URL('../../docs/vocabulary.md', import.meta.url), 'utf8');
 /** Names in the first column of the table under "## Names" in docs/vocabulary.md: | `name` | … */
 const NAMES = new Set([...vocabulary.slice(vocabulary.indexOf('\n## Names\n')).matchAll(/^\| `([a-z0-9_]+)` \|/gm)].map((m) => m[1]));
 
-const SCHEMAS = ['limits', 'vet', 'budget', 'cells', 'summary', 'run', 'calendar'] as const;
+const SCHEMAS = ['limits', 'vet', 'budget', 'cells', 'summary', 'run', 'calendar', 'rank'] as const;
 type Name = (typeof SCHEMAS)[number];
 /** Outputs produced once for all tests: schema name → the parsed documents. */
 const outputs = new Map<Name, Array<{ what: string; doc: unknown }>>();
@@ -78,6 +80,14 @@ ${block}
   add('budget', 'budget habitable forecast-only', await json(['budget', demo, '--habitable', '--forecast-only', '--json', '--quiet']));
   add('budget', 'budget forecast-only', await json(['budget', demo, '--forecast-only', '--json', '--quiet']));
   add('budget', 'budget Monte Carlo', await json(['budget', tiny, '--json', '--quiet', '--realizations', '4', '--no-moon-realizations', '40', '--max-transits', '6']));
+  // A ranked planet list (the invented demo list's first rows and a bad row), whole with a small Monte Carlo confirmation, and one shard.
+  const list = readFileSync(rankList, 'utf8').split('\n').slice(0, 8).join('\n') + '\nBad-1 b,1,1,5800,10,V,0.5,0.9,-3,0.2,,,,10,10\n';
+  writeFileSync(join(dir, 'list.csv'), list);
+  for (const [name, extra] of [['rank', ['--bound', '2', '--confirm', '1', '--confirm-realizations', '4', '--confirm-no-moon-realizations', '100']], ['rank-shard', ['--shard', '2/2']]] as Array<[string, string[]]>) {
+    const r = await run(['rank', rankDemo, join(dir, 'list.csv'), '--out', join(dir, name), ...extra]);
+    if (r.code !== 0) throw new Error(`rank ${name}: ${r.err}`);
+    add('rank', `${name}/rank.json`, readFileSync(join(dir, name, 'rank.json'), 'utf8'));
+  }
   const sweeps: Array<[string, string[]]> = [
     ['mc', []], ['forecast', ['--forecast-only']], ['shard1', ['--shard', '1/2']], ['shard2', ['--shard', '2/2']],
   ];

@@ -1,0 +1,291 @@
+/**
+ * The planet list of `moonsieve rank`: a CSV table (one header row, one row
+ * per planet) whose columns are named here, with the unit in each name. Each
+ * row's values are written into the shared scenario's document (as
+ * "<value> <unit>" text) and the document validated with `parseScenario`, so a
+ * row becomes a typed `Scenario` with every derived quantity consistent (the
+ * same route a sweep cell takes, src/sweep/applyAxes.ts). A row that cannot be
+ * a scenario is skipped with its problems (row number, field, value, what is
+ * allowed); a missing required column is an error of the whole input.
+ *
+ * Missing planet mass: from the planet radius by inverting the mean
+ * mass–radius relation of Chen & Kipping (2017, ApJ 834, 17, eq. 2, Table 1)
+ * in its Terran and Neptunian regimes, where the radius rises with the mass;
+ * a radius the Jovian regime (slope −0.044) also reaches (from about 1.01 R_J
+ * up) says almost nothing about the mass, so such a row needs its mass and is
+ * skipped without it. Missing planet
+ * radius: the same relation forward (`mass_radius: chen_kipping_2017`). Either
+ * way the row is flagged (`mass_from_radius`, `radius_from_mass`).
+ */
+import { InputError, type FieldProblem } from '../scenario/errors.js';
+import { parseScenario } from '../scenario/parseScenario.js';
+import { CELL_PARSE } from '../sweep/applyAxes.js';
+import type { Scenario, ScenarioDocument } from '../scenario/types.js';
+import { CHEN_KIPPING_SLOPES, CHEN_KIPPING_TRANSITIONS_KG, chenKippingIntercepts } from '../physics/massRadius.js';
+import { M_EARTH_KG, M_JUP_KG, R_EARTH_M, R_JUP_M } from '../physics/constants.js';
+
+/** One column of the planet list: its name, whether the header must have it, and what it holds. */
+export interface PlanetColumn {
+  name: string;
+  required: boolean;
+  meaning: string;
+}
+
+/** The columns, in the order the docs list them. Any other column is ignored (and named in the output's notes). */
+export const PLANET_COLUMNS: readonly PlanetColumn[] = [
+  { name: 'name', required: true, meaning: 'planet name, unique in the list' },
+  { name: 'star_mass_msun', required: true, meaning: 'stellar mass, solar masses' },
+  { name: 'star_radius_rsun', required: true, meaning: 'stellar radius, solar radii' },
+  { name: 'star_teff_k', required: true, meaning: 'stellar effective temperature, K' },
+  { name: 'magnitude', required: false, meaning: "the star's magnitude in `band` (a ground instrument's noise budget; empty: the scenario's)" },
+  { name: 'band', required: false, meaning: 'photometric band of `magnitude` (U, B, V, R, I; empty: the scenario\'s)' },
+  { name: 'noise_ppm_per_hour', required: false, meaning: 'white noise stated directly, ppm over one hour (replaces the scenario\'s noise or ground budget for that row)' },
+  { name: 'planet_mass_mjup', required: false, meaning: 'planet mass, Jupiter masses (empty: from the radius, Chen & Kipping 2017, flagged)' },
+  { name: 'planet_radius_rjup', required: false, meaning: 'planet radius, Jupiter radii (empty: from the mass, Chen & Kipping 2017, flagged)' },
+  { name: 'period_d', required: true, meaning: 'orbital period, days' },
+  { name: 'impact_parameter', required: true, meaning: 'transit impact parameter, stellar radii' },
+  { name: 't0_bjd_tdb', required: false, meaning: 'mid-transit time of epoch 0, BJD_TDB days' },
+  { name: 't0_error_min', required: false, meaning: 'error of t0, minutes' },
+  { name: 'period_error_d', required: false, meaning: 'error of the period, days' },
+  { name: 'ra_deg', required: false, meaning: 'right ascension (ICRS), degrees (with dec_deg: the row is the campaign target)' },
+  { name: 'dec_deg', required: false, meaning: 'declination (ICRS), degrees' },
+];
+
+/** Planet mass or radius: the header must hold at least one of the two. */
+export const PLANET_SIZE_COLUMNS = ['planet_mass_mjup', 'planet_radius_rjup'] as const;
+
+export interface PlanetTableText {
+  header: string[];
+  /** Cells by column name; empty strings for empty cells. */
+  rows: Array<Record<string, string>>;
+  /** 1-based line numbers in the file of each row (the header is line 1 unless comments precede it). */
+  lines: number[];
+  /** Header columns that are not planet-list columns (ignored). */
+  unknown: string[];
+}
+
+/** Split one CSV line (RFC 4180 quoting, no newlines inside quotes). */
+export function splitCsvLine(line: string): string[] {
+  const out: string[] = [];
+  let cur = '';
+  let quoted = false;
+  for (let i = 0; i < line.length; i++) {
+    const c = line[i];
+    if (quoted) {
+      if (c === '"' && line[i + 1] === '"') { cur += '"'; i++; }
+      else if (c === '"') quoted = false;
+      else cur += c;
+    } else if (c === '"') quoted = true;
+    else if (c === ',') { out.push(cur.trim()); cur = ''; }
+    else cur += c;
+  }
+  out.push(cur.trim());
+  return out;
+}
+
+/**
+ * Parse the planet list's text: lines starting with `#` and blank lines are
+ * skipped (so an ECSV file's header block is read as comments and its column
+ * row as the header). Throws InputError for a missing required column.
+ */
+export function readPlanetTable(text: string, source = 'planet list'): PlanetTableText {
+  const all = text.split(/\r?\n/);
+  let header: string[] | null = null;
+  const rows: Array<Record<string, string>> = [];
+  const lines: number[] = [];
+  for (let i = 0; i < all.length; i++) {
+    const line = all[i];
+    if (line.trim() === '' || line.trimStart().startsWith('#')) continue;
+    const cells = splitCsvLine(line);
+    if (header === null) { header = cells; continue; }
+    const row: Record<string, string> = {};
+    for (let j = 0; j < header.length; j++) row[header[j]] = cells[j] ?? '';
+    if (cells.length !== header.length) row['#cells'] = String(cells.length);
+    rows.push(row);
+    lines.push(i + 1);
+  }
+  if (header === null) throw new InputError([{ path: source, value: '(no header row)', allowed: `a CSV table whose first row names the columns: ${PLANET_COLUMNS.filter((c) => c.required).map((c) => c.name).join(', ')} and ${PLANET_SIZE_COLUMNS.join(' or ')}` }]);
+  const problems: FieldProblem[] = [];
+  for (const c of PLANET_COLUMNS) {
+    if (c.required && !header.includes(c.name)) problems.push({ path: `${source}: column ${c.name}`, value: undefined, allowed: `required column (${c.meaning})` });
+  }
+  if (!PLANET_SIZE_COLUMNS.some((c) => header!.includes(c))) {
+    problems.push({ path: `${source}: column ${PLANET_SIZE_COLUMNS.join(' or ')}`, value: undefined, allowed: 'the list needs the planet mass or radius (or both) in a column' });
+  }
+  const seen = new Set<string>();
+  for (const h of header) {
+    if (seen.has(h)) problems.push({ path: `${source}: column ${h}`, value: h, allowed: 'each column name once' });
+    seen.add(h);
+  }
+  if (problems.length) throw new InputError(problems);
+  const known = new Set(PLANET_COLUMNS.map((c) => c.name));
+  return { header, rows, lines, unknown: header.filter((h) => !known.has(h)) };
+}
+
+/**
+ * Planet mass from radius: Chen & Kipping (2017, eq. 2, Table 1) inverted in the
+ * Terran and Neptunian regimes. The Jovian branch (slope −0.044) spans radii from
+ * its top at 0.414 M_J (about 1.28 R_J) down to its end at 0.08 M☉ (about
+ * 1.01 R_J), so a radius at or above that end is met by two masses (or, in the
+ * branch, by a range of them): NaN there, and for a radius that is not positive.
+ */
+export function chenKippingMassFromRadius(radiusM: number): number {
+  if (!(radiusM > 0)) return Number.NaN;
+  const c = chenKippingIntercepts();
+  const y = Math.log10(radiusM / R_EARTH_M);
+  const t1 = Math.log10(CHEN_KIPPING_TRANSITIONS_KG.terranNeptunian / M_EARTH_KG);
+  const t3 = Math.log10(CHEN_KIPPING_TRANSITIONS_KG.jovianStellar / M_EARTH_KG);
+  const y1 = c[0] + CHEN_KIPPING_SLOPES[0] * t1;
+  const y3 = c[2] + CHEN_KIPPING_SLOPES[2] * t3;
+  if (y >= y3) return Number.NaN;
+  const j = y < y1 ? 0 : 1;
+  return M_EARTH_KG * 10 ** ((y - c[j]) / CHEN_KIPPING_SLOPES[j]);
+}
+
+/** One planet of the list as a scenario, or its problems. */
+export interface PlanetRow {
+  /** 1-based row number (the first data row is 1). */
+  row: number;
+  line: number;
+  name: string;
+  scenario: Scenario | null;
+  flags: string[];
+  problems: FieldProblem[];
+}
+
+const number = (text: string): number => (text.trim() === '' ? Number.NaN : Number(text));
+
+function setPath(doc: Record<string, unknown>, path: string, value: unknown): void {
+  const keys = path.split('.');
+  let o = doc;
+  for (let i = 0; i < keys.length - 1; i++) {
+    const v = o[keys[i]];
+    if (v === null || typeof v !== 'object' || Array.isArray(v)) o[keys[i]] = {};
+    o = o[keys[i]] as Record<string, unknown>;
+  }
+  o[keys[keys.length - 1]] = value;
+}
+
+/** Numeric cell → document text, or a problem (a cell that is not a finite number). */
+function numericCell(row: Record<string, string>, col: string, problems: FieldProblem[], where: string): number | null {
+  const text = row[col];
+  if (text === undefined || text.trim() === '') return null;
+  const x = number(text);
+  if (!Number.isFinite(x)) {
+    problems.push({ path: `${where}: ${col}`, value: text, allowed: 'a finite number' });
+    return null;
+  }
+  return x;
+}
+
+/**
+ * The scenario document of one row: a copy of `baseDoc` (without its sweep and
+ * budget blocks) with the row's values written in. Returns the document, the
+ * flags and the problems found before validation.
+ */
+export function rowDocument(baseDoc: ScenarioDocument, row: Record<string, string>, where: string): { doc: ScenarioDocument; flags: string[]; problems: FieldProblem[] } {
+  const doc = structuredClone(baseDoc) as Record<string, unknown>;
+  delete doc.sweep;
+  delete doc.budget;
+  const problems: FieldProblem[] = [];
+  const flags: string[] = [];
+  if (row['#cells'] !== undefined) problems.push({ path: `${where}`, value: `${row['#cells']} cells`, allowed: 'one cell per header column' });
+  const name = (row.name ?? '').trim();
+  if (name === '') problems.push({ path: `${where}: name`, value: row.name, allowed: 'a non-empty planet name' });
+  doc.name = name;
+  const req = (col: string, path: string, unit: string) => {
+    const x = numericCell(row, col, problems, where);
+    if (x === null && (row[col] ?? '').trim() === '') problems.push({ path: `${where}: ${col}`, value: undefined, allowed: 'required in every row' });
+    if (x !== null) setPath(doc, path, unit ? `${x} ${unit}` : x);
+  };
+  const opt = (col: string, path: string, unit: string) => {
+    const x = numericCell(row, col, problems, where);
+    if (x !== null) setPath(doc, path, unit ? `${x} ${unit}` : x);
+    return x;
+  };
+  req('star_mass_msun', 'star.mass', 'Msun');
+  req('star_radius_rsun', 'star.radius', 'Rsun');
+  req('star_teff_k', 'star.teff', 'K');
+  // A luminosity in the shared scenario belongs to its own star, not to each row's: it follows R and Teff.
+  const star = doc.star as Record<string, unknown> | undefined;
+  if (star) delete star.luminosity;
+  req('period_d', 'planet.period', 'd');
+  req('impact_parameter', 'planet.impact_parameter', '');
+  const planet = (doc.planet ?? {}) as Record<string, unknown>;
+  delete planet.inclination;
+  const mass = numericCell(row, 'planet_mass_mjup', problems, where);
+  const radius = numericCell(row, 'planet_radius_rjup', problems, where);
+  delete planet.mass_radius;
+  if (mass !== null) planet.mass = `${mass} Mjup`;
+  if (radius !== null) planet.radius = `${radius} Rjup`;
+  if (mass === null && radius !== null && Number.isFinite(radius)) {
+    const m = chenKippingMassFromRadius(radius * R_JUP_M);
+    if (Number.isFinite(m)) {
+      planet.mass = `${m / M_JUP_KG} Mjup`;
+      flags.push('mass_from_radius');
+    } else {
+      problems.push({ path: `${where}: planet_mass_mjup`, value: undefined, allowed: `needed for a planet of ${radius} Rjup: from about 1.01 Rjup up, Chen & Kipping (2017) give more than one mass for a radius` });
+    }
+  } else if (mass !== null && radius === null) {
+    delete planet.radius;
+    planet.mass_radius = 'chen_kipping_2017';
+    flags.push('radius_from_mass');
+  } else if (mass === null && radius === null && (row.planet_mass_mjup ?? '').trim() === '' && (row.planet_radius_rjup ?? '').trim() === '') {
+    problems.push({ path: `${where}: planet_mass_mjup`, value: undefined, allowed: 'the planet mass or radius (or both) is needed in every row' });
+  }
+  doc.planet = planet;
+  opt('t0_bjd_tdb', 'observation.t0', '');
+  opt('t0_error_min', 'observation.t0_error', 'min');
+  opt('period_error_d', 'planet.period_error', 'd');
+  const ra = numericCell(row, 'ra_deg', problems, where);
+  const dec = numericCell(row, 'dec_deg', problems, where);
+  if ((ra === null) !== (dec === null)) problems.push({ path: `${where}: ${ra === null ? 'ra_deg' : 'dec_deg'}`, value: undefined, allowed: 'ra_deg and dec_deg come together' });
+  else if (ra !== null && dec !== null) doc.target = { ra: `${ra} deg`, dec: `${dec} deg` };
+  const noise = numericCell(row, 'noise_ppm_per_hour', problems, where);
+  const instrument = (doc.instrument ?? {}) as Record<string, unknown>;
+  doc.instrument = instrument;
+  if (noise !== null) {
+    delete instrument.ground;
+    instrument.noise = `${noise} ppm per 1 h`;
+  } else {
+    const mag = numericCell(row, 'magnitude', problems, where);
+    const band = (row.band ?? '').trim();
+    if (mag !== null || band !== '') {
+      const ground = instrument.ground as Record<string, unknown> | undefined;
+      if (!ground || typeof ground !== 'object') {
+        problems.push({ path: `${where}: magnitude`, value: row.magnitude, allowed: 'a magnitude needs a ground instrument (instrument.ground) in the scenario; give noise_ppm_per_hour instead' });
+      } else {
+        if (mag !== null) ground.magnitude = mag;
+        if (band !== '') ground.band = band;
+      }
+    }
+  }
+  return { doc: doc as ScenarioDocument, flags, problems };
+}
+
+/** Every row of the list as a scenario, or skipped with its problems (duplicated names: the later rows). */
+export function planetRows(baseDoc: ScenarioDocument, table: PlanetTableText): PlanetRow[] {
+  const out: PlanetRow[] = [];
+  const firstRow = new Map<string, number>();
+  for (let i = 0; i < table.rows.length; i++) {
+    const row = table.rows[i];
+    const where = `row ${i + 1}`;
+    const { doc, flags, problems } = rowDocument(baseDoc, row, where);
+    const name = (row.name ?? '').trim();
+    const earlier = firstRow.get(name);
+    if (name !== '' && earlier !== undefined) problems.push({ path: `${where}: name`, value: name, allowed: `each planet name once (already in row ${earlier})` });
+    else if (name !== '') firstRow.set(name, i + 1);
+    let scenario: Scenario | null = null;
+    if (problems.length === 0) {
+      try {
+        // A target moon that would touch this planet is an answer (its placement), not a bad row.
+        scenario = parseScenario(doc, name, CELL_PARSE);
+      } catch (e) {
+        if (!(e instanceof InputError)) throw e;
+        for (const p of e.problems) problems.push({ ...p, path: `${where}: ${p.path}` });
+      }
+    }
+    out.push({ row: i + 1, line: table.lines[i], name, scenario: problems.length ? null : scenario, flags, problems });
+  }
+  return out;
+}
