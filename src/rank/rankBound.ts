@@ -6,9 +6,17 @@
  * curve can do, where the forecast of the timing channels is a lower
  * estimate; the two bracket what a real search reaches. About 10 ms per
  * evaluation, so it runs for the top of the list only.
+ *
+ * Like the forecast it brackets, the bound sees `observation.transits` whole
+ * transits: the scenario's site, target, campaign and visibility are left
+ * out here (with them the bound would count only the campaign's observable
+ * exposures, a different question from the forecast's; the campaign's
+ * columns of the ranking answer that one).
  */
 import type { Scenario } from '../scenario/types.js';
 import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
+import { parseScenario } from '../scenario/parseScenario.js';
+import type { ScenarioDocument } from '../scenario/types.js';
 import { knownTemplateBound } from '../timing/knownTemplateBound.js';
 import { withoutMoon } from '../sweep/applyAxes.js';
 import { scenarioMoonDensity } from '../budget/targetMoon.js';
@@ -16,10 +24,10 @@ import { moonScenario, solveMinMass, RANK_SEPARATIONS_HILL } from './rankPlanet.
 
 /** Per separation of RANK_SEPARATIONS_HILL: the bound's smallest detectable moon (null where `allowed[k]` is false or none is detected below the planet mass). */
 export function boundMinMasses(s: Scenario, allowed: readonly boolean[], guessesKg: ReadonlyArray<number | null>): Array<number | null> {
-  const base = scenarioDocumentOf(s);
+  const base = withoutSky(scenarioDocumentOf(s));
   const density = scenarioMoonDensity(s);
   // The planet-only model is the same for every moon: one basis for the whole search.
-  const planetOnly = withoutMoon(s);
+  const planetOnly = withoutMoon(parseScenario(base, s.name));
   return RANK_SEPARATIONS_HILL.map((f, k) => {
     if (!allowed[k]) return null;
     const prob = (m: number): number | null => {
@@ -32,4 +40,11 @@ export function boundMinMasses(s: Scenario, allowed: readonly boolean[], guesses
     const guess = guessesKg[k] ?? s.planet.massKg / 10;
     return solveMinMass(prob, s.planet.massKg, guess / 2).massKg;
   });
+}
+
+/** The document without the blocks that place the observer (whole transits, as the forecast assumes). */
+function withoutSky(doc: ScenarioDocument): ScenarioDocument {
+  const out = { ...(doc as Record<string, unknown>) };
+  for (const k of ['site', 'target', 'campaign', 'constraints', 'visibility']) delete out[k];
+  return out as ScenarioDocument;
 }
