@@ -419,7 +419,7 @@ function twoAxisFigures(meta: SweepMeta, cells: readonly CellResult[], b: Physic
 }
 
 export function channelAvailable(meta: SweepMeta, ch: MapChannel): boolean {
-  return !(meta.forecast_only && ch === 'dip');
+  return !(meta.forecast_only && (ch === 'dip' || ch === 'template'));
 }
 
 function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigures {
@@ -432,7 +432,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
   const channelZ = Object.fromEntries(
     MAP_CHANNELS.map((ch) => [ch, channelAvailable(meta, ch) ? x.map((_, i) => { const c = at(i); return c ? cellProbability(c, ch, fo, meta.simulate_unstable) : null; }) : null]),
   ) as GridFigures['channelZ'];
-  const colors: Record<MapChannel, string> = { combined: '#00204c', ttv: '#7c7b78', tdv: '#bcaf6f', dip: '#ffe945' };
+  const colors: Record<MapChannel, string> = { combined: '#00204c', template: '#3b496c', ttv: '#7c7b78', tdv: '#bcaf6f', dip: '#ffe945' };
   const data: unknown[] = [];
   for (const ch of MAP_CHANNELS) {
     const y = channelZ[ch] as Array<number | null> | null;
@@ -441,7 +441,7 @@ function oneAxisFigures(meta: SweepMeta, cells: readonly CellResult[]): GridFigu
     const hi = x.map((_, i) => (fo ? null : num(at(i), `pdet_${ch}_hi`)));
     data.push({
       type: 'scatter', mode: 'lines+markers', x, y, name: channelLabel(ch, fo),
-      line: { width: ch === 'combined' ? 3.5 : 2, color: colors[ch], dash: ch === 'combined' ? 'solid' : ch === 'ttv' ? 'dash' : ch === 'tdv' ? 'dot' : 'dashdot' },
+      line: { width: ch === 'combined' ? 3.5 : 2, color: colors[ch], dash: ch === 'combined' ? 'solid' : ch === 'template' ? 'longdash' : ch === 'ttv' ? 'dash' : ch === 'tdv' ? 'dot' : 'dashdot' },
       error_y: fo ? undefined : { type: 'data', symmetric: false, array: y.map((p, i) => (p === null || hi[i] === null ? null : (hi[i] as number) - p)), arrayminus: y.map((p, i) => (p === null || lo[i] === null ? null : p - (lo[i] as number))), thickness: 1, width: 3 },
     });
   }

@@ -7,34 +7,34 @@
 import type { CellResult } from '../sweep/cellTypes.js';
 import type { SweepMeta, SweepAxisMeta } from '../sweep/sweepMeta.js';
 
-export type MapChannel = 'combined' | 'ttv' | 'tdv' | 'dip';
-export const MAP_CHANNELS: readonly MapChannel[] = ['combined', 'ttv', 'tdv', 'dip'];
-export const CHANNEL_LABELS: Record<MapChannel, string> = { combined: 'combined (any channel, each at α/3)', ttv: 'TTV', tdv: 'TDV', dip: 'moon dip' };
+export type MapChannel = 'combined' | 'template' | 'ttv' | 'tdv' | 'dip';
+export const MAP_CHANNELS: readonly MapChannel[] = ['combined', 'template', 'ttv', 'tdv', 'dip'];
+export const CHANNEL_LABELS: Record<MapChannel, string> = { combined: 'combined (weighted min-p over the channels)', template: 'template search', ttv: 'TTV', tdv: 'TDV', dip: 'moon dip' };
 
 /** A channel's label; in a forecast-only run "combined" is the joint TTV + TDV forecast. */
 export function channelLabel(ch: MapChannel, forecastOnly: boolean): string {
-  return forecastOnly && ch === 'combined' ? 'combined (forecast: TTV or TDV, each at α/3; moon dip not forecast)' : CHANNEL_LABELS[ch];
+  return forecastOnly && ch === 'combined' ? 'combined (forecast of its timing channels; template and moon dip not forecast)' : CHANNEL_LABELS[ch];
 }
 
 /**
  * What "combined" means, in one sentence for the map and the summary: in a
- * Monte Carlo run a detection in any of the three channels, each tested at
- * α/3 so that the three together keep the false-alarm probability α
- * (Bonferroni 1936; Dunn 1961, JASA 56, 52); a single channel's map tests
- * that channel alone at α, so where one channel carries the signal the
- * combined probability can read below it.
+ * Monte Carlo run the weighted minimum of the four channels' empirical
+ * p-values, its threshold calibrated on the no-moon realizations so that the
+ * rule's false-alarm probability is α (timing/detection.ts; Westfall & Young
+ * 1993 for min-p, Genovese, Roeder & Wasserman 2006 for the weights); in a
+ * forecast-only run the analytic forecast of its timing channels.
  */
 export function combinedMeaning(forecastOnly: boolean, alpha: number): string {
   const a = String(Number(alpha.toPrecision(3)));
   return forecastOnly
-    ? `"combined" is the analytic forecast of the Monte Carlo's rule: a detection in TTV or TDV, each tested at α/3 = ${String(Number((alpha / 3).toPrecision(3)))} (the moon dip, the third channel, is not forecast, so where it carries the signal the forecast reads low), averaged over the moon's phase and the angles the Monte Carlo draws; false-alarm probability α = ${a}.`
-    : `"combined" counts a detection in any of TTV, TDV and moon dip, each tested at α/3 = ${String(Number((alpha / 3).toPrecision(3)))} so that the three together keep the false-alarm probability α = ${a} (Bonferroni); a single channel's map tests that channel alone at α, so where one channel carries the signal the combined probability can be below it.`;
+    ? `"combined" is the analytic forecast of the Monte Carlo's rule for its timing channels: a detection in TTV or TDV, each tested at its share of α = ${a} (${String(Number((alpha * 0.05).toPrecision(3)))} each, the weights of the Monte Carlo's rule), averaged over the moon's phase and the angles the Monte Carlo draws. The template search and the moon dip, which carry most of the power, are not forecast, so the forecast reads low: the cyan bound lines are the upper estimate, and a Monte Carlo run lies between.`
+    : `"combined" is the rule a detection claim would use: the minimum of the four channels' p-values against the no-moon realizations (weighted 0.85 for the template search, 0.05 each for TTV, TDV and the moon dip), its threshold calibrated on those realizations so that the whole rule's false-alarm probability is α = ${a}; a single channel's map tests that channel alone at α.`;
 }
 
 /** The cell field holding a channel's detection probability, or null when the run has none. */
 export function channelField(channel: MapChannel, forecastOnly: boolean): string | null {
   if (!forecastOnly) return `pdet_${channel}`;
-  return { combined: 'pdet_forecast_combined', ttv: 'pdet_forecast_ttv', tdv: 'pdet_forecast_tdv', dip: null }[channel];
+  return { combined: 'pdet_forecast_combined', template: null, ttv: 'pdet_forecast_ttv', tdv: 'pdet_forecast_tdv', dip: null }[channel];
 }
 
 /** A number field of a cell, or null (JSON turned NaN into null; missing fields are null too). */

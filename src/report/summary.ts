@@ -7,7 +7,7 @@
  *   (placement "stable": outside the Roche limit, inside the stable limit,
  *   surviving tidal migration) and whose energy budget is "temperate".
  * - Its detection probability is the Monte Carlo combined-channel estimate
- *   `pdet_combined` (any of TTV, TDV, moon dip above its calibrated threshold),
+ *   `pdet_combined` (the weighted min-p rule over template, TTV, TDV and moon dip, calibrated at α),
  *   or in a forecast-only run the forecast of the same rule over TTV and TDV,
  *   `pdet_forecast_combined` (the moon dip is not forecast; summaries written
  *   before it quote the joint χ² forecast `pdet_forecast_joint`).

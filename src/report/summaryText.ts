@@ -79,7 +79,7 @@ export function renderSummaryHtml(s: SweepSummary, meta: SweepMeta): string {
   const out: string[] = [];
   const basis = s.basis === 'forecast'
     ? 'analytic forecast only (no simulations were run: <code>--forecast-only</code>); probabilities are the forecast of the Monte Carlo\'s combined rule over TTV and TDV (the moon dip is not forecast), averaged over the moon\'s angles as the Monte Carlo draws them; cells the Monte Carlo would not simulate (a moon not physically allowed) are left blank as on Monte Carlo maps'
-    : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (TTV, TDV or moon dip), per-channel false-alarm probability ${span('false_alarm', s.false_alarm, 'sig3')}`;
+    : `Monte Carlo injection–recovery, ${span('realizations', s.realizations as number, 'count')} realizations per cell, combined channel (template search, TTV, TDV and moon dip, weighted min-p), false-alarm probability ${span('false_alarm', s.false_alarm, 'sig3')}`;
   out.push(`<p><strong>Basis:</strong> ${basis}.</p>`);
   out.push(`<p class="note" data-role="combined-meaning">${escapeHtml(combinedMeaning(s.basis === 'forecast', s.false_alarm))}</p>`);
   const hz = `Of the ${span('cells', s.cells, 'count')} cells, ${span('cells_habitable', s.cells_habitable, 'count')} hold a habitable-zone moon (physically allowed and with a temperate energy budget).`;

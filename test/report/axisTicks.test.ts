@@ -103,10 +103,10 @@ describe('every log axis of the sweep figures has explicit 1-2-5 ticks', () => {
     expect((map.xaxis as { ticktext: string[] }).ticktext).toEqual(['1', '2', '5', '10', '20', '50']);
 
     // "combined" is explained where it can read below a single channel: map title and summary.
-    expect((map.title as { text: string }).text).toBe('Detection probability, combined (any channel, each at α/3); can be below a single channel, tested at α');
+    expect((map.title as { text: string }).text).toBe('Detection probability, combined (weighted min-p over the channels); can be below a single channel, tested at α');
     const summaryHtml = renderSummaryHtml(buildSummary(meta, cells), meta);
     expect(summaryHtml).toContain(escapeHtml(combinedMeaning(false, 0.01)));
-    // α/3 of α = 0.01 (Bonferroni over the three channels).
-    expect(combinedMeaning(false, 0.01)).toMatch(/each tested at α\/3 = 0\.00333 .*α = 0\.01 \(Bonferroni\).*can be below it/);
+    // The weighted min-p rule calibrated at α = 0.01 (timing/detection.ts; Westfall & Young 1993).
+    expect(combinedMeaning(false, 0.01)).toMatch(/minimum of the four channels' p-values .*weighted 0\.85 for the template search.*α = 0\.01/);
   });
 });
