@@ -42,8 +42,10 @@ export function valuePrecision(l: LimitsJson): ValuePrecision {
 
 /**
  * Forecast detection probability of `channel`: TTV, TDV, or for `combined`
- * the joint χ²_TTV + χ²_TDV test (a stand-in: the Monte Carlo's combined rule
- * is a Bonferroni union of the TTV, TDV and dip tests). Null for the dip and
+ * the joint χ²_TTV + χ²_TDV test at α (a stand-in: the Monte Carlo's combined
+ * rule is a weighted min-p over the template, TTV, TDV and dip channels,
+ * timing/detection.ts, mostly carried by the template search, so the budget's
+ * Monte Carlo usually needs fewer transits than this forecast). Null for the dip and
  * template channels (no analytic forecast), for a channel the transit count does not
  * allow (TTV below 3 transits, TDV and combined below 2; detectionForecast.ts),
  * or without a finite precision.
