@@ -97,7 +97,7 @@ describe('vet verdict ladder (issue 19)', () => {
 
   it('an Earth–Moon-like signal is "consistent" with an implied moon within 20 % of the Moon\'s mass', () => {
     // Sartoretti & Schneider 1999 (A&AS 134, 553): TTV semi-amplitude a_PB/v_P with a_PB = a_S M_S/(M_P + M_S).
-    // Moon 7.342e22 kg at 384 400 km, Earth 5.972e24 kg at 1 AU (IAU 2015 nominal values and common planetary data, from memory):
+    // Moon 7.342e22 kg at 384 400 km, Earth 5.972e24 kg at 1 AU (standard planetary data, from memory):
     // a_PB = 4671 km, v_P = 2π AU/yr = 29.8 km/s → 157 s = 2.6 min (Fox & Wiegert 2021 quote ≈ 2.6 min seen from afar).
     const moonKg = 7.342e22;
     const aS = 3.844e8;
