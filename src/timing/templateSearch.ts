@@ -563,6 +563,8 @@ interface BankContext {
   epochOf: Float64Array;
   slope: Float64Array;
   shifted: Float64Array;
+  /** ‖F″‖/σ of the moonless flux (recentredFlux's stopping rule). */
+  curvatureSnr: number;
 }
 
 /** Epoch of each kept bin of the layout. */
@@ -628,9 +630,26 @@ function recentredFlux(ctx: BankContext, model: ReturnType<typeof lightCurveMode
       b1 += epochOf[b] * r;
     }
     // out − alone ≈ F′·(τ − δ): the least-squares coefficients are the remaining shift.
-    tau0 -= (a11 * b0 - a01 * b1) / det;
-    tau1 -= (a00 * b1 - a01 * b0) / det;
+    const c0 = (a11 * b0 - a01 * b1) / det;
+    const c1 = (a00 * b1 - a01 * b0) / det;
+    // Stop when the step left untaken could change the projected template by at most RECENTRE_SNR in SNR:
+    // its first order is projected out anyway, its second order is at most ½·Δτ²·‖F″‖/σ (Taylor).
+    const step = Math.max(Math.abs(c0), Math.abs(c0 + c1 * epochOf[n - 1]));
+    if (0.5 * step * step * ctx.curvatureSnr < RECENTRE_SNR) break;
+    tau0 -= c0;
+    tau1 -= c1;
   }
+}
+
+/** Largest SNR the bank's templates may lose by stopping the re-centring early (recentredFlux). */
+const RECENTRE_SNR = 0.05;
+
+/** ‖F″‖/σ_ref of the moonless flux in the bank's inner product (per s²), from the bins' slopes. */
+function curvatureSnr(centreS: Float64Array, slope: Float64Array, epochOf: Float64Array, count: Float64Array, sigma: number): number {
+  const second = aloneSlope(centreS, slope, epochOf);
+  let a = 0;
+  for (let b = 0; b < second.length; b++) a += second[b] * second[b] * count[b];
+  return sigma > 0 ? Math.sqrt(a) / sigma : Infinity;
 }
 
 function bankContext(s: Scenario, L: TemplateLayout, o: TemplateBankOptions): BankContext {
@@ -643,7 +662,10 @@ function bankContext(s: Scenario, L: TemplateLayout, o: TemplateBankOptions): Ba
   const alone = modelFlux(centreS, lightCurveModel(binScenario({ ...s, moon: null }, spanS), { tolerance }), new Float64Array(L.bins), ws);
   const epochOf = binEpochs(L);
   const slope = aloneSlope(centreS, alone, epochOf);
-  return { centreS, spanS, sigma, tolerance, alone, basis: o.basis ?? freedomBasis(s, L), ws, epochOf, slope, shifted: new Float64Array(L.bins) };
+  const curvature = curvatureSnr(centreS, slope, epochOf, L.count, L.sigmaRef > 0 ? L.sigmaRef : sigma);
+  return {
+    centreS, spanS, sigma, tolerance, alone, basis: o.basis ?? freedomBasis(s, L), ws, epochOf, slope, shifted: new Float64Array(L.bins), curvatureSnr: curvature,
+  };
 }
 
 function binScenario(x: Scenario, spanS: number): Scenario {
