@@ -323,7 +323,7 @@ function timeSlope(basis: PlanetOnlyBasis, rows: Int32Array, m: number): Float64
  */
 function recentre(
   t: Float64Array, ep: Float64Array, m: number, model: LightCurveModel, flux: Float64Array, rows: Int32Array, w: Float64Array,
-  slope: Float64Array, ts: Float64Array, withMoon: Float64Array, d: Float64Array, ws: LightCurveWorkspace,
+  slope: Float64Array, ts: Float64Array, withMoon: Float64Array, d: Float64Array, ws: LightCurveWorkspace, curvature: number,
 ): void {
   let a00 = 0;
   let a01 = 0;
@@ -350,6 +350,10 @@ function recentre(
     // d ≈ F′·(τ − δ): the least-squares coefficients are the remaining shift.
     const c0 = (a11 * b0 - a01 * b1) / det;
     const c1 = (a00 * b1 - a01 * b0) / det;
+    // Stop when the step left untaken could change the SNR by at most 0.05: its first order is projected
+    // out anyway, its second order is at most ½·Δτ²·‖F″‖/σ (Taylor).
+    const step = Math.max(Math.abs(c0), Math.abs(c0 + c1 * ep[m - 1]));
+    if (0.5 * step * step * curvature < 0.05) break;
     tau0 -= c0;
     tau1 -= c1;
   }
@@ -429,6 +433,15 @@ export function knownTemplateBound(s: Scenario, opts: { angles?: number; planetO
   const ep = new Float64Array(m);
   for (let r = 0; r < m; r++) ep[r] = basis.epoch[rows[r]];
   const slope = timeSlope(basis, rows, m);
+  // ‖F″‖/σ on the rows (whitened), from the slopes' differences: the re-centring's stopping rule.
+  let c2 = 0;
+  for (let r = 0; r < m; r++) {
+    const lo = r > 0 && ep[r - 1] === ep[r] ? r - 1 : r;
+    const hi = r + 1 < m && ep[r + 1] === ep[r] ? r + 1 : r;
+    const dt = t[hi] - t[lo];
+    if (dt > 0) c2 += ((slope[hi] - slope[lo]) / dt) ** 2;
+  }
+  const curvature = Math.sqrt(c2) / sigma;
   const ts = new Float64Array(m);
   let p = 0;
   for (let j = 0; j < k; j++) {
@@ -442,7 +455,7 @@ export function knownTemplateBound(s: Scenario, opts: { angles?: number; planetO
     // Gauss–Newton on the timing columns (Björck 1996, Numerical Methods for Least Squares Problems,
     // §9.2.1), the model evaluated at t + τ₀ + n·τ₁ (equivalently the planet-only model shifted by
     // them), then Δ projected as before.
-    recentre(t, ep, m, mj, flux, rows, basis.weight, slope, ts, withMoon, d, ws);
+    recentre(t, ep, m, mj, flux, rows, basis.weight, slope, ts, withMoon, d, ws, curvature);
     subtractRows(withMoon, flux, rows, m, basis.weight, d);
     snr[j] = Math.sqrt(projectedNorm2(q, columns, n, d, rows, m)) / sigma;
     p += normalCdf(snr[j] - threshold);
