@@ -11,7 +11,11 @@
  * quadratic limb-darkening coefficients, and per transit window a flux offset
  * and a linear slope); under H1 the planet+moon model, whose difference from
  * the planet-only model is Δ. Linearising the planet-only model about its
- * truth (columns of J = ∂F/∂θ), the generalised likelihood ratio test of a
+ * best fit to the planet+moon light curve in mid-time and period (the truth
+ * shifted by the moon's common transit displacement, found per angle set by
+ * Gauss–Newton: `recentre`; about the truth itself, a shift δ common to every
+ * transit, which the planet-only fit absorbs exactly, would leave −δ²F″/2 as
+ * false signal) (columns of J = ∂F/∂θ), the generalised likelihood ratio test of a
  * known Δ is a matched filter on the part of Δ that no change of θ can mimic:
  *     SNR² = Δᵀ P⊥ Δ / σ²,   P⊥ = I − J (JᵀJ)⁻¹ Jᵀ
  * (Kay 1998, Fundamentals of Statistical Signal Processing Vol. II:

@@ -35,6 +35,12 @@
  * bound); a search over unknown separations would pay a larger look-elsewhere
  * price, which this channel does not include.
  *
+ * Each template is taken about the best planet-only ephemeris (mid-time and
+ * period re-centred by Gauss–Newton, `recentredFlux`), not the truth: the
+ * realization's planet-only fit absorbs a transit shift common to every epoch
+ * (a moon near-commensurate with the planet) exactly, the projection below
+ * only to first order.
+ *
  * Freedoms projected out (J): the mid-time offset and the period (∂F/∂t and
  * n·∂F/∂t), the radius ratio, impact parameter, duration scale (stellar
  * density) and both limb-darkening coefficients (finite differences of the
