@@ -11,7 +11,11 @@
  * quadratic limb-darkening coefficients, and per transit window a flux offset
  * and a linear slope); under H1 the planet+moon model, whose difference from
  * the planet-only model is Δ. Linearising the planet-only model about its
- * truth (columns of J = ∂F/∂θ), the generalised likelihood ratio test of a
+ * best fit to the planet+moon light curve in mid-time and period (the truth
+ * shifted by the moon's common transit displacement, found per angle set by
+ * Gauss–Newton: `recentre`; about the truth itself, a shift δ common to every
+ * transit, which the planet-only fit absorbs exactly, would leave −δ²F″/2 as
+ * false signal) (columns of J = ∂F/∂θ), the generalised likelihood ratio test of a
  * known Δ is a matched filter on the part of Δ that no change of θ can mimic:
  *     SNR² = Δᵀ P⊥ Δ / σ²,   P⊥ = I − J (JᵀJ)⁻¹ Jᵀ
  * (Kay 1998, Fundamentals of Statistical Signal Processing Vol. II:
@@ -299,6 +303,66 @@ function rowsWithin(xb: Float64Array, reach: number, rows: Int32Array): number {
   return m;
 }
 
+/** Whitened slope ∂F/∂t of the planet-only model on the rows (central difference of the supersampled model). */
+function timeSlope(basis: PlanetOnlyBasis, rows: Int32Array, m: number): Float64Array {
+  // The mid-time column before orthonormalisation is not kept; rebuild it from the flux by central differences
+  // on the rows' neighbours in time where they are one cadence apart, one-sided at the ends of a window.
+  const out = new Float64Array(m);
+  const { timeS, flux, weight } = basis;
+  for (let k = 0; k < m; k++) {
+    const i = rows[k];
+    const lo = i > 0 && basis.epoch[i - 1] === basis.epoch[i] ? i - 1 : i;
+    const hi = i + 1 < timeS.length && basis.epoch[i + 1] === basis.epoch[i] ? i + 1 : i;
+    const dt = timeS[hi] - timeS[lo];
+    out[k] = dt > 0 ? ((flux[hi] - flux[lo]) / dt) * weight[i] : 0;
+  }
+  return out;
+}
+
+/**
+ * Gauss–Newton on the reference's mid-time τ₀ and period τ₁ (Björck 1996, §9.2.1): withMoon = the
+ * planet+moon model at t + τ₀ + n·τ₁ at the end, d its whitened difference from the planet-only flux.
+ * The 2 × 2 normal equations use the columns F′ and n·F′ (whitened); five iterations (the shift is
+ * a fraction of an ingress, where Gauss–Newton converges in two or three).
+ */
+function recentre(
+  t: Float64Array, ep: Float64Array, m: number, model: LightCurveModel, flux: Float64Array, rows: Int32Array, w: Float64Array,
+  slope: Float64Array, ts: Float64Array, withMoon: Float64Array, d: Float64Array, ws: LightCurveWorkspace, curvature: number,
+): void {
+  let a00 = 0;
+  let a01 = 0;
+  let a11 = 0;
+  for (let r = 0; r < m; r++) {
+    a00 += slope[r] * slope[r];
+    a01 += ep[r] * slope[r] * slope[r];
+    a11 += ep[r] * ep[r] * slope[r] * slope[r];
+  }
+  const det = a00 * a11 - a01 * a01;
+  let tau0 = 0;
+  let tau1 = 0;
+  for (let it = 0; it < 6; it++) {
+    for (let r = 0; r < m; r++) ts[r] = t[r] + tau0 + ep[r] * tau1;
+    modelFlux(ts, model, withMoon, ws);
+    if (it === 5 || !(det > 0)) break;
+    subtractRows(withMoon, flux, rows, m, w, d);
+    let b0 = 0;
+    let b1 = 0;
+    for (let r = 0; r < m; r++) {
+      b0 += slope[r] * d[r];
+      b1 += ep[r] * slope[r] * d[r];
+    }
+    // d ≈ F′·(τ − δ): the least-squares coefficients are the remaining shift.
+    const c0 = (a11 * b0 - a01 * b1) / det;
+    const c1 = (a00 * b1 - a01 * b0) / det;
+    // Stop when the step left untaken could change the SNR by at most 0.05: its first order is projected
+    // out anyway, its second order is at most ½·Δτ²·‖F″‖/σ (Taylor).
+    const step = Math.max(Math.abs(c0), Math.abs(c0 + c1 * ep[m - 1]));
+    if (0.5 * step * step * curvature < 0.05) break;
+    tau0 -= c0;
+    tau1 -= c1;
+  }
+}
+
 /** The j-th of K angle sets (see the file header), as `drawMoonOrientation` would set them. */
 export function boundAngles(s: Scenario, j: number, k: number): { phaseRad: number; nodeRad: number; periapsisRad: number } {
   const m = s.moon!;
@@ -357,7 +421,10 @@ export function knownTemplateBound(s: Scenario, opts: { angles?: number; planetO
   const sys = orbitSystemFromScenario(s);
   const v = sys.barycentre.meanMotionRadS * sys.barycentre.aRstar * Math.sqrt((1 + sys.barycentre.eccentricity) / (1 - sys.barycentre.eccentricity));
   const aRel = (s.moon.separationM / s.star.radiusM) * (1 + s.moon.eccentricity);
-  const reach = 1 + (s.planet.radiusM + s.moon.radiusM) / s.star.radiusM + aRel + v * s.instrument.exposureS + 1e-6;
+  // Widened by the reference's re-centring shift (below): at most the planet's distance from the barycentre,
+  // a·m_S/(m_P + m_S), once for the mid-time and once more for the period's drift over the epochs.
+  const shiftReach = (3 * aRel * s.moon.massKg) / (s.planet.massKg + s.moon.massKg);
+  const reach = 1 + (s.planet.radiusM + s.moon.radiusM) / s.star.radiusM + aRel + shiftReach + v * s.instrument.exposureS + 1e-6;
   const rows = new Int32Array(n);
   const m = rowsWithin(basis.xb, reach, rows);
   const t = new Float64Array(m);
@@ -367,10 +434,32 @@ export function knownTemplateBound(s: Scenario, opts: { angles?: number; planetO
   const d = new Float64Array(m);
   // The simulation's smearing tolerance (observe.ts): 2 % of the per-point noise, at least 1 ppm.
   const model = lightCurveModel(s, { tolerance: Math.max(TOLERANCE, 0.02 * sigma) });
+  const ep = new Float64Array(m);
+  for (let r = 0; r < m; r++) ep[r] = basis.epoch[rows[r]];
+  const slope = timeSlope(basis, rows, m);
+  // ‖F″‖/σ on the rows (whitened), from the slopes' differences: the re-centring's stopping rule.
+  let c2 = 0;
+  for (let r = 0; r < m; r++) {
+    const lo = r > 0 && ep[r - 1] === ep[r] ? r - 1 : r;
+    const hi = r + 1 < m && ep[r + 1] === ep[r] ? r + 1 : r;
+    const dt = t[hi] - t[lo];
+    if (dt > 0) c2 += ((slope[hi] - slope[lo]) / dt) ** 2;
+  }
+  const curvature = Math.sqrt(c2) / sigma;
+  const ts = new Float64Array(m);
   let p = 0;
   for (let j = 0; j < k; j++) {
     const drawn: Scenario = { ...s, moon: { ...s.moon, ...boundAngles(s, j, k) } };
-    modelFlux(t, { ...model, sys: orbitSystemFromScenario(drawn) }, withMoon, ws);
+    const mj = { ...model, sys: orbitSystemFromScenario(drawn) };
+    // Linearised about the best planet-only ephemeris, not the truth: the planet-only fit absorbs a
+    // common displacement of every transit (a moon whose period is near-commensurate with the
+    // planet's shifts all transits alike) exactly, while the Jacobian at the truth absorbs only its
+    // first order and leaves −δ²F″/2 as signal, which no fit sees (SNR ~30 for δ ≈ 1000 s, a third of
+    // an ingress, on the reference system). The mid-time τ₀ and period τ₁ of the reference are found by
+    // Gauss–Newton on the timing columns (Björck 1996, Numerical Methods for Least Squares Problems,
+    // §9.2.1), the model evaluated at t + τ₀ + n·τ₁ (equivalently the planet-only model shifted by
+    // them), then Δ projected as before.
+    recentre(t, ep, m, mj, flux, rows, basis.weight, slope, ts, withMoon, d, ws, curvature);
     subtractRows(withMoon, flux, rows, m, basis.weight, d);
     snr[j] = Math.sqrt(projectedNorm2(q, columns, n, d, rows, m)) / sigma;
     p += normalCdf(snr[j] - threshold);

@@ -35,6 +35,12 @@
  * bound); a search over unknown separations would pay a larger look-elsewhere
  * price, which this channel does not include.
  *
+ * Each template is taken about the best planet-only ephemeris (mid-time and
+ * period re-centred by Gauss–Newton, `recentredFlux`), not the truth: the
+ * realization's planet-only fit absorbs a transit shift common to every epoch
+ * (a moon near-commensurate with the planet) exactly, the projection below
+ * only to first order.
+ *
  * Freedoms projected out (J): the mid-time offset and the period (∂F/∂t and
  * n·∂F/∂t), the radius ratio, impact parameter, duration scale (stellar
  * density) and both limb-darkening coefficients (finite differences of the
@@ -559,6 +565,97 @@ interface BankContext {
   alone: Float64Array;
   basis: FreedomBasis;
   ws: LightCurveWorkspace;
+  /** Per bin: its epoch, the moonless flux's slope there, and scratch for shifted times (recentredFlux). */
+  epochOf: Float64Array;
+  slope: Float64Array;
+  shifted: Float64Array;
+  /** ‖F″‖/σ of the moonless flux (recentredFlux's stopping rule). */
+  curvatureSnr: number;
+}
+
+/** Epoch of each kept bin of the layout. */
+function binEpochs(L: TemplateLayout): Float64Array {
+  const out = new Float64Array(L.bins);
+  const n = L.k0.length;
+  for (let e = 0; e < n; e++) {
+    const rawEnd = e + 1 < n ? L.binStart[e + 1] : L.binStart[e] + (L.k1[e] >= L.k0[e] ? Math.ceil((L.k1[e] - L.k0[e] + 1) / L.samplesPerBin) : 0);
+    for (let r = L.binStart[e]; r < rawEnd; r++) {
+      const b = L.rawToBin === null ? r : L.rawToBin[r];
+      if (b >= 0) out[b] = e;
+    }
+  }
+  return out;
+}
+
+/** Per bin, the slope of the moonless flux (central difference between bins of the same window, one-sided at its ends). */
+function aloneSlope(centreS: Float64Array, alone: Float64Array, epochOf: Float64Array): Float64Array {
+  const n = centreS.length;
+  const out = new Float64Array(n);
+  for (let b = 0; b < n; b++) {
+    const lo = b > 0 && epochOf[b - 1] === epochOf[b] ? b - 1 : b;
+    const hi = b + 1 < n && epochOf[b + 1] === epochOf[b] ? b + 1 : b;
+    const dt = centreS[hi] - centreS[lo];
+    out[b] = dt > 0 ? (alone[hi] - alone[lo]) / dt : 0;
+  }
+  return out;
+}
+
+/**
+ * The template's planet+moon flux at the bins, linearised about the best planet-only ephemeris rather
+ * than the truth (as the known-template bound, knownTemplateBound.ts): the planet-only fit of a
+ * realization absorbs a displacement common to every transit exactly (a moon near-commensurate with
+ * the planet), which the projection on the freedoms at the truth absorbs only to first order, leaving
+ * −δ²F″/2 in the template that no realization's residuals hold. The mid-time τ₀ and period τ₁ come
+ * from Gauss–Newton on the columns F′ and n·F′ in the bank's inner product (Björck 1996, Numerical
+ * Methods for Least Squares Problems, §9.2.1); out = the flux at t_b + τ₀ + n_b·τ₁.
+ */
+function recentredFlux(ctx: BankContext, model: ReturnType<typeof lightCurveModel>, L: TemplateLayout, out: Float64Array): void {
+  const { centreS, alone, slope, epochOf, shifted, ws } = ctx;
+  const n = L.bins;
+  let a00 = 0;
+  let a01 = 0;
+  let a11 = 0;
+  for (let b = 0; b < n; b++) {
+    const q = slope[b] * slope[b] * L.count[b];
+    a00 += q;
+    a01 += epochOf[b] * q;
+    a11 += epochOf[b] * epochOf[b] * q;
+  }
+  const det = a00 * a11 - a01 * a01;
+  let tau0 = 0;
+  let tau1 = 0;
+  for (let it = 0; it < 6; it++) {
+    for (let b = 0; b < n; b++) shifted[b] = centreS[b] + tau0 + epochOf[b] * tau1;
+    modelFlux(shifted, model, out, ws);
+    if (it === 5 || !(det > 0)) break;
+    let b0 = 0;
+    let b1 = 0;
+    for (let b = 0; b < n; b++) {
+      const r = (out[b] - alone[b]) * slope[b] * L.count[b];
+      b0 += r;
+      b1 += epochOf[b] * r;
+    }
+    // out − alone ≈ F′·(τ − δ): the least-squares coefficients are the remaining shift.
+    const c0 = (a11 * b0 - a01 * b1) / det;
+    const c1 = (a00 * b1 - a01 * b0) / det;
+    // Stop when the step left untaken could change the projected template by at most RECENTRE_SNR in SNR:
+    // its first order is projected out anyway, its second order is at most ½·Δτ²·‖F″‖/σ (Taylor).
+    const step = Math.max(Math.abs(c0), Math.abs(c0 + c1 * epochOf[n - 1]));
+    if (0.5 * step * step * ctx.curvatureSnr < RECENTRE_SNR) break;
+    tau0 -= c0;
+    tau1 -= c1;
+  }
+}
+
+/** Largest SNR the bank's templates may lose by stopping the re-centring early (recentredFlux). */
+const RECENTRE_SNR = 0.05;
+
+/** ‖F″‖/σ_ref of the moonless flux in the bank's inner product (per s²), from the bins' slopes. */
+function curvatureSnr(centreS: Float64Array, slope: Float64Array, epochOf: Float64Array, count: Float64Array, sigma: number): number {
+  const second = aloneSlope(centreS, slope, epochOf);
+  let a = 0;
+  for (let b = 0; b < second.length; b++) a += second[b] * second[b] * count[b];
+  return sigma > 0 ? Math.sqrt(a) / sigma : Infinity;
 }
 
 function bankContext(s: Scenario, L: TemplateLayout, o: TemplateBankOptions): BankContext {
@@ -569,7 +666,12 @@ function bankContext(s: Scenario, L: TemplateLayout, o: TemplateBankOptions): Ba
   const tolerance = Math.max(DEFAULT_SMEARING_TOLERANCE, 0.02 * sigma);
   const ws = new LightCurveWorkspace();
   const alone = modelFlux(centreS, lightCurveModel(binScenario({ ...s, moon: null }, spanS), { tolerance }), new Float64Array(L.bins), ws);
-  return { centreS, spanS, sigma, tolerance, alone, basis: o.basis ?? freedomBasis(s, L), ws };
+  const epochOf = binEpochs(L);
+  const slope = aloneSlope(centreS, alone, epochOf);
+  const curvature = curvatureSnr(centreS, slope, epochOf, L.count, L.sigmaRef > 0 ? L.sigmaRef : sigma);
+  return {
+    centreS, spanS, sigma, tolerance, alone, basis: o.basis ?? freedomBasis(s, L), ws, epochOf, slope, shifted: new Float64Array(L.bins), curvatureSnr: curvature,
+  };
 }
 
 function binScenario(x: Scenario, spanS: number): Scenario {
@@ -621,7 +723,7 @@ function bankOf(ctx: BankContext, s: Scenario, L: TemplateLayout, nPhase: number
         const node = nNode > 1 ? (2 * Math.PI * inode) / nNode : moon.nodeRad;
         const peri = nPeri > 1 ? (2 * Math.PI * iperi) / nPeri : moon.periapsisRad;
         const sk: Scenario = { ...s, moon: { ...moon, phaseRad: ph, nodeRad: node, periapsisRad: peri } };
-        modelFlux(centreS, lightCurveModel(binScenario(sk, spanS), { tolerance }), flux, ws);
+        recentredFlux(ctx, lightCurveModel(binScenario(sk, spanS), { tolerance }), L, flux);
         for (let b = 0; b < n; b++) binned[b] = (flux[b] - alone[b]) * L.count[b];
         for (let pass = 0; pass < 2; pass++) for (const q of basis) axpy(binned, q, -wDot(q, binned, w));
         const norm = Math.sqrt(wDot(binned, binned, w));
