@@ -154,9 +154,14 @@ function confirmTop(r: RankJson, byRow: Map<number, Scenario | null>, n: number,
   r.mc_confirmed = done;
 }
 
+/** The scenario's document and the list's text, read (InputError on a missing or unreadable file). */
+export function readRankInputs(scenarioPath: string, listPath: string): { doc: ScenarioDocument; listText: string } {
+  return { doc: readScenarioDocument(scenarioPath), listText: readText(listPath, 'LIST') };
+}
+
 export function rankList(scenarioPath: string, listPath: string, o: RankOptions = {}): RankJson {
-  const doc = readScenarioDocument(scenarioPath);
-  return rankListText(doc, readText(listPath, 'LIST'), listPath, o);
+  const { doc, listText } = readRankInputs(scenarioPath, listPath);
+  return rankListText(doc, listText, listPath, o);
 }
 
 const num = (x: number | null) => (x === null ? Number.NaN : x);

@@ -1,11 +1,13 @@
 /** `moonsieve rank SCENARIO LIST`: a planet list ranked by the smallest moon each could reveal, and the cost of the scenario's target moon. */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { DEFAULT_BOUND, DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankList, writeRankOutputs } from '../app/rankList.js';
+import { DEFAULT_BOUND, DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankListText, readRankInputs, writeRankOutputs } from '../app/rankList.js';
+import { DEFAULT_DETAIL, writeRankDetails } from '../app/rankDetails.js';
 import { defaultOutDir } from '../app/defaultOutDir.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 import { resolveShard } from '../sweep/shard.js';
 import { DEFAULT_RANK_SETTINGS } from '../rank/rankPlanet.js';
+import { DETAIL_MASSES, DETAIL_REALIZATIONS, DETAIL_SEPARATIONS } from '../rank/detailSweep.js';
 import type { RankJson } from '../rank/rankJson.js';
 import { InputError } from '../scenario/errors.js';
 import { M_EARTH_KG, HOUR_S } from '../physics/constants.js';
@@ -22,6 +24,9 @@ interface RankOpts {
   confirmRealizations?: string;
   confirmNoMoonRealizations?: string;
   bound?: string;
+  detail?: string;
+  detailForecastOnly?: boolean;
+  workers?: string;
 }
 
 function wholeNumber(option: string, text: string | undefined, min: number): number {
@@ -44,9 +49,12 @@ export function registerRank(program: Command, io: CliIo): void {
     .option('--confirm <n>', `Monte Carlo confirmation (budget's search) of the target moon's transits for the top N planets (default ${DEFAULT_CONFIRM}; 0 with --shard)`)
     .option('--confirm-realizations <n>', 'moon realizations per Monte Carlo evaluation of the confirmation', String(DEFAULT_CONFIRM_REALIZATIONS))
     .option('--confirm-no-moon-realizations <n>', 'no-moon realizations calibrating the confirmation\'s false-alarm thresholds (default: as budget, from detection.false_alarm)')
+    .option('--detail <n>', `run each of the top N planets' detail sweep (moon mass × separation, ${DETAIL_MASSES} × ${DETAIL_SEPARATIONS} cells × ${DETAIL_REALIZATIONS} realizations) into details/ and link it from the page (default ${DEFAULT_DETAIL}; 0 with --shard); every listed planet's detail scenario is written there`)
+    .option('--detail-forecast-only', 'fill the detail sweeps from the analytic forecast alone (seconds)')
+    .option('--workers <n>', 'worker threads of the detail sweeps (default as sweep)')
     .option('--top <n>', 'rows of the ranking printed on screen', '20')
     .option('--json', 'print rank.json instead of the table')
-    .action((scenarioPath: string, listPath: string, opts: RankOpts) => {
+    .action(async (scenarioPath: string, listPath: string, opts: RankOpts) => {
       const top = wholeNumber('--top', opts.top, 0);
       const confirmRealizations = wholeNumber('--confirm-realizations', opts.confirmRealizations, 2);
       const confirmNoMoonRealizations = opts.confirmNoMoonRealizations === undefined ? undefined : wholeNumber('--confirm-no-moon-realizations', opts.confirmNoMoonRealizations, 10);
@@ -55,10 +63,13 @@ export function registerRank(program: Command, io: CliIo): void {
       const shard = resolveShard(opts.shard, process.env);
       const bound = opts.bound === undefined ? (shard ? 0 : DEFAULT_BOUND) : wholeNumber('--bound', opts.bound, 0);
       const confirm = opts.confirm === undefined ? (shard ? 0 : DEFAULT_CONFIRM) : wholeNumber('--confirm', opts.confirm, 0);
+      const detail = opts.detail === undefined ? (shard ? 0 : DEFAULT_DETAIL) : wholeNumber('--detail', opts.detail, 0);
+      if (shard && detail > 0) throw new InputError([{ path: '--detail', value: detail, allowed: 'the detail sweeps are for the top of the whole list: run them without --shard (or --detail 0 with a shard)' }]);
       if (opts.out !== undefined) checkOutputDir('--out', opts.out);
       const started = performance.now();
       let forecastDone = 0;
-      const r = rankList(scenarioPath, listPath, {
+      const { doc, listText } = readRankInputs(scenarioPath, listPath);
+      const r = rankListText(doc, listText, listPath, {
         shard,
         settings: { probability, calendar: opts.calendar !== false },
         confirm,
@@ -72,8 +83,26 @@ export function registerRank(program: Command, io: CliIo): void {
       });
       const out = opts.out ?? `${defaultOutDir(r.scenario)}-rank`;
       checkOutputDir('--out', out);
-      writeRankOutputs(out, r);
       const ended = performance.now();
+      if (!shard) {
+        const controller = new AbortController();
+        const stop = () => controller.abort();
+        process.once('SIGINT', stop);
+        process.once('SIGTERM', stop);
+        try {
+          await writeRankDetails(out, r, doc, listText, listPath, {
+            detail,
+            workers: opts.workers,
+            forecastOnly: opts.detailForecastOnly === true,
+            signal: controller.signal,
+            onDetail: (name, seconds, done, total) => io.err(`detail sweep ${done}/${total}: ${name} in ${seconds.toFixed(1)} s\n`),
+          });
+        } finally {
+          process.off('SIGINT', stop);
+          process.off('SIGTERM', stop);
+        }
+      }
+      writeRankOutputs(out, r);
       const forecastS = ((forecastDone || ended) - started) / 1000;
       if (opts.json) io.out(JSON.stringify(r, null, 2) + '\n');
       else io.out(formatRank(r, top));

@@ -51,6 +51,10 @@ export interface RankedPlanetJson {
   mc_realizations: number | null;
   mc_nights: number | null;
   mc_on_sky_s: number | null;
+  /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (a shard, or below the rows written). */
+  detail_scenario: string | null;
+  /** Its sweep report (`details/<folder>/report.html`); null when that sweep was not run (`--detail`). */
+  detail_report: string | null;
   notes: string[];
 }
 
@@ -131,6 +135,8 @@ export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
     mc_realizations: null,
     mc_nights: null,
     mc_on_sky_s: null,
+    detail_scenario: null,
+    detail_report: null,
     notes: p.notes,
   };
 }

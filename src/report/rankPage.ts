@@ -9,6 +9,7 @@ import { escapeHtml } from './escape.js';
 import { renderPlotlyPage, type Figure } from './plotlyPage.js';
 import type { RankJson, RankedPlanetJson } from '../rank/rankJson.js';
 import { HOUR_S, M_EARTH_KG } from '../physics/constants.js';
+import { detailCommand } from '../rank/detailSweep.js';
 
 /** Rows of the ranking shown in the page's table (all are in rank.json and rank.ecsv). */
 export const RANK_PAGE_ROWS = 200;
@@ -44,8 +45,18 @@ export function rankScatter(r: RankJson): Figure {
 const me = (kg: number | null) => (kg === null ? '–' : (kg / M_EARTH_KG).toPrecision(3));
 const orDash = (x: number | null, f: (v: number) => string = String) => (x === null ? '–' : f(x));
 
+/** The planet's detail: a link to its sweep report, else the command that makes it from its scenario file, else how to get that file. */
+function detailCell(p: RankedPlanetJson): string {
+  if (p.detail_report !== null) return `<a href="${escapeHtml(encodeURI(p.detail_report))}">sweep report</a>`;
+  if (p.detail_scenario !== null) {
+    const dir = p.detail_scenario.replace(/\/scenario\.yaml$/, '');
+    return `<small>not run; in this folder: <code>${escapeHtml(detailCommand(dir))}</code></small>`;
+  }
+  return '<small>none written: <code>moonsieve rank</code> without --shard and with --detail ≥ 1 writes each listed planet\'s detail scenario</small>';
+}
+
 export function renderRankPage(r: RankJson): string {
-  const head = ['rank', 'name', ...r.separations_hill.map((f) => `${f} R<sub>H</sub> (M⊕)`), 'bound, per separation (M⊕)', 'transits (forecast)', 'transits (Monte Carlo, pdet 95 % interval)', 'campaign whole transits', 'nights', 'hours', 'target moon', 'notes'];
+  const head = ['rank', 'name', ...r.separations_hill.map((f) => `${f} R<sub>H</sub> (M⊕)`), 'bound, per separation (M⊕)', 'transits (forecast)', 'transits (Monte Carlo, pdet 95 % interval)', 'campaign whole transits', 'nights', 'hours', 'target moon', 'detail', 'notes'];
   const rows = r.planets.slice(0, RANK_PAGE_ROWS).map((p) => {
     const mc = p.mc_realizations === null ? '' : p.mc_transits_needed === null ? 'not reached' : `${p.mc_transits_needed} (${p.mc_pdet!.toFixed(2)}, ${p.mc_pdet_lower!.toFixed(2)}–${p.mc_pdet_upper!.toFixed(2)})`;
     const cells = [
@@ -55,6 +66,7 @@ export function renderRankPage(r: RankJson): string {
       orDash(p.target_transits_needed), mc, orDash(p.campaign_expected_whole_transits, (v) => v.toFixed(1)),
       orDash(p.nights), orDash(p.on_sky_s, (v) => (v / HOUR_S).toFixed(1)),
       escapeHtml([p.target_habitability ?? '', p.habitable_moon_in_reach ? 'in reach' : ''].filter(Boolean).join(', ')),
+      detailCell(p),
       `<small>${escapeHtml(p.notes.join(' '))}</small>`,
     ];
     return `<tr>${cells.map((c) => `<td>${c}</td>`).join('')}</tr>`;
