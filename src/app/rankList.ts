@@ -18,6 +18,7 @@ import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderRankPage } from '../report/rankPage.js';
 import { planBudget } from './planBudget.js';
 import { boundMinMasses } from '../rank/rankBound.js';
+import { massInterval } from '../rank/rankInterval.js';
 import { DEFAULT_MAX_TRANSITS } from '../budget/budgetSpec.js';
 import type { Scenario } from '../scenario/types.js';
 
@@ -75,7 +76,10 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
   let done = 0;
   for (const r of mine) {
     if (r.scenario === null) skipped.push(skippedToJson(r.row, r.line, r.name, r.problems));
-    else ranked.push(planetToJson(rankPlanet(r.scenario, r.row, r.flags, settings), 0));
+    else {
+      const pr = rankPlanet(r.scenario, r.row, r.flags, settings);
+      ranked.push(planetToJson(pr, 0, massInterval(r.scenario, r.row, r.flags, pr.best_min_mass_kg, settings)));
+    }
     done++;
     o.onPlanet?.(done, mine.length);
   }
@@ -175,6 +179,8 @@ export function rankColumns(r: RankJson): TableColumn[] {
   const int = (name: string, description: string, f: (x: RankedPlanetJson) => number): TableColumn => ({ name, datatype: 'int64', description, values: p.map(f) });
   return [
     int('rank', 'rank in the list (1: the smallest moon within reach)', (x) => x.rank),
+    int('rank_best', 'best rank the Chen & Kipping (2017) mass scatter of mass_from_radius rows allows', (x) => x.rank_best),
+    int('rank_worst', 'worst rank it allows', (x) => x.rank_worst),
     int('row', 'row of the planet list (1: first data row)', (x) => x.row),
     str('name', 'planet name', (x) => x.name),
     str('flags', 'mass_from_radius, radius_from_mass (Chen & Kipping 2017)', (x) => x.flags.join('; ')),
@@ -187,6 +193,8 @@ export function rankColumns(r: RankJson): TableColumn[] {
     flt('tidal_max_moon_mass_kg', 'kg', 'largest moon surviving tidal migration', (x) => x.tidal_max_moon_mass_kg),
     ...r.separations_hill.map((f, k) => flt(sepName(f), 'kg', `smallest moon at ${f} Hill radii whose forecast reaches pdet ${r.pdet_threshold} (nan: see rank.json notes)`, (x) => x.min_moon_mass_kg[k])),
     flt('best_min_moon_mass_kg', 'kg', 'smallest of those', (x) => x.best_min_moon_mass_kg),
+    flt('best_min_moon_mass_low_kg', 'kg', 'mass_from_radius rows: smallest of those over the planet mass at radius ∓ 1 sigma (nan: no interval)', (x) => x.best_min_moon_mass_low_kg),
+    flt('best_min_moon_mass_high_kg', 'kg', 'largest of those (nan: no interval, or none found at one end)', (x) => x.best_min_moon_mass_high_kg),
     flt('best_separation_hill', undefined, 'separation of the smallest, Hill radii', (x) => x.best_separation_hill),
     flt('bound_best_min_moon_mass_kg', 'kg', 'smallest moon the known-template bound detects at any of the separations (nan: not computed)', (x) => (x.bound_min_moon_mass_kg ? x.bound_min_moon_mass_kg.reduce<number | null>((a, m) => (m !== null && (a === null || m < a) ? m : a), null) : null)),
     flt('timing_precision_s', 's', 'per-transit mid-time precision (model Fisher bound)', (x) => x.timing_precision_s),

@@ -122,12 +122,14 @@ export function formatRank(r: RankJson, top: number): string {
   const lines: string[] = [];
   lines.push(`${r.scenario}: ${r.planets_ranked} of ${r.planets_in_list} planets ranked${r.shard ? ` (shard ${r.shard})` : ''}, ${r.skipped.length} rows skipped`);
   lines.push(`minimum moon mass (Mearth) whose forecast reaches pdet ${r.pdet_threshold}, at ${r.separations_hill.join(', ')} Hill radii; cost of the target moon at probability ${r.transits_probability}: transits (forecast; MC: Monte Carlo for the top ${r.mc_confirmed}), campaign whole transits, nights, hours`);
+  lines.push('rank interval: the ranks the Chen & Kipping (2017) radius scatter allows for planets whose mass comes from the radius (empty: no stated error)');
   lines.push('');
-  const head = ['rank', 'name'.padEnd(18), ...r.separations_hill.map((f) => `${f} RH`.padStart(8)), 'transits'.padStart(8), '  MC'.padStart(5), 'campaign'.padStart(8), 'nights'.padStart(6), 'hours'.padStart(7), ' HZ moon'];
+  const head = ['rank', 'interval', 'name'.padEnd(18), ...r.separations_hill.map((f) => `${f} RH`.padStart(8)), 'transits'.padStart(8), '  MC'.padStart(5), 'campaign'.padStart(8), 'nights'.padStart(6), 'hours'.padStart(7), ' HZ moon'];
   lines.push(head.join(' '));
   for (const p of r.planets.slice(0, top)) {
     lines.push([
       String(p.rank).padStart(4),
+      (p.rank_best === p.rank_worst ? '' : `${p.rank_best}–${p.rank_worst}`).padStart(8),
       p.name.slice(0, 18).padEnd(18),
       ...p.min_moon_mass_kg.map((m) => me(m).padStart(8)),
       (p.target_transits_needed !== null ? String(p.target_transits_needed) : p.target_placement && p.target_placement.join() !== 'stable' ? 'n/a' : '>max').padStart(8),

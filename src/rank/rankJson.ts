@@ -5,6 +5,7 @@
  * depends on the run (no times, no worker or shard count but the shard
  * itself), so a merge of shards equals the unsharded list byte for byte.
  */
+import { rankIntervals, type MassInterval } from './rankInterval.js';
 import { formatProblem, type FieldProblem } from '../scenario/errors.js';
 import { compareRanks, RANK_PDET, RANK_SEPARATIONS_HILL, type PlanetRank } from './rankPlanet.js';
 import type { Shard } from '../sweep/shard.js';
@@ -51,6 +52,15 @@ export interface RankedPlanetJson {
   mc_realizations: number | null;
   mc_nights: number | null;
   mc_on_sky_s: number | null;
+  /** mass_from_radius rows: planet mass at the radius ∓ 1 σ_R of Chen & Kipping (2017); null for other rows (see rankInterval.ts). */
+  planet_mass_low_kg: number | null;
+  planet_mass_high_kg: number | null;
+  /** The forecast's smallest moon over those planet masses (null high end: none found at one of them; null both: no interval). */
+  best_min_moon_mass_low_kg: number | null;
+  best_min_moon_mass_high_kg: number | null;
+  /** Rank interval those masses allow against the other planets' (1: first). */
+  rank_best: number;
+  rank_worst: number;
   /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (a shard, or below the rows written). */
   detail_scenario: string | null;
   /** Its sweep report (`details/<folder>/report.html`); null when that sweep was not run (`--detail`). */
@@ -96,7 +106,7 @@ export const RANK_ASSUMPTIONS: readonly string[] = [
   'rows without a planet mass take it from the radius by inverting the mean Chen & Kipping (2017) relation (flag mass_from_radius): that relation has a wide scatter (about 15 % in radius for Neptunes), so such masses are rough',
 ];
 
-export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
+export function planetToJson(p: PlanetRank, rank: number, interval: MassInterval | null = null): RankedPlanetJson {
   return {
     rank,
     row: p.row,
@@ -135,6 +145,12 @@ export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
     mc_realizations: null,
     mc_nights: null,
     mc_on_sky_s: null,
+    planet_mass_low_kg: interval?.planet_mass_low_kg ?? null,
+    planet_mass_high_kg: interval?.planet_mass_high_kg ?? null,
+    best_min_moon_mass_low_kg: interval?.best_min_moon_mass_low_kg ?? null,
+    best_min_moon_mass_high_kg: interval?.best_min_moon_mass_high_kg ?? null,
+    rank_best: rank,
+    rank_worst: rank,
     detail_scenario: null,
     detail_report: null,
     notes: p.notes,
@@ -159,6 +175,10 @@ function compareJson(a: RankedPlanetJson, b: RankedPlanetJson): number {
 /** The document of ranked planets and skipped rows (ranks 1…n in order). */
 export function buildRankJson(scenario: string, shard: Shard | null, planetsInList: number, planets: readonly RankedPlanetJson[], skipped: readonly SkippedRowJson[], transitsProbability: number, notes: readonly string[] = []): RankJson {
   const sorted = [...planets].sort(compareJson).map((p, i) => ({ ...p, rank: i + 1 }));
+  rankIntervals(sorted).forEach(([best, worst], i) => {
+    sorted[i].rank_best = best;
+    sorted[i].rank_worst = worst;
+  });
   return {
     schema: RANK_SCHEMA,
     scenario,
