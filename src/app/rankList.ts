@@ -35,6 +35,12 @@ export interface RankOptions {
   confirmNoMoonRealizations?: number;
   /** Known-template bound at every separation for the top `bound` planets (0: none; not with a shard). */
   bound?: number;
+  /** Planets already ranked by an interrupted run, by row (from its checkpoint): taken as they are, not recomputed. */
+  done?: ReadonlyMap<number, RankedPlanetJson>;
+  /** Called with each planet this run ranks (the checkpoint records it). */
+  onRanked?: (p: RankedPlanetJson) => void;
+  /** Called once the forecast tier is done, before the bound, the Monte Carlo and the details. */
+  onForecastDone?: () => void;
   /** Called after each confirmed planet with its wall time, s (the cost per planet). */
   onConfirm?: (name: string, seconds: number, done: number, total: number) => void;
 }
@@ -76,13 +82,17 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
   let done = 0;
   for (const r of mine) {
     if (r.scenario === null) skipped.push(skippedToJson(r.row, r.line, r.name, r.problems));
+    else if (o.done?.has(r.row)) ranked.push(o.done.get(r.row)!);
     else {
       const pr = rankPlanet(r.scenario, r.row, r.flags, settings);
-      ranked.push(planetToJson(pr, 0, massInterval(r.scenario, r.row, r.flags, pr.best_min_mass_kg, settings)));
+      const p = planetToJson(pr, 0, massInterval(r.scenario, r.row, r.flags, pr.best_min_mass_kg, settings));
+      o.onRanked?.(p);
+      ranked.push(p);
     }
     done++;
     o.onPlanet?.(done, mine.length);
   }
+  o.onForecastDone?.();
   if (shard === null && rows.length > 0 && ranked.length === 0) {
     // Nothing to rank: every row is bad, which is most likely a problem of the whole input.
     throw new InputError(rows.flatMap((r) => r.problems).slice(0, 20), `${listSource}: no row could be ranked`);

@@ -3,6 +3,7 @@ import type { Command } from 'commander';
 import { join } from 'node:path';
 import { DEFAULT_BOUND, DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankListText, readRankInputs, writeRankOutputs } from '../app/rankList.js';
 import { DEFAULT_DETAIL, writeRankDetails } from '../app/rankDetails.js';
+import { CHECKPOINT_EVERY, openRankCheckpoint, RANK_CHECKPOINT_FILE, rankIdentity } from '../app/rankCheckpoint.js';
 import { defaultOutDir } from '../app/defaultOutDir.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 import { resolveShard } from '../sweep/shard.js';
@@ -25,6 +26,7 @@ interface RankOpts {
   confirmNoMoonRealizations?: string;
   bound?: string;
   detail?: string;
+  resume?: boolean;
   detailForecastOnly?: boolean;
   workers?: string;
 }
@@ -50,6 +52,7 @@ export function registerRank(program: Command, io: CliIo): void {
     .option('--confirm-realizations <n>', 'moon realizations per Monte Carlo evaluation of the confirmation', String(DEFAULT_CONFIRM_REALIZATIONS))
     .option('--confirm-no-moon-realizations <n>', 'no-moon realizations calibrating the confirmation\'s false-alarm thresholds (default: as budget, from detection.false_alarm)')
     .option('--detail <n>', `run each of the top N planets' detail sweep (moon mass × separation, ${DETAIL_MASSES} × ${DETAIL_SEPARATIONS} cells × ${DETAIL_REALIZATIONS} realizations) into details/ and link it from the page (default ${DEFAULT_DETAIL}; 0 with --shard); every listed planet's detail scenario is written there`)
+    .option('--resume', `continue an interrupted run from the checkpoint in --out (${RANK_CHECKPOINT_FILE}, written every ${CHECKPOINT_EVERY} planets); finished planets are not recomputed`)
     .option('--detail-forecast-only', 'fill the detail sweeps from the analytic forecast alone (seconds)')
     .option('--workers <n>', 'worker threads of the detail sweeps (default as sweep)')
     .option('--top <n>', 'rows of the ranking printed on screen', '20')
@@ -69,9 +72,17 @@ export function registerRank(program: Command, io: CliIo): void {
       const started = performance.now();
       let forecastDone = 0;
       const { doc, listText } = readRankInputs(scenarioPath, listPath);
+      const settings = { probability, calendar: opts.calendar !== false };
+      const out = opts.out ?? `${defaultOutDir(typeof doc.name === 'string' ? doc.name : 'scenario')}-rank`;
+      checkOutputDir('--out', out);
+      const checkpoint = openRankCheckpoint(out, rankIdentity({ doc, listText, settings, shard }), opts.resume === true);
+      if (checkpoint.done.size) io.err(`resuming: ${checkpoint.done.size} planets from ${join(out, RANK_CHECKPOINT_FILE)}\n`);
       const r = rankListText(doc, listText, listPath, {
+        done: checkpoint.done,
+        onRanked: (p) => checkpoint.record(p),
+        onForecastDone: () => checkpoint.flush(),
         shard,
-        settings: { probability, calendar: opts.calendar !== false },
+        settings,
         confirm,
         bound,
         confirmRealizations,
@@ -81,8 +92,6 @@ export function registerRank(program: Command, io: CliIo): void {
           io.err(`Monte Carlo ${done}/${total}: ${name} in ${seconds.toFixed(1)} s\n`);
         },
       });
-      const out = opts.out ?? `${defaultOutDir(r.scenario)}-rank`;
-      checkOutputDir('--out', out);
       const ended = performance.now();
       if (!shard) {
         const controller = new AbortController();
@@ -103,6 +112,7 @@ export function registerRank(program: Command, io: CliIo): void {
         }
       }
       writeRankOutputs(out, r);
+      checkpoint.remove();
       const forecastS = ((forecastDone || ended) - started) / 1000;
       if (opts.json) io.out(JSON.stringify(r, null, 2) + '\n');
       else io.out(formatRank(r, top));
