@@ -18,6 +18,7 @@ import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderRankPage } from '../report/rankPage.js';
 import { planBudget } from './planBudget.js';
 import { boundMinMasses } from '../rank/rankBound.js';
+import { massInterval } from '../rank/rankInterval.js';
 import { DEFAULT_MAX_TRANSITS } from '../budget/budgetSpec.js';
 import type { Scenario } from '../scenario/types.js';
 
@@ -34,6 +35,12 @@ export interface RankOptions {
   confirmNoMoonRealizations?: number;
   /** Known-template bound at every separation for the top `bound` planets (0: none; not with a shard). */
   bound?: number;
+  /** Planets already ranked by an interrupted run, by row (from its checkpoint): taken as they are, not recomputed. */
+  done?: ReadonlyMap<number, RankedPlanetJson>;
+  /** Called with each planet this run ranks (the checkpoint records it). */
+  onRanked?: (p: RankedPlanetJson) => void;
+  /** Called once the forecast tier is done, before the bound, the Monte Carlo and the details. */
+  onForecastDone?: () => void;
   /** Called after each confirmed planet with its wall time, s (the cost per planet). */
   onConfirm?: (name: string, seconds: number, done: number, total: number) => void;
 }
@@ -75,10 +82,17 @@ export function rankListText(doc: ScenarioDocument, listText: string, listSource
   let done = 0;
   for (const r of mine) {
     if (r.scenario === null) skipped.push(skippedToJson(r.row, r.line, r.name, r.problems));
-    else ranked.push(planetToJson(rankPlanet(r.scenario, r.row, r.flags, settings), 0));
+    else if (o.done?.has(r.row)) ranked.push(o.done.get(r.row)!);
+    else {
+      const pr = rankPlanet(r.scenario, r.row, r.flags, settings);
+      const p = planetToJson(pr, 0, massInterval(r.scenario, r.row, r.flags, pr.best_min_mass_kg, settings));
+      o.onRanked?.(p);
+      ranked.push(p);
+    }
     done++;
     o.onPlanet?.(done, mine.length);
   }
+  o.onForecastDone?.();
   if (shard === null && rows.length > 0 && ranked.length === 0) {
     // Nothing to rank: every row is bad, which is most likely a problem of the whole input.
     throw new InputError(rows.flatMap((r) => r.problems).slice(0, 20), `${listSource}: no row could be ranked`);
@@ -154,9 +168,14 @@ function confirmTop(r: RankJson, byRow: Map<number, Scenario | null>, n: number,
   r.mc_confirmed = done;
 }
 
+/** The scenario's document and the list's text, read (InputError on a missing or unreadable file). */
+export function readRankInputs(scenarioPath: string, listPath: string): { doc: ScenarioDocument; listText: string } {
+  return { doc: readScenarioDocument(scenarioPath), listText: readText(listPath, 'LIST') };
+}
+
 export function rankList(scenarioPath: string, listPath: string, o: RankOptions = {}): RankJson {
-  const doc = readScenarioDocument(scenarioPath);
-  return rankListText(doc, readText(listPath, 'LIST'), listPath, o);
+  const { doc, listText } = readRankInputs(scenarioPath, listPath);
+  return rankListText(doc, listText, listPath, o);
 }
 
 const num = (x: number | null) => (x === null ? Number.NaN : x);
@@ -170,6 +189,8 @@ export function rankColumns(r: RankJson): TableColumn[] {
   const int = (name: string, description: string, f: (x: RankedPlanetJson) => number): TableColumn => ({ name, datatype: 'int64', description, values: p.map(f) });
   return [
     int('rank', 'rank in the list (1: the smallest moon within reach)', (x) => x.rank),
+    int('rank_best', 'best rank the Chen & Kipping (2017) mass scatter of mass_from_radius rows allows', (x) => x.rank_best),
+    int('rank_worst', 'worst rank it allows', (x) => x.rank_worst),
     int('row', 'row of the planet list (1: first data row)', (x) => x.row),
     str('name', 'planet name', (x) => x.name),
     str('flags', 'mass_from_radius, radius_from_mass (Chen & Kipping 2017)', (x) => x.flags.join('; ')),
@@ -182,6 +203,8 @@ export function rankColumns(r: RankJson): TableColumn[] {
     flt('tidal_max_moon_mass_kg', 'kg', 'largest moon surviving tidal migration', (x) => x.tidal_max_moon_mass_kg),
     ...r.separations_hill.map((f, k) => flt(sepName(f), 'kg', `smallest moon at ${f} Hill radii whose forecast reaches pdet ${r.pdet_threshold} (nan: see rank.json notes)`, (x) => x.min_moon_mass_kg[k])),
     flt('best_min_moon_mass_kg', 'kg', 'smallest of those', (x) => x.best_min_moon_mass_kg),
+    flt('best_min_moon_mass_low_kg', 'kg', 'mass_from_radius rows: smallest of those over the planet mass at radius ∓ 1 sigma (nan: no interval)', (x) => x.best_min_moon_mass_low_kg),
+    flt('best_min_moon_mass_high_kg', 'kg', 'largest of those (nan: no interval, or none found at one end)', (x) => x.best_min_moon_mass_high_kg),
     flt('best_separation_hill', undefined, 'separation of the smallest, Hill radii', (x) => x.best_separation_hill),
     flt('bound_best_min_moon_mass_kg', 'kg', 'smallest moon the known-template bound detects at any of the separations (nan: not computed)', (x) => (x.bound_min_moon_mass_kg ? x.bound_min_moon_mass_kg.reduce<number | null>((a, m) => (m !== null && (a === null || m < a) ? m : a), null) : null)),
     flt('timing_precision_s', 's', 'per-transit mid-time precision (model Fisher bound)', (x) => x.timing_precision_s),

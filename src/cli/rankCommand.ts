@@ -1,11 +1,14 @@
 /** `moonsieve rank SCENARIO LIST`: a planet list ranked by the smallest moon each could reveal, and the cost of the scenario's target moon. */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { DEFAULT_BOUND, DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankList, writeRankOutputs } from '../app/rankList.js';
+import { DEFAULT_BOUND, DEFAULT_CONFIRM, DEFAULT_CONFIRM_REALIZATIONS, rankListText, readRankInputs, writeRankOutputs } from '../app/rankList.js';
+import { DEFAULT_DETAIL, writeRankDetails } from '../app/rankDetails.js';
+import { CHECKPOINT_EVERY, openRankCheckpoint, RANK_CHECKPOINT_FILE, rankIdentity } from '../app/rankCheckpoint.js';
 import { defaultOutDir } from '../app/defaultOutDir.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 import { resolveShard } from '../sweep/shard.js';
 import { DEFAULT_RANK_SETTINGS } from '../rank/rankPlanet.js';
+import { DETAIL_MASSES, DETAIL_REALIZATIONS, DETAIL_SEPARATIONS } from '../rank/detailSweep.js';
 import type { RankJson } from '../rank/rankJson.js';
 import { InputError } from '../scenario/errors.js';
 import { M_EARTH_KG, HOUR_S } from '../physics/constants.js';
@@ -22,6 +25,10 @@ interface RankOpts {
   confirmRealizations?: string;
   confirmNoMoonRealizations?: string;
   bound?: string;
+  detail?: string;
+  resume?: boolean;
+  detailForecastOnly?: boolean;
+  workers?: string;
 }
 
 function wholeNumber(option: string, text: string | undefined, min: number): number {
@@ -44,9 +51,13 @@ export function registerRank(program: Command, io: CliIo): void {
     .option('--confirm <n>', `Monte Carlo confirmation (budget's search) of the target moon's transits for the top N planets (default ${DEFAULT_CONFIRM}; 0 with --shard)`)
     .option('--confirm-realizations <n>', 'moon realizations per Monte Carlo evaluation of the confirmation', String(DEFAULT_CONFIRM_REALIZATIONS))
     .option('--confirm-no-moon-realizations <n>', 'no-moon realizations calibrating the confirmation\'s false-alarm thresholds (default: as budget, from detection.false_alarm)')
+    .option('--detail <n>', `run each of the top N planets' detail sweep (moon mass × separation, ${DETAIL_MASSES} × ${DETAIL_SEPARATIONS} cells × ${DETAIL_REALIZATIONS} realizations) into details/ and link it from the page (default ${DEFAULT_DETAIL}; 0 with --shard); every listed planet's detail scenario is written there`)
+    .option('--resume', `continue an interrupted run from the checkpoint in --out (${RANK_CHECKPOINT_FILE}, written every ${CHECKPOINT_EVERY} planets); finished planets are not recomputed`)
+    .option('--detail-forecast-only', 'fill the detail sweeps from the analytic forecast alone (seconds)')
+    .option('--workers <n>', 'worker threads of the detail sweeps (default as sweep)')
     .option('--top <n>', 'rows of the ranking printed on screen', '20')
     .option('--json', 'print rank.json instead of the table')
-    .action((scenarioPath: string, listPath: string, opts: RankOpts) => {
+    .action(async (scenarioPath: string, listPath: string, opts: RankOpts) => {
       const top = wholeNumber('--top', opts.top, 0);
       const confirmRealizations = wholeNumber('--confirm-realizations', opts.confirmRealizations, 2);
       const confirmNoMoonRealizations = opts.confirmNoMoonRealizations === undefined ? undefined : wholeNumber('--confirm-no-moon-realizations', opts.confirmNoMoonRealizations, 10);
@@ -55,12 +66,23 @@ export function registerRank(program: Command, io: CliIo): void {
       const shard = resolveShard(opts.shard, process.env);
       const bound = opts.bound === undefined ? (shard ? 0 : DEFAULT_BOUND) : wholeNumber('--bound', opts.bound, 0);
       const confirm = opts.confirm === undefined ? (shard ? 0 : DEFAULT_CONFIRM) : wholeNumber('--confirm', opts.confirm, 0);
+      const detail = opts.detail === undefined ? (shard ? 0 : DEFAULT_DETAIL) : wholeNumber('--detail', opts.detail, 0);
+      if (shard && detail > 0) throw new InputError([{ path: '--detail', value: detail, allowed: 'the detail sweeps are for the top of the whole list: run them without --shard (or --detail 0 with a shard)' }]);
       if (opts.out !== undefined) checkOutputDir('--out', opts.out);
       const started = performance.now();
       let forecastDone = 0;
-      const r = rankList(scenarioPath, listPath, {
+      const { doc, listText } = readRankInputs(scenarioPath, listPath);
+      const settings = { probability, calendar: opts.calendar !== false };
+      const out = opts.out ?? `${defaultOutDir(typeof doc.name === 'string' ? doc.name : 'scenario')}-rank`;
+      checkOutputDir('--out', out);
+      const checkpoint = openRankCheckpoint(out, rankIdentity({ doc, listText, settings, shard }), opts.resume === true);
+      if (checkpoint.done.size) io.err(`resuming: ${checkpoint.done.size} planets from ${join(out, RANK_CHECKPOINT_FILE)}\n`);
+      const r = rankListText(doc, listText, listPath, {
+        done: checkpoint.done,
+        onRanked: (p) => checkpoint.record(p),
+        onForecastDone: () => checkpoint.flush(),
         shard,
-        settings: { probability, calendar: opts.calendar !== false },
+        settings,
         confirm,
         bound,
         confirmRealizations,
@@ -70,10 +92,27 @@ export function registerRank(program: Command, io: CliIo): void {
           io.err(`Monte Carlo ${done}/${total}: ${name} in ${seconds.toFixed(1)} s\n`);
         },
       });
-      const out = opts.out ?? `${defaultOutDir(r.scenario)}-rank`;
-      checkOutputDir('--out', out);
-      writeRankOutputs(out, r);
       const ended = performance.now();
+      if (!shard) {
+        const controller = new AbortController();
+        const stop = () => controller.abort();
+        process.once('SIGINT', stop);
+        process.once('SIGTERM', stop);
+        try {
+          await writeRankDetails(out, r, doc, listText, listPath, {
+            detail,
+            workers: opts.workers,
+            forecastOnly: opts.detailForecastOnly === true,
+            signal: controller.signal,
+            onDetail: (name, seconds, done, total) => io.err(`detail sweep ${done}/${total}: ${name} in ${seconds.toFixed(1)} s\n`),
+          });
+        } finally {
+          process.off('SIGINT', stop);
+          process.off('SIGTERM', stop);
+        }
+      }
+      writeRankOutputs(out, r);
+      checkpoint.remove();
       const forecastS = ((forecastDone || ended) - started) / 1000;
       if (opts.json) io.out(JSON.stringify(r, null, 2) + '\n');
       else io.out(formatRank(r, top));
@@ -93,12 +132,14 @@ export function formatRank(r: RankJson, top: number): string {
   const lines: string[] = [];
   lines.push(`${r.scenario}: ${r.planets_ranked} of ${r.planets_in_list} planets ranked${r.shard ? ` (shard ${r.shard})` : ''}, ${r.skipped.length} rows skipped`);
   lines.push(`minimum moon mass (Mearth) whose forecast reaches pdet ${r.pdet_threshold}, at ${r.separations_hill.join(', ')} Hill radii; cost of the target moon at probability ${r.transits_probability}: transits (forecast; MC: Monte Carlo for the top ${r.mc_confirmed}), campaign whole transits, nights, hours`);
+  lines.push('rank interval: the ranks the Chen & Kipping (2017) radius scatter allows for planets whose mass comes from the radius (empty: no stated error)');
   lines.push('');
-  const head = ['rank', 'name'.padEnd(18), ...r.separations_hill.map((f) => `${f} RH`.padStart(8)), 'transits'.padStart(8), '  MC'.padStart(5), 'campaign'.padStart(8), 'nights'.padStart(6), 'hours'.padStart(7), ' HZ moon'];
+  const head = ['rank', 'interval', 'name'.padEnd(18), ...r.separations_hill.map((f) => `${f} RH`.padStart(8)), 'transits'.padStart(8), '  MC'.padStart(5), 'campaign'.padStart(8), 'nights'.padStart(6), 'hours'.padStart(7), ' HZ moon'];
   lines.push(head.join(' '));
   for (const p of r.planets.slice(0, top)) {
     lines.push([
       String(p.rank).padStart(4),
+      (p.rank_best === p.rank_worst ? '' : `${p.rank_best}–${p.rank_worst}`).padStart(8),
       p.name.slice(0, 18).padEnd(18),
       ...p.min_moon_mass_kg.map((m) => me(m).padStart(8)),
       (p.target_transits_needed !== null ? String(p.target_transits_needed) : p.target_placement && p.target_placement.join() !== 'stable' ? 'n/a' : '>max').padStart(8),

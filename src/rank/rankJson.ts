@@ -5,6 +5,7 @@
  * depends on the run (no times, no worker or shard count but the shard
  * itself), so a merge of shards equals the unsharded list byte for byte.
  */
+import { rankIntervals, type MassInterval } from './rankInterval.js';
 import { formatProblem, type FieldProblem } from '../scenario/errors.js';
 import { compareRanks, RANK_PDET, RANK_SEPARATIONS_HILL, type PlanetRank } from './rankPlanet.js';
 import type { Shard } from '../sweep/shard.js';
@@ -51,6 +52,19 @@ export interface RankedPlanetJson {
   mc_realizations: number | null;
   mc_nights: number | null;
   mc_on_sky_s: number | null;
+  /** mass_from_radius rows: planet mass at the radius ∓ 1 σ_R of Chen & Kipping (2017); null for other rows (see rankInterval.ts). */
+  planet_mass_low_kg: number | null;
+  planet_mass_high_kg: number | null;
+  /** The forecast's smallest moon over those planet masses (null high end: none found at one of them; null both: no interval). */
+  best_min_moon_mass_low_kg: number | null;
+  best_min_moon_mass_high_kg: number | null;
+  /** Rank interval those masses allow against the other planets' (1: first). */
+  rank_best: number;
+  rank_worst: number;
+  /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (a shard, or below the rows written). */
+  detail_scenario: string | null;
+  /** Its sweep report (`details/<folder>/report.html`); null when that sweep was not run (`--detail`). */
+  detail_report: string | null;
   notes: string[];
 }
 
@@ -86,13 +100,13 @@ export const RANK_ASSUMPTIONS: readonly string[] = [
   `minimum moon mass: the smallest moon whose analytic forecast (computeLimits' pdet_forecast_combined, as \`moonsieve limits\` gives it) reaches ${RANK_PDET} at each separation; a white-noise forecast of the timing channels (TTV, TDV), a lower estimate of what a full analysis (moon dip, template search) reaches; red noise, gaps and the photocentric TTV of large moons are left out (see \`moonsieve limits\` on one planet and \`moonsieve sweep\` for the Monte Carlo)`,
   'target moon cost: the fewest transits whose joint TTV+TDV forecast reaches the stated probability, as `moonsieve budget --forecast-only` finds it; nights and hours on sky from the campaign calendar of the scenario\'s site(s) and each row\'s coordinates, as `moonsieve budget` plans them; the Monte Carlo confirmation (mc_* keys, `budget`\'s search with its realizations) is run only for the top planets (`mc_confirmed`), and only its answer, not the forecast, includes the moon dip and the Monte Carlo\'s combined rule',
   'known-template bound (bound_min_moon_mass_kg, top planets only): the smallest moon a matched filter that knows the moon\'s template detects with the same probability (Kay 1998), the best any analysis of the same white-noise light curve can do; the forecast is a lower estimate of the sensitivity, the bound an upper one',
-  'the rank: smallest minimum moon mass over the separations first, then fewest transits for the target moon, then name; it carries the forecast\'s model error (no interval is given)',
+  'the rank: smallest minimum moon mass over the separations first, then fewest transits for the target moon, then name; it carries the forecast\'s model error, which is not quantified; rank_best–rank_worst give only the spread from the Chen & Kipping (2017) radius scatter of mass_from_radius rows (stated-mass rows have no interval)',
   'habitable moon in reach: the target moon is temperate by its energy budget (a flux budget is a first screen, not a climate model), stably placed, and needs no more transits than the campaign is expected to deliver whole (or than the scenario\'s transit count without a campaign)',
   'every row shares the scenario\'s other values: limb darkening, stellar age, albedos, tidal parameters, eccentricity, instrument and observation; a star whose limb darkening differs much from the scenario\'s gets a slightly wrong timing precision',
   'rows without a planet mass take it from the radius by inverting the mean Chen & Kipping (2017) relation (flag mass_from_radius): that relation has a wide scatter (about 15 % in radius for Neptunes), so such masses are rough',
 ];
 
-export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
+export function planetToJson(p: PlanetRank, rank: number, interval: MassInterval | null = null): RankedPlanetJson {
   return {
     rank,
     row: p.row,
@@ -131,6 +145,14 @@ export function planetToJson(p: PlanetRank, rank: number): RankedPlanetJson {
     mc_realizations: null,
     mc_nights: null,
     mc_on_sky_s: null,
+    planet_mass_low_kg: interval?.planet_mass_low_kg ?? null,
+    planet_mass_high_kg: interval?.planet_mass_high_kg ?? null,
+    best_min_moon_mass_low_kg: interval?.best_min_moon_mass_low_kg ?? null,
+    best_min_moon_mass_high_kg: interval?.best_min_moon_mass_high_kg ?? null,
+    rank_best: rank,
+    rank_worst: rank,
+    detail_scenario: null,
+    detail_report: null,
     notes: p.notes,
   };
 }
@@ -153,6 +175,10 @@ function compareJson(a: RankedPlanetJson, b: RankedPlanetJson): number {
 /** The document of ranked planets and skipped rows (ranks 1…n in order). */
 export function buildRankJson(scenario: string, shard: Shard | null, planetsInList: number, planets: readonly RankedPlanetJson[], skipped: readonly SkippedRowJson[], transitsProbability: number, notes: readonly string[] = []): RankJson {
   const sorted = [...planets].sort(compareJson).map((p, i) => ({ ...p, rank: i + 1 }));
+  rankIntervals(sorted).forEach(([best, worst], i) => {
+    sorted[i].rank_best = best;
+    sorted[i].rank_worst = worst;
+  });
   return {
     schema: RANK_SCHEMA,
     scenario,

@@ -145,7 +145,7 @@ describe('rank: shards', () => {
 });
 
 describe('rank: the command line', () => {
-  it('`rank --shard` twice and `merge` write the same three files as one `rank --confirm 0 --bound 0`', async () => {
+  it('`rank --shard` twice and `merge` write the same three files as one `rank --confirm 0 --bound 0 --detail 0`', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'ms-rank-'));
     const list = join(dir, 'list.csv');
     writeFileSync(list, demoPlanetCsv(5, 3));
@@ -154,7 +154,7 @@ describe('rank: the command line', () => {
       expect(res.code, res.err).toBe(0);
       return res;
     };
-    await ok(['rank', scenarioPath, list, '--out', join(dir, 'whole'), '--confirm', '0', '--bound', '0', '--no-calendar']);
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'whole'), '--confirm', '0', '--bound', '0', '--detail', '0', '--no-calendar']);
     await ok(['rank', scenarioPath, list, '--out', join(dir, 'a'), '--shard', '1/2', '--no-calendar']);
     await ok(['rank', scenarioPath, list, '--out', join(dir, 'b'), '--shard', '2/2', '--no-calendar']);
     const m = await ok(['merge', join(dir, 'b'), join(dir, 'a'), '--out', join(dir, 'merged')]);
