@@ -27,6 +27,7 @@ import { assertObservable, observationSizeProblems, windowHalfWidthS } from '../
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines, withLines, type SourcePosition } from '../scenario/loadScenario.js';
 import { cautionNotes, parseScenario } from '../scenario/parseScenario.js';
+import { withoutSkyBlocks } from '../scenario/readSky.js';
 import type { Scenario } from '../scenario/types.js';
 import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
 import type {
@@ -72,13 +73,6 @@ function withoutBlocks(doc: unknown): Record<string, unknown> {
   const out = structuredClone(doc) as Record<string, unknown>;
   delete out.sweep;
   delete out.budget;
-  return out;
-}
-
-/** The document without the blocks that place the observer on the sky (site, target, campaign, constraints). */
-function withoutSkyBlocks(doc: Record<string, unknown>): Record<string, unknown> {
-  const out = { ...doc };
-  for (const k of ['site', 'target', 'campaign', 'constraints']) delete out[k];
   return out;
 }
 

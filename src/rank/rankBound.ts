@@ -16,7 +16,7 @@
 import type { Scenario } from '../scenario/types.js';
 import { scenarioDocumentOf } from '../scenario/scenarioDocument.js';
 import { parseScenario } from '../scenario/parseScenario.js';
-import type { ScenarioDocument } from '../scenario/types.js';
+import { withoutSkyBlocks } from '../scenario/readSky.js';
 import { knownTemplateBound } from '../timing/knownTemplateBound.js';
 import { withoutMoon } from '../sweep/applyAxes.js';
 import { scenarioMoonDensity } from '../budget/targetMoon.js';
@@ -24,7 +24,7 @@ import { moonScenario, solveMinMass, RANK_SEPARATIONS_HILL } from './rankPlanet.
 
 /** Per separation of RANK_SEPARATIONS_HILL: the bound's smallest detectable moon (null where `allowed[k]` is false or none is detected below the planet mass). */
 export function boundMinMasses(s: Scenario, allowed: readonly boolean[], guessesKg: ReadonlyArray<number | null>): Array<number | null> {
-  const base = withoutSky(scenarioDocumentOf(s));
+  const base = withoutSkyBlocks(scenarioDocumentOf(s));
   const density = scenarioMoonDensity(s);
   // The planet-only model is the same for every moon: one basis for the whole search.
   const planetOnly = withoutMoon(parseScenario(base, s.name));
@@ -40,11 +40,4 @@ export function boundMinMasses(s: Scenario, allowed: readonly boolean[], guesses
     const guess = guessesKg[k] ?? s.planet.massKg / 10;
     return solveMinMass(prob, s.planet.massKg, guess / 2).massKg;
   });
-}
-
-/** The document without the blocks that place the observer (whole transits, as the forecast assumes). */
-function withoutSky(doc: ScenarioDocument): ScenarioDocument {
-  const out = { ...(doc as Record<string, unknown>) };
-  for (const k of ['site', 'target', 'campaign', 'constraints', 'visibility']) delete out[k];
-  return out as ScenarioDocument;
 }

@@ -38,6 +38,20 @@ class ListItemReader extends FieldReader {
  * The caution a scenario with a site carries until the simulation observes
  * only what the calendar says is observable (issue 18, items 4–6).
  */
+/** The top-level blocks that place the observer on the sky: where, what, when, and the limits of observing. */
+export const SKY_BLOCKS = ['site', 'target', 'campaign', 'constraints', 'visibility'] as const;
+
+/**
+ * A scenario document without its sky blocks: every transit seen whole, as the analytic forecast and
+ * the budget's search over the transit count assume (with a campaign the simulation would observe only
+ * the calendar's epochs instead: noise/observingPlan.ts).
+ */
+export function withoutSkyBlocks<T extends Record<string, unknown>>(doc: T): T {
+  const out: Record<string, unknown> = { ...doc };
+  for (const k of SKY_BLOCKS) delete out[k];
+  return out as T;
+}
+
 export const SITE_CALENDAR_ONLY = 'with target and campaign, sweep and simulate observe only what the calendar finds observable (the campaign\'s transits replace observation.transits; partial transits, each exposure\'s air mass, weather per night); limits and budget still assume every transit is observed whole, at the fixed air mass of the noise budget';
 
 /**
@@ -46,7 +60,7 @@ export const SITE_CALENDAR_ONLY = 'with target and campaign, sweep and simulate 
  * Returns undefined when none of the blocks nor errors were given.
  */
 export function readSky(top: FieldReader, periodErrorS: number, t0ErrorS: number): SkySpec | undefined {
-  const given = ['site', 'target', 'campaign', 'constraints', 'visibility'].some((k) => top.has(k)) || periodErrorS > 0 || t0ErrorS > 0;
+  const given = SKY_BLOCKS.some((k) => top.has(k)) || periodErrorS > 0 || t0ErrorS > 0;
   const sites = readSites(top);
   const target = readTarget(new FieldReader(top.raw('target'), 'target', top.problems), top.has('target'));
   const campaign = readCampaign(new FieldReader(top.raw('campaign'), 'campaign', top.problems), top.has('campaign'));

@@ -245,3 +245,16 @@ describe('budget with and without a site: screen, JSON and page', () => {
     expect(html).not.toContain('<table class="bookings">');
   });
 });
+
+describe('budget of a space instrument (visibility pattern)', () => {
+  it('takes the pattern\'s start from the campaign, as the calendar does: the search over whole transits drops every sky block at once', () => {
+    const space = parse(readFileSync(new URL('../../scenarios/demo-space.yaml', import.meta.url), 'utf8')) as Record<string, unknown>;
+    const { start: _start, ...visibility } = space.visibility as Record<string, unknown>;
+    const s = parseScenario({ ...space, visibility }, 'test');
+    expect(transitCalendar(s).transits.length).toBeGreaterThan(0);
+    // Before, the budget dropped site/target/campaign/constraints but kept `visibility`, which then lacked
+    // its start (the campaign's) and was refused as an input error.
+    const r = planBudget(s, { forecastOnly: true });
+    expect(r.observability.assumes_every_transit_whole).toBe(false);
+  });
+});

@@ -4,6 +4,7 @@
  * confirms, and shards merge into the unsharded output byte for byte.
  */
 import { parseScenario } from '../../src/scenario/parseScenario.js';
+import { withoutSkyBlocks } from '../../src/scenario/readSky.js';
 import { describe, it, expect } from 'vitest';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -192,7 +193,7 @@ describe('rank: the known-template bound', () => {
     for (const p of r.planets.slice(0, 2)) {
       const s = rows.find((x) => x.row === p.row)!.scenario!;
       // The bound sees whole transits, as the forecast it brackets does: the sky blocks are left out.
-      const { site: _s, target: _t, campaign: _c, constraints: _k, visibility: _v, ...base } = scenarioDocumentOf(s);
+      const base = withoutSkyBlocks(scenarioDocumentOf(s));
       const planetOnly = withoutMoon(parseScenario(base, s.name));
       p.bound_min_moon_mass_kg!.forEach((b, k) => {
         if (b === null) return;
