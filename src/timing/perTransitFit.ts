@@ -747,6 +747,10 @@ export function fitOneTransit(
     nPoints,
     status,
     reason,
+    // Present (undefined) so every TransitFit has one object shape: V8 then keeps fitTransits optimized
+    // instead of deoptimizing on a "wrong map" each time a skipped fit meets an ok one (measured with
+    // --trace-deopt; common practice, no source).
+    contacts: undefined,
   });
   if (nPoints === 0) return empty('skipped-no-data', 'no samples in the window');
   const pred = checkCoverage(timeS, order, i0, i1, tcPredS, T14, ingress, opts.cadenceS);
