@@ -12,7 +12,7 @@ describe('library API (DESIGN.md names)', () => {
   it('exports the typed JSON forms of the outputs and their schema ids (docs/vocabulary.md)', () => {
     for (const name of ['limitsToJson', 'vetToJson', 'budgetToJson']) expect(typeof (lib as Record<string, unknown>)[name], name).toBe('function');
     expect([lib.LIMITS_SCHEMA, lib.VET_SCHEMA, lib.BUDGET_SCHEMA, lib.CELLS_SCHEMA, lib.RUN_SCHEMA, lib.SUMMARY_SCHEMA]).toEqual([
-      'moonsieve/limits/1', 'moonsieve/vet/2', 'moonsieve/budget/1', 'moonsieve/cells/1', 'moonsieve/run/1', 'moonsieve/summary/2',
+      'moonsieve/limits/1', 'moonsieve/vet/2', 'moonsieve/budget/1', 'moonsieve/cells/2', 'moonsieve/run/1', 'moonsieve/summary/2',
     ]);
   });
 

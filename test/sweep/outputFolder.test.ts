@@ -241,8 +241,8 @@ describe('cells are checked in report and merge', () => {
     ['a missing cell', (t) => t.replace(/\n {4}\{"index":1,[^\n]*/, ''), /cells\.json: got "1 of 6 cells missing"; every cell must be present; missing cells 1/],
     ['a repeated cell', (t) => t.replace(/"index":1,"coords":\[[^\]]*\]/, (m) => m.replace('"index":1', '"index":0')), /coords: .*are not the axis values of cell 0/],
     ['a cell beyond the grid', (t) => t.replace(/"index":5,/, '"index":9,'), /index: got 9; expected a whole cell index from 0 to 5/],
-    ['another schema version', (t) => t.replace('"schema": "moonsieve/cells/1"', '"schema": "moonsieve/cells/0"'), /its schema is "moonsieve\/cells\/0", this moonsieve reads moonsieve\/cells\/1/],
-    ['no schema (an older moonsieve)', (t) => t.replace('"schema": "moonsieve/cells/1",\n', ''), /its schema is not stated \(an older moonsieve wrote it\)/],
+    ['another schema version', (t) => t.replace('"schema": "moonsieve/cells/2"', '"schema": "moonsieve/cells/1"'), /its schema is "moonsieve\/cells\/1", this moonsieve reads moonsieve\/cells\/2/],
+    ['no schema (an older moonsieve)', (t) => t.replace('"schema": "moonsieve/cells/2",\n', ''), /its schema is not stated \(an older moonsieve wrote it\)/],
   ];
   it('a repeated cell with its own coordinates is named as a repeat', async () => {
     const dir = join(tmp, 'rep-twice');

@@ -23,7 +23,7 @@ import type { Shard } from '../../sweep/shard.js';
 export type { SweepRunInfo };
 
 /** Schema ids of the JSON files of an output folder (schemas/*.schema.json; summary.json's is SUMMARY_SCHEMA). */
-export const CELLS_SCHEMA = 'moonsieve/cells/1';
+export const CELLS_SCHEMA = 'moonsieve/cells/2';
 export const RUN_SCHEMA = 'moonsieve/run/1';
 
 /** run.json text: the run info under its schema id. */
