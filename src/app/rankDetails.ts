@@ -9,7 +9,8 @@
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { stringify as stringifyYaml } from 'yaml';
-import { readPlanetTable, planetRows } from '../rank/planetTable.js';
+import { planetRows } from '../rank/planetTable.js';
+import { readPlanetList } from './rankList.js';
 import { detailDir, detailDocument } from '../rank/detailSweep.js';
 import type { RankJson } from '../rank/rankJson.js';
 import type { ScenarioDocument } from '../scenario/types.js';
@@ -41,7 +42,7 @@ export interface DetailOptions {
  */
 export async function writeRankDetails(outDir: string, r: RankJson, baseDoc: ScenarioDocument, listText: string, listSource: string, o: DetailOptions): Promise<void> {
   if (o.detail <= 0) return;
-  const rows = new Map(planetRows(baseDoc, readPlanetTable(listText, listSource)).map((x) => [x.row, x.scenario]));
+  const rows = new Map(planetRows(baseDoc, readPlanetList(listText, listSource)).map((x) => [x.row, x.scenario]));
   const shown = r.planets.slice(0, Math.max(RANK_PAGE_ROWS, o.detail));
   const toRun: Array<{ name: string; dir: string; path: string }> = [];
   for (const p of shown) {

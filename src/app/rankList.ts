@@ -9,11 +9,11 @@ import { join } from 'node:path';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines } from '../scenario/loadScenario.js';
 import type { ScenarioDocument } from '../scenario/types.js';
-import { readPlanetTable, planetRows } from '../rank/planetTable.js';
+import { readPlanetTable, planetRows, planetTableFromRows, type PlanetTableText } from '../rank/planetTable.js';
 import { DEFAULT_RANK_SETTINGS, rankPlanet, RANK_SEPARATIONS_HILL, type RankSettings } from '../rank/rankPlanet.js';
 import { buildRankJson, planetToJson, skippedToJson, RANK_SCHEMA, type RankJson, type RankedPlanetJson, type SkippedRowJson } from '../rank/rankJson.js';
 import { inShard, type Shard } from '../sweep/shard.js';
-import { toEcsv, type TableColumn } from '../io/ecsv.js';
+import { parseEcsv, toEcsv, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
 import { renderRankPage } from '../report/rankPage.js';
 import { planBudget } from './planBudget.js';
@@ -70,11 +70,23 @@ export function readScenarioDocument(path: string): ScenarioDocument {
   return value as ScenarioDocument;
 }
 
+/** Whether the list is ECSV: a `.ecsv` name, or a first line `# %ECSV` (which a CSV reading would skip as a comment and then misread a space-delimited table). */
+export function isEcsvList(text: string, source: string): boolean {
+  return source.toLowerCase().endsWith('.ecsv') || /^#\s*%ECSV/.test(text);
+}
+
+/** The planet list's table from its text: ECSV (parseEcsv, units checked against the column names) or CSV. */
+export function readPlanetList(text: string, source: string): PlanetTableText {
+  if (!isEcsvList(text, source)) return readPlanetTable(text, source);
+  const t = parseEcsv(text, source);
+  return planetTableFromRows(t.columns.map((c) => c.name), t.columns.map((c) => c.unit), t.rows, source);
+}
+
 /** Rank the list's text against the scenario document (pure but for the progress callback). */
 export function rankListText(doc: ScenarioDocument, listText: string, listSource: string, o: RankOptions = {}): RankJson {
   const settings = o.settings ?? DEFAULT_RANK_SETTINGS;
   const shard = o.shard ?? null;
-  const table = readPlanetTable(listText, listSource);
+  const table = readPlanetList(listText, listSource);
   const rows = planetRows(doc, table);
   const mine = rows.filter((_, i) => inShard(i, shard));
   const ranked: RankedPlanetJson[] = [];

@@ -40,9 +40,9 @@ function wholeNumber(option: string, text: string | undefined, min: number): num
 export function registerRank(program: Command, io: CliIo): void {
   program
     .command('rank')
-    .description('rank a list of planets (CSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json, rank.ecsv and rank.html')
+    .description('rank a list of planets (CSV or ECSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json, rank.ecsv and rank.html')
     .argument('<scenario>', 'scenario YAML: instrument, observation, detection, the target moon, and optionally site, campaign and constraints, shared by every planet')
-    .argument('<list>', 'planet list, CSV (docs/rank.md names the columns); `#` lines are comments')
+    .argument('<list>', 'planet list, CSV or ECSV (a .ecsv name or a "# %ECSV" first line; docs/rank.md names the columns); in CSV, `#` lines are comments')
     .option('--out <dir>', 'output folder (default reports/<scenario name>-rank/)')
     .option('--shard <K/N>', 'rank only the rows with index mod N = K−1 (default from SLURM_ARRAY_TASK_ID/COUNT); join with `moonsieve merge`')
     .option('--no-calendar', 'skip the campaign calendar and nights (faster; every transit assumed observed)')
