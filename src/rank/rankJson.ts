@@ -61,7 +61,7 @@ export interface RankedPlanetJson {
   /** Rank interval those masses allow against the other planets' (1: first). */
   rank_best: number;
   rank_worst: number;
-  /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (a shard, or below the rows written). */
+  /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (`--detail 0`, or below the rows written). */
   detail_scenario: string | null;
   /** Its sweep report (`details/<folder>/report.html`); null when that sweep was not run (`--detail`). */
   detail_report: string | null;
@@ -89,6 +89,8 @@ export interface RankJson {
   bound_computed: number;
   /** How many of the top planets the Monte Carlo confirmed (0: none). */
   mc_confirmed: number;
+  /** How many of the top planets were given a detail sweep (`--detail`; a shard: its own top; 0: none). */
+  detail_top: number;
   skipped: SkippedRowJson[];
   /** Things about the list the user should know (ignored columns). */
   notes: string[];
@@ -190,6 +192,7 @@ export function buildRankJson(scenario: string, shard: Shard | null, planetsInLi
     transits_probability: transitsProbability,
     bound_computed: 0,
     mc_confirmed: 0,
+    detail_top: 0,
     skipped: [...skipped].sort((a, b) => a.row - b.row),
     notes: [...notes],
     assumptions: [...RANK_ASSUMPTIONS],
