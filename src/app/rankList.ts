@@ -340,8 +340,9 @@ export function copyRankDetails(dirs: readonly string[], outDir: string, r: Rank
   for (const p of r.planets) {
     if (p.detail_scenario === null) continue;
     const rel = detailDir(p.row, p.name);
-    const from = join(dirOfRow.get(p.row) ?? '', ...rel.split('/'));
-    if (!existsSync(join(from, 'scenario.yaml'))) {
+    const shardDir = dirOfRow.get(p.row);
+    const from = shardDir === undefined ? null : join(shardDir, ...rel.split('/'));
+    if (from === null || !existsSync(join(from, 'scenario.yaml'))) {
       missing.push(`${p.name}: no ${rel}/scenario.yaml in its shard folder`);
       p.detail_scenario = null;
       p.detail_report = null;
