@@ -77,7 +77,9 @@ export function isEcsvList(text: string, source: string): boolean {
 }
 
 /** The planet list's table from its text: ECSV (parseEcsv, units checked against the column names) or CSV. */
-export function readPlanetList(text: string, source: string): PlanetTableText {
+export function readPlanetList(raw: string, source: string): PlanetTableText {
+  // A byte-order mark (spreadsheets write one) is not part of the first column's name nor of the %ECSV line.
+  const text = raw.replace(/^\uFEFF/, '');
   if (!isEcsvList(text, source)) return readPlanetTable(text, source);
   const t = parseEcsv(text, source);
   return planetTableFromRows(t.columns.map((c) => c.name), t.columns.map((c) => c.unit), t.rows, source);

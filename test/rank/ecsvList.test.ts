@@ -42,6 +42,14 @@ describe('rank: ECSV planet lists', () => {
     }
   }, 60_000);
 
+  it('a byte-order mark before the header (as spreadsheets write) is not part of the first column\'s name', () => {
+    for (const f of ['planetList.csv', 'planetList_space.ecsv']) {
+      const t = readPlanetList('\uFEFF' + readFileSync(fixture(f), 'utf8'), f);
+      expect(t.header[0], f).toBe('name');
+      expect(t.rows).toHaveLength(5);
+    }
+  });
+
   it('a column whose ECSV unit is not the one its name states is refused: exit 2, one line per column, nothing written', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'ms-rank-ecsv-'));
     const list = join(dir, 'list.ecsv');
