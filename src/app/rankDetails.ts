@@ -5,11 +5,15 @@
  * top `detail` planets that sweep is run (`runSweep`, the same machinery and
  * seeding as `moonsieve sweep` on that file) and its report.html linked from
  * rank.json and rank.html. The others' rows show the command that makes it.
+ * In a shard the same is done for the shard's own planets; `moonsieve merge`
+ * then copies the folders the whole list's page needs (`copyRankDetails`,
+ * rankList.ts): the whole list's top N are among the shards' top N.
  */
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { stringify as stringifyYaml } from 'yaml';
-import { readPlanetTable, planetRows } from '../rank/planetTable.js';
+import { planetRows } from '../rank/planetTable.js';
+import { readPlanetList } from './rankList.js';
 import { detailDir, detailDocument } from '../rank/detailSweep.js';
 import type { RankJson } from '../rank/rankJson.js';
 import type { ScenarioDocument } from '../scenario/types.js';
@@ -41,7 +45,8 @@ export interface DetailOptions {
  */
 export async function writeRankDetails(outDir: string, r: RankJson, baseDoc: ScenarioDocument, listText: string, listSource: string, o: DetailOptions): Promise<void> {
   if (o.detail <= 0) return;
-  const rows = new Map(planetRows(baseDoc, readPlanetTable(listText, listSource)).map((x) => [x.row, x.scenario]));
+  r.detail_top = o.detail;
+  const rows = new Map(planetRows(baseDoc, readPlanetList(listText, listSource)).map((x) => [x.row, x.scenario]));
   const shown = r.planets.slice(0, Math.max(RANK_PAGE_ROWS, o.detail));
   const toRun: Array<{ name: string; dir: string; path: string }> = [];
   for (const p of shown) {

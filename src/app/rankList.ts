@@ -4,18 +4,19 @@
  * which joins the shards' outputs into the same files an unsharded run writes.
  * The per-planet work is pure (src/rank/); this file only reads and writes.
  */
-import { readFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../scenario/errors.js';
 import { parseYamlWithLines } from '../scenario/loadScenario.js';
 import type { ScenarioDocument } from '../scenario/types.js';
-import { readPlanetTable, planetRows } from '../rank/planetTable.js';
+import { readPlanetTable, planetRows, planetTableFromRows, type PlanetTableText } from '../rank/planetTable.js';
 import { DEFAULT_RANK_SETTINGS, rankPlanet, RANK_SEPARATIONS_HILL, type RankSettings } from '../rank/rankPlanet.js';
 import { buildRankJson, planetToJson, skippedToJson, RANK_SCHEMA, type RankJson, type RankedPlanetJson, type SkippedRowJson } from '../rank/rankJson.js';
 import { inShard, type Shard } from '../sweep/shard.js';
-import { toEcsv, type TableColumn } from '../io/ecsv.js';
+import { parseEcsv, toEcsv, type TableColumn } from '../io/ecsv.js';
 import { writeFileAtomic } from '../io/atomicWrite.js';
-import { renderRankPage } from '../report/rankPage.js';
+import { renderRankPage, RANK_PAGE_ROWS } from '../report/rankPage.js';
+import { detailDir } from '../rank/detailSweep.js';
 import { planBudget } from './planBudget.js';
 import { boundMinMasses } from '../rank/rankBound.js';
 import { massInterval } from '../rank/rankInterval.js';
@@ -70,11 +71,25 @@ export function readScenarioDocument(path: string): ScenarioDocument {
   return value as ScenarioDocument;
 }
 
+/** Whether the list is ECSV: a `.ecsv` name, or a first line `# %ECSV` (which a CSV reading would skip as a comment and then misread a space-delimited table). */
+export function isEcsvList(text: string, source: string): boolean {
+  return source.toLowerCase().endsWith('.ecsv') || /^#\s*%ECSV/.test(text);
+}
+
+/** The planet list's table from its text: ECSV (parseEcsv, units checked against the column names) or CSV. */
+export function readPlanetList(raw: string, source: string): PlanetTableText {
+  // A byte-order mark (spreadsheets write one) is not part of the first column's name nor of the %ECSV line.
+  const text = raw.replace(/^\uFEFF/, '');
+  if (!isEcsvList(text, source)) return readPlanetTable(text, source);
+  const t = parseEcsv(text, source);
+  return planetTableFromRows(t.columns.map((c) => c.name), t.columns.map((c) => c.unit), t.rows, source);
+}
+
 /** Rank the list's text against the scenario document (pure but for the progress callback). */
 export function rankListText(doc: ScenarioDocument, listText: string, listSource: string, o: RankOptions = {}): RankJson {
   const settings = o.settings ?? DEFAULT_RANK_SETTINGS;
   const shard = o.shard ?? null;
-  const table = readPlanetTable(listText, listSource);
+  const table = readPlanetList(listText, listSource);
   const rows = planetRows(doc, table);
   const mine = rows.filter((_, i) => inShard(i, shard));
   const ranked: RankedPlanetJson[] = [];
@@ -245,9 +260,9 @@ export function writeRankOutputs(dir: string, r: RankJson): void {
   writeFileAtomic(join(dir, 'rank.html'), renderRankPage(r));
 }
 
-/** Join shard outputs (folders holding rank.json) into the whole list's result. */
-export function mergeRankOutputs(dirs: readonly string[]): RankJson {
-  const docs = dirs.map((d) => {
+/** Each shard folder's rank.json, checked to be one (InputError otherwise). */
+function readRankShards(dirs: readonly string[]): RankJson[] {
+  return dirs.map((d) => {
     let doc: RankJson;
     try {
       doc = JSON.parse(readText(join(d, 'rank.json'), 'DIR')) as RankJson;
@@ -258,6 +273,18 @@ export function mergeRankOutputs(dirs: readonly string[]): RankJson {
     if (doc.schema !== RANK_SCHEMA) throw new InputError([{ path: 'DIR', value: join(d, 'rank.json'), allowed: `a ${RANK_SCHEMA} document` }]);
     return doc;
   });
+}
+
+/**
+ * Join shard outputs (folders holding rank.json) into the whole list's result.
+ * Shards run with `--detail N` (each the same N) ran their own top N detail
+ * sweeps; the whole list keeps the detail keys an unsharded `--detail N` run
+ * writes: a scenario for the first max(RANK_PAGE_ROWS, N) planets, a report
+ * for the top N (each of those is in its own shard's top N, so its shard ran
+ * it). `copyRankDetails` then copies those folders.
+ */
+export function mergeRankOutputs(dirs: readonly string[]): RankJson {
+  const docs = readRankShards(dirs);
   const first = docs[0];
   const shards = docs.map((d) => d.shard ?? '1/1');
   const n = Number(shards[0].split('/')[1]);
@@ -269,8 +296,70 @@ export function mergeRankOutputs(dirs: readonly string[]): RankJson {
       problems.push({ path: 'DIR', value: `${d.scenario} (${d.planets_in_list} planets)`, allowed: `shards of one list and scenario: ${first.scenario} (${first.planets_in_list} planets)` });
     }
   }
+  const details = docs.map((d) => d.detail_top ?? 0);
+  if (details.some((x) => x !== details[0])) {
+    problems.push({ path: 'DIR', value: `--detail ${details.join(', ')} (shards ${shards.join(', ')})`, allowed: 'shards run with the same --detail N: the whole list\'s top N detail sweeps are among every shard\'s own top N only then' });
+  }
   if (problems.length) throw new InputError(problems);
-  return buildRankJson(first.scenario, null, first.planets_in_list, docs.flatMap((d) => d.planets), docs.flatMap((d) => d.skipped), first.transits_probability, first.notes);
+  const r = buildRankJson(first.scenario, null, first.planets_in_list, docs.flatMap((d) => d.planets), docs.flatMap((d) => d.skipped), first.transits_probability, first.notes);
+  const top = details[0];
+  r.detail_top = top;
+  const written = top > 0 ? Math.max(RANK_PAGE_ROWS, top) : 0;
+  r.planets.forEach((p, i) => {
+    if (i >= written) p.detail_scenario = null;
+    if (i >= top) p.detail_report = null;
+  });
+  return r;
+}
+
+/** What `copyRankDetails` did: the detail folders copied, and the planets whose detail the shards did not hold. */
+export interface RankDetailCopy {
+  copied: string[];
+  missing: string[];
+}
+
+/** Regular files of a folder (a sweep's outputs are flat files). */
+function filesOf(dir: string): string[] {
+  return readdirSync(dir).filter((f) => statSync(join(dir, f)).isFile()).sort();
+}
+
+/**
+ * Copy the detail folders the merged list `r` names (from mergeRankOutputs) from
+ * the shard folders into `outDir/details/`: the whole sweep folder for a planet
+ * with a report, its scenario.yaml alone for the others, each file written
+ * atomically. A folder is looked up under the planet's own name
+ * (`detailDir(row, name)`), never under a path read from a file. A planet
+ * whose shard lacks the scenario or the report loses that key in `r` (the
+ * page then shows the command that makes it) and is named in `missing`.
+ * Write rank.json after this.
+ */
+export function copyRankDetails(dirs: readonly string[], outDir: string, r: RankJson): RankDetailCopy {
+  const docs = readRankShards(dirs);
+  const dirOfRow = new Map<number, string>();
+  docs.forEach((d, k) => { for (const p of d.planets) dirOfRow.set(p.row, dirs[k]); });
+  const copied: string[] = [];
+  const missing: string[] = [];
+  for (const p of r.planets) {
+    if (p.detail_scenario === null) continue;
+    const rel = detailDir(p.row, p.name);
+    const shardDir = dirOfRow.get(p.row);
+    const from = shardDir === undefined ? null : join(shardDir, ...rel.split('/'));
+    if (from === null || !existsSync(join(from, 'scenario.yaml'))) {
+      missing.push(`${p.name}: no ${rel}/scenario.yaml in its shard folder`);
+      p.detail_scenario = null;
+      p.detail_report = null;
+      continue;
+    }
+    p.detail_scenario = `${rel}/scenario.yaml`;
+    const withReport = p.detail_report !== null && existsSync(join(from, 'report.html'));
+    if (p.detail_report !== null && !withReport) missing.push(`${p.name}: its shard's detail sweep did not finish (no ${rel}/report.html); run \`moonsieve sweep ${rel}/scenario.yaml --out ${rel}\` in the merged folder`);
+    p.detail_report = withReport ? `${rel}/report.html` : null;
+    const to = join(outDir, ...rel.split('/'));
+    mkdirSync(to, { recursive: true });
+    for (const f of withReport ? filesOf(from) : ['scenario.yaml']) writeFileAtomic(join(to, f), readFileSync(join(from, f)));
+    copied.push(rel);
+  }
+  return { copied, missing };
 }
 
 export { RANK_SEPARATIONS_HILL };

@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { mergeShards } from '../app/sweep/merge.js';
-import { mergeRankOutputs, writeRankOutputs } from '../app/rankList.js';
+import { copyRankDetails, mergeRankOutputs, writeRankOutputs } from '../app/rankList.js';
 import { defaultOutDir } from '../app/defaultOutDir.js';
 import { checkOutputDir } from '../io/outputPaths.js';
 import type { CliIo } from './cliIo.js';
@@ -21,8 +21,14 @@ export function registerMerge(program: Command, io: CliIo): void {
         const r = mergeRankOutputs(dirs);
         const out = opts.out ?? `${defaultOutDir(r.scenario)}-rank`;
         checkOutputDir('--out', out);
+        // Shards run with --detail N hold their own top N detail sweeps: the whole list's top N are copied and linked.
+        const details = copyRankDetails(dirs, out, r);
         writeRankOutputs(out, r);
         io.out(`${r.scenario}: merged ${dirs.length} rank folders, ${r.planets_ranked} of ${r.planets_in_list} planets ranked\nwrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\nwrote ${join(out, 'rank.html')}\n`);
+        const reports = r.planets.filter((p) => p.detail_report !== null).length;
+        if (details.copied.length) io.out(`copied ${details.copied.length} detail folders into ${join(out, 'details')} (${reports} with a sweep report, linked from rank.html)\n`);
+        else io.out('no detail sweeps: the shards were run with --detail 0 (rank --shard K/N --detail N runs each shard\'s own top N, which merge copies)\n');
+        for (const m of details.missing) io.err(`detail not copied: ${m}\n`);
         return;
       }
       const res = mergeShards(dirs, opts.out, { force: opts.force === true });

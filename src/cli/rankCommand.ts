@@ -40,9 +40,9 @@ function wholeNumber(option: string, text: string | undefined, min: number): num
 export function registerRank(program: Command, io: CliIo): void {
   program
     .command('rank')
-    .description('rank a list of planets (CSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json, rank.ecsv and rank.html')
+    .description('rank a list of planets (CSV or ECSV) by the smallest moon each could reveal (analytic forecast), with the cost of the scenario\'s target moon; writes rank.json, rank.ecsv and rank.html')
     .argument('<scenario>', 'scenario YAML: instrument, observation, detection, the target moon, and optionally site, campaign and constraints, shared by every planet')
-    .argument('<list>', 'planet list, CSV (docs/rank.md names the columns); `#` lines are comments')
+    .argument('<list>', 'planet list, CSV or ECSV (a .ecsv name or a "# %ECSV" first line; docs/rank.md names the columns); in CSV, `#` lines are comments')
     .option('--out <dir>', 'output folder (default reports/<scenario name>-rank/)')
     .option('--shard <K/N>', 'rank only the rows with index mod N = K−1 (default from SLURM_ARRAY_TASK_ID/COUNT); join with `moonsieve merge`')
     .option('--no-calendar', 'skip the campaign calendar and nights (faster; every transit assumed observed)')
@@ -51,7 +51,7 @@ export function registerRank(program: Command, io: CliIo): void {
     .option('--confirm <n>', `Monte Carlo confirmation (budget's search) of the target moon's transits for the top N planets (default ${DEFAULT_CONFIRM}; 0 with --shard)`)
     .option('--confirm-realizations <n>', 'moon realizations per Monte Carlo evaluation of the confirmation', String(DEFAULT_CONFIRM_REALIZATIONS))
     .option('--confirm-no-moon-realizations <n>', 'no-moon realizations calibrating the confirmation\'s false-alarm thresholds (default: as budget, from detection.false_alarm)')
-    .option('--detail <n>', `run each of the top N planets' detail sweep (moon mass × separation, ${DETAIL_MASSES} × ${DETAIL_SEPARATIONS} cells × ${DETAIL_REALIZATIONS} realizations) into details/ and link it from the page (default ${DEFAULT_DETAIL}; 0 with --shard); every listed planet's detail scenario is written there`)
+    .option('--detail <n>', `run each of the top N planets' detail sweep (moon mass × separation, ${DETAIL_MASSES} × ${DETAIL_SEPARATIONS} cells × ${DETAIL_REALIZATIONS} realizations) into details/ and link it from the page (default ${DEFAULT_DETAIL}; 0 with --shard, where N runs the shard's own top N and merge copies the whole list's top N); every listed planet's detail scenario is written there`)
     .option('--resume', `continue an interrupted run from the checkpoint in --out (${RANK_CHECKPOINT_FILE}, written every ${CHECKPOINT_EVERY} planets); finished planets are not recomputed`)
     .option('--detail-forecast-only', 'fill the detail sweeps from the analytic forecast alone (seconds)')
     .option('--workers <n>', 'worker threads of the detail sweeps (default as sweep)')
@@ -67,7 +67,6 @@ export function registerRank(program: Command, io: CliIo): void {
       const bound = opts.bound === undefined ? (shard ? 0 : DEFAULT_BOUND) : wholeNumber('--bound', opts.bound, 0);
       const confirm = opts.confirm === undefined ? (shard ? 0 : DEFAULT_CONFIRM) : wholeNumber('--confirm', opts.confirm, 0);
       const detail = opts.detail === undefined ? (shard ? 0 : DEFAULT_DETAIL) : wholeNumber('--detail', opts.detail, 0);
-      if (shard && detail > 0) throw new InputError([{ path: '--detail', value: detail, allowed: 'the detail sweeps are for the top of the whole list: run them without --shard (or --detail 0 with a shard)' }]);
       if (opts.out !== undefined) checkOutputDir('--out', opts.out);
       const started = performance.now();
       let forecastDone = 0;
@@ -93,23 +92,22 @@ export function registerRank(program: Command, io: CliIo): void {
         },
       });
       const ended = performance.now();
-      if (!shard) {
-        const controller = new AbortController();
-        const stop = () => controller.abort();
-        process.once('SIGINT', stop);
-        process.once('SIGTERM', stop);
-        try {
-          await writeRankDetails(out, r, doc, listText, listPath, {
-            detail,
-            workers: opts.workers,
-            forecastOnly: opts.detailForecastOnly === true,
-            signal: controller.signal,
-            onDetail: (name, seconds, done, total) => io.err(`detail sweep ${done}/${total}: ${name} in ${seconds.toFixed(1)} s\n`),
-          });
-        } finally {
-          process.off('SIGINT', stop);
-          process.off('SIGTERM', stop);
-        }
+      // A shard runs its own top `detail` sweeps: the whole list's top N are among the shards' top N, and merge copies them.
+      const controller = new AbortController();
+      const stop = () => controller.abort();
+      process.once('SIGINT', stop);
+      process.once('SIGTERM', stop);
+      try {
+        await writeRankDetails(out, r, doc, listText, listPath, {
+          detail,
+          workers: opts.workers,
+          forecastOnly: opts.detailForecastOnly === true,
+          signal: controller.signal,
+          onDetail: (name, seconds, done, total) => io.err(`detail sweep ${done}/${total}: ${name} in ${seconds.toFixed(1)} s\n`),
+        });
+      } finally {
+        process.off('SIGINT', stop);
+        process.off('SIGTERM', stop);
       }
       writeRankOutputs(out, r);
       checkpoint.remove();
@@ -121,7 +119,7 @@ export function registerRank(program: Command, io: CliIo): void {
       io.err(`forecast tier${r.bound_computed ? ` (and the bound for the top ${r.bound_computed})` : ''}: ${r.planets_ranked} planets in ${forecastS.toFixed(1)} s (${((1000 * forecastS) / Math.max(1, r.planets_ranked)).toFixed(1)} ms per planet)\n`);
       if (r.mc_confirmed > 0) io.err(`Monte Carlo tier: ${r.mc_confirmed} planets in ${((ended - forecastDone) / 1000).toFixed(1)} s (${((ended - forecastDone) / 1000 / r.mc_confirmed).toFixed(1)} s per planet at ${confirmRealizations} realizations per evaluation)\n`);
       io.err(`wrote ${join(out, 'rank.json')}\nwrote ${join(out, 'rank.ecsv')}\nwrote ${join(out, 'rank.html')}\n`);
-      if (shard) io.err(`when every shard is done: moonsieve merge <the ${shard.n} shard folders> --out <dir>\n`);
+      if (shard) io.err(`when every shard is done: moonsieve merge <the ${shard.n} shard folders> --out <dir>${detail > 0 ? ` (give every shard the same --detail ${detail}: merge copies the whole list's top ${detail} detail sweeps from them)` : ''}\n`);
     });
 }
 

@@ -1,6 +1,7 @@
 /**
- * The planet list of `moonsieve rank`: a CSV table (one header row, one row
- * per planet) whose columns are named here, with the unit in each name. Each
+ * The planet list of `moonsieve rank`: a CSV or ECSV table (one header row,
+ * one row per planet) whose columns are named here, with the unit in each
+ * name (an ECSV column may also carry that unit in its header). Each
  * row's values are written into the shared scenario's document (as
  * "<value> <unit>" text) and the document validated with `parseScenario`, so a
  * row becomes a typed `Scenario` with every derived quantity consistent (the
@@ -24,31 +25,38 @@ import type { Scenario, ScenarioDocument } from '../scenario/types.js';
 import { CHEN_KIPPING_SLOPES, CHEN_KIPPING_TRANSITIONS_KG, chenKippingIntercepts } from '../physics/massRadius.js';
 import { M_EARTH_KG, M_JUP_KG, R_EARTH_M, R_JUP_M } from '../physics/constants.js';
 
-/** One column of the planet list: its name, whether the header must have it, and what it holds. */
+/** One column of the planet list: its name, whether the header must have it, what it holds, and the units an ECSV header may give it. */
 export interface PlanetColumn {
   name: string;
   required: boolean;
   meaning: string;
+  /**
+   * Unit spellings an ECSV column may carry: the unit its name states, as
+   * astropy writes it first (`Unit.to_string()`) and then other spellings
+   * astropy reads as the same unit. No unit (or an empty one) is always
+   * accepted; the list never converts units.
+   */
+  units: readonly string[];
 }
 
 /** The columns, in the order the docs list them. Any other column is ignored (and named in the output's notes). */
 export const PLANET_COLUMNS: readonly PlanetColumn[] = [
-  { name: 'name', required: true, meaning: 'planet name, unique in the list' },
-  { name: 'star_mass_msun', required: true, meaning: 'stellar mass, solar masses' },
-  { name: 'star_radius_rsun', required: true, meaning: 'stellar radius, solar radii' },
-  { name: 'star_teff_k', required: true, meaning: 'stellar effective temperature, K' },
-  { name: 'magnitude', required: false, meaning: "the star's magnitude in `band` (a ground instrument's noise budget; empty: the scenario's)" },
-  { name: 'band', required: false, meaning: 'photometric band of `magnitude` (U, B, V, R, I; empty: the scenario\'s)' },
-  { name: 'noise_ppm_per_hour', required: false, meaning: 'white noise stated directly, ppm over one hour (replaces the scenario\'s noise or ground budget for that row)' },
-  { name: 'planet_mass_mjup', required: false, meaning: 'planet mass, Jupiter masses (empty: from the radius, Chen & Kipping 2017, flagged)' },
-  { name: 'planet_radius_rjup', required: false, meaning: 'planet radius, Jupiter radii (empty: from the mass, Chen & Kipping 2017, flagged)' },
-  { name: 'period_d', required: true, meaning: 'orbital period, days' },
-  { name: 'impact_parameter', required: true, meaning: 'transit impact parameter, stellar radii' },
-  { name: 't0_bjd_tdb', required: false, meaning: 'mid-transit time of epoch 0, BJD_TDB days' },
-  { name: 't0_error_min', required: false, meaning: 'error of t0, minutes' },
-  { name: 'period_error_d', required: false, meaning: 'error of the period, days' },
-  { name: 'ra_deg', required: false, meaning: 'right ascension (ICRS), degrees (with dec_deg: the row is the campaign target)' },
-  { name: 'dec_deg', required: false, meaning: 'declination (ICRS), degrees' },
+  { name: 'name', required: true, meaning: 'planet name, unique in the list', units: [] },
+  { name: 'star_mass_msun', required: true, meaning: 'stellar mass, solar masses', units: ['solMass', 'Msun', 'M_sun'] },
+  { name: 'star_radius_rsun', required: true, meaning: 'stellar radius, solar radii', units: ['solRad', 'Rsun', 'R_sun'] },
+  { name: 'star_teff_k', required: true, meaning: 'stellar effective temperature, K', units: ['K'] },
+  { name: 'magnitude', required: false, meaning: "the star's magnitude in `band` (a ground instrument's noise budget; empty: the scenario's)", units: ['mag'] },
+  { name: 'band', required: false, meaning: 'photometric band of `magnitude` (U, B, V, R, I; empty: the scenario\'s)', units: [] },
+  { name: 'noise_ppm_per_hour', required: false, meaning: 'white noise stated directly, ppm over one hour (replaces the scenario\'s noise or ground budget for that row)', units: ['ppm', '1e-06'] },
+  { name: 'planet_mass_mjup', required: false, meaning: 'planet mass, Jupiter masses (empty: from the radius, Chen & Kipping 2017, flagged)', units: ['jupiterMass', 'Mjup', 'M_jup', 'M_jupiter'] },
+  { name: 'planet_radius_rjup', required: false, meaning: 'planet radius, Jupiter radii (empty: from the mass, Chen & Kipping 2017, flagged)', units: ['jupiterRad', 'Rjup', 'R_jup', 'R_jupiter'] },
+  { name: 'period_d', required: true, meaning: 'orbital period, days', units: ['d', 'day'] },
+  { name: 'impact_parameter', required: true, meaning: 'transit impact parameter, stellar radii', units: [] },
+  { name: 't0_bjd_tdb', required: false, meaning: 'mid-transit time of epoch 0, BJD_TDB days', units: ['d', 'day'] },
+  { name: 't0_error_min', required: false, meaning: 'error of t0, minutes', units: ['min'] },
+  { name: 'period_error_d', required: false, meaning: 'error of the period, days', units: ['d', 'day'] },
+  { name: 'ra_deg', required: false, meaning: 'right ascension (ICRS), degrees (with dec_deg: the row is the campaign target)', units: ['deg'] },
+  { name: 'dec_deg', required: false, meaning: 'declination (ICRS), degrees', units: ['deg'] },
 ];
 
 /** Planet mass or radius: the header must hold at least one of the two. */
@@ -83,33 +91,49 @@ export function splitCsvLine(line: string): string[] {
   return out;
 }
 
+/** One data row as read from a file: its 1-based line, its cells (null: missing) and a syntax problem, if any. */
+export interface PlanetTableRowText {
+  line: number;
+  cells: ReadonlyArray<string | null>;
+  problem: string | null;
+}
+
 /**
- * Parse the planet list's text: lines starting with `#` and blank lines are
- * skipped (so an ECSV file's header block is read as comments and its column
- * row as the header). Throws InputError for a missing required column.
+ * Parse the planet list's text as CSV: lines starting with `#` and blank
+ * lines are skipped. Throws InputError for a missing required column. (An
+ * ECSV list is read by src/io/ecsv.ts, `parseEcsv`, and handed to
+ * `planetTableFromRows` with its units; src/app/rankList.ts chooses.)
  */
 export function readPlanetTable(text: string, source = 'planet list'): PlanetTableText {
   const all = text.split(/\r?\n/);
   let header: string[] | null = null;
-  const rows: Array<Record<string, string>> = [];
-  const lines: number[] = [];
+  const rows: PlanetTableRowText[] = [];
   for (let i = 0; i < all.length; i++) {
     const line = all[i];
     if (line.trim() === '' || line.trimStart().startsWith('#')) continue;
     const cells = splitCsvLine(line);
     if (header === null) { header = cells; continue; }
-    const row: Record<string, string> = {};
-    for (let j = 0; j < header.length; j++) row[header[j]] = cells[j] ?? '';
-    if (cells.length !== header.length) row['#cells'] = String(cells.length);
-    rows.push(row);
-    lines.push(i + 1);
+    rows.push({ line: i + 1, cells, problem: null });
   }
   if (header === null) throw new InputError([{ path: source, value: '(no header row)', allowed: `a CSV table whose first row names the columns: ${PLANET_COLUMNS.filter((c) => c.required).map((c) => c.name).join(', ')} and ${PLANET_SIZE_COLUMNS.join(' or ')}` }]);
+  return planetTableFromRows(header, null, rows, source);
+}
+
+const unitText = (u: string | null | undefined): string => (u ?? '').trim();
+
+/**
+ * The planet table from a header, the columns' units (an ECSV header's; null
+ * for CSV, which states units only in the column names) and the data rows.
+ * Throws InputError, one problem per column, for a missing required column, a
+ * column named twice, or a unit other than the one the column's name states
+ * (the list does not convert units: `period_d` in hours would be read as days).
+ */
+export function planetTableFromRows(header: readonly string[], units: ReadonlyArray<string | null> | null, dataRows: readonly PlanetTableRowText[], source = 'planet list'): PlanetTableText {
   const problems: FieldProblem[] = [];
   for (const c of PLANET_COLUMNS) {
     if (c.required && !header.includes(c.name)) problems.push({ path: `${source}: column ${c.name}`, value: undefined, allowed: `required column (${c.meaning})` });
   }
-  if (!PLANET_SIZE_COLUMNS.some((c) => header!.includes(c))) {
+  if (!PLANET_SIZE_COLUMNS.some((c) => header.includes(c))) {
     problems.push({ path: `${source}: column ${PLANET_SIZE_COLUMNS.join(' or ')}`, value: undefined, allowed: 'the list needs the planet mass or radius (or both) in a column' });
   }
   const seen = new Set<string>();
@@ -117,9 +141,33 @@ export function readPlanetTable(text: string, source = 'planet list'): PlanetTab
     if (seen.has(h)) problems.push({ path: `${source}: column ${h}`, value: h, allowed: 'each column name once' });
     seen.add(h);
   }
+  if (units) {
+    header.forEach((h, k) => {
+      const col = PLANET_COLUMNS.find((c) => c.name === h);
+      const u = unitText(units[k]);
+      if (!col || u === '' || col.units.includes(u)) return;
+      problems.push({
+        path: `${source}: column ${h} unit`,
+        value: u,
+        allowed: col.units.length
+          ? `the unit its name states, ${col.units[0]}${col.units.length > 1 ? ` (also written ${col.units.slice(1).join(', ')})` : ''}, or no unit; the list does not convert units`
+          : 'no unit (the column is a plain number or text)',
+      });
+    });
+  }
   if (problems.length) throw new InputError(problems);
+  const rows: Array<Record<string, string>> = [];
+  const lines: number[] = [];
+  for (const r of dataRows) {
+    const row: Record<string, string> = {};
+    for (let j = 0; j < header.length; j++) row[header[j]] = r.cells[j] ?? '';
+    if (r.problem !== null) row['#syntax'] = r.problem;
+    else if (r.cells.length !== header.length) row['#cells'] = String(r.cells.length);
+    rows.push(row);
+    lines.push(r.line);
+  }
   const known = new Set(PLANET_COLUMNS.map((c) => c.name));
-  return { header, rows, lines, unknown: header.filter((h) => !known.has(h)) };
+  return { header: [...header], rows, lines, unknown: header.filter((h) => !known.has(h)) };
 }
 
 /**
@@ -190,6 +238,7 @@ export function rowDocument(baseDoc: ScenarioDocument, row: Record<string, strin
   const problems: FieldProblem[] = [];
   const flags: string[] = [];
   if (row['#cells'] !== undefined) problems.push({ path: `${where}`, value: `${row['#cells']} cells`, allowed: 'one cell per header column' });
+  if (row['#syntax'] !== undefined) problems.push({ path: `${where}`, value: row['#syntax'], allowed: 'a well-formed row (values quoted with double quotes, one per header column)' });
   const name = (row.name ?? '').trim();
   if (name === '') problems.push({ path: `${where}: name`, value: row.name, allowed: 'a non-empty planet name' });
   doc.name = name;

@@ -61,7 +61,7 @@ export interface RankedPlanetJson {
   /** Rank interval those masses allow against the other planets' (1: first). */
   rank_best: number;
   rank_worst: number;
-  /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (a shard, or below the rows written). */
+  /** The planet's detail sweep scenario (`details/<folder>/scenario.yaml`, relative to the rank folder); null when not written (`--detail 0`, or below the rows written). */
   detail_scenario: string | null;
   /** Its sweep report (`details/<folder>/report.html`); null when that sweep was not run (`--detail`). */
   detail_report: string | null;
@@ -89,6 +89,8 @@ export interface RankJson {
   bound_computed: number;
   /** How many of the top planets the Monte Carlo confirmed (0: none). */
   mc_confirmed: number;
+  /** How many of the top planets were given a detail sweep (`--detail`; a shard: its own top; 0: none). */
+  detail_top: number;
   skipped: SkippedRowJson[];
   /** Things about the list the user should know (ignored columns). */
   notes: string[];
@@ -97,7 +99,7 @@ export interface RankJson {
 }
 
 export const RANK_ASSUMPTIONS: readonly string[] = [
-  `minimum moon mass: the smallest moon whose analytic forecast (computeLimits' pdet_forecast_combined, as \`moonsieve limits\` gives it) reaches ${RANK_PDET} at each separation; a white-noise forecast of the timing channels (TTV, TDV), a lower estimate of what a full analysis (moon dip, template search) reaches; red noise, gaps and the photocentric TTV of large moons are left out (see \`moonsieve limits\` on one planet and \`moonsieve sweep\` for the Monte Carlo)`,
+  `minimum moon mass: the smallest moon whose analytic forecast (computeLimits' pdet_forecast_combined, as \`moonsieve limits\` gives it) reaches ${RANK_PDET} at each separation; a white-noise forecast of the timing channels (TTV, TDV), a lower estimate of what a full analysis (moon dip, template search) reaches; red noise, gaps and the photocentric TTV of large moons are left out (see \`moonsieve limits\` on one planet and \`moonsieve sweep\` for the Monte Carlo); a minimum mass can exceed the largest moon that survives tidal migration (tidal_max_moon_mass_kg), which the planet's notes then say`,
   'target moon cost: the fewest transits whose joint TTV+TDV forecast reaches the stated probability, as `moonsieve budget --forecast-only` finds it; nights and hours on sky from the campaign calendar of the scenario\'s site(s) and each row\'s coordinates, as `moonsieve budget` plans them; the Monte Carlo confirmation (mc_* keys, `budget`\'s search with its realizations) is run only for the top planets (`mc_confirmed`), and only its answer, not the forecast, includes the moon dip and the Monte Carlo\'s combined rule',
   'known-template bound (bound_min_moon_mass_kg, top planets only): the smallest moon a matched filter that knows the moon\'s template detects with the same probability (Kay 1998), the best any analysis of the same white-noise light curve can do; the forecast is a lower estimate of the sensitivity, the bound an upper one',
   'the rank: smallest minimum moon mass over the separations first, then fewest transits for the target moon, then name; it carries the forecast\'s model error, which is not quantified; rank_best–rank_worst give only the spread from the Chen & Kipping (2017) radius scatter of mass_from_radius rows (stated-mass rows have no interval)',
@@ -190,6 +192,7 @@ export function buildRankJson(scenario: string, shard: Shard | null, planetsInLi
     transits_probability: transitsProbability,
     bound_computed: 0,
     mc_confirmed: 0,
+    detail_top: 0,
     skipped: [...skipped].sort((a, b) => a.row - b.row),
     notes: [...notes],
     assumptions: [...RANK_ASSUMPTIONS],

@@ -195,6 +195,12 @@ export function rankPlanet(s: Scenario, row: number, flags: readonly string[], s
   let best: SeparationReach | null = null;
   for (const r of reach) if (r.min_mass_kg !== null && (best === null || r.min_mass_kg < best.min_mass_kg!)) best = r;
 
+  // A detectable moon heavier than any moon that survives tidal migration over the star's age (Barnes & O'Brien 2002,
+  // computeLimits' tidal_max_moon_mass_kg; prograde moons only, as the placement applies it) is no moon to look for.
+  const aboveTidal = reach.filter((r) => r.min_mass_kg !== null && r.min_mass_kg > l.tidal_max_moon_mass_kg).map((r) => r.separation_hill);
+  if (aboveTidal.length > 0 && !(s.moon?.retrograde ?? false)) {
+    notes.push(`at ${aboveTidal.join(', ')} Hill radii the smallest detectable moon is heavier than the largest moon that survives tidal migration over the star's age (${Number((l.tidal_max_moon_mass_kg / M_EARTH_KG).toPrecision(3))} Mearth, Barnes & O'Brien 2002): no moon that survives there is detectable`);
+  }
   const inHz = l.habitable_zone_inner_m === null || l.habitable_zone_outer_m === null ? null
     : s.planet.semiMajorAxisM >= l.habitable_zone_inner_m && s.planet.semiMajorAxisM <= l.habitable_zone_outer_m;
 

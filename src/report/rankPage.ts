@@ -59,7 +59,7 @@ function detailCell(p: RankedPlanetJson): string {
     const dir = p.detail_scenario.replace(/\/scenario\.yaml$/, '');
     return `<small>not run; in this folder: <code>${escapeHtml(detailCommand(dir))}</code></small>`;
   }
-  return '<small>none written: <code>moonsieve rank</code> without --shard and with --detail ≥ 1 writes each listed planet\'s detail scenario</small>';
+  return '<small>none written: <code>moonsieve rank --detail N</code> (N ≥ 1; with --shard, the same N on every shard, then <code>merge</code>) writes each listed planet\'s detail scenario</small>';
 }
 
 export function renderRankPage(r: RankJson): string {

@@ -5,7 +5,7 @@
  * command that makes theirs.
  */
 import { describe, it, expect } from 'vitest';
-import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve, sep } from 'node:path';
 import { main } from '../../src/cli/main.js';
@@ -83,8 +83,62 @@ describe('rank details: the command line', () => {
         expect(html).toContain(detailCommand(d));
       }
     }
-    const bad = await run(['rank', scenarioPath, list, '--out', join(dir, 'c'), '--shard', '1/2', '--detail', '2']);
-    expect(bad.code).toBe(2);
-    expect(bad.err).toMatch(/--detail: got 2; the detail sweeps are for the top of the whole list/);
   }, 120_000);
+
+  it('shards run with --detail N hold their own top N sweeps; merge copies the whole list\'s, links them, and writes what an unsharded --detail N run writes', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ms-rank-detail-merge-'));
+    const list = join(dir, 'list.csv');
+    writeFileSync(list, demoPlanetCsv(5, 11));
+    const common = ['--detail-forecast-only', '--workers', '1', '--no-calendar'];
+    const ok = async (args: string[]) => {
+      const res = await run(args);
+      expect(res.code, res.err).toBe(0);
+      return res;
+    };
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'whole'), '--confirm', '0', '--bound', '0', '--detail', '2', ...common]);
+    const a = await ok(['rank', scenarioPath, list, '--out', join(dir, 'a'), '--shard', '1/2', '--detail', '2', ...common]);
+    expect(a.err).toMatch(/give every shard the same --detail 2/);
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'b'), '--shard', '2/2', '--detail', '2', ...common]);
+    const m = await ok(['merge', join(dir, 'b'), join(dir, 'a'), '--out', join(dir, 'merged')]);
+    expect(m.out).toMatch(/copied 5 detail folders into .*details \(2 with a sweep report, linked from rank\.html\)/);
+    // The same three files as the unsharded run, byte for byte (common practice, no source: shards must not change the answer).
+    for (const f of ['rank.json', 'rank.ecsv', 'rank.html']) {
+      expect(readFileSync(join(dir, 'merged', f), 'utf8'), f).toBe(readFileSync(join(dir, 'whole', f), 'utf8'));
+    }
+    const r = JSON.parse(readFileSync(join(dir, 'merged', 'rank.json'), 'utf8')) as RankJson;
+    expect(r.detail_top).toBe(2);
+    const folders = readdirSync(join(dir, 'whole', 'details')).sort();
+    expect(readdirSync(join(dir, 'merged', 'details')).sort()).toEqual(folders);
+    const html = readFileSync(join(dir, 'merged', 'rank.html'), 'utf8');
+    for (const p of r.planets) {
+      const d = detailDir(p.row, p.name);
+      expect(readFileSync(join(dir, 'merged', d, 'scenario.yaml'), 'utf8')).toBe(readFileSync(join(dir, 'whole', d, 'scenario.yaml'), 'utf8'));
+      if (p.rank <= 2) {
+        expect(p.detail_report).toBe(`${d}/report.html`);
+        expect(html).toContain(`<a href="${d}/report.html">`);
+        // The copied sweep is the one the unsharded run made (same file, same seeding).
+        expect(readFileSync(join(dir, 'merged', d, 'cells.json'), 'utf8')).toBe(readFileSync(join(dir, 'whole', d, 'cells.json'), 'utf8'));
+        expect(existsSync(join(dir, 'merged', d, 'report.html'))).toBe(true);
+      } else {
+        expect(p.detail_report).toBeNull();
+        expect(readdirSync(join(dir, 'merged', d))).toEqual(['scenario.yaml']);
+      }
+    }
+    // A shard whose top sweep did not finish: merge says so, and the page shows the command instead of a dead link.
+    const topRow = r.planets[0];
+    const topDir = detailDir(topRow.row, topRow.name);
+    const holder = existsSync(join(dir, 'a', topDir, 'report.html')) ? 'a' : 'b';
+    rmSync(join(dir, holder, topDir, 'report.html'));
+    const m2 = await ok(['merge', join(dir, 'a'), join(dir, 'b'), '--out', join(dir, 'merged2')]);
+    expect(m2.err).toContain(`detail not copied: ${topRow.name}: its shard's detail sweep did not finish (no ${topDir}/report.html)`);
+    const r2 = JSON.parse(readFileSync(join(dir, 'merged2', 'rank.json'), 'utf8')) as RankJson;
+    expect(r2.planets[0].detail_report).toBeNull();
+    expect(readFileSync(join(dir, 'merged2', 'rank.html'), 'utf8')).toContain(detailCommand(topDir));
+    // Shards run with different --detail are refused: the whole list's top N would not be among them.
+    await ok(['rank', scenarioPath, list, '--out', join(dir, 'c'), '--shard', '2/2', '--detail', '1', ...common]);
+    const bad = await run(['merge', join(dir, 'a'), join(dir, 'c'), '--out', join(dir, 'merged3')]);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/DIR: got "--detail 2, 1 \(shards 1\/2, 2\/2\)"; shards run with the same --detail N/);
+    expect(existsSync(join(dir, 'merged3', 'rank.json'))).toBe(false);
+  }, 180_000);
 });

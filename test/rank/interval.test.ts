@@ -63,3 +63,28 @@ describe('rank interval: in the list', () => {
     for (const p of r.planets) expect(p.rank_best <= p.rank && p.rank <= p.rank_worst).toBe(true);
   }, 60_000);
 });
+
+describe('rank interval: what else could enter it (docs/rank.md, "The ranking\'s uncertainty")', () => {
+  const H = 'name,star_mass_msun,star_radius_rsun,star_teff_k,noise_ppm_per_hour,planet_mass_mjup,planet_radius_rjup,period_d,impact_parameter,t0_error_min,period_error_d';
+  const rows = [
+    'Kessa-1 b,0.8,0.78,5000,400,0.3,0.8,60,0.2,2,1e-5',
+    'Kessa-2 b,0.8,0.78,5000,400,0.3,0.8,60,0.2,200,1e-3', // ephemeris errors × 100
+    'Kessa-3 b,0.8,0.78,5000,420,0.3,0.8,60,0.2,2,1e-5', // noise + 5 %
+    'Kessa-4 b,0.8,0.78,5000,400,0.375,0.8,60,0.2,2,1e-5', // planet mass + 25 %
+  ];
+  const r = rankListText(baseDoc, [H, ...rows].join('\n'), 'list.csv', { settings: { probability: 0.9, calendar: false } });
+  const best = (row: number) => r.planets.find((p) => p.row === row)!.best_min_moon_mass_kg!;
+
+  it('the ephemeris errors do not move the reach: the recovery fits t0 and the period from the transits themselves', () => {
+    // Source: the TTV test is about the least-squares ephemeris of the observed transits (detectionForecast.ts; Seber & Lee 2003 §2.4),
+    // so a prior ephemeris only places the observing windows (the calendar's mid_time_sigma_s).
+    expect(best(2)).toBe(best(1));
+    expect(r.planets.find((p) => p.row === 2)!.target_transits_needed).toBe(r.planets.find((p) => p.row === 1)!.target_transits_needed);
+  });
+
+  it('the smallest moon scales as the noise (TTV ∝ moon mass, Kipping 2009a; λ ∝ (δ/σ)²) and as the planet mass to the 2/3 (a ∝ R_H ∝ M_P^1/3)', () => {
+    // Source: derived here from the forecast's noncentrality at fixed pdet: δ_TTV ∝ M_S a_S / M_P with a_S ∝ M_P^{1/3} (Hill radius).
+    expect(best(3) / best(1)).toBeCloseTo(1.05, 2);
+    expect(best(4) / best(1)).toBeCloseTo(1.25 ** (2 / 3), 2);
+  });
+});

@@ -23,6 +23,7 @@ import { rankListText, mergeRankOutputs, writeRankOutputs, rankEcsv } from '../.
 import { chenKippingRadius } from '../../src/physics/massRadius.js';
 import { renderRankPage } from '../../src/report/rankPage.js';
 import { M_EARTH_KG } from '../../src/physics/constants.js';
+import { computeLimits } from '../../src/limits/computeLimits.js';
 
 const root = new URL('../../', import.meta.url).pathname;
 const scenarioPath = join(root, 'scenarios/demo-rank.yaml');
@@ -226,4 +227,29 @@ describe('rank: the Monte Carlo tier', () => {
     expect(r.planets.filter((p) => p.mc_realizations !== null)).toHaveLength(1);
     expect(() => rankListText(baseDoc, text, 'list.csv', { shard: { k: 1, n: 2 }, confirm: 1 })).toThrow(/--confirm/);
   }, 120_000);
+});
+
+describe('rank: detectable moons that cannot survive', () => {
+  it('a planet whose smallest detectable moon is heavier than any moon surviving tidal migration says so, and `limits` places that moon the same way', () => {
+    const text = demoPlanetCsv(40);
+    const r = rankListText(baseDoc, text, 'list.csv', { settings: noCalendar });
+    const rows = planetRows(baseDoc, readPlanetTable(text));
+    let said = 0;
+    for (const p of r.planets) {
+      const above = p.min_moon_mass_kg.map((m, k) => (m !== null && m > p.tidal_max_moon_mass_kg ? r.separations_hill[k] : null)).filter((f) => f !== null);
+      const note = p.notes.find((n) => n.includes('survives tidal migration'));
+      expect(note !== undefined, p.name).toBe(above.length > 0);
+      if (!note) continue;
+      said++;
+      expect(note).toContain(`at ${above.join(', ')} Hill radii`);
+      // Source: computeLimits' placement (`moonsieve limits`, Barnes & O'Brien 2002) of that moon on the same planet.
+      const s = rows.find((x) => x.row === p.row)!.scenario!;
+      const k = r.separations_hill.indexOf(above[0]!);
+      const l = computeLimits(moonScenario(scenarioDocumentOf(s), p.min_moon_mass_kg[k]!, above[0]!, scenarioMoonDensity(s), s.name));
+      expect(l.moon_placement).toContain('would not survive tidal migration');
+    }
+    // The invented list has both kinds (the test would be empty otherwise).
+    expect(said).toBeGreaterThan(0);
+    expect(said).toBeLessThan(r.planets.length);
+  }, 60_000);
 });
