@@ -94,3 +94,4 @@ export { rankPlanet, minDetectableMass, RANK_SEPARATIONS_HILL, RANK_PDET, type P
 export { readPlanetTable, planetRows, PLANET_COLUMNS, chenKippingMassFromRadius, type PlanetRow } from './rank/planetTable.js';
 export { RANK_SCHEMA, type RankJson, type RankedPlanetJson } from './rank/rankJson.js';
 export { renderRankPage } from './report/rankPage.js';
+export { parseEcsv, ecsvValue, toEcsv, type ParsedEcsv, type EcsvColumnHeader, type EcsvRow, type TableColumn } from './io/ecsv.js';
