@@ -83,12 +83,15 @@ export interface GlobalFitOptions {
  */
 export class GlobalFitWorkspace {
   readonly templates = new TemplateWorkspace();
-  private buf: Float64Array[] = [];
+  // Six empty arrays from the start, not `[]`: an empty literal has V8's small-integer element kind, and
+  // the optimized fit, compiled for an array of typed arrays, was deoptimized on every new workspace (once
+  // per cell; measured with --trace-deopt-verbose; common practice, no source).
+  private buf: Float64Array[] = [0, 1, 2, 3, 4, 5].map(() => new Float64Array(0));
 
   /** The six per-sample arrays, of length m + 1. */
   samples(m: number): Float64Array[] {
-    if (this.buf.length === 0 || this.buf[0].length < m + 1) {
-      const size = Math.max(m + 1, Math.ceil(1.25 * (this.buf[0]?.length ?? 0)));
+    if (this.buf[0].length < m + 1) {
+      const size = Math.max(m + 1, Math.ceil(1.25 * this.buf[0].length));
       this.buf = [0, 1, 2, 3, 4, 5].map(() => new Float64Array(size));
     }
     return this.buf.map((a) => a.subarray(0, m + 1));

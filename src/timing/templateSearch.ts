@@ -776,33 +776,43 @@ export function templateStatistic(bank: TemplateBank, rho: Float64Array, offset 
  */
 function filterOutputs(g: Float64Array, T: number, B: number, rho: Float64Array, offset: number, z: Float64Array): void {
   let k = 0;
-  for (; k + 4 <= T; k += 4) {
-    const a0 = k * B;
-    const a1 = a0 + B;
-    const a2 = a1 + B;
-    const a3 = a2 + B;
-    let z0 = 0;
-    let z1 = 0;
-    let z2 = 0;
-    let z3 = 0;
-    for (let b = 0; b < B; b++) {
-      const x = rho[offset + b];
-      z0 += g[a0 + b] * x;
-      z1 += g[a1 + b] * x;
-      z2 += g[a2 + b] * x;
-      z3 += g[a3 + b] * x;
-    }
-    z[k] = z0;
-    z[k + 1] = z1;
-    z[k + 2] = z2;
-    z[k + 3] = z3;
+  for (; k + 4 <= T; k += 4) filterOutputs4(g, k, B, rho, offset, z);
+  for (; k < T; k++) z[k] = filterOutput(g, k * B, B, rho, offset);
+}
+
+/** z[k..k+3] of filterOutputs, four templates in one pass over ρ (a function of its own so that V8 optimizes the pass on its own). */
+function filterOutputs4(g: Float64Array, k: number, B: number, rho: Float64Array, offset: number, z: Float64Array): void {
+  const a0 = k * B;
+  const a1 = a0 + B;
+  const a2 = a1 + B;
+  const a3 = a2 + B;
+  let z0 = 0;
+  let z1 = 0;
+  let z2 = 0;
+  let z3 = 0;
+  for (let b = 0; b < B; b++) {
+    const x = rho[offset + b];
+    z0 += g[a0 + b] * x;
+    z1 += g[a1 + b] * x;
+    z2 += g[a2 + b] * x;
+    z3 += g[a3 + b] * x;
   }
-  for (; k < T; k++) {
-    const a = k * B;
-    let s = 0;
-    for (let b = 0; b < B; b++) s += g[a + b] * rho[offset + b];
-    z[k] = s;
-  }
+  z[k] = z0;
+  z[k + 1] = z1;
+  z[k + 2] = z2;
+  z[k + 3] = z3;
+}
+
+/**
+ * One template's output Σ_b g[a + b]·ρ[offset + b]. A function of its own: as a loop inside
+ * filterOutputs, reached only by banks whose size is not a multiple of 4, it had no type feedback
+ * when the function was optimized and deoptimized it again and again (18 times in a small sweep;
+ * --trace-deopt; common practice, no source).
+ */
+function filterOutput(g: Float64Array, a: number, B: number, rho: Float64Array, offset: number): number {
+  let s = 0;
+  for (let b = 0; b < B; b++) s += g[a + b] * rho[offset + b];
+  return s;
 }
 
 /** The statistic of every realization of a flat array of ρ (realization r at r·bins). */

@@ -227,11 +227,12 @@ function naturalSplineCurvature(y: Float64Array, h: number, m: Float64Array, scr
  * with node --cpu-prof on the global fit). Not shared between threads.
  */
 export class TemplateWorkspace {
-  private buf: Float64Array[] = [];
+  // Five empty arrays, not `[]`: one element kind for V8 (see GlobalFitWorkspace in globalTransitFit.ts).
+  private buf: Float64Array[] = [0, 1, 2, 3, 4].map(() => new Float64Array(0));
   /** Five arrays of length ≥ n (grown on demand, never shrunk). */
   arrays(n: number): Float64Array[] {
-    if (this.buf.length === 0 || this.buf[0].length < n) {
-      const size = Math.max(n, Math.ceil(1.25 * (this.buf[0]?.length ?? 0)));
+    if (this.buf[0].length < n) {
+      const size = Math.max(n, Math.ceil(1.25 * this.buf[0].length));
       this.buf = [0, 1, 2, 3, 4].map(() => new Float64Array(size));
     }
     return this.buf.map((a) => a.subarray(0, n));
