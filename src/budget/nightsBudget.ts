@@ -53,7 +53,7 @@ const MAX_EXACT_SITES = 12;
 type Interval = [number, number];
 
 /** One booking: one epoch at one site. */
-export interface NightBooking {
+export interface NightBooking extends BookingCoverage {
   epoch: number;
   site: string;
   /** Local date (mean solar time at the site's longitude) of the evening the night begins. */
@@ -66,6 +66,10 @@ export interface NightBooking {
   on_sky_s: number;
   /** Of it, inside first-to-last contact, s. */
   in_transit_s: number;
+}
+
+/** How much of a transit one booking sees: the same in the plan and in its JSON (NightBookingJson). */
+export interface BookingCoverage {
   transit_coverage: number;
   /** Observed fractions of the ingress and the egress ramps. */
   ingress_coverage: number;

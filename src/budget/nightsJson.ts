@@ -2,11 +2,10 @@
  * The budget's observability in the project's vocabulary (docs/vocabulary.md):
  * snake_case keys, SI with unit suffixes, times as ISO 8601 UTC text.
  */
-import type { NightBooking, NightsPlan, Observability, PlanEpoch, SeasonPoint } from './nightsBudget.js';
+import type { BookingCoverage, NightBooking, NightsPlan, Observability, PlanEpoch, SeasonPoint } from './nightsBudget.js';
 import { PLAN_CONFIDENCE } from './nightsBudget.js';
-import type { TransitClass } from '../sky/calendar.js';
 
-export interface NightBookingJson {
+export interface NightBookingJson extends BookingCoverage {
   epoch: number;
   site: string;
   night_of: string;
@@ -15,16 +14,6 @@ export interface NightBookingJson {
   booked_end_utc: string;
   on_sky_time_s: number;
   in_transit_time_s: number;
-  transit_coverage: number;
-  ingress_coverage: number;
-  egress_coverage: number;
-  whole_equivalent: number;
-  baseline_before_coverage: number | null;
-  baseline_after_coverage: number | null;
-  airmass_start: number | null;
-  airmass_middle: number | null;
-  airmass_end: number | null;
-  class: TransitClass;
 }
 
 export interface PlanEpochJson {

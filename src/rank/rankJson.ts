@@ -7,26 +7,13 @@
  */
 import { rankIntervals, type MassInterval } from './rankInterval.js';
 import { formatProblem, type FieldProblem } from '../scenario/errors.js';
-import { compareRanks, RANK_PDET, RANK_SEPARATIONS_HILL, type PlanetRank } from './rankPlanet.js';
+import { compareRanks, RANK_PDET, RANK_SEPARATIONS_HILL, type PlanetFacts, type PlanetRank } from './rankPlanet.js';
 import type { Shard } from '../sweep/shard.js';
 
 export const RANK_SCHEMA = 'moonsieve/rank/1';
 
-export interface RankedPlanetJson {
+export interface RankedPlanetJson extends PlanetFacts {
   rank: number;
-  row: number;
-  name: string;
-  flags: string[];
-  planet_mass_kg: number;
-  planet_radius_m: number;
-  period_s: number;
-  hill_radius_m: number;
-  roche_limit_m: number;
-  stable_max_separation_m: number;
-  tidal_max_moon_mass_kg: number;
-  in_habitable_zone: boolean | null;
-  timing_precision_s: number;
-  transits: number;
   min_moon_mass_kg: Array<number | null>;
   min_moon_mass_notes: Array<string | null>;
   best_min_moon_mass_kg: number | null;

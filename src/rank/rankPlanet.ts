@@ -35,7 +35,8 @@ export interface SeparationReach {
   min_mass_kg: number | null;
 }
 
-export interface PlanetRank {
+/** What a ranked planet is, the same in the internal rank and in rank.json (RankedPlanetJson). */
+export interface PlanetFacts {
   name: string;
   row: number;
   flags: string[];
@@ -49,6 +50,9 @@ export interface PlanetRank {
   in_habitable_zone: boolean | null;
   timing_precision_s: number;
   transits: number;
+}
+
+export interface PlanetRank extends PlanetFacts {
   reach: SeparationReach[];
   /** The smallest of the reach masses (null: none detectable at any separation). */
   best_min_mass_kg: number | null;
