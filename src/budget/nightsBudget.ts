@@ -38,6 +38,7 @@ import { altitudeForAirmass } from '../sky/airmass.js';
 import { isoUtc, utcSFromDate } from '../sky/timeScales.js';
 import { visibleStretches } from '../sky/visibilityPattern.js';
 import type { Scenario, SiteSpec } from '../scenario/types.js';
+import { intervalUnion, type Interval } from '../numeric/intervals.js';
 
 const DEG = Math.PI / 180;
 /** Grid of the whole-transit equivalents in the exact distribution of the sum (1/20; weights rounded down). */
@@ -50,7 +51,6 @@ const YEAR_S = 365.25 * DAY_S;
 /** Sites enumerated exactly per epoch (2^k subsets); beyond this the best single site is used. */
 const MAX_EXACT_SITES = 12;
 
-type Interval = [number, number];
 
 /** One booking: one epoch at one site. */
 export interface NightBooking extends BookingCoverage {
@@ -164,15 +164,6 @@ function overlap(iv: readonly Interval[], a: number, b: number): number {
   return s;
 }
 
-function union(iv: Interval[]): Interval[] {
-  const s = [...iv].sort((p, q) => p[0] - q[0]);
-  const out: Interval[] = [];
-  for (const [x, y] of s) {
-    if (out.length && x <= out[out.length - 1][1]) out[out.length - 1][1] = Math.max(out[out.length - 1][1], y);
-    else out.push([x, y]);
-  }
-  return out;
-}
 
 /**
  * Observed fractions of the ingress [t1, t1 + τ] and egress [t4 − τ, t4]
@@ -219,7 +210,7 @@ function epochOutcomes(rows: RowInfo[], c: number, ingressS: number): Pick<Epoch
   const seeing = rows.filter((r) => r.iv.length > 0 && r.ramps.equivalent > 0);
   const t1 = rows[0].t1;
   const t4 = rows[0].t4;
-  const all = rampCoverage(union(seeing.flatMap((r) => r.iv)), t1, t4, ingressS).equivalent;
+  const all = rampCoverage(intervalUnion(seeing.flatMap((r) => r.iv)), t1, t4, ingressS).equivalent;
   let pNoWhole = 1;
   for (const r of rows) if (r.row.class === 'full') pNoWhole *= 1 - c;
   const wholeProbability = rows.some((r) => r.row.class === 'full') ? 1 - pNoWhole : 0;
@@ -238,7 +229,7 @@ function epochOutcomes(rows: RowInfo[], c: number, ingressS: number): Pick<Epoch
       } else p *= 1 - c;
     }
     if (p === 0) continue;
-    const w = mask === 0 ? 0 : rampCoverage(union(iv), t1, t4, ingressS).equivalent;
+    const w = mask === 0 ? 0 : rampCoverage(intervalUnion(iv), t1, t4, ingressS).equivalent;
     expected += p * w;
     const units = Math.floor(w * WEIGHT_STEPS + 1e-9);
     dist.set(units, (dist.get(units) ?? 0) + p);
@@ -309,10 +300,10 @@ function bookingsOf(e: EpochInfo, s: Scenario): NightBooking[] {
       // its calendar; sky/visibilityPattern.ts); one visit, labelled by the UTC date of its first stretch.
       const mid = 0.5 * (r.t1 + r.t4);
       const seen = v ? visibleStretches(v, r.row.mid_time_bjd_tdb, a - mid, b - mid).map(([x, y]) => [x + mid, y + mid] as Interval) : [];
-      iv = union([...seen, ...r.iv]);
+      iv = intervalUnion([...seen, ...r.iv]);
       nights = new Set([isoUtc(iv[0][0]).slice(0, 10)]);
     } else {
-      iv = union([...observableIntervals(new EpochSky(a, b, sky.target!), r.site, a, b, sunLimit, minAlt), ...r.iv]);
+      iv = intervalUnion([...observableIntervals(new EpochSky(a, b, sky.target!), r.site, a, b, sunLimit, minAlt), ...r.iv]);
       const site = r.site;
       nights = new Set(iv.map(([x, y]) => nightOf(0.5 * (x + y), site.longitudeRad)));
     }

@@ -22,6 +22,7 @@ import { bjdTdbToUtc } from './barycentric.js';
 import { EpochSky } from './skyPosition.js';
 import { isoUtc, JD_J2000, ttMinusUtcS } from './timeScales.js';
 import { C_LIGHT } from '../physics/constants.js';
+import { intervalUnion, type Interval } from '../numeric/intervals.js';
 
 const DEG = Math.PI / 180;
 /** Largest spacing of the sky samples across a window, s (issue 18: ≤ 1 min). */
@@ -128,7 +129,6 @@ export interface CalendarVisibility {
   visible_fraction: number;
 }
 
-type Interval = [number, number];
 
 /** Length of the overlap of the intervals with [a, b]. */
 function overlap(iv: readonly Interval[], a: number, b: number): number {
@@ -142,16 +142,6 @@ function within(iv: readonly Interval[], a: number, b: number): boolean {
   return iv.some(([x, y]) => x <= a && y >= b);
 }
 
-/** Merge intervals (sorted union). */
-function union(iv: Interval[]): Interval[] {
-  const s = [...iv].sort((p, q) => p[0] - q[0]);
-  const out: Interval[] = [];
-  for (const [x, y] of s) {
-    if (out.length && x <= out[out.length - 1][1]) out[out.length - 1][1] = Math.max(out[out.length - 1][1], y);
-    else out.push([x, y]);
-  }
-  return out;
-}
 
 /**
  * Class of a transit from its observable stretches: full (all of first to last
@@ -323,7 +313,7 @@ export function transitCalendar(s: Scenario, source = 'scenario'): CalendarResul
         expectedPerSite[k] += clear;
       }
     });
-    const net = classify(union(all), t1, t4);
+    const net = classify(intervalUnion(all), t1, t4);
     const pFull = fullSites.length ? 1 - noneFull : 0;
     expectedNetwork += pFull;
     netRows.push({ class: net.cls });

@@ -15,8 +15,8 @@
  */
 import { DAY_S } from '../physics/constants.js';
 import type { VisibilitySpec } from '../scenario/types.js';
+import { intervalIntersection, type Interval } from '../numeric/intervals.js';
 
-type Interval = [number, number];
 
 /** Most visible stretches one window may hold (bounds the work of a very short cycle). */
 export const MAX_STRETCHES_PER_WINDOW = 100_000; // the reader's 1-minute cycles give at most ~30 000 in a 20-day window
@@ -38,20 +38,6 @@ function periodicOn(a: number, b: number, on: number, off: number): Interval[] {
   return out;
 }
 
-/** Intersection of two sorted lists of disjoint intervals. */
-function intersect(p: readonly Interval[], q: readonly Interval[]): Interval[] {
-  const out: Interval[] = [];
-  let i = 0;
-  let j = 0;
-  while (i < p.length && j < q.length) {
-    const x = Math.max(p[i][0], q[j][0]);
-    const y = Math.min(p[i][1], q[j][1]);
-    if (y > x) out.push([x, y]);
-    if (p[i][1] < q[j][1]) i++;
-    else j++;
-  }
-  return out;
-}
 
 /**
  * The visible stretches of the window [a, b], both in seconds from the
@@ -63,7 +49,7 @@ export function visibleStretches(v: VisibilitySpec, originBjdTdb: number, a: num
   // Seconds from the pattern's reference to the origin (a difference of two BJDs: ~1e-5 s rounding at 1e4 days).
   const shift = (originBjdTdb - v.referenceBjdTdb) * DAY_S;
   const orbit = periodicOn(a + shift, b + shift, v.onS, v.offS);
-  const seen = v.blockS === null ? orbit : intersect(orbit, periodicOn(a + shift, b + shift, v.blockS, v.gapS));
+  const seen = v.blockS === null ? orbit : intervalIntersection(orbit, periodicOn(a + shift, b + shift, v.blockS, v.gapS));
   return seen.map(([x, y]) => [x - shift, y - shift] as Interval);
 }
 
