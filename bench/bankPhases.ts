@@ -13,8 +13,8 @@
 import { parseScenario } from '../src/scenario/parseScenario.js';
 import { CELL_PARSE, withoutMoon } from '../src/sweep/applyAxes.js';
 import { knownTemplateBound } from '../src/timing/knownTemplateBound.js';
-import { buildTemplateBank, freedomBasis, neighbourCorrelation, templateLayout, templateStatistic } from '../src/timing/templateSearch.js';
-import { createRng } from '../src/noise/rng.js';
+import { buildTemplateBank, freedomBasis, neighbourCorrelation, templateLayout, templateStatistic, type TemplateBank, type TemplateLayout } from '../src/timing/templateSearch.js';
+import { createRng, type Rng } from '../src/noise/rng.js';
 import type { Scenario } from '../src/scenario/types.js';
 import type { BenchMedian } from './measure.js';
 import { boundReferenceDoc } from './boundReference.js';
@@ -34,6 +34,31 @@ function mass50(ms: readonly number[], p: readonly number[]): number {
   return NaN;
 }
 
+/**
+ * Detection probability of the bank statistic on ideal residuals (see the file header): `nNull` no-moon
+ * draws set the threshold at α (order statistic ⌈(n + 1)(1 − α)⌉), then `nAlt` draws hold the moon at a
+ * template of `truth` drawn uniformly. Both banks on layout L.
+ */
+export function idealPower(bank: TemplateBank, truth: TemplateBank, L: TemplateLayout, rng: Rng, nNull: number, nAlt: number, alpha: number): number {
+  const rho = new Float64Array(L.bins);
+  const nulls = new Float64Array(nNull);
+  for (let r = 0; r < nNull; r++) {
+    for (let b = 0; b < L.bins; b++) rho[b] = Math.sqrt(L.count[b]) * rng.normal();
+    nulls[r] = templateStatistic(bank, rho);
+  }
+  nulls.sort();
+  const threshold = nulls[Math.ceil((nNull + 1) * (1 - alpha)) - 1];
+  let detected = 0;
+  for (let r = 0; r < nAlt; r++) {
+    const j = Math.floor(rng.uniform() * truth.templates);
+    const g = truth.filters.subarray(j * L.bins, (j + 1) * L.bins);
+    // the projected template in ρ units: d̃_b/σ = g_b·‖d̃‖·Σv_b/σ
+    for (let b = 0; b < L.bins; b++) rho[b] = Math.sqrt(L.count[b]) * rng.normal() + (g[b] * truth.projectedNorm[j] * L.count[b]) / L.sigmaRef;
+    if (templateStatistic(bank, rho) > threshold) detected++;
+  }
+  return detected / nAlt;
+}
+
 export function benchBankPhases(): BenchMedian[] {
   const cases: Array<{ hill: number; masses: number[]; phases: Array<number | undefined> }> = [
     { hill: 0.15, masses: [0.6, 0.85, 1.2, 1.7], phases: [12, 16, 24, 32, 48, undefined] },
@@ -47,7 +72,6 @@ export function benchBankPhases(): BenchMedian[] {
     const nul = withoutMoon(cellScenario(cs.masses[0], cs.hill));
     const L = templateLayout(nul);
     const basis = freedomBasis(nul, L);
-    const sigma = L.sigmaRef;
     const boundP = cs.masses.map((m) => knownTemplateBound(cellScenario(m, cs.hill), { planetOnly: nul, angles: 48 }).probability);
     const mb = mass50(cs.masses, boundP);
     for (const N of cs.phases) {
@@ -61,24 +85,7 @@ export function benchBankPhases(): BenchMedian[] {
         templates = bank.templates;
         corr = neighbourCorrelation(bank, L, 1);
         // The same draws for every phase count (common random numbers: the rows differ by the bank only).
-        const rng = createRng(17, 1000 * Math.round(100 * cs.hill) + im, 0);
-        const rho = new Float64Array(L.bins);
-        const nulls = new Float64Array(nNull);
-        for (let r = 0; r < nNull; r++) {
-          for (let b = 0; b < L.bins; b++) rho[b] = Math.sqrt(L.count[b]) * rng.normal();
-          nulls[r] = templateStatistic(bank, rho);
-        }
-        nulls.sort();
-        const threshold = nulls[Math.ceil((nNull + 1) * 0.99) - 1];
-        let detected = 0;
-        for (let r = 0; r < nAlt; r++) {
-          const j = Math.floor(rng.uniform() * truth.templates);
-          const g = truth.filters.subarray(j * L.bins, (j + 1) * L.bins);
-          // the projected template in ρ units: d̃_b/σ = g_b·‖d̃‖·Σv_b/σ
-          for (let b = 0; b < L.bins; b++) rho[b] = Math.sqrt(L.count[b]) * rng.normal() + (g[b] * truth.projectedNorm[j] * L.count[b]) / sigma;
-          if (templateStatistic(bank, rho) > threshold) detected++;
-        }
-        p.push(detected / nAlt);
+        p.push(idealPower(bank, truth, L, createRng(17, 1000 * Math.round(100 * cs.hill) + im, 0), nNull, nAlt, 0.01));
       });
       rows.push({
         label: `${cs.hill} Hill, ${N === undefined ? `refined bank (${templates})` : `${N}`} phases (neighbour correlation ${corr.toFixed(2)}): ideal 50 % mass over the bound's ${mb.toPrecision(3)} M⊕ (P ${p.map((x) => x.toFixed(2)).join(' ')} at ${cs.masses.join(', ')} M⊕)`,

@@ -26,7 +26,8 @@ import { applyAxisValues } from '../src/sweep/applyAxes.js';
 import { parseScenario } from '../src/scenario/parseScenario.js';
 import { CELL_PARSE, runCell } from '../src/sweep/runCell.js';
 import { withoutMoon } from '../src/sweep/applyAxes.js';
-import { buildTemplateBank, freedomBasis, templateLayout, templateStatistic } from '../src/timing/templateSearch.js';
+import { buildTemplateBank, freedomBasis, templateLayout } from '../src/timing/templateSearch.js';
+import { idealPower } from './bankPhases.js';
 import { createRng } from '../src/noise/rng.js';
 import type { Scenario } from '../src/scenario/types.js';
 import type { CellResult } from '../src/sweep/cellTypes.js';
@@ -85,26 +86,8 @@ function boundCostRows(): BenchMedian[] {
 export function phaseBlindIdeal(s: Scenario, nNull = 5000, nAlt = 3000): number {
   const nul = withoutMoon(s);
   const L = templateLayout(nul);
-  const basis = freedomBasis(nul, L);
-  const bank = buildTemplateBank(s, L, { basis, phases: 256 });
-  const rng = createRng(5, 1, 0);
-  const rho = new Float64Array(L.bins);
-  const nulls = new Float64Array(nNull);
-  for (let r = 0; r < nNull; r++) {
-    for (let b = 0; b < L.bins; b++) rho[b] = Math.sqrt(L.count[b]) * rng.normal();
-    nulls[r] = templateStatistic(bank, rho);
-  }
-  nulls.sort();
-  const threshold = nulls[Math.ceil((nNull + 1) * (1 - s.detection.falseAlarm)) - 1];
-  let detected = 0;
-  for (let r = 0; r < nAlt; r++) {
-    const j = Math.floor(rng.uniform() * bank.templates);
-    const g = bank.filters.subarray(j * L.bins, (j + 1) * L.bins);
-    // the projected template in ρ units (bench/bankPhases.ts): d̃_b/σ = g_b·‖d̃‖·n_b/σ
-    for (let b = 0; b < L.bins; b++) rho[b] = Math.sqrt(L.count[b]) * rng.normal() + (g[b] * bank.projectedNorm[j] * L.count[b]) / L.sigmaRef;
-    if (templateStatistic(bank, rho) > threshold) detected++;
-  }
-  return detected / nAlt;
+  const bank = buildTemplateBank(s, L, { basis: freedomBasis(nul, L), phases: 256 });
+  return idealPower(bank, bank, L, createRng(5, 1, 0), nNull, nAlt, s.detection.falseAlarm);
 }
 
 /**

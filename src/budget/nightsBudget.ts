@@ -32,7 +32,7 @@
  * Pure: a function of the Scenario (its sky blocks) and the count.
  */
 import { DAY_S, HOUR_S } from '../physics/constants.js';
-import { transitCalendar, observableIntervals, BOOKING_SIGMAS, type CalendarResult, type CalendarTransit, type TransitClass } from '../sky/calendar.js';
+import { transitCalendar, observableIntervals, BOOKING_SIGMAS, type CalendarResult, type CalendarTransit, type TransitCoverage } from '../sky/calendar.js';
 import { EpochSky } from '../sky/skyPosition.js';
 import { altitudeForAirmass } from '../sky/airmass.js';
 import { isoUtc, utcSFromDate } from '../sky/timeScales.js';
@@ -69,19 +69,12 @@ export interface NightBooking extends BookingCoverage {
 }
 
 /** How much of a transit one booking sees: the same in the plan and in its JSON (NightBookingJson). */
-export interface BookingCoverage {
-  transit_coverage: number;
+export interface BookingCoverage extends TransitCoverage {
   /** Observed fractions of the ingress and the egress ramps. */
   ingress_coverage: number;
   egress_coverage: number;
   /** (ingress_coverage + egress_coverage) / 2: the share of a whole transit's timing information. */
   whole_equivalent: number;
-  baseline_before_coverage: number | null;
-  baseline_after_coverage: number | null;
-  airmass_start: number | null;
-  airmass_middle: number | null;
-  airmass_end: number | null;
-  class: TransitClass;
 }
 
 /** One epoch in date order: what the network expects of it after weather. */

@@ -26,14 +26,8 @@ export interface PlanEpochJson {
   beyond_campaign: boolean;
 }
 
-export interface SeasonPointJson {
-  epoch: number;
-  site: string;
-  mid_time_utc: string;
-  transit_coverage: number;
-  whole_equivalent: number;
-  beyond_campaign: boolean;
-}
+/** A season point is already in the vocabulary (nightsBudget.ts). */
+export type SeasonPointJson = SeasonPoint;
 
 export interface ObservingPlanJson {
   transits_needed: number | null;

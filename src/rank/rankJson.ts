@@ -7,7 +7,7 @@
  */
 import { rankIntervals, type MassInterval } from './rankInterval.js';
 import { formatProblem, type FieldProblem } from '../scenario/errors.js';
-import { compareRanks, RANK_PDET, RANK_SEPARATIONS_HILL, type PlanetFacts, type PlanetRank } from './rankPlanet.js';
+import { compareRankKeys, compareRanks, RANK_PDET, RANK_SEPARATIONS_HILL, type PlanetFacts, type PlanetRank, type RankKey } from './rankPlanet.js';
 import type { Shard } from '../sweep/shard.js';
 
 export const RANK_SCHEMA = 'moonsieve/rank/1';
@@ -150,15 +150,10 @@ export function skippedToJson(row: number, line: number, name: string, problems:
   return { row, line, name, problems: problems.map(formatProblem) };
 }
 
-/** Rank order of JSON entries (the same order as compareRanks on the planets). */
+/** Rank order of JSON entries (compareRankKeys, as compareRanks on the planets). */
 function compareJson(a: RankedPlanetJson, b: RankedPlanetJson): number {
-  const ma = a.best_min_moon_mass_kg ?? Infinity;
-  const mb = b.best_min_moon_mass_kg ?? Infinity;
-  if (ma !== mb) return ma < mb ? -1 : 1;
-  const ta = a.target_transits_needed ?? Infinity;
-  const tb = b.target_transits_needed ?? Infinity;
-  if (ta !== tb) return ta < tb ? -1 : 1;
-  return a.name < b.name ? -1 : a.name > b.name ? 1 : a.row - b.row;
+  const key = (p: RankedPlanetJson): RankKey => ({ mass: p.best_min_moon_mass_kg, transits: p.target_transits_needed, name: p.name, row: p.row });
+  return compareRankKeys(key(a), key(b));
 }
 
 /** The document of ranked planets and skipped rows (ranks 1…n in order). */

@@ -272,13 +272,29 @@ export function rankPlanet(s: Scenario, row: number, flags: readonly string[], s
   };
 }
 
-/** Rank order: smallest best minimum mass first (none detectable last), then fewest transits needed, then name. */
-export function compareRanks(a: PlanetRank, b: PlanetRank): number {
-  const ma = a.best_min_mass_kg ?? Infinity;
-  const mb = b.best_min_mass_kg ?? Infinity;
+/** What the rank order looks at (compareRankKeys). */
+export interface RankKey {
+  /** Best minimum moon mass, kg (null: none detectable). */
+  mass: number | null;
+  /** Transits the target moon needs (null: not reachable). */
+  transits: number | null;
+  name: string;
+  row: number;
+}
+
+/** Rank order: smallest best minimum mass first (none detectable last), then fewest transits needed, then name, then row. */
+export function compareRankKeys(a: RankKey, b: RankKey): number {
+  const ma = a.mass ?? Infinity;
+  const mb = b.mass ?? Infinity;
   if (ma !== mb) return ma < mb ? -1 : 1;
-  const ta = a.target_transits_needed ?? Infinity;
-  const tb = b.target_transits_needed ?? Infinity;
+  const ta = a.transits ?? Infinity;
+  const tb = b.transits ?? Infinity;
   if (ta !== tb) return ta < tb ? -1 : 1;
   return a.name < b.name ? -1 : a.name > b.name ? 1 : a.row - b.row;
+}
+
+/** compareRankKeys on ranked planets. */
+export function compareRanks(a: PlanetRank, b: PlanetRank): number {
+  const key = (p: PlanetRank): RankKey => ({ mass: p.best_min_mass_kg, transits: p.target_transits_needed, name: p.name, row: p.row });
+  return compareRankKeys(key(a), key(b));
 }

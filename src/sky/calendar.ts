@@ -41,7 +41,7 @@ const formatDays = (d: number) => (d >= 100 ? d.toFixed(0) : d.toPrecision(3));
 export type TransitClass = 'full' | 'ingress_only' | 'egress_only' | 'ingress_and_egress' | 'middle_only' | 'none';
 
 /** One transit at one site (JSON keys: the calendar's output vocabulary). */
-export interface CalendarTransit {
+export interface CalendarTransit extends TransitCoverage {
   site: string;
   epoch: number;
   mid_time_bjd_tdb: number;
@@ -60,11 +60,16 @@ export interface CalendarTransit {
   observable_duration_s: number;
   /** Every observable stretch inside the window, [start, end] UTC. */
   observable_intervals_utc: Array<[string, string]>;
+}
+
+/** How much of one transit a site sees: the calendar's entry, and the budget's bookings (BookingCoverage). */
+export interface TransitCoverage {
   /** Observable fraction of first-to-last contact, 0–1. */
   transit_coverage: number;
   /** Observable fractions of the baselines before first and after last contact (null with no baseline). */
   baseline_before_coverage: number | null;
   baseline_after_coverage: number | null;
+  /** Air mass at the start, middle and end of the observable stretch (null when nothing is observable). */
   airmass_start: number | null;
   airmass_middle: number | null;
   airmass_end: number | null;

@@ -59,17 +59,8 @@ export function campaignObservability(s: Scenario, source = 'scenario'): Campaig
   const sky = s.sky;
   requireCalendarBlocks(sky, source);
   const { target, campaign, constraints, sites } = sky;
-  const t14 = scenarioDurations(s).t14S;
-  if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): an observing campaign needs a transit' }], source);
-  const half = t14 / 2;
-  const baseline = calendarBaselineS(s, t14);
-  const periodD = s.planet.periodS / DAY_S;
-  const t0 = s.observation.t0BjdTdb;
+  const { half, baseline, periodD, t0, nLo, nHi } = campaignTransits(s, campaign, source);
   const minAlt = altitudeForAirmass(constraints.airmass) * DEG;
-  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
-  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
-    throw new InputError([{ path: 'campaign', value: undefined, allowed: `holds about ${nHi - nLo + 1} transits; at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
-  }
   const epochs: EpochObservability[] = [];
   for (let n = nLo; n <= nHi; n++) {
     const mid = bjdTdbToUtc(t0 + n * periodD, target, null);
@@ -89,16 +80,7 @@ export function campaignObservability(s: Scenario, source = 'scenario'): Campaig
 function spaceObservability(s: Scenario, v: VisibilitySpec, source: string): CampaignObservability {
   const campaign = s.sky!.campaign;
   if (!campaign) throw new InputError([{ path: 'campaign', value: undefined, allowed: 'required with visibility: add e.g. campaign: {start: 2027-01-01, end: 2028-12-31}' }], source);
-  const t14 = scenarioDurations(s).t14S;
-  if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): an observing campaign needs a transit' }], source);
-  const half = t14 / 2;
-  const baseline = calendarBaselineS(s, t14);
-  const periodD = s.planet.periodS / DAY_S;
-  const t0 = s.observation.t0BjdTdb;
-  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
-  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
-    throw new InputError([{ path: 'campaign', value: undefined, allowed: `holds about ${nHi - nLo + 1} transits; at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
-  }
+  const { half, baseline, periodD, t0, nLo, nHi } = campaignTransits(s, campaign, source);
   const epochs: EpochObservability[] = [];
   for (let n = nLo; n <= nHi; n++) {
     const midBjd = t0 + n * periodD;
@@ -107,4 +89,21 @@ function spaceObservability(s: Scenario, v: VisibilitySpec, source: string): Cam
     epochs.push({ epoch: n, midUtcS: mid, sky: null, intervals: [visibleStretches(v, midBjd, -half - baseline, half + baseline)] });
   }
   return { sites: [], visibility: v, epochs, halfT14S: half, baselineS: baseline };
+}
+
+/**
+ * What both kinds of campaign need first: half the first-to-last contact duration and the baseline (s),
+ * the period (d), t0 (BJD_TDB) and the epochs the campaign may hold; refuses a planet that does not
+ * transit and a campaign with more than MAX_CALENDAR_TRANSITS transits.
+ */
+function campaignTransits(s: Scenario, campaign: { startUtcS: number; endUtcS: number }, source: string): { half: number; baseline: number; periodD: number; t0: number; nLo: number; nHi: number } {
+  const t14 = scenarioDurations(s).t14S;
+  if (!(t14 > 0)) throw new InputError([{ path: 'planet', value: undefined, allowed: 'the planet does not transit (no first-to-last contact duration): an observing campaign needs a transit' }], source);
+  const periodD = s.planet.periodS / DAY_S;
+  const t0 = s.observation.t0BjdTdb;
+  const [nLo, nHi] = campaignEpochRange(campaign, t0, periodD);
+  if (nHi - nLo + 1 > MAX_CALENDAR_TRANSITS) {
+    throw new InputError([{ path: 'campaign', value: undefined, allowed: `holds about ${nHi - nLo + 1} transits; at most ${MAX_CALENDAR_TRANSITS}: shorten the campaign` }], source);
+  }
+  return { half: t14 / 2, baseline: calendarBaselineS(s, t14), periodD, t0, nLo, nHi };
 }
