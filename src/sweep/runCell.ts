@@ -177,7 +177,7 @@ function nullSetFor(c: NullClass, shared: CellShared | undefined, ws: Realizatio
 }
 
 /** Folded moon-dip profile (per unit moon depth) at the stack's bin centres, for this cell's moon. */
-function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
+export function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
   const m = s.moon!;
   const rStar = s.star.radiusM;
   const v = barycentreSkyVelocity(s.planet.semiMajorAxisM, s.planet.periodS, s.planet.eccentricity, s.planet.omegaRad) / rStar;
@@ -227,7 +227,7 @@ function labelFields(s: Scenario, l: LimitsJson): CellLabels {
  * non-finite SNR counts as 0). A loop in a top-level function: an arrow
  * function made per cell was compiled anew by V8 in most cells.
  */
-function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, exclude: number): Float64Array {
+export function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, exclude: number): Float64Array {
   const out = new Float64Array(stacks.length);
   for (let i = 0; i < stacks.length; i++) {
     const d = stackedDipSnr(stacks[i], profile, exclude).snr;

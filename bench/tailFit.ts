@@ -1,0 +1,202 @@
+/**
+ * `npm run bench -- tail-fit` (issue 17, item 3): can a generalised Pareto
+ * fit of the no-moon statistics' upper tail (numeric/generalizedPareto.ts,
+ * Knijnenburg et al. 2009) reach, with fewer no-moon realizations, the
+ * accuracy of the order-statistic threshold at n = 25/α?
+ *
+ * On a pool of P no-moon realizations of one cell of the invented K-dwarf
+ * system of bench/efficiency.ts (0.15 M⊕ at 0.30 Hill: TTV, TDV, dip and
+ * template statistics; bench/tailPool.ts, cached in the OS temporary folder),
+ * the pool is cut into disjoint calibration sets of n realizations; each set
+ * gives a threshold per channel and one for the combined weighted min-p rule,
+ * and its rate in force is the fraction of the rest of the pool (P − n
+ * realizations) above it. Over the sets: the pooled rate (mean rate / α; goal
+ * of issue 17 within ±20 %) and its spread (relative sd of the rate across
+ * sets; the order statistic's is the Beta(n + 1 − k, k) one, 20 % at 25/α).
+ * The pool's own sampling error of a rate near α is 1/√(αP) (relative), common
+ * to every method (it is the same pool).
+ *
+ * Methods:
+ * - empirical: the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, and the
+ *   combined rule calibrated by calibrateDetection (timing/detection.ts), at
+ *   n = ⌈25/α⌉.
+ * - GPD (PWM or ML): per channel the tail fit of the set (exceedance count
+ *   from min(250, n/2) down by 10 until the Anderson–Darling bootstrap check,
+ *   99 replicates, passes at 5 %), threshold = tail quantile at α; the
+ *   combined rule scores M = max_c w_c/p_c with p_c the tail-fit survival above
+ *   the channel's tail threshold and the empirical (N − B + 1)/(N + 1) below,
+ *   and its threshold is the tail quantile at α of ln M over the set's own
+ *   realizations (ln M has an exponential-like tail where M ~ 1/p has ξ ≈ 1).
+ */
+import { availableParallelism } from 'node:os';
+import { tailPool } from './tailPool.js';
+import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionChannel, type DetectionStatistics } from '../src/timing/detection.js';
+import { orderStatisticThresholdSorted } from '../src/timing/falseAlarmCalibration.js';
+import { fitUpperTail, tailQuantile, tailSurvival, type GpdEstimator, type TailFit } from '../src/numeric/generalizedPareto.js';
+import { lowerBound } from '../src/numeric/lowerBound.js';
+import { COMBINED_RULE_WEIGHTS } from '../src/physics/detectionForecast.js';
+import { createRng } from '../src/noise/rng.js';
+import type { BenchMedian } from './measure.js';
+
+type Rule = DetectionChannel | 'combined';
+
+/** Count of values of the ascending `sorted` strictly above t. */
+function above(sorted: Float64Array, t: number): number {
+  if (!(t < Infinity)) return 0;
+  // first index with v > t
+  let a = 0;
+  let b = sorted.length;
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (sorted[m] <= t) a = m + 1;
+    else b = m;
+  }
+  return sorted.length - a;
+}
+
+/** Slice of a channel's pool. */
+function slice(x: Float64Array, start: number, n: number): Float64Array {
+  return x.subarray(start, start + n);
+}
+
+interface SetRates {
+  /** Per rule, the rate in force of each set. */
+  rates: Record<Rule, number[]>;
+}
+
+function summarize(rates: number[], alpha: number): { pooled: number; relSd: number } {
+  const m = rates.reduce((a, r) => a + r, 0) / rates.length;
+  const v = rates.reduce((a, r) => a + (r - m) * (r - m), 0) / Math.max(1, rates.length - 1);
+  return { pooled: m / alpha, relSd: Math.sqrt(v) / m };
+}
+
+/** Empirical method on disjoint sets of n: per-channel order statistic, combined via calibrateDetection. */
+function empiricalRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alpha: number, maxSets: number): SetRates {
+  const out: SetRates = { rates: { ttv: [], tdv: [], dip: [], template: [], combined: [] } };
+  const sets = Math.min(maxSets, Math.floor(P / n));
+  const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
+  for (let s = 0; s < sets; s++) {
+    const start = s * n;
+    const nullStats: Partial<Record<DetectionChannel, Float64Array>> = {};
+    for (const ch of channels) nullStats[ch] = slice(pool[ch], start, n);
+    const cal = calibrateDetection(nullStats, alpha, COMBINED_RULE_WEIGHTS);
+    for (const ch of channels) {
+      const sorted = Float64Array.from(nullStats[ch]!).sort();
+      const t = orderStatisticThresholdSorted(sorted, alpha);
+      out.rates[ch].push((above(poolSorted[ch], t) - above(sorted, t)) / (P - n));
+    }
+    let fired = 0;
+    for (let i = 0; i < P; i++) {
+      if (i >= start && i < start + n) continue;
+      for (const ch of channels) row[ch] = pool[ch][i];
+      if (decideDetection(row, cal.thresholds).combined) fired++;
+    }
+    out.rates.combined.push(fired / (P - n));
+  }
+  return out;
+}
+
+/** p of x for one channel: the tail fit above its threshold, else the empirical (N − B + 1)/(N + 1). */
+function channelP(sorted: Float64Array, fit: TailFit, x: number): number {
+  if (x >= fit.threshold) return tailSurvival(fit, x);
+  const N = sorted.length;
+  const below = lowerBound(sorted, 0, N, x);
+  return (N - below + 1) / (N + 1);
+}
+
+function lnM(pool: Record<DetectionChannel, Float64Array>, i: number, channels: DetectionChannel[], sorted: Record<DetectionChannel, Float64Array>, fits: Record<DetectionChannel, TailFit>, w: Record<DetectionChannel, number>): number {
+  let best = -Infinity;
+  for (const ch of channels) {
+    const p = channelP(sorted[ch], fits[ch], pool[ch][i]);
+    const v = Math.log(w[ch]) - Math.log(Math.max(p, 1e-300));
+    if (v > best) best = v;
+  }
+  return best;
+}
+
+/** GPD method on disjoint sets of n (fits once per set; rates at every α of `alphas`). */
+function gpdRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alphas: number[], maxSets: number, estimator: GpdEstimator): { rates: SetRates[]; accepted: number; fits: number; msPerSet: number } {
+  const outs: SetRates[] = alphas.map(() => ({ rates: { ttv: [], tdv: [], dip: [], template: [], combined: [] } }));
+  const sets = Math.min(maxSets, Math.floor(P / n));
+  let wSum = 0;
+  for (const ch of channels) wSum += COMBINED_RULE_WEIGHTS[ch];
+  const w = {} as Record<DetectionChannel, number>;
+  for (const ch of channels) w[ch] = COMBINED_RULE_WEIGHTS[ch] / wSum;
+  let accepted = 0;
+  let fitsDone = 0;
+  let ms = 0;
+  for (let s = 0; s < sets; s++) {
+    const t0 = performance.now();
+    const start = s * n;
+    const sorted = {} as Record<DetectionChannel, Float64Array>;
+    const fits = {} as Record<DetectionChannel, TailFit>;
+    for (const ch of channels) {
+      sorted[ch] = Float64Array.from(slice(pool[ch], start, n)).sort();
+      fits[ch] = fitUpperTail(sorted[ch], { estimator, rng: createRng(17, s, DETECTION_CHANNELS.indexOf(ch)) });
+      fitsDone++;
+      if (fits[ch].accepted) accepted++;
+    }
+    const own = new Float64Array(n);
+    for (let i = 0; i < n; i++) own[i] = lnM(pool, start + i, channels, sorted, fits, w);
+    own.sort();
+    const fitM = fitUpperTail(own, { estimator, rng: createRng(17, s, 99) });
+    fitsDone++;
+    if (fitM.accepted) accepted++;
+    ms += performance.now() - t0;
+    // lnM of the rest of the pool, once per set; then every α.
+    const rest = new Float64Array(P - n);
+    let j = 0;
+    for (let i = 0; i < P; i++) if (i < start || i >= start + n) rest[j++] = lnM(pool, i, channels, sorted, fits, w);
+    rest.sort();
+    alphas.forEach((alpha, a) => {
+      for (const ch of channels) {
+        const t = tailQuantile(fits[ch], alpha);
+        outs[a].rates[ch].push((above(poolSorted[ch], t) - above(sorted[ch], t)) / (P - n));
+      }
+      outs[a].rates.combined.push(above(rest, tailQuantile(fitM, alpha)) / (P - n));
+    });
+  }
+  return { rates: outs, accepted, fits: fitsDone, msPerSet: ms / sets };
+}
+
+export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?? 100000)): BenchMedian[] {
+  const pool = tailPool(poolSize);
+  const channels = pool.channels;
+  const P = pool.count;
+  const stats = pool.stats as Record<DetectionChannel, Float64Array>;
+  const poolSorted = {} as Record<DetectionChannel, Float64Array>;
+  for (const ch of channels) poolSorted[ch] = Float64Array.from(stats[ch]).sort();
+  const rows: BenchMedian[] = [];
+  const rules: Rule[] = [...channels, 'combined'];
+  rows.push({ label: `pool: ${pool.label}${pool.cached ? ' (read from the cache)' : ''}; ${availableParallelism()} cores`, median: pool.seconds, unit: 's', repeats: 1, summary: 'to compute the pool, one thread' });
+  rows.push({ label: `  one no-moon realization (dip and template statistics included)`, median: (1000 * pool.seconds) / P, unit: 'ms', repeats: 1, summary: `mean over ${P}` });
+  const line = (label: string, r: Record<Rule, number[]>, alpha: number): BenchMedian[] =>
+    rules.map((rule) => {
+      const s = summarize(r[rule], alpha);
+      return { label: `  ${label}, ${rule}: pooled rate / α ${s.pooled.toFixed(3)}, relative sd across sets ${(100 * s.relSd).toFixed(1)} %`, median: s.pooled, unit: '× α', repeats: r[rule].length, summary: `${r[rule].length} sets` };
+    });
+  const alphas = [0.01, 0.001];
+  for (const alpha of alphas) {
+    const n = Math.ceil(25 / alpha - 1e-9);
+    rows.push({ label: `α = ${alpha}: pool noise of a rate near α, 1/√(αP)`, median: 1 / Math.sqrt(alpha * P), unit: 'rel', repeats: 1 });
+    if (n <= P / 2) {
+      const t0 = performance.now();
+      const e = empiricalRates(stats, channels, poolSorted, P, n, alpha, 40);
+      rows.push(...line(`empirical order statistic, n = ${n}`, e.rates, alpha));
+      rows.push({ label: `    (${((performance.now() - t0) / 1000).toFixed(1)} s for the empirical sets)`, median: n, unit: 'n', repeats: 1 });
+    } else {
+      // Fewer than two disjoint sets fit in the pool: the order statistic's rate in force is distribution-free, Beta(n + 1 − k, k).
+      const k = Math.ceil((n + 1) * (1 - alpha) - 1e-9);
+      const a = n + 1 - k;
+      rows.push({ label: `  empirical order statistic, n = ${n}: not measurable on a pool of ${P}; distribution-free Beta(${a}, ${k}): mean / α ${(a / (n + 1) / alpha).toFixed(3)}, relative sd ${(100 * Math.sqrt((k / (n + 2)) / a)).toFixed(1)} % (David & Nagaraja 2003, §2.2)`, median: a / (n + 1) / alpha, unit: '× α', repeats: 0, summary: 'theory' });
+    }
+  }
+  for (const estimator of ['pwm', 'ml'] as const) {
+    for (const n of [200, 500, 1000]) {
+      const g = gpdRates(stats, channels, poolSorted, P, n, alphas, 60, estimator);
+      rows.push({ label: `GPD tail (${estimator.toUpperCase()}, Knijnenburg exceedances from ${Math.min(250, n / 2)}, AD bootstrap), n = ${n}: fits accepted ${g.accepted} of ${g.fits}`, median: g.msPerSet, unit: 'ms', repeats: g.rates[0].rates.combined.length, summary: 'per set: 4 channel fits + M' });
+      alphas.forEach((alpha, a) => rows.push(...line(`α = ${alpha}, n = ${n}`, g.rates[a].rates, alpha)));
+    }
+  }
+  return rows;
+}
