@@ -115,7 +115,7 @@ function lnM(pool: Record<DetectionChannel, Float64Array>, i: number, channels: 
 }
 
 /** GPD method on disjoint sets of n (fits once per set; rates at every α of `alphas`). */
-function gpdRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alphas: number[], maxSets: number, estimator: GpdEstimator): { rates: SetRates[]; accepted: number; fits: number; msPerSet: number } {
+function gpdRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alphas: number[], maxSets: number, estimator: GpdEstimator, maxExceedances: number): { rates: SetRates[]; accepted: number; fits: number; msPerSet: number } {
   const outs: SetRates[] = alphas.map(() => ({ rates: { ttv: [], tdv: [], dip: [], template: [], combined: [] } }));
   const sets = Math.min(maxSets, Math.floor(P / n));
   let wSum = 0;
@@ -132,14 +132,14 @@ function gpdRates(pool: Record<DetectionChannel, Float64Array>, channels: Detect
     const fits = {} as Record<DetectionChannel, TailFit>;
     for (const ch of channels) {
       sorted[ch] = Float64Array.from(slice(pool[ch], start, n)).sort();
-      fits[ch] = fitUpperTail(sorted[ch], { estimator, rng: createRng(17, s, DETECTION_CHANNELS.indexOf(ch)) });
+      fits[ch] = fitUpperTail(sorted[ch], { estimator, maxExceedances, rng: createRng(17, s, DETECTION_CHANNELS.indexOf(ch)) });
       fitsDone++;
       if (fits[ch].accepted) accepted++;
     }
     const own = new Float64Array(n);
     for (let i = 0; i < n; i++) own[i] = lnM(pool, start + i, channels, sorted, fits, w);
     own.sort();
-    const fitM = fitUpperTail(own, { estimator, rng: createRng(17, s, 99) });
+    const fitM = fitUpperTail(own, { estimator, maxExceedances, rng: createRng(17, s, 99) });
     fitsDone++;
     if (fitM.accepted) accepted++;
     ms += performance.now() - t0;
@@ -159,7 +159,50 @@ function gpdRates(pool: Record<DetectionChannel, Float64Array>, channels: Detect
   return { rates: outs, accepted, fits: fitsDone, msPerSet: ms / sets };
 }
 
-export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?? 100000)): BenchMedian[] {
+
+/**
+ * The wired method (calibrateDetection with method 'tail', as a sweep cell runs it) on disjoint sets of n:
+ * per-rule pooled rate and spread, the share of sets whose measured combined rate lies inside their
+ * bootstrap interval, and the calibration time per set beside the order statistic's on the same sets.
+ */
+function wiredRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alpha: number, maxSets: number): { rates: SetRates; covered: number; sets: number; tailMs: number; orderMs: number; tailUsed: number } {
+  const out: SetRates = { rates: { ttv: [], tdv: [], dip: [], template: [], combined: [] } };
+  const sets = Math.min(maxSets, Math.floor(P / n));
+  const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
+  let covered = 0;
+  let tailMs = 0;
+  let orderMs = 0;
+  let tailUsed = 0;
+  for (let s = 0; s < sets; s++) {
+    const start = s * n;
+    const nullStats: Partial<Record<DetectionChannel, Float64Array>> = {};
+    for (const ch of channels) nullStats[ch] = slice(pool[ch], start, n);
+    let t0 = performance.now();
+    calibrateDetection(nullStats, alpha, COMBINED_RULE_WEIGHTS);
+    orderMs += performance.now() - t0;
+    t0 = performance.now();
+    const cal = calibrateDetection(nullStats, alpha, COMBINED_RULE_WEIGHTS, { method: 'tail', rng: createRng(17, s, 7) });
+    tailMs += performance.now() - t0;
+    if (cal.method === 'tail') tailUsed++;
+    for (const ch of channels) {
+      const t = cal.thresholds.single[ch]!;
+      const sorted = Float64Array.from(nullStats[ch]!).sort();
+      out.rates[ch].push((above(poolSorted[ch], t) - above(sorted, t)) / (P - n));
+    }
+    let fired = 0;
+    for (let i = 0; i < P; i++) {
+      if (i >= start && i < start + n) continue;
+      for (const ch of channels) row[ch] = pool[ch][i];
+      if (decideDetection(row, cal.thresholds).combined) fired++;
+    }
+    const rate = fired / (P - n);
+    out.rates.combined.push(rate);
+    if (rate >= cal.falseAlarmInForceLower && rate <= cal.falseAlarmInForceUpper) covered++;
+  }
+  return { rates: out, covered, sets, tailMs: tailMs / sets, orderMs: orderMs / sets, tailUsed };
+}
+
+export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?? 300000)): BenchMedian[] {
   const pool = tailPool(poolSize);
   const channels = pool.channels;
   const P = pool.count;
@@ -181,7 +224,7 @@ export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?
     rows.push({ label: `α = ${alpha}: pool noise of a rate near α, 1/√(αP)`, median: 1 / Math.sqrt(alpha * P), unit: 'rel', repeats: 1 });
     if (n <= P / 2) {
       const t0 = performance.now();
-      const e = empiricalRates(stats, channels, poolSorted, P, n, alpha, 40);
+      const e = empiricalRates(stats, channels, poolSorted, P, n, alpha, 100);
       rows.push(...line(`empirical order statistic, n = ${n}`, e.rates, alpha));
       rows.push({ label: `    (${((performance.now() - t0) / 1000).toFixed(1)} s for the empirical sets)`, median: n, unit: 'n', repeats: 1 });
     } else {
@@ -191,11 +234,28 @@ export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?
       rows.push({ label: `  empirical order statistic, n = ${n}: not measurable on a pool of ${P}; distribution-free Beta(${a}, ${k}): mean / α ${(a / (n + 1) / alpha).toFixed(3)}, relative sd ${(100 * Math.sqrt((k / (n + 2)) / a)).toFixed(1)} % (David & Nagaraja 2003, §2.2)`, median: a / (n + 1) / alpha, unit: '× α', repeats: 0, summary: 'theory' });
     }
   }
-  for (const estimator of ['pwm', 'ml'] as const) {
-    for (const n of [200, 500, 1000]) {
-      const g = gpdRates(stats, channels, poolSorted, P, n, alphas, 60, estimator);
-      rows.push({ label: `GPD tail (${estimator.toUpperCase()}, Knijnenburg exceedances from ${Math.min(250, n / 2)}, AD bootstrap), n = ${n}: fits accepted ${g.accepted} of ${g.fits}`, median: g.msPerSet, unit: 'ms', repeats: g.rates[0].rates.combined.length, summary: 'per set: 4 channel fits + M' });
-      alphas.forEach((alpha, a) => rows.push(...line(`α = ${alpha}, n = ${n}`, g.rates[a].rates, alpha)));
+  // n: 200, 500, 1000 (the brief), 1500 at α = 1 %; 2500, 5000, 10 000 for α = 0.1 % (still below its 25/α = 25 000).
+  // Exceedances: Knijnenburg et al.'s start min(250, n/2), and 10 % of n where that is more.
+  const cases: Array<{ n: number; alphas: number[]; cap: number }> = [];
+  for (const n of [200, 500, 1000, 1500]) cases.push({ n, alphas, cap: Math.min(250, n / 2) });
+  for (const n of [2500, 5000, 10000, 15000]) {
+    cases.push({ n, alphas: [0.001], cap: 250 });
+    if (n / 10 > 250) cases.push({ n, alphas: [0.001], cap: n / 10 });
+  }
+  // The wired method at its default count ⌈15/α⌉ (nullSet.ts), as a sweep cell calibrates.
+  for (const alpha of alphas) {
+    const n = Math.ceil(15 / alpha - 1e-9);
+    const w = wiredRates(stats, channels, poolSorted, P, n, alpha, 60);
+    rows.push({ label: `wired: calibrateDetection 'tail', α = ${alpha}, n = ${n}: combined rule on its tail fit in ${w.tailUsed} of ${w.sets} sets; measured combined rate inside the set's bootstrap interval in ${w.covered} of ${w.sets}`, median: w.tailMs, unit: 'ms', repeats: w.sets, summary: `calibration per set (order statistic: ${w.orderMs.toFixed(1)} ms)` });
+    rows.push(...line(`wired, α = ${alpha}, n = ${n}`, w.rates.rates, alpha));
+  }
+  const estimators = (process.env.MOONSIEVE_TAIL_ESTIMATORS ?? 'pwm,ml').split(',') as GpdEstimator[];
+  for (const estimator of estimators) {
+    // ML is ~20× slower than PWM (its profile likelihood inside 99 bootstrap refits): the brief's n only, 60 sets.
+    for (const c of estimator === 'ml' ? cases.filter((x) => x.n <= 1500) : cases) {
+      const g = gpdRates(stats, channels, poolSorted, P, c.n, c.alphas, estimator === 'ml' ? 60 : 100, estimator, c.cap);
+      rows.push({ label: `GPD tail (${estimator.toUpperCase()}, exceedances from ${c.cap} down by 10 until the AD bootstrap check passes), n = ${c.n}: fits accepted ${g.accepted} of ${g.fits}`, median: g.msPerSet, unit: 'ms', repeats: g.rates[0].rates.combined.length, summary: 'per set: 4 channel fits + M' });
+      c.alphas.forEach((alpha, a) => rows.push(...line(`α = ${alpha}, n = ${c.n}`, g.rates[a].rates, alpha)));
     }
   }
   return rows;

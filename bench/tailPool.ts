@@ -45,15 +45,32 @@ export interface TailPool {
   label: string;
 }
 
-/** The pool of `count` no-moon realizations for the cell (mass, separation in Hill radii). */
+/** Realizations are computed and cached in blocks of this many (the first block of a larger pool is the smaller pool). */
+const BLOCK = 100000;
+
+/** The pool of `count` no-moon realizations for the cell (mass, separation in Hill radii): blocks of 100 000, each cached. */
 export function tailPool(count: number, massMearth = 0.15, separationHill = 0.3, onProgress?: (done: number) => void): TailPool {
+  if (count <= BLOCK) return tailPoolBlock(0, count, massMearth, separationHill, onProgress);
+  const parts: TailPool[] = [];
+  for (let start = 0; start < count; start += BLOCK) parts.push(tailPoolBlock(start, Math.min(BLOCK, count - start), massMearth, separationHill, onProgress));
+  const stats: TailPool['stats'] = {};
+  for (const ch of parts[0].channels) {
+    const all = new Float64Array(count);
+    parts.forEach((p, i) => all.set(p.stats[ch]!, i * BLOCK));
+    stats[ch] = all;
+  }
+  return { count, channels: parts[0].channels, stats, seconds: parts.reduce((a, p) => a + p.seconds, 0), cached: parts.every((p) => p.cached), label: `Harvik b, ${massMearth} M⊕ at ${separationHill} Hill, ${count} no-moon realizations` };
+}
+
+function tailPoolBlock(first: number, count: number, massMearth: number, separationHill: number, onProgress?: (done: number) => void): TailPool {
   const probe = parseScenario(tailSystemDoc(0.1, 1, 20), 'tail pool');
   const hillRp = hillRadius(probe.planet.semiMajorAxisM, probe.planet.massKg, probe.star.massKg) / probe.planet.radiusM;
   const s = parseScenario(tailSystemDoc(massMearth, separationHill, hillRp), 'tail pool');
-  const c = nullClassOfScenario(withoutMoon(s), 17, count);
+  const c = nullClassOfScenario(withoutMoon(s), 17, first + count);
   const channels = channelsFor(s.observation.transits);
   const label = `Harvik b, ${massMearth} M⊕ at ${separationHill} Hill, ${count} no-moon realizations`;
-  const hash = createHash('sha256').update(c.key).update(`|${massMearth}|${separationHill}`).digest('hex').slice(0, 16);
+  // Keyed by the class without its count (realization r does not depend on the count) and the block.
+  const hash = createHash('sha256').update(nullClassOfScenario(withoutMoon(s), 17, 1).key).update(`|${massMearth}|${separationHill}|${first}|${count}`).digest('hex').slice(0, 16);
   const file = join(tmpdir(), `moonsieve-tail-pool-${hash}.json`);
   if (existsSync(file)) {
     const j = JSON.parse(readFileSync(file, 'utf8')) as { count: number; seconds: number; stats: Record<string, number[]> };
@@ -71,13 +88,13 @@ export function tailPool(count: number, massMearth = 0.15, separationHill = 0.3,
   const chunk = 250;
   for (let start = 0; start < count; start += chunk) {
     const n = Math.min(chunk, count - start);
-    const set = unpackNullSet(computeNullRange(c, start, n, ws));
+    const set = unpackNullSet(computeNullRange(c, first + start, n, ws));
     profile ??= dipProfile(s, set.stacks[0]);
     stats.ttv.set(set.ttv, start);
     stats.tdv.set(set.tdv, start);
     stats.dip.set(dipScores(set.stacks, profile, exclude), start);
     stats.template.set(templateStatistics(bank, set.rho, n), start);
-    onProgress?.(start + n);
+    onProgress?.(first + start + n);
   }
   const seconds = (performance.now() - t0) / 1000;
   const out: Record<string, number[]> = {};
