@@ -4,7 +4,8 @@
  * Knijnenburg et al. 2009) reach, with fewer no-moon realizations, the
  * accuracy of the order-statistic threshold at n = 25/α?
  *
- * On a pool of P no-moon realizations of one cell of the invented K-dwarf
+ * On a pool of P no-moon realizations (300 000 by default, MOONSIEVE_TAIL_POOL;
+ * about 15 min of one core the first time, then read from the cache) of one cell of the invented K-dwarf
  * system of bench/efficiency.ts (0.15 M⊕ at 0.30 Hill: TTV, TDV, dip and
  * template statistics; bench/tailPool.ts, cached in the OS temporary folder),
  * the pool is cut into disjoint calibration sets of n realizations; each set
@@ -20,6 +21,9 @@
  * - empirical: the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, and the
  *   combined rule calibrated by calibrateDetection (timing/detection.ts), at
  *   n = ⌈25/α⌉.
+ * - wired: calibrateDetection with method 'tail' (what a sweep cell runs) at
+ *   its default n = ⌈15/α⌉, with the share of sets whose measured combined
+ *   rate lies inside the set's bootstrap interval, and the calibration time.
  * - GPD (PWM or ML): per channel the tail fit of the set (exceedance count
  *   from min(250, n/2) down by 10 until the Anderson–Darling bootstrap check,
  *   99 replicates, passes at 5 %), threshold = tail quantile at α; the
