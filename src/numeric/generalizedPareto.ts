@@ -43,7 +43,8 @@
  * and the value exceeded with probability p ≤ N_exc/n is u + y(q = p n/N_exc).
  * The check's p-value here is a parametric bootstrap of the statistic with the
  * parameters refitted on each replicate (Stute, Manteiga & Quindimil 1993,
- * Metrika 40, 243), since Choulakian & Stephens' table is not reproduced here;
+ * Metrika 40, 243), since Choulakian & Stephens' table is not reproduced here,
+ * stopped as soon as acceptance at the level is certain (Besag & Clifford 1991);
  * its uniform deviates are an argument (a seeded source), so a fit is
  * reproducible.
  */
@@ -233,6 +234,9 @@ export interface UniformSource {
  * Bootstrap p-value of the Anderson–Darling statistic with estimated parameters: `replicates` samples of
  * the fitted GPD, each refitted by the same estimator; p = (1 + #{A²* ≥ A²})/(replicates + 1) (Davison &
  * Hinkley 1997, Bootstrap Methods and their Application, eq. 4.11; Stute, Manteiga & Quindimil 1993).
+ * With `stopAtLevel`, the replicates stop as soon as p ≥ stopAtLevel is certain (the count can only
+ * grow), so the decision at that level is the full test's (a sequential Monte Carlo test in the manner of
+ * Besag & Clifford 1991, Biometrika 78, 301); the p-value returned is then a lower bound.
  */
 export function andersonDarlingGpdPValue(
   excesses: ArrayLike<number>,
@@ -240,6 +244,7 @@ export function andersonDarlingGpdPValue(
   estimator: GpdEstimator,
   replicates: number,
   rng: UniformSource,
+  stopAtLevel?: number,
 ): { statistic: number; pValue: number } {
   const a2 = andersonDarlingGpd(excesses, fit.shape, fit.scale);
   if (!Number.isFinite(a2)) return { statistic: a2, pValue: 0 };
@@ -260,6 +265,7 @@ export function andersonDarlingGpdPValue(
       continue;
     }
     if (andersonDarlingGpd(sample, f.shape, f.scale) >= a2) atLeast++;
+    if (stopAtLevel !== undefined && (1 + atLeast) / (replicates + 1) >= stopAtLevel) break;
   }
   return { statistic: a2, pValue: (1 + atLeast) / (replicates + 1) };
 }
@@ -289,7 +295,7 @@ export interface TailFit extends GpdParameters {
   /** n: the whole sample. */
   total: number;
   estimator: GpdEstimator;
-  /** Anderson–Darling statistic and its bootstrap p-value (NaN when not checked). */
+  /** Anderson–Darling statistic and its bootstrap p-value (NaN when not checked; when accepted, a lower bound: the replicates stop once p ≥ level is certain). */
   adStatistic: number;
   adPValue: number;
   /** Whether the goodness-of-fit check passed (true when not checked). */
@@ -329,7 +335,7 @@ export function fitUpperTail(sorted: Float64Array, options: TailFitOptions = {})
     // Ties at the threshold give a zero excess; the GPD has no mass there, so such a split is skipped.
     if (!(excess[0] > 0) || !(excess[m - 1] > excess[0])) continue;
     const fit = fitGpd(excess, estimator);
-    const gof = check ? andersonDarlingGpdPValue(excess, fit, estimator, replicates, options.rng!) : { statistic: NaN, pValue: NaN };
+    const gof = check ? andersonDarlingGpdPValue(excess, fit, estimator, replicates, options.rng!, level) : { statistic: NaN, pValue: NaN };
     last = { ...fit, threshold: u, exceedances: m, total: n, estimator, adStatistic: gof.statistic, adPValue: gof.pValue, accepted: !check || gof.pValue >= level };
     if (last.accepted) return last;
   }

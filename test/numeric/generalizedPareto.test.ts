@@ -147,6 +147,20 @@ describe('tail fits (Knijnenburg et al. 2009)', () => {
     expect(andersonDarlingGpdPValue(bad, fitBad, 'pwm', 199, rng).pValue).toBeLessThan(0.05); // rejected at the 5 % level
   });
 
+  it('stopping the bootstrap once acceptance at the level is certain gives the full test\'s decision (Besag & Clifford 1991), with a p-value no larger', () => {
+    for (let seed = 0; seed < 12; seed++) {
+      // Half GPD samples, half a GPD with a clump added (often rejected).
+      const x = sortedSample(150, 0.1, 1, 40 + seed);
+      if (seed % 2 === 1) for (let i = 0; i < 30; i++) x[i] = 0.001 * (i + 1);
+      const f = fitGpdPwm(x);
+      const full = andersonDarlingGpdPValue(x, f, 'pwm', 99, createRng(seed, 1, 0));
+      const fast = andersonDarlingGpdPValue(x, f, 'pwm', 99, createRng(seed, 1, 0), 0.05);
+      expect(fast.pValue >= 0.05).toBe(full.pValue >= 0.05);
+      expect(fast.pValue).toBeLessThanOrEqual(full.pValue);
+      expect(fast.statistic).toBe(full.statistic);
+    }
+  });
+
   it('the exceedance count drops by the step until the check passes, and the result is reproducible with the same seed', () => {
     // Body uniform, tail exponential above the 90 % point: a threshold in the body is rejected, one in the tail accepted.
     const n = 2000;
