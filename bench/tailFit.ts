@@ -238,7 +238,7 @@ export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?
       rows.push({ label: `  empirical order statistic, n = ${n}: not measurable on a pool of ${P}; distribution-free Beta(${a}, ${k}): mean / α ${(a / (n + 1) / alpha).toFixed(3)}, relative sd ${(100 * Math.sqrt((k / (n + 2)) / a)).toFixed(1)} % (David & Nagaraja 2003, §2.2)`, median: a / (n + 1) / alpha, unit: '× α', repeats: 0, summary: 'theory' });
     }
   }
-  // n: 200, 500, 1000 (the brief), 1500 at α = 1 %; 2500, 5000, 10 000 for α = 0.1 % (still below its 25/α = 25 000).
+  // n: 200, 500, 1000 (issue 17), 1500 at α = 1 %; 2500, 5000, 10 000, 15 000 for α = 0.1 % (still below its 25/α = 25 000).
   // Exceedances: Knijnenburg et al.'s start min(250, n/2), and 10 % of n where that is more.
   const cases: Array<{ n: number; alphas: number[]; cap: number }> = [];
   for (const n of [200, 500, 1000, 1500]) cases.push({ n, alphas, cap: Math.min(250, n / 2) });
@@ -255,7 +255,7 @@ export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?
   }
   const estimators = (process.env.MOONSIEVE_TAIL_ESTIMATORS ?? 'pwm,ml').split(',') as GpdEstimator[];
   for (const estimator of estimators) {
-    // ML is ~20× slower than PWM (its profile likelihood inside 99 bootstrap refits): the brief's n only, 60 sets.
+    // ML is ~20× slower than PWM (its profile likelihood inside 99 bootstrap refits): n ≤ 1500 only, 60 sets.
     for (const c of estimator === 'ml' ? cases.filter((x) => x.n <= 1500) : cases) {
       const g = gpdRates(stats, channels, poolSorted, P, c.n, c.alphas, estimator === 'ml' ? 60 : 100, estimator, c.cap);
       rows.push({ label: `GPD tail (${estimator.toUpperCase()}, exceedances from ${c.cap} down by 10 until the AD bootstrap check passes), n = ${c.n}: fits accepted ${g.accepted} of ${g.fits}`, median: g.msPerSet, unit: 'ms', repeats: g.rates[0].rates.combined.length, summary: 'per set: 4 channel fits + M' });
