@@ -17,7 +17,7 @@ import { benchLimitsStart, benchWorkerStart } from './workerStart.js';
 import { benchBound } from './bound.js';
 import { benchBankPhases } from './bankPhases.js';
 import { benchRank } from './rank.js';
-import { benchTailFit } from './tailFit.js';
+import { benchTailFit, benchTailSweep } from './tailFit.js';
 
 function print(title: string, rows: BenchMedian[]): void {
   process.stdout.write(`\n${title}\n`);
@@ -123,7 +123,7 @@ async function main(): Promise<void> {
     ['rank', () => benchRank()],
     ['small-sweep', () => smallSweepSection()],
     ['efficiency', () => benchEfficiency()],
-    ['tail-fit', () => benchTailFit()],
+    ['tail-fit', async () => [...benchTailFit(), ...(await benchTailSweep())]],
     ['sweep', () => sweepSection(process.argv.includes('--full'))],
   ];
   for (const [name, run] of sections) {

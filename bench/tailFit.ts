@@ -41,6 +41,7 @@ import { lowerBound } from '../src/numeric/lowerBound.js';
 import { COMBINED_RULE_WEIGHTS } from '../src/physics/detectionForecast.js';
 import { createRng } from '../src/noise/rng.js';
 import type { BenchMedian } from './measure.js';
+import { benchSweep, referenceSweepDoc } from './sweep.js';
 
 type Rule = DetectionChannel | 'combined';
 
@@ -263,4 +264,28 @@ export function benchTailFit(poolSize = Number(process.env.MOONSIEVE_TAIL_POOL ?
     }
   }
   return rows;
+}
+
+/**
+ * What the default count saves in a sweep: the bench's small sweep (the reference scenario on a 6 × 6
+ * grid, 20 realizations per cell) on one worker with `detection.calibration: tail` (1500 no-moon) and
+ * `order_statistic` (2500), in the order tail, order, order, tail (a linear drift of the machine cancels).
+ */
+export async function benchTailSweep(): Promise<BenchMedian[]> {
+  const seconds: Record<string, number[]> = { tail: [], order_statistic: [] };
+  const shape: Record<string, string> = {};
+  for (const m of ['tail', 'order_statistic', 'order_statistic', 'tail'] as const) {
+    const doc = referenceSweepDoc(20);
+    for (const a of (doc.sweep as { axes: Array<{ count: number }> }).axes) a.count = 6;
+    doc.detection = { ...(doc.detection as Record<string, unknown>), calibration: m };
+    const r = await benchSweep(doc, { workers: 1, label: `small sweep, ${m}` });
+    seconds[m].push(r.seconds);
+    shape[m] = `${r.cells} cells × 20 realizations + ${r.calibrationRealizations} no-moon`;
+  }
+  const mean = (xs: number[]): number => xs.reduce((a, x) => a + x, 0) / xs.length;
+  return [
+    { label: `small sweep, tail calibration (${shape.tail}), 1 worker (${seconds.tail.map((t) => t.toFixed(1)).join(', ')} s)`, median: mean(seconds.tail), unit: 's', repeats: 2, summary: 'mean of 2' },
+    { label: `the same, order statistic (${shape.order_statistic}) (${seconds.order_statistic.map((t) => t.toFixed(1)).join(', ')} s)`, median: mean(seconds.order_statistic), unit: 's', repeats: 2, summary: 'mean of 2' },
+    { label: 'ratio, tail over order statistic', median: mean(seconds.tail) / mean(seconds.order_statistic), unit: '×', repeats: 2, summary: 'ratio of the means' },
+  ];
 }
