@@ -31,6 +31,14 @@
  *   the same information the combined rule equals each channel's.
  * - A channel whose statistic is NaN (not measured, or its fit failed) or
  *   whose calibration is absent is not detected and scores u = 0.
+ * - Tail method (calibrateDetection's option, the sweep's default): each
+ *   channel's threshold is the α point of a generalised Pareto fit of its
+ *   no-moon upper tail (Knijnenburg et al. 2009, Bioinformatics 25, i161;
+ *   falseAlarmCalibration.ts), p̂_c above the fit's threshold is the fitted
+ *   tail's survival (the empirical p̂_c below), and the combined threshold is
+ *   the α point of the fitted tail of the no-moon ln M; where a tail is too
+ *   short for α, the order statistic as above. Its rate in force is a
+ *   bootstrap (tailRateInForce), not the Beta distribution.
  */
 import {
   calibrateThreshold,

@@ -26,6 +26,8 @@
  *   threshold is reported with its Wilson interval, beside the requested α.
  * - Wilson 1927 (JASA 22, 209) score interval for k successes in n trials:
  *   centre (k + z²/2)/(n + z²), half-width z·sqrt(k(n − k)/n + z²/4)/(n + z²).
+ * - Tail-fit thresholds (tailThresholdSorted) and their bootstrap rate in
+ *   force (tailRateInForce): see their comments at the end of this file.
  */
 import { quantileSortedType7 } from '../numeric/quantiles.js';
 import { betaQuantile } from '../numeric/betaDistribution.js';
