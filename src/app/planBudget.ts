@@ -34,7 +34,7 @@ import type {
   BudgetAnswer, BudgetEvaluation, BudgetForecastCurve, BudgetResult, BudgetTarget, PlanBudgetOptions, ResolvedBudgetTarget,
 } from '../budget/budgetTypes.js';
 import { minTransitsFor, resolveBudgetTarget } from '../budget/budgetSpec.js';
-import { defaultNullRealizations, NULL_EXCEEDANCES } from '../sweep/nullSet.js';
+import { calibrationMethodOf, defaultNullRealizations, NULL_EXCEEDANCES, NULL_EXCEEDANCES_TAIL } from '../sweep/nullSet.js';
 import { rateInForce } from '../timing/falseAlarmCalibration.js';
 import { forecastProbability, forecastTransitsNeeded, moonSignal, precisionsAlong, type ValuePrecision } from '../budget/budgetForecast.js';
 import { habitablePopulation, spreadEvenly } from '../budget/habitableTargets.js';
@@ -111,7 +111,7 @@ function plan(doc: unknown, source: string, target: BudgetTarget, options: PlanB
   // they need into epochs, nights and calendar time (budget/nightsBudget.ts).
   const clean = withoutSkyBlocks(withoutBlocks(doc));
   const base = withSky.sky ? parseScenario(clean, source) : withSky;
-  const t = { ...spec, nullRealizations: spec.nullRealizations ?? defaultNullRealizations(base.detection.falseAlarm, spec.realizations) };
+  const t = { ...spec, nullRealizations: spec.nullRealizations ?? defaultNullRealizations(base.detection.falseAlarm, spec.realizations, calibrationMethodOf(base)) };
   assertObservable(base, source);
   const q = solvedQuantity(t.solve, clean, base, t.maxTransits, t.channel);
   if (q.solve === 'transits') {
@@ -479,19 +479,29 @@ function planPopulation(ctx: Context, clean: Record<string, unknown>): Part {
 }
 
 /**
- * The note on the false-alarm calibration: every threshold (each channel at α, and the combined
- * min-p rule at α: timing/detection.ts) is the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of all n
- * no-moon realizations of the evaluated value, whose exceedance probability is Beta(n + 1 − k, k)
- * (David & Nagaraja 2003, Order Statistics, 3rd ed., §2.2): its mean and 95 % interval are stated,
- * and a count below 25/α (fewer than 25 expected exceedances) is flagged with the count that fixes it.
+ * The note on the false-alarm calibration. Order statistic: every threshold (each channel at α, and the
+ * combined min-p rule at α: timing/detection.ts) is the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of all
+ * n no-moon realizations of the evaluated value, whose exceedance probability is Beta(n + 1 − k, k) (David
+ * & Nagaraja 2003, Order Statistics, 3rd ed., §2.2): its mean and 95 % interval are stated. Tail fit (the
+ * default): a generalised Pareto fit of the upper tail (Knijnenburg et al. 2009), whose rate in force each
+ * evaluation reports with a bootstrap interval (the evaluations' range is stated). A count below 25/α
+ * (order statistic) or 15/α (tail fit) is flagged with the count that fixes it.
  */
 function nullCountNotes(ctx: Context, evaluations: BudgetEvaluation[]): string[] {
   const alpha = ctx.base.detection.falseAlarm;
   const n = ctx.t.nullRealizations;
-  const r = rateInForce(n, alpha);
   const measured = evaluations.map((e) => e.falseAlarmMeasured).filter((x): x is number => x !== null && Number.isFinite(x));
   const mText = measured.length > 0 ? `; the combined rule fires on ${Math.min(...measured).toFixed(3)}–${Math.max(...measured).toFixed(3)} of them (each scored against the others)` : '';
-  const text = `false-alarm thresholds come from all ${n} no-moon realizations per value (${ctx.t.channel === 'combined' ? 'each channel and the combined min-p rule' : 'the test'} at α = ${alpha}): ` +
+  const subject = `false-alarm thresholds come from all ${n} no-moon realizations per value (${ctx.t.channel === 'combined' ? 'each channel and the combined min-p rule' : 'the test'} at α = ${alpha})`;
+  if (calibrationMethodOf(ctx.base) === 'tail') {
+    const text = `${subject}: a generalised Pareto fit of their upper tail (detection.calibration: tail; where the tail is too short for α, the order statistic), with ${(alpha * n).toPrecision(3)} expected exceedances at α`;
+    if (alpha * n < NULL_EXCEEDANCES_TAIL - 1e-9) {
+      return [`${text}: fewer than ${NULL_EXCEEDANCES_TAIL}, below what the fit was measured to hold its rate at; --no-moon-realizations ${Math.ceil(NULL_EXCEEDANCES_TAIL / alpha)} fixes it, at a proportional cost${mText}`];
+    }
+    return [`${text}${mText}`];
+  }
+  const r = rateInForce(n, alpha);
+  const text = `${subject}: ` +
     `the rate in force is ${r.mean.toPrecision(2)} on average, 95 % between ${r.lower.toPrecision(2)} and ${r.upper.toPrecision(2)} (Beta distribution of the order statistic), resting on ${r.exceedances} expected exceedances`;
   if (r.exceedances < NULL_EXCEEDANCES) {
     return [`${text}: fewer than ${NULL_EXCEEDANCES}, so the rate a value is judged at may be well off α; --no-moon-realizations ${Math.ceil(NULL_EXCEEDANCES / alpha)} fixes it, at a proportional cost${mText}`];

@@ -31,9 +31,10 @@ export const DEFAULT_BUDGET_REALIZATIONS = 100;
 export const DEFAULT_HABITABLE_REALIZATIONS = 40;
 /**
  * No-moon realizations per evaluated value: null here means the sweep's default,
- * ⌈25/α⌉ (and at least R and 200; sweep/nullSet.ts), resolved by planBudget once
- * α is known, so every threshold rests on ~25 expected exceedances and its rate
- * in force is within ±40 % (95 %) of α; all of them calibrate (timing/detection.ts).
+ * ⌈15/α⌉ with the tail-fit calibration (the default) or ⌈25/α⌉ with the order
+ * statistic (and at least R and 200; sweep/nullSet.ts), resolved by planBudget once
+ * α is known; both hold the rate in force within about ±40 % (95 %) of α (measured
+ * for the tail fit: bench/tailFit.ts); all of them calibrate (timing/detection.ts).
  */
 export const DEFAULT_BUDGET_NULL_REALIZATIONS = null;
 export const DEFAULT_MAX_TRANSITS = 50;

@@ -72,7 +72,7 @@ export interface ResolvedBudgetTarget {
   solve: BudgetSolve;
   channel: BudgetChannel;
   realizations: number;
-  /** null: the default ⌈25/α⌉ (at least R and 200), resolved once α is known (planBudget). */
+  /** null: the default ⌈15/α⌉ (tail fit) or ⌈25/α⌉ (order statistic), at least R and 200, resolved once α is known (planBudget). */
   nullRealizations: number | null;
   maxTransits: number;
   forecastOnly: boolean;

@@ -182,6 +182,8 @@ export const SCENARIO_FIELDS: readonly ScenarioField[] = [
   { path: 'detection', type: 'mapping', defaultText: 'defaults', meaning: 'detection threshold' },
   { path: 'detection.false_alarm', type: 'quantity', kind: 'fraction', bare: fraction, show: [1e-2, '%'], default: 0.01, min: 0, minExclusive: true, max: 0.5,
     meaning: 'false-alarm probability per channel at which a moon counts as detected' },
+  { path: 'detection.calibration', type: 'choice', choices: ['tail', 'order_statistic'], default: 'tail',
+    meaning: 'how thresholds are set from the no-moon realizations: tail, a generalised Pareto fit of their upper tail (Knijnenburg et al. 2009; needs ⌈15/α⌉ of them by default); order_statistic, the distribution-free order statistic (⌈25/α⌉ by default)' },
 
   // Where and when (issue 18): read by src/scenario/readSky.ts. Latitude and altitude bounds are
   // definitions and common practice (no source); the campaign's years are those of the leap-second table.

@@ -480,8 +480,11 @@ function readObservation(r: FieldReader, periodS: number, cautions: ScenarioCaut
 
 function readDetection(r: FieldReader): DetectionSpec {
   const falseAlarm = r.field('false_alarm');
+  const written = r.has('calibration');
+  const calibration = r.fieldChoice<'tail' | 'order_statistic'>('calibration');
   r.rejectUnknown();
-  return { falseAlarm };
+  // Present only when written (the canonical JSON, and so the no-moon seeds, of other scenarios stay as they were).
+  return written ? { falseAlarm, calibration } : { falseAlarm };
 }
 
 /** Mass of the planet plus moon (the barycentre's mass), kg. */

@@ -99,7 +99,7 @@ export function scenarioToDocument(s: Scenario): ScenarioDocument {
       t0: obs.t0BjdTdb, baseline: si(obs.baselineS, 's'), duty_cycle: obs.dutyCycle, gap_length: si(obs.gapLengthS, 's'), missed_fraction: obs.missedFraction,
       ...(s.sky && s.sky.t0ErrorS > 0 ? { t0_error: si(s.sky.t0ErrorS, 's') } : {}),
     },
-    detection: { false_alarm: s.detection.falseAlarm },
+    detection: { false_alarm: s.detection.falseAlarm, ...(s.detection.calibration !== undefined ? { calibration: s.detection.calibration } : {}) },
   };
   if (s.sky) {
     const { sites, target, campaign, constraints } = s.sky;

@@ -144,6 +144,11 @@ export interface ObservationSpec {
 export interface DetectionSpec {
   /** False-alarm probability per channel at which a moon counts as detected. */
   falseAlarm: number;
+  /**
+   * How thresholds are set from the no-moon realizations (timing/detection.ts): 'tail' (the default when
+   * absent) or 'order_statistic'. Present only when written, so other scenarios keep their canonical JSON.
+   */
+  calibration?: 'tail' | 'order_statistic';
 }
 
 /**

@@ -100,16 +100,21 @@ export interface CellResult extends Partial<ChannelProbabilities<'ttv' | 'tdv' |
   median_transits_fitted?: number | null;
   /** The requested false-alarm probability per channel. */
   false_alarm?: number;
-  /** Whether the no-moon set gives fewer than 25 expected exceedances at α ((n + 1)·α < 25, nullSet.ts). */
+  /** Whether the no-moon set gives fewer expected exceedances at α than the method needs ((n + 1)·α < 25, order statistic; < 15, tail fit: nullSet.ts). */
   calibration_limited?: boolean;
   /** Fraction of the no-moon realizations the combined rule flags (in-sample: they set its threshold). */
   false_alarm_measured_combined?: number | null;
-  /** Mean of the combined rule's false-alarm rate in force: Beta(n + 1 − k, k) over the calibration draw (David & Nagaraja 2003). */
+  /**
+   * Mean of the combined rule's false-alarm rate in force: order statistic, Beta(n + 1 − k, k) over the
+   * calibration draw (David & Nagaraja 2003); tail fit, the bootstrap mean (timing/falseAlarmCalibration.ts).
+   */
   false_alarm_in_force?: number | null;
-  /** 2.5 % point of that Beta distribution. */
+  /** 2.5 % point of that distribution. */
   false_alarm_in_force_lo?: number | null;
-  /** 97.5 % point of that Beta distribution. */
+  /** 97.5 % point of that distribution. */
   false_alarm_in_force_hi?: number | null;
+  /** How the combined rule's threshold was set: 'tail' (generalised Pareto tail fit) or 'order_statistic' (also the tail method's fallback). */
+  calibration_method?: 'tail' | 'order_statistic' | null;
   /** Templates in the cell's photodynamical bank (phases × orientations). */
   template_bank_size?: number;
   /** Calibrated threshold of the template statistic (phase-marginalised likelihood ratio). */

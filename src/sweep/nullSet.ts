@@ -35,12 +35,28 @@ export const NULL_SEED_SALT = 0x6e756c6c; // "null"
 export const NULL_EXCEEDANCES = 25;
 
 /**
- * Default number of no-moon calibration realizations: ⌈25/α⌉ (each threshold at α, single or
- * combined, rests on ~25 expected exceedances: the Beta(25, n − 24) rate in force has a relative
- * standard deviation of 1/√25 = 20 %), at least R and 200.
+ * Expected exceedances at α the tail-fit calibration needs (timing/detection.ts, method 'tail'): measured
+ * in bench/tailFit.ts on the efficiency system (`npm run bench -- tail-fit`), a generalised Pareto fit of
+ * the upper tail from ⌈15/α⌉ no-moon realizations holds the pooled rate in force of every channel and of
+ * the combined rule within ±5 % of α at α = 1 %, with a spread across calibration sets no larger than the
+ * order statistic's at 25/α (17–22 % against 19–24 %; README, Performance).
  */
-export function defaultNullRealizations(falseAlarm: number, realizations: number): number {
-  return Math.max(realizations, 200, Math.ceil(NULL_EXCEEDANCES / falseAlarm - 1e-9));
+export const NULL_EXCEEDANCES_TAIL = 15;
+
+/** The calibration method of a scenario: its `detection.calibration`, 'tail' when absent. */
+export function calibrationMethodOf(s: Pick<Scenario, 'detection'>): 'tail' | 'order_statistic' {
+  return s.detection.calibration ?? 'tail';
+}
+
+/**
+ * Default number of no-moon calibration realizations: with the order statistic ⌈25/α⌉ (each threshold at
+ * α, single or combined, rests on ~25 expected exceedances: the Beta(25, n − 24) rate in force has a
+ * relative standard deviation of 1/√25 = 20 %); with the tail fit (the default) ⌈15/α⌉
+ * (NULL_EXCEEDANCES_TAIL); at least R and 200.
+ */
+export function defaultNullRealizations(falseAlarm: number, realizations: number, calibration: 'tail' | 'order_statistic' = 'tail'): number {
+  const expected = calibration === 'tail' ? NULL_EXCEEDANCES_TAIL : NULL_EXCEEDANCES;
+  return Math.max(realizations, 200, Math.ceil(expected / falseAlarm - 1e-9));
 }
 
 /** The calibration statistics of a null class, per realization, with its residual stacks. */
@@ -110,7 +126,8 @@ export function chiSquareScore(chi2: number, dof: number): number {
 /** The null class of scenario `s` (its moon, if any, is ignored) for `seed` and `count` realizations. */
 export function nullClassOfScenario(s: Scenario, seed: number, count: number): NullClass {
   if (!(Number.isInteger(count) && count >= 1)) throw new RangeError(`count must be an integer ≥ 1, got ${count}`);
-  const json = canonicalJson({ ...s, moon: null, name: '' });
+  // The calibration method does not change the realizations: left out, so both methods draw the same ones.
+  const json = canonicalJson({ ...s, moon: null, name: '', detection: { falseAlarm: s.detection.falseAlarm } });
   const id = createHash('sha256').update(json).digest().readUInt32BE(0) >>> 1;
   return { key: `${seed}|${count}|${json}`, id, count, seed, scenario: { ...s, moon: null } };
 }

@@ -34,14 +34,23 @@
  * transits or gaps measured nothing: it is a non-detection in every channel,
  * and the cell counts such realizations in `no_transit_observed`.
  *
- * Thresholds are the order statistic x_(k), k = ⌈(n + 1)(1 − α)⌉, of all n
- * no-moon statistics (no split half), and the combined rule's threshold the
- * same order statistic of the no-moon min-p scores (timing/detection.ts). The
- * exceedance probability in force is Beta(n + 1 − k, k) distributed (David &
- * Nagaraja 2003, Order Statistics, §2.2): the cell reports its mean and 95 %
- * interval (`false_alarm_in_force`, `_lo`, `_hi`). With fewer than 25 expected
- * exceedances ((n + 1)·α < 25, nullSet.ts) the cell says `calibration_limited`;
- * with (n + 1)·α < 1 no threshold exists and nothing is detected.
+ * Thresholds (scenario `detection.calibration`, timing/detection.ts), from all n
+ * no-moon statistics (no split half):
+ * - 'tail' (default): a generalised Pareto fit of each channel's upper tail
+ *   and of the no-moon ln M of the combined rule (Knijnenburg et al. 2009,
+ *   Bioinformatics 25, i161), falling back to the order statistic where the
+ *   tail is too short for α; the combined rule's rate in force is a bootstrap
+ *   mean and 95 % interval. Measured in bench/tailFit.ts: ⌈15/α⌉ no-moon
+ *   realizations hold the rate as well as the order statistic does at 25/α
+ *   (nullSet.ts). With (n + 1)·α < 15 the cell says `calibration_limited`.
+ * - 'order_statistic': x_(k), k = ⌈(n + 1)(1 − α)⌉, and the combined rule's
+ *   threshold the same order statistic of the no-moon min-p scores. The
+ *   exceedance probability in force is Beta(n + 1 − k, k) distributed (David &
+ *   Nagaraja 2003, Order Statistics, §2.2). With fewer than 25 expected
+ *   exceedances ((n + 1)·α < 25) the cell says `calibration_limited`; with
+ *   (n + 1)·α < 1 no threshold exists and nothing is detected.
+ * The cell reports the rate in force's mean and 95 % interval
+ * (`false_alarm_in_force`, `_lo`, `_hi`) and how it was set (`calibration_method`).
  */
 import { withCampaignEpochs } from '../noise/observingPlan.js';
 import type { Scenario } from '../scenario/types.js';
@@ -62,14 +71,17 @@ import { assertObservable, observationSizeProblems, scenarioDurations } from '..
 import type { FieldProblem } from '../scenario/errors.js';
 import type { CellContext, CellResult, CellRunner, CellShared, CellTask } from './cellTypes.js';
 import {
-  chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
-  nullTemplateLayout, realizationRho, NULL_EXCEEDANCES,
+  calibrationMethodOf, chiSquareScore, computeNullRange, computeNullSet, defaultNullRealizations, nullClassOfScenario,
+  nullTemplateLayout, realizationRho, NULL_EXCEEDANCES, NULL_EXCEEDANCES_TAIL,
   type NullClass, type NullSet, type PackedNullRange,
 } from './nullSet.js';
 import { medianOfFinite } from '../numeric/quantiles.js';
 import { cellBound } from './cellBound.js';
 
 export { defaultNullRealizations };
+
+/** Seed salt of the tail-fit calibration's bootstrap stream ("tail"), distinct from the realizations' seeds. */
+const TAIL_SEED_SALT = 0x7461696c;
 
 /** Per-worker cache of null sets computed here (worker-local state lives in sweep/, never in the numerical core). */
 const nullCache = new Map<string, NullSet>();
@@ -122,7 +134,7 @@ function skipReason(s: Scenario, base: Pick<CellResult, 'placement' | 'allowed'>
  * moonless system. Cells that differ only in their moon then share one class.
  */
 function classOfCell(s: Scenario, ctx: CellContext): NullClass {
-  const count = ctx.nullRealizations ?? defaultNullRealizations(s.detection.falseAlarm, ctx.realizations);
+  const count = ctx.nullRealizations ?? defaultNullRealizations(s.detection.falseAlarm, ctx.realizations, calibrationMethodOf(s));
   return nullClassOfScenario(withoutMoon(s), ctx.seed, count);
 }
 
@@ -177,7 +189,7 @@ function nullSetFor(c: NullClass, shared: CellShared | undefined, ws: Realizatio
 }
 
 /** Folded moon-dip profile (per unit moon depth) at the stack's bin centres, for this cell's moon. */
-function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
+export function dipProfile(s: Scenario, stack: ResidualStack): Float64Array {
   const m = s.moon!;
   const rStar = s.star.radiusM;
   const v = barycentreSkyVelocity(s.planet.semiMajorAxisM, s.planet.periodS, s.planet.eccentricity, s.planet.omegaRad) / rStar;
@@ -227,7 +239,7 @@ function labelFields(s: Scenario, l: LimitsJson): CellLabels {
  * non-finite SNR counts as 0). A loop in a top-level function: an arrow
  * function made per cell was compiled anew by V8 in most cells.
  */
-function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, exclude: number): Float64Array {
+export function dipScores(stacks: readonly ResidualStack[], profile: Float64Array, exclude: number): Float64Array {
   const out = new Float64Array(stacks.length);
   for (let i = 0; i < stacks.length; i++) {
     const d = stackedDipSnr(stacks[i], profile, exclude).snr;
@@ -267,10 +279,14 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   const nullStats: Partial<Record<DetectionChannel, Float64Array>> = { dip: nullDip, template: nullTemplate };
   if (channels.includes('ttv')) nullStats.ttv = nulls.ttv;
   if (channels.includes('tdv')) nullStats.tdv = nulls.tdv;
-  // Every threshold is the order statistic of all n no-moon values; it rests on (n + 1)·α expected
-  // exceedances, fewer than NULL_EXCEEDANCES is flagged.
-  const limited = (nNull + 1) * alpha < NULL_EXCEEDANCES - 1e-9;
-  const calibration: DetectionCalibration = calibrateDetection(nullStats, alpha, COMBINED_WEIGHTS);
+  // Order statistic: every threshold is the order statistic of all n no-moon values; it rests on (n + 1)·α
+  // expected exceedances, fewer than NULL_EXCEEDANCES is flagged. Tail fit: fewer than NULL_EXCEEDANCES_TAIL.
+  // The tail fit's checks and bootstrap draw from a stream of the null class (the same in every cell of it).
+  const method = calibrationMethodOf(s);
+  const limited = (nNull + 1) * alpha < (method === 'tail' ? NULL_EXCEEDANCES_TAIL : NULL_EXCEEDANCES) - 1e-9;
+  const calibration: DetectionCalibration = method === 'tail'
+    ? calibrateDetection(nullStats, alpha, COMBINED_WEIGHTS, { method: 'tail', rng: createRng((ctx.seed ^ TAIL_SEED_SALT) >>> 0, nullClass.id, 0) })
+    : calibrateDetection(nullStats, alpha, COMBINED_WEIGHTS);
   const rho = new Float64Array(layout.bins);
   const rhoScratch = new ResidualScratch();
   const z = new Float64Array(bank.templates);
@@ -324,6 +340,7 @@ export const runCell: CellRunner = (task: CellTask, ctx: CellContext, shared?: C
   fa.false_alarm_in_force = calibration.falseAlarmInForce;
   fa.false_alarm_in_force_lo = calibration.falseAlarmInForceLower;
   fa.false_alarm_in_force_hi = calibration.falseAlarmInForceUpper;
+  fa.calibration_method = calibration.method === 'tail' ? 'tail' : 'order_statistic';
   fa.template_bank_size = bank.templates;
   return {
     ...base,

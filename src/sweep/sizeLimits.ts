@@ -10,7 +10,7 @@
  * - No-moon calibration realizations per scenario without the moon: a whole
  *   set is held in memory while its cells run (per realization a few numbers
  *   and the binned residual stack, about 1–30 kB) and each costs about as much
- *   as a moon realization. 100 000 (the default 25/α for α = 2.5e-4) is at most
+ *   as a moon realization. 100 000 (the default 15/α for α = 1.5e-4, 25/α for 2.5e-4) is at most
  *   a few GB.
  */
 import { InputError } from '../scenario/errors.js';
@@ -47,11 +47,13 @@ export function checkNullRealizations(count: number, falseAlarm: number, fromSwe
       allowed: `at most ${MAX_NULL_REALIZATIONS} no-moon calibration realizations fit in memory (each set is held while its cells run): lower it`,
     }]);
   }
+  // The default count is ⌈k/α⌉ with k = 15 (tail fit) or 25 (order statistic): nullSet.ts.
+  const k = Math.round(count * falseAlarm);
   throw new InputError([{
     path: 'detection.false_alarm' + at,
     value: falseAlarm,
-    allowed: `calibrating a false-alarm probability α needs about 25/α = ${big(count)} no-moon realizations per scenario without the moon; ` +
-      `at most ${MAX_NULL_REALIZATIONS} fit in memory, so α must be at least ${25 / MAX_NULL_REALIZATIONS} (e.g. "0.1 %"). ` +
+    allowed: `calibrating a false-alarm probability α needs about ${k}/α = ${big(count)} no-moon realizations per scenario without the moon; ` +
+      `at most ${MAX_NULL_REALIZATIONS} fit in memory, so α must be at least ${k / MAX_NULL_REALIZATIONS} (e.g. "0.1 %"). ` +
       'For a smaller α, use the analytic forecast (sweep --forecast-only, or limits)',
   }]);
 }

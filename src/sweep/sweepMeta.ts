@@ -9,7 +9,7 @@ import type { Scenario } from '../scenario/types.js';
 import { cautionNotes } from '../scenario/parseScenario.js';
 import { canonicalJson } from './canonicalJson.js';
 import type { SweepSpec } from './sweepSpec.js';
-import { defaultNullRealizations } from './nullSet.js';
+import { calibrationMethodOf, defaultNullRealizations } from './nullSet.js';
 import type { Shard } from './shard.js';
 
 export interface SweepAxisMeta {
@@ -54,7 +54,7 @@ export function buildSweepMeta(scenario: Scenario, hash: string, spec: SweepSpec
     seed: scenario.seed,
     false_alarm: scenario.detection.falseAlarm,
     realizations: spec.realizations,
-    no_moon_realizations: spec.nullRealizations ?? defaultNullRealizations(scenario.detection.falseAlarm, spec.realizations),
+    no_moon_realizations: spec.nullRealizations ?? defaultNullRealizations(scenario.detection.falseAlarm, spec.realizations, calibrationMethodOf(scenario)),
     simulate_unstable: spec.simulateUnstable,
     forecast_only: forecastOnly,
     axes: spec.axes.map((a) => ({

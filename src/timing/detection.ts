@@ -31,14 +31,26 @@
  *   the same information the combined rule equals each channel's.
  * - A channel whose statistic is NaN (not measured, or its fit failed) or
  *   whose calibration is absent is not detected and scores u = 0.
+ * - Tail method (calibrateDetection's option, the sweep's default): each
+ *   channel's threshold is the α point of a generalised Pareto fit of its
+ *   no-moon upper tail (Knijnenburg et al. 2009, Bioinformatics 25, i161;
+ *   falseAlarmCalibration.ts), p̂_c above the fit's threshold is the fitted
+ *   tail's survival (the empirical p̂_c below), and the combined threshold is
+ *   the α point of the fitted tail of the no-moon ln M; where a tail is too
+ *   short for α, the order statistic as above. Its rate in force is a
+ *   bootstrap (tailRateInForce), not the Beta distribution.
  */
 import {
   calibrateThreshold,
   orderStatisticThresholdSorted,
   rateInForce,
+  tailRateInForce,
+  tailThresholdSorted,
+  type RateInForce,
   type ThresholdCalibration,
 } from './falseAlarmCalibration.js';
 import { lowerBound } from '../numeric/lowerBound.js';
+import { tailSurvival, type TailFit, type UniformSource } from '../numeric/generalizedPareto.js';
 
 export const DETECTION_CHANNELS = ['ttv', 'tdv', 'dip', 'template'] as const;
 export type DetectionChannel = (typeof DETECTION_CHANNELS)[number];
@@ -54,6 +66,8 @@ export interface DetectionThresholds {
     sorted: Partial<Record<DetectionChannel, Float64Array>>;
     /** Threshold on M (see the file comment). */
     threshold: number;
+    /** Tail method: each channel's tail fit, whose survival gives p̂_c above its threshold. */
+    tails?: Partial<Record<DetectionChannel, TailFit>>;
     /** Channel weights, summing to 1 over the used channels. */
     weights: ChannelWeights;
   };
@@ -73,7 +87,7 @@ const TIE_BREAK = 1e-9;
 export type ChannelWeights = Partial<Record<DetectionChannel, number>>;
 
 /** M of statistics against sorted null sets (see the file comment); weights sum to 1 over the used channels. */
-function minPScore(stats: DetectionStatistics, sorted: Partial<Record<DetectionChannel, Float64Array>>, weights: ChannelWeights, leaveOneOut: boolean): number {
+function minPScore(stats: DetectionStatistics, sorted: Partial<Record<DetectionChannel, Float64Array>>, weights: ChannelWeights, leaveOneOut: boolean, tails?: Partial<Record<DetectionChannel, TailFit>>): number {
   let max = 0;
   let sum = 0;
   for (const ch of DETECTION_CHANNELS) {
@@ -84,7 +98,9 @@ function minPScore(stats: DetectionStatistics, sorted: Partial<Record<DetectionC
     const n = s.length;
     const N = leaveOneOut ? n - 1 : n;
     const below = Number.isNaN(v) ? 0 : Math.min(N, lowerBound(s, 0, n, v));
-    const score = (w * (N + 1)) / (N - below + 1);
+    const tail = tails?.[ch];
+    // Tail method: above the channel's tail threshold p̂_c is the fitted tail's survival (Knijnenburg et al. 2009).
+    const score = tail !== undefined && v >= tail.threshold ? w / Math.max(tailSurvival(tail, v), 1e-300) : (w * (N + 1)) / (N - below + 1);
     if (score > max) max = score;
     sum += (w * below) / Math.max(1, N);
   }
@@ -100,14 +116,31 @@ export function decideDetection(stats: DetectionStatistics, thresholds: Detectio
     tdv: over(stats.tdv, thresholds.single.tdv),
     dip: over(stats.dip, thresholds.single.dip),
     template: over(stats.template, thresholds.single.template),
-    combined: minPScore(stats, thresholds.combined.sorted, thresholds.combined.weights, false) > thresholds.combined.threshold,
+    combined: minPScore(stats, thresholds.combined.sorted, thresholds.combined.weights, false, thresholds.combined.tails) > thresholds.combined.threshold,
   };
 }
 
 /** Null statistics per channel, aligned by realization index (same length); omit a channel to leave it unused. */
 export type NullStatistics = Partial<Record<DetectionChannel, Float64Array>>;
 
+/** How calibrateDetection sets its thresholds. */
+export interface DetectionCalibrationOptions {
+  /**
+   * 'orderStatistic' (default): the order statistic x_(k) (distribution-free, Beta rate in force).
+   * 'tail': a generalised Pareto fit of each channel's upper tail and of ln M (falseAlarmCalibration.ts,
+   * tailThresholdSorted), falling back to the order statistic where the tail is too short or no fit
+   * is possible; the rate in force of the combined rule is then a bootstrap (tailRateInForce).
+   */
+  method?: 'orderStatistic' | 'tail';
+  /** Uniform deviates for the tail method's fit checks and bootstrap (required with 'tail'). */
+  rng?: UniformSource;
+  /** Bootstrap replicates of the tail method's rate in force (default 200). */
+  replicates?: number;
+}
+
 export interface DetectionCalibration {
+  /** How the combined rule's threshold was set ('tail' only when its fit was used). */
+  method: 'orderStatistic' | 'tail';
   thresholds: DetectionThresholds;
   /** Calibration details per used channel, at α. */
   single: Partial<Record<DetectionChannel, ThresholdCalibration>>;
@@ -117,8 +150,10 @@ export interface DetectionCalibration {
   /** No-moon realizations the thresholds rest on (all of them). */
   calibrationCount: number;
   /**
-   * Exceedance probability of the thresholds in force (every threshold is the same order statistic
-   * of n no-moon values): its mean (n + 1 − k)/(n + 1) and central 95 % interval of Beta(n + 1 − k, k).
+   * Exceedance probability of the combined rule's threshold in force. Order statistic (every threshold
+   * is the same order statistic of n no-moon values): its mean (n + 1 − k)/(n + 1) and central 95 %
+   * interval of Beta(n + 1 − k, k). Tail method: the bootstrap mean and percentile interval of
+   * tailRateInForce.
    */
   falseAlarmInForce: number;
   falseAlarmInForceLower: number;
@@ -133,7 +168,10 @@ export interface DetectionCalibration {
  * threshold is +∞ and nothing is detected).
  * @throws RangeError if no channel is given, arrays differ in length, or calibrateThreshold throws.
  */
-export function calibrateDetection(nullStats: NullStatistics, alpha: number, weights: ChannelWeights = {}): DetectionCalibration {
+export function calibrateDetection(nullStats: NullStatistics, alpha: number, weights: ChannelWeights = {}, options: DetectionCalibrationOptions = {}): DetectionCalibration {
+  const method = options.method ?? 'orderStatistic';
+  if (method !== 'orderStatistic' && method !== 'tail') throw new RangeError(`method must be 'orderStatistic' or 'tail', got ${String(method)}`);
+  if (method === 'tail' && options.rng === undefined) throw new RangeError('the tail method needs options.rng (its fit check and interval are bootstraps)');
   const channels = DETECTION_CHANNELS.filter((ch) => nullStats[ch] !== undefined);
   if (channels.length === 0) throw new RangeError('nullStats must hold at least one channel (ttv, tdv, dip or template)');
   const n = nullStats[channels[0]]!.length;
@@ -153,24 +191,50 @@ export function calibrateDetection(nullStats: NullStatistics, alpha: number, wei
   const norm: ChannelWeights = {};
   for (const ch of channels) norm[ch] = (weights[ch] ?? 1) / wSum;
   const thresholds: DetectionThresholds = { single: {}, combined: { sorted: {}, threshold: Infinity, weights: norm } };
+  const tails: Partial<Record<DetectionChannel, TailFit>> = {};
   for (const ch of channels) {
     single[ch] = calibrateThreshold(nullStats[ch]!, alpha, { method: 'orderStatistic', holdOut: false });
     thresholds.single[ch] = single[ch]!.threshold;
     thresholds.combined.sorted[ch] = Float64Array.from(nullStats[ch]!).sort();
+    if (method === 'tail') {
+      const t = tailThresholdSorted(thresholds.combined.sorted[ch]!, alpha, options.rng!);
+      if (t.fit !== null) {
+        tails[ch] = t.fit;
+        const c = single[ch]!;
+        let above = 0;
+        for (let i = 0; i < n; i++) if (nullStats[ch]![i] > t.threshold) above++;
+        single[ch] = { ...c, threshold: t.threshold, method: 'tail', thresholdLower: Math.min(c.thresholdLower, t.threshold), thresholdUpper: Math.max(c.thresholdUpper, t.threshold), measuredAlpha: above / n, validationExceedances: above };
+        thresholds.single[ch] = t.threshold;
+      }
+    }
   }
-  // M of every no-moon realization, scored against the other n − 1.
+  if (method === 'tail') thresholds.combined.tails = tails;
+  // M of every no-moon realization, scored against the other n − 1 (tail method: against the fits, which hold it).
   const scores = new Float64Array(n);
   const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
   for (let i = 0; i < n; i++) {
     for (const ch of channels) row[ch] = nullStats[ch]![i];
-    scores[i] = minPScore(row, thresholds.combined.sorted, norm, true);
+    scores[i] = minPScore(row, thresholds.combined.sorted, norm, true, thresholds.combined.tails);
   }
   const sortedScores = Float64Array.from(scores).sort();
   thresholds.combined.threshold = orderStatisticThresholdSorted(sortedScores, alpha);
+  let inForce: RateInForce = rateInForce(n, alpha);
+  let combinedMethod: 'orderStatistic' | 'tail' = 'orderStatistic';
+  if (method === 'tail') {
+    // ln M: M ~ w/p has a Pareto-like tail (ξ ≈ 1), ln M an exponential-like one, which the fit handles well.
+    const logScores = new Float64Array(n);
+    for (let i = 0; i < n; i++) logScores[i] = Math.log(sortedScores[i]);
+    const t = tailThresholdSorted(logScores, alpha, options.rng!);
+    if (t.fit !== null) {
+      thresholds.combined.threshold = Math.exp(t.threshold);
+      inForce = tailRateInForce(logScores, alpha, t.fit, options.replicates ?? 200, options.rng!);
+      combinedMethod = 'tail';
+    }
+  }
   let fired = 0;
   for (let i = 0; i < n; i++) if (scores[i] > thresholds.combined.threshold) fired++;
-  const inForce = rateInForce(n, alpha);
   return {
+    method: combinedMethod,
     thresholds,
     single,
     channels: [...channels],

@@ -26,9 +26,12 @@
  *   threshold is reported with its Wilson interval, beside the requested α.
  * - Wilson 1927 (JASA 22, 209) score interval for k successes in n trials:
  *   centre (k + z²/2)/(n + z²), half-width z·sqrt(k(n − k)/n + z²/4)/(n + z²).
+ * - Tail-fit thresholds (tailThresholdSorted) and their bootstrap rate in
+ *   force (tailRateInForce): see their comments at the end of this file.
  */
 import { quantileSortedType7 } from '../numeric/quantiles.js';
 import { betaQuantile } from '../numeric/betaDistribution.js';
+import { fitGpd, fitUpperTail, gpdSurvivalQuantile, tailQuantile, tailSurvival, type TailFit, type UniformSource } from '../numeric/generalizedPareto.js';
 
 /** z for a two-sided 95 % interval, Φ⁻¹(0.975) = 1.959963984540054 (scipy.stats.norm.ppf(0.975)). */
 export const Z_95 = 1.959963984540054;
@@ -134,7 +137,8 @@ export interface ThresholdCalibration {
   /** Approximate interval of the (1 − α) quantile (see the file comment). */
   thresholdLower: number;
   thresholdUpper: number;
-  method: QuantileMethod;
+  /** 'tail': set by a tail fit (calibrateDetection's tail method); the other fields are the order statistic's. */
+  method: QuantileMethod | 'tail';
   requestedAlpha: number;
   /** Exceedance fraction on the validation set, with its Wilson interval. */
   measuredAlpha: number;
@@ -214,4 +218,93 @@ export function calibrateThreshold(
     expectedCalibrationExceedances: alpha * nc,
     heldOut: holdOut,
   };
+}
+
+/**
+ * Tail-fit threshold (issue 17, item 3; measured in bench/tailFit.ts): the value exceeded with
+ * probability α under a generalised Pareto fit of the null statistics' upper tail (Knijnenburg et al.
+ * 2009, Bioinformatics 25, i161; numeric/generalizedPareto.ts: PWM fit, Hosking & Wallis 1987, exceedance
+ * count from min(250, n/2) down by 10 until the Anderson–Darling bootstrap check passes at 5 %). Used
+ * only where the tail holds at least 2αn values (TAIL_MARGIN), so that the fit interpolates or
+ * extrapolates from enough exceedances; otherwise (and if no fit is possible) the order statistic.
+ */
+export const TAIL_MARGIN = 2;
+
+export interface TailThreshold {
+  threshold: number;
+  /** The fit, or null when the order statistic was used. */
+  fit: TailFit | null;
+}
+
+/** Tail-fit threshold of an ascending-sorted sample at α (see TAIL_MARGIN); `rng` drives the fit's check. */
+export function tailThresholdSorted(sorted: Float64Array, alpha: number, rng: UniformSource): TailThreshold {
+  const n = sorted.length;
+  if (n < 40 || !(alpha > 0 && alpha < 1)) return { threshold: orderStatisticThresholdSorted(sorted, alpha), fit: null };
+  let fit: TailFit;
+  try {
+    fit = fitUpperTail(sorted, { rng });
+  } catch {
+    return { threshold: orderStatisticThresholdSorted(sorted, alpha), fit: null };
+  }
+  if (fit.exceedances < TAIL_MARGIN * alpha * n) return { threshold: orderStatisticThresholdSorted(sorted, alpha), fit: null };
+  const t = tailQuantile(fit, alpha);
+  return Number.isFinite(t) ? { threshold: t, fit } : { threshold: orderStatisticThresholdSorted(sorted, alpha), fit: null };
+}
+
+/** P(X > x) of a fitted tail above its threshold, else the sample's fraction above x (ascending `sorted`). */
+export function tailOrEmpiricalSurvival(sorted: Float64Array, fit: TailFit, x: number): number {
+  if (x >= fit.threshold) return tailSurvival(fit, x);
+  return countAboveSorted(sorted, x) / sorted.length;
+}
+
+/** Values of an ascending-sorted sample strictly above x. */
+function countAboveSorted(sorted: Float64Array, x: number): number {
+  let a = 0;
+  let b = sorted.length;
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (sorted[m] <= x) a = m + 1;
+    else b = m;
+  }
+  return sorted.length - a;
+}
+
+/**
+ * The false-alarm rate in force of a tail-fit threshold, by bootstrap (Efron & Tibshirani 1993, An
+ * Introduction to the Bootstrap, ch. 13, percentile interval): `replicates` resamples of the n values with
+ * replacement; in each, the values above the fit's threshold u (their count varies, which carries the
+ * uncertainty of the tail fraction) are refitted by the same estimator, giving a threshold t*; taking the
+ * original fit as the truth, each has rate S(t*) (tail survival above u, the sample's fraction below).
+ * Mean and central 95 % interval of those rates. Approximate: it holds the spread of the threshold given
+ * the fitted tail, not the error of the GPD model itself (bench/tailFit.ts measures both).
+ */
+export function tailRateInForce(sorted: Float64Array, alpha: number, fit: TailFit, replicates: number, rng: UniformSource): RateInForce {
+  const n = sorted.length;
+  const rates = new Float64Array(replicates);
+  const sample = new Float64Array(n);
+  const excess = new Float64Array(n);
+  for (let b = 0; b < replicates; b++) {
+    let m = 0;
+    for (let i = 0; i < n; i++) {
+      const v = sorted[Math.min(n - 1, Math.floor(rng.uniform() * n))];
+      sample[i] = v;
+      if (v > fit.threshold) excess[m++] = v - fit.threshold;
+    }
+    let t = NaN;
+    if (m >= 3 && alpha * n <= m) {
+      try {
+        const f = fitGpd(excess.subarray(0, m), fit.estimator);
+        t = fit.threshold + gpdSurvivalQuantile((alpha * n) / m, f.shape, f.scale);
+      } catch {
+        t = NaN; // all excesses equal: the order statistic below
+      }
+    }
+    if (!Number.isFinite(t)) t = orderStatisticThresholdSorted(sample.sort(), alpha);
+    rates[b] = tailOrEmpiricalSurvival(sorted, fit, t);
+  }
+  rates.sort();
+  let mean = 0;
+  for (let b = 0; b < replicates; b++) mean += rates[b];
+  mean /= replicates;
+  return { mean, lower: quantileSortedType7(rates, 0.025), upper: quantileSortedType7(rates, 0.975), exceedances: alpha * n };
 }

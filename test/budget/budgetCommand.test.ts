@@ -44,7 +44,7 @@ describe('moonsieve budget (CLI)', () => {
     expect(JSON.parse(now.out).no_moon_realizations).toBe(60);
     expect(now.err).not.toMatch(/deprecated/);
     const absent = await run([demo, '--forecast-only', '--json', '--quiet']);
-    expect(JSON.parse(absent.out).no_moon_realizations).toBe(2500); // the default ⌈25/α⌉ at the demo's α = 1 % (budgetSpec.ts, nullSet.ts)
+    expect(JSON.parse(absent.out).no_moon_realizations).toBe(1500); // the default ⌈15/α⌉ of the tail calibration at the demo's α = 1 % (budgetSpec.ts, nullSet.ts)
     const old = await run([demo, '--forecast-only', '--json', '--quiet', '--null-realizations', '60']);
     expect(old.error).toBeNull();
     expect(JSON.parse(old.out).no_moon_realizations).toBe(60);

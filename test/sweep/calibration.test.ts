@@ -211,9 +211,13 @@ describe('no_moon_realizations in the sweep block and the meta', () => {
     const plain = { ...TINY, sweep: noNull };
     expect(parseSweepSpec(plain, base).nullRealizations).toBeNull();
     const r = await sweepDoc(plain, { quiet: true, env: {}, runner: fake, out: join(tmp, 'plain') });
-    // α = 0.05, R = 3: max(3, 200, ⌈25/0.05⌉) = 500 (computed from the scenario's values).
+    // α = 0.05, R = 3, tail calibration (the default): max(3, 200, ⌈15/0.05⌉) = 300 (computed from the scenario's values).
     expect(r.meta.no_moon_realizations).toBe(defaultNullRealizations(0.05, 3));
-    expect(r.meta.no_moon_realizations).toBe(500);
+    expect(r.meta.no_moon_realizations).toBe(300);
+    // With the order statistic chosen: ⌈25/0.05⌉ = 500 (nullSet.ts).
+    const order = { ...plain, detection: { ...(plain as { detection?: object }).detection, false_alarm: 0.05, calibration: 'order_statistic' } };
+    const r2 = await sweepDoc(order, { quiet: true, env: {}, runner: fake, out: join(tmp, 'order') });
+    expect(r2.meta.no_moon_realizations).toBe(500);
     for (const bad of [19, 20.5, 'many']) {
       let err: unknown;
       try {

@@ -60,12 +60,12 @@ async function refused(doc: unknown, out: string, extra: object = {}): Promise<s
 }
 
 describe('size limits', () => {
-  it('false_alarm 1e-9 is refused with the 25/α = 2.5e10 no-moon realizations it would need and how to change it', async () => {
+  it('false_alarm 1e-9 is refused with the 15/α = 1.5e10 no-moon realizations the default tail calibration would need and how to change it', async () => {
     const msg = await refused({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, no_moon_realizations: undefined } }, join(tmp, 'fa'));
     expect(msg).toMatch(/detection\.false_alarm: got 1e-9/);
-    expect(msg).toContain('2.50e10 no-moon realizations');
+    expect(msg).toContain('15/α = 1.50e10 no-moon realizations');
     expect(msg).toContain(`at most ${MAX_NULL_REALIZATIONS}`);
-    expect(msg).toMatch(/α must be at least 0\.00025/); // 25 / 100 000
+    expect(msg).toMatch(/α must be at least 0\.00015/); // 15 / 100 000 (nullSet.ts: NULL_EXCEEDANCES_TAIL)
     expect(msg).toMatch(/--forecast-only/);
     // The analytic forecast needs no calibration and is not limited by it.
     const fo = await sweepDoc({ ...BASE, detection: { false_alarm: 1e-9 }, sweep: { ...BASE.sweep, no_moon_realizations: undefined } }, { quiet: true, env: {}, out: join(tmp, 'fa-fo'), forecastOnly: true, runner: fake });
@@ -119,8 +119,8 @@ describe('every grid cell is validated before any work', () => {
     const axes = [{ field: 'detection.false_alarm', from: 1e-9, to: 1e-2, count: 3, spacing: 'log' }, BASE.sweep.axes[1]];
     const msg = await refused({ ...BASE, sweep: { ...BASE.sweep, no_moon_realizations: undefined, axes } }, join(tmp, 'fa-axis'));
     expect(msg).toMatch(/^4 of 6 grid cells are invalid/);
-    expect(msg).toMatch(/cell 0 \(detection\.false_alarm = 1\.00e-9, .*25\/α = 2\.50e10 no-moon realizations/);
-    expect(msg).toMatch(/cell 3 \(detection\.false_alarm = 3\.16e-6, .*25\/α = 7\.91e6/);
+    expect(msg).toMatch(/cell 0 \(detection\.false_alarm = 1\.00e-9, .*15\/α = 1\.50e10 no-moon realizations/);
+    expect(msg).toMatch(/cell 3 \(detection\.false_alarm = 3\.16e-6, .*15\/α = 4\.74e6/);
   });
 
   // Each endpoint is valid with the other field's base value, but a 2.5 R_J planet is larger
