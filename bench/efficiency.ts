@@ -22,7 +22,8 @@ import type { BenchMedian } from './measure.js';
 /** Φ⁻¹(0.99) (scipy.stats.norm.ppf(0.99)). */
 const Z_99 = 2.3263478740408408;
 
-function systemDoc(massMearth: number, separationHill: number, hillRp: number): Record<string, unknown> {
+/** The invented K-dwarf system (file header), one cell; bench/tailPool.ts draws its no-moon pool from it too. */
+export function efficiencySystemDoc(massMearth: number, separationHill: number, hillRp: number): Record<string, unknown> {
   return parseYaml(`
 name: Harvik b (invented K-dwarf efficiency system)
 seed: 17
@@ -56,7 +57,7 @@ function mass50(masses: number[], p: number[]): number {
 }
 
 export function benchEfficiency(realizations = 100): BenchMedian[] {
-  const probe = parseScenario(systemDoc(0.1, 1, 20), 'efficiency');
+  const probe = parseScenario(efficiencySystemDoc(0.1, 1, 20), 'efficiency');
   const hillRp = hillRadius(probe.planet.semiMajorAxisM, probe.planet.massKg, probe.star.massKg) / probe.planet.radiusM;
   const grids: Record<string, number[]> = {
     '0.15': [0.15, 0.22, 0.3, 0.4, 0.5, 0.65, 0.8, 1.0],
@@ -73,7 +74,7 @@ export function benchEfficiency(realizations = 100): BenchMedian[] {
     const tpl: number[] = [];
     const comb: number[] = [];
     masses.forEach((m, i) => {
-      const doc = systemDoc(m, sep, hillRp);
+      const doc = efficiencySystemDoc(m, sep, hillRp);
       const r = runCell({ index: 100 * Math.round(sep * 100) + i, coords: [], scenario: parseScenario(doc) }, { seed: 17, realizations, simulateUnstable: false, forecastOnly: false });
       const b = standInBound(doc);
       bound.push(b);

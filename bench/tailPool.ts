@@ -11,7 +11,6 @@ import { createHash } from 'node:crypto';
 import { existsSync, readFileSync, writeFileSync, renameSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { parse as parseYaml } from 'yaml';
 import { parseScenario } from '../src/scenario/parseScenario.js';
 import { withoutMoon } from '../src/sweep/applyAxes.js';
 import { computeNullRange, nullClassOfScenario, nullTemplateLayout, unpackNullSet } from '../src/sweep/nullSet.js';
@@ -21,20 +20,8 @@ import { scenarioDurations } from '../src/photometry/transitWindows.js';
 import { RealizationWorkspace } from '../src/timing/realization.js';
 import { hillRadius } from '../src/physics/hillRadius.js';
 import type { DetectionChannel } from '../src/timing/detection.js';
+import { efficiencySystemDoc } from './efficiency.js';
 
-/** The invented K-dwarf system of bench/efficiency.ts (2-min cadence, 250 ppm per hour, 10 transits, α = 1 %), one cell. */
-export function tailSystemDoc(massMearth: number, separationHill: number, hillRp: number): Record<string, unknown> {
-  return parseYaml(`
-name: Harvik b (invented K-dwarf efficiency system)
-seed: 17
-star: {mass: 0.74 Msun, radius: 0.71 Rsun, teff: 4650 K, age: 4 Gyr, limb_darkening: {u1: 0.55, u2: 0.17}}
-planet: {mass: 0.32 Mjup, radius: 0.84 Rjup, period: 148.3 d, impact_parameter: 0.25}
-moon: {mass: ${massMearth} Mearth, density: 4.0 g/cm^3, separation: ${(separationHill * hillRp).toPrecision(6)} Rp}
-instrument: {cadence: 2 min, exposure: 100 s, noise: 250 ppm per 1 h}
-observation: {transits: 10, baseline: 2.5 h}
-detection: {false_alarm: 1 %}
-`) as Record<string, unknown>;
-}
 
 export interface TailPool {
   count: number;
@@ -63,9 +50,9 @@ export function tailPool(count: number, massMearth = 0.15, separationHill = 0.3,
 }
 
 function tailPoolBlock(first: number, count: number, massMearth: number, separationHill: number, onProgress?: (done: number) => void): TailPool {
-  const probe = parseScenario(tailSystemDoc(0.1, 1, 20), 'tail pool');
+  const probe = parseScenario(efficiencySystemDoc(0.1, 1, 20), 'tail pool');
   const hillRp = hillRadius(probe.planet.semiMajorAxisM, probe.planet.massKg, probe.star.massKg) / probe.planet.radiusM;
-  const s = parseScenario(tailSystemDoc(massMearth, separationHill, hillRp), 'tail pool');
+  const s = parseScenario(efficiencySystemDoc(massMearth, separationHill, hillRp), 'tail pool');
   const c = nullClassOfScenario(withoutMoon(s), 17, first + count);
   const channels = channelsFor(s.observation.transits);
   const label = `Harvik b, ${massMearth} M⊕ at ${separationHill} Hill, ${count} no-moon realizations`;
