@@ -91,15 +91,27 @@ export function assumptionRows(meta: SweepMeta, summary: SweepSummary, scenarioD
   }
   rows.push(['detection', meta.forecast_only
     ? `analytic forecast only: noncentral χ² of white-noise TTV/TDV excesses (no simulations)${forecastIgnores}`
-    : `${meta.realizations} realizations per cell; a channel detects when its statistic exceeds the threshold calibrated on no-moon realizations; combined = any of the channels that exist (TTV needs 3 transits, TDV 2, moon dip 1)`]);
+    : `${meta.realizations} realizations per cell; a channel (template search, TTV, TDV, moon dip) detects when its statistic exceeds the threshold calibrated on no-moon realizations; combined = the weighted minimum of the channels' p-values against the same no-moon realizations, with its own calibrated threshold (TTV needs 3 transits, TDV 2, moon dip 1)`]);
   const lost = cells.map((c) => num(c, 'no_transit_observed')).filter((x): x is number => x !== null);
   const lostTotal = lost.reduce((a, x) => a + x, 0);
   if (lostTotal > 0) rows.push(['realizations with no transit observed', `${lostTotal} (over ${lost.length} simulated cells): every transit lost to missed transits or gaps; counted as non-detections in every channel`]);
   const nulls = cells.map((c) => num(c, 'no_moon_realizations')).filter((x): x is number => x !== null);
-  let fa = `requested ${meta.false_alarm} per channel`;
+  let fa = `requested ${meta.false_alarm} for each channel and for the combined rule`;
   const m = summary.false_alarm_measured_combined;
   if (m) fa += `; measured on the no-moon realizations (combined channel, over the simulated cells): median ${f(m.median)}, range ${f(m.min)}–${f(m.max)}${nulls.length ? `, from ${Math.min(...nulls)} no-moon realizations` : ''}`;
   else fa += '; not measured (no simulated cells)';
+  const inForce = cells.map((c) => num(c, 'false_alarm_in_force')).filter((x): x is number => x !== null);
+  if (inForce.length) {
+    const lo = Math.min(...cells.map((c) => num(c, 'false_alarm_in_force_lo')).filter((x): x is number => x !== null));
+    const hi = Math.max(...cells.map((c) => num(c, 'false_alarm_in_force_hi')).filter((x): x is number => x !== null));
+    const methods = [...new Set(cells.map((c) => c.calibration_method).filter((x): x is NonNullable<typeof x> => typeof x === 'string'))];
+    const how = methods.length === 1 && methods[0] === 'tail'
+      ? 'thresholds from a generalised Pareto fit of the no-moon statistics\' upper tails (Knijnenburg et al. 2009), the rate in force a bootstrap of that fit (it leaves out the tail model\'s own error)'
+      : methods.length === 1 && methods[0] === 'order_statistic'
+        ? 'thresholds at order statistics of the no-moon statistics, the rate in force their Beta distribution (David & Nagaraja 2003)'
+        : 'thresholds from tail fits or order statistics (cells differ: calibration_method)';
+    fa += `; rate in force of the combined rule: ${f(Math.min(...inForce))}–${f(Math.max(...inForce))} over the cells, 95 % intervals within ${f(lo)}–${f(hi)} (${how})`;
+  }
   rows.push(['false-alarm probability', fa]);
   rows.push(['seed', `${meta.seed} (realization r of cell i draws from the generator keyed by (seed, i, r))`]);
   rows.push(['software', `moonsieve ${meta.moonsieve_version}${runInfo ? `, Node ${runInfo.node_version}` : ''}`]);

@@ -151,3 +151,18 @@ describe('minimum detectable value', () => {
     expect(o.x.filter((v) => v === null).length).toBe(4);
   });
 });
+
+describe('the assumptions block states the rate in force', () => {
+  it('quotes the range of the cells\' rates in force of the combined rule, their widest interval and how the thresholds were set (computed from cells.json in the test)', () => {
+    const sim = sweep.cells.filter((c) => typeof c.false_alarm_in_force === 'number');
+    expect(sim.length).toBeGreaterThan(0);
+    const text = decode(html).replace(/<[^>]*>/g, ' ').replace(/\s+/g, ' ');
+    const fmt = (x: number): string => formatSummaryValue(x, 'sig3');
+    const lo = Math.min(...sim.map((c) => c.false_alarm_in_force as number));
+    const hi = Math.max(...sim.map((c) => c.false_alarm_in_force as number));
+    expect(text).toContain(`rate in force of the combined rule: ${fmt(lo)}–${fmt(hi)} over the cells`);
+    // 20 no-moon realizations are too few for a tail fit (at least 40): the order statistic, with its Beta interval.
+    expect(new Set(sim.map((c) => c.calibration_method))).toEqual(new Set(['order_statistic']));
+    expect(text).toMatch(/thresholds at order statistics of the no-moon statistics, the rate in force their Beta distribution/);
+  });
+});
