@@ -96,6 +96,6 @@ export function benchEfficiency(realizations = 100): BenchMedian[] {
     rows.push(row('combined (weighted min-p) rule', comb));
   }
   rows.push({ label: `cells whose stand-in bound exceeds 0.99, and of them detected (combined) below 0.9: ${strongLow} of ${strong}`, median: strongLow, unit: 'cells', repeats: 1 });
-  rows.push({ label: `false-alarm rate in force at α = 1 %, mean [95 % Beta interval]: ${inForce}`, median: 0.01, unit: 'α', repeats: 1, summary: 'requested' });
+  rows.push({ label: `false-alarm rate in force at α = 1 %, mean [95 % interval: Beta, or the tail fit's bootstrap]: ${inForce}`, median: 0.01, unit: 'α', repeats: 1, summary: 'requested' });
   return rows;
 }
