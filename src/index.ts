@@ -52,8 +52,12 @@ export { recoverTimings } from './timing/timingSeries.js';
 export { runRealization } from './timing/realization.js';
 export { ttvExcess, tdvExcess, jointTimingExcess } from './timing/chiSquareStatistics.js';
 export { lombScargle } from './timing/lombScargle.js';
-export { calibrateDetection, decideDetection } from './timing/detection.js';
-export { wilsonInterval } from './timing/falseAlarmCalibration.js';
+export {
+  calibrateDetection, decideDetection, DETECTION_CHANNELS,
+  type DetectionCalibration, type DetectionCalibrationOptions, type DetectionChannel, type DetectionDecision, type DetectionStatistics, type DetectionThresholds, type ChannelWeights, type NullStatistics,
+} from './timing/detection.js';
+export { wilsonInterval, rateInForce, tailThresholdSorted, tailRateInForce, type RateInForce, type TailThreshold } from './timing/falseAlarmCalibration.js';
+export { fitUpperTail, tailSurvival, tailQuantile, fitGpd, gpdSurvival, gpdQuantile, type TailFit, type TailFitOptions, type GpdParameters, type GpdEstimator } from './numeric/generalizedPareto.js';
 export { modelTimingPrecision } from './timing/modelTimingPrecision.js';
 
 // Sweep, report, vet
