@@ -2,17 +2,10 @@ import { afterAll, describe, it, expect } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
+import { runCli as run } from '../helpers/runCli.js';
 import { parseSexagesimal, parseUtcDate } from '../../src/scenario/readSky.js';
 import { parseScenarioText } from '../../src/scenario/loadScenario.js';
 import * as lib from '../../src/index.js';
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
 
 const demoPath = new URL('../../scenarios/demo-calendar.yaml', import.meta.url).pathname;
 const demo = readFileSync(demoPath, 'utf8');

@@ -2,14 +2,7 @@ import { describe, it, expect } from 'vitest';
 import { mkdtempSync, readFileSync, existsSync, writeFileSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
+import { runCli as run } from '../helpers/runCli.js';
 
 const demo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).pathname;
 

@@ -8,14 +8,7 @@ import { describe, it, expect } from 'vitest';
 import { mkdtempSync, writeFileSync, existsSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
+import { runCli as run } from '../helpers/runCli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'ms-edge-'));
 

@@ -8,14 +8,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
+import { runCli as run } from '../helpers/runCli.js';
 
 const demoPath = new URL('../../scenarios/demo-space.yaml', import.meta.url).pathname;
 const demo = readFileSync(demoPath, 'utf8');

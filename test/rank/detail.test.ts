@@ -8,7 +8,7 @@ import { describe, it, expect } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve, sep } from 'node:path';
-import { main } from '../../src/cli/main.js';
+import { runCli as run } from '../helpers/runCli.js';
 import { parseYamlWithLines } from '../../src/scenario/loadScenario.js';
 import { parseScenario } from '../../src/scenario/parseScenario.js';
 import type { ScenarioDocument } from '../../src/scenario/types.js';
@@ -19,13 +19,6 @@ import { M_EARTH_KG } from '../../src/physics/constants.js';
 
 const root = new URL('../../', import.meta.url).pathname;
 const scenarioPath = join(root, 'scenarios/demo-rank.yaml');
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
 
 describe('rank details: folder names', () => {
   it('no planet name leads outside details/ (common practice, no source)', () => {

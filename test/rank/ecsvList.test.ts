@@ -8,7 +8,7 @@ import { describe, it, expect } from 'vitest';
 import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
+import { runCli as run } from '../helpers/runCli.js';
 import { parseYamlWithLines } from '../../src/scenario/loadScenario.js';
 import type { ScenarioDocument } from '../../src/scenario/types.js';
 import { rankListText, readPlanetList } from '../../src/app/rankList.js';
@@ -18,13 +18,6 @@ const scenarioPath = join(root, 'scenarios/demo-rank.yaml');
 const baseDoc = parseYamlWithLines(readFileSync(scenarioPath, 'utf8'), 'demo-rank').value as ScenarioDocument;
 const fixture = (f: string) => join(root, 'test/fixtures', f);
 const settings = { probability: 0.9, calendar: true };
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
 
 describe('rank: ECSV planet lists', () => {
   it('the space- and comma-delimited ECSV lists rank exactly as the same table in CSV (astropy wrote all three)', () => {

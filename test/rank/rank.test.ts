@@ -9,7 +9,7 @@ import { describe, it, expect } from 'vitest';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
+import { runCli as run } from '../helpers/runCli.js';
 import { parseYamlWithLines } from '../../src/scenario/loadScenario.js';
 import type { ScenarioDocument } from '../../src/scenario/types.js';
 import { readPlanetTable, planetRows, chenKippingMassFromRadius } from '../../src/rank/planetTable.js';
@@ -29,13 +29,6 @@ const root = new URL('../../', import.meta.url).pathname;
 const scenarioPath = join(root, 'scenarios/demo-rank.yaml');
 const baseDoc = parseYamlWithLines(readFileSync(scenarioPath, 'utf8'), 'demo-rank').value as ScenarioDocument;
 const noCalendar = { probability: 0.9, calendar: false };
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
 
 const HEADER = 'name,star_mass_msun,star_radius_rsun,star_teff_k,magnitude,band,planet_mass_mjup,planet_radius_rjup,period_d,impact_parameter,ra_deg,dec_deg';
 const GOOD = 'Tovren b,0.8,0.78,5000,10.5,V,0.3,0.8,60,0.2,120.5,-20.25';

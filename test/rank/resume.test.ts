@@ -7,7 +7,7 @@ import { describe, it, expect } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
+import { runCli as run } from '../helpers/runCli.js';
 import { readRankInputs, rankListText } from '../../src/app/rankList.js';
 import { openRankCheckpoint, rankIdentity, RANK_CHECKPOINT_FILE } from '../../src/app/rankCheckpoint.js';
 import { demoPlanetCsv } from '../../src/rank/demoPlanets.js';
@@ -15,13 +15,6 @@ import type { RankJson } from '../../src/rank/rankJson.js';
 
 const root = new URL('../../', import.meta.url).pathname;
 const scenarioPath = join(root, 'scenarios/demo-rank.yaml');
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
 
 /** Rank until `stopAfter` planets are done, then stop as a kill would (the checkpoint written every `every` planets stays). */
 function interrupted(out: string, list: string, stopAfter: number, every: number): void {

@@ -9,15 +9,8 @@ import { describe, it, expect, beforeAll } from 'vitest';
 import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.js';
+import { runCli as run } from '../helpers/runCli.js';
 import { keysOf, loadSchema, schemaProblems, schemaPropertyNames } from '../helpers/jsonSchema.js';
-
-function run(args: string[]) {
-  let out = '';
-  let err = '';
-  const io = { out: (t: string) => { out += t; }, err: (t: string) => { err += t; } };
-  return main(['node', 'moonsieve', ...args], io).then((code) => ({ code, out, err }));
-}
 
 const demo = new URL('../../scenarios/demo-observer.yaml', import.meta.url).pathname;
 const claim = new URL('../../scenarios/demo-claim.yaml', import.meta.url).pathname;
