@@ -34,7 +34,7 @@
  */
 import { availableParallelism } from 'node:os';
 import { tailPool } from './tailPool.js';
-import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionChannel, type DetectionStatistics } from '../src/timing/detection.js';
+import { calibrateDetection, decideDetection, DETECTION_CHANNELS, type DetectionChannel, type DetectionStatistics, type DetectionThresholds } from '../src/timing/detection.js';
 import { orderStatisticThresholdSorted } from '../src/timing/falseAlarmCalibration.js';
 import { fitUpperTail, tailQuantile, tailSurvival, type GpdEstimator, type TailFit } from '../src/numeric/generalizedPareto.js';
 import { lowerBound } from '../src/numeric/lowerBound.js';
@@ -75,11 +75,22 @@ function summarize(rates: number[], alpha: number): { pooled: number; relSd: num
   return { pooled: m / alpha, relSd: Math.sqrt(v) / m };
 }
 
+/** The combined rule's firing rate over the pool outside the calibration set [start, start + n). */
+function combinedRateOutside(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], P: number, start: number, n: number, thresholds: DetectionThresholds): number {
+  const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
+  let fired = 0;
+  for (let i = 0; i < P; i++) {
+    if (i >= start && i < start + n) continue;
+    for (const ch of channels) row[ch] = pool[ch][i];
+    if (decideDetection(row, thresholds).combined) fired++;
+  }
+  return fired / (P - n);
+}
+
 /** Empirical method on disjoint sets of n: per-channel order statistic, combined via calibrateDetection. */
 function empiricalRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alpha: number, maxSets: number): SetRates {
   const out: SetRates = { rates: { ttv: [], tdv: [], dip: [], template: [], combined: [] } };
   const sets = Math.min(maxSets, Math.floor(P / n));
-  const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
   for (let s = 0; s < sets; s++) {
     const start = s * n;
     const nullStats: Partial<Record<DetectionChannel, Float64Array>> = {};
@@ -90,13 +101,7 @@ function empiricalRates(pool: Record<DetectionChannel, Float64Array>, channels: 
       const t = orderStatisticThresholdSorted(sorted, alpha);
       out.rates[ch].push((above(poolSorted[ch], t) - above(sorted, t)) / (P - n));
     }
-    let fired = 0;
-    for (let i = 0; i < P; i++) {
-      if (i >= start && i < start + n) continue;
-      for (const ch of channels) row[ch] = pool[ch][i];
-      if (decideDetection(row, cal.thresholds).combined) fired++;
-    }
-    out.rates.combined.push(fired / (P - n));
+    out.rates.combined.push(combinedRateOutside(pool, channels, P, start, n, cal.thresholds));
   }
   return out;
 }
@@ -173,7 +178,6 @@ function gpdRates(pool: Record<DetectionChannel, Float64Array>, channels: Detect
 function wiredRates(pool: Record<DetectionChannel, Float64Array>, channels: DetectionChannel[], poolSorted: Record<DetectionChannel, Float64Array>, P: number, n: number, alpha: number, maxSets: number): { rates: SetRates; covered: number; sets: number; tailMs: number; orderMs: number; tailUsed: number } {
   const out: SetRates = { rates: { ttv: [], tdv: [], dip: [], template: [], combined: [] } };
   const sets = Math.min(maxSets, Math.floor(P / n));
-  const row = { ttv: NaN, tdv: NaN, dip: NaN, template: NaN } as DetectionStatistics;
   let covered = 0;
   let tailMs = 0;
   let orderMs = 0;
@@ -194,13 +198,7 @@ function wiredRates(pool: Record<DetectionChannel, Float64Array>, channels: Dete
       const sorted = Float64Array.from(nullStats[ch]!).sort();
       out.rates[ch].push((above(poolSorted[ch], t) - above(sorted, t)) / (P - n));
     }
-    let fired = 0;
-    for (let i = 0; i < P; i++) {
-      if (i >= start && i < start + n) continue;
-      for (const ch of channels) row[ch] = pool[ch][i];
-      if (decideDetection(row, cal.thresholds).combined) fired++;
-    }
-    const rate = fired / (P - n);
+    const rate = combinedRateOutside(pool, channels, P, start, n, cal.thresholds);
     out.rates.combined.push(rate);
     if (rate >= cal.falseAlarmInForceLower && rate <= cal.falseAlarmInForceUpper) covered++;
   }

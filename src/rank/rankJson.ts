@@ -17,11 +17,6 @@ export interface RankedPlanetJson extends PlanetFacts {
   min_moon_mass_kg: Array<number | null>;
   min_moon_mass_notes: Array<string | null>;
   best_min_moon_mass_kg: number | null;
-  best_separation_hill: number | null;
-  target_placement: string[] | null;
-  target_pdet_forecast_combined: number | null;
-  target_transits_needed: number | null;
-  target_habitability: string | null;
   campaign_transits: number | null;
   campaign_full_transits: number | null;
   campaign_expected_whole_transits: number | null;

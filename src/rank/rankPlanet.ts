@@ -50,18 +50,18 @@ export interface PlanetFacts {
   in_habitable_zone: boolean | null;
   timing_precision_s: number;
   transits: number;
-}
-
-export interface PlanetRank extends PlanetFacts {
-  reach: SeparationReach[];
-  /** The smallest of the reach masses (null: none detectable at any separation). */
-  best_min_mass_kg: number | null;
   best_separation_hill: number | null;
   /** The target moon (the scenario's moon block). */
   target_placement: string[] | null;
   target_pdet_forecast_combined: number | null;
   target_transits_needed: number | null;
   target_habitability: string | null;
+}
+
+export interface PlanetRank extends PlanetFacts {
+  reach: SeparationReach[];
+  /** The smallest of the reach masses (null: none detectable at any separation). */
+  best_min_mass_kg: number | null;
   /** Campaign counts (null without site/visibility, target and campaign). */
   campaign_transits: number | null;
   campaign_full: number | null;
